@@ -1,0 +1,329 @@
+package funcs
+
+import (
+	"strings"
+
+	"github.com/fluecell/fluecell/funcs/units"
+)
+
+// DefaultGWPSet is the GWP-100 set used when a call names none: IPCC AR5, the
+// values Parties use under the Paris Agreement transparency framework
+// (UNFCCC decision 18/CMA.1, annex, para. 37; from memory).
+const DefaultGWPSet = "ar5"
+
+type planKind uint8
+
+const (
+	kindCO2 planKind = iota + 1
+	kindCO2e
+	kindCarbon
+	kindEnergy
+)
+
+// planKey identifies a fuel computation by the strings exactly as the caller
+// gave them, so that a repeated call skips parsing and path finding.
+type planKey struct {
+	kind                 planKind
+	pack, fuel, unit, to string // to: gwp set for CO2e, target unit for energy
+}
+
+// plan is a cached fuel computation: result = amount x k.
+type plan struct {
+	k       float64
+	unit    string
+	factors []*Factor
+	notes   []string
+}
+
+const maxCachedPlans = 8192
+
+// fuelPlan returns the plan for key, computing and caching it on first use.
+func (e *Engine) fuelPlan(key planKey) (*plan, error) {
+	if p, ok := e.plans.Load(key); ok {
+		return p.(*plan), nil
+	}
+	p, err := e.buildPlan(key)
+	if err != nil {
+		return nil, err
+	}
+	if e.planCount.Load() < maxCachedPlans {
+		if _, loaded := e.plans.LoadOrStore(key, p); !loaded {
+			e.planCount.Add(1)
+		}
+	}
+	return p, nil
+}
+
+func (e *Engine) buildPlan(key planKey) (*plan, error) {
+	packName, err := e.resolvePack(key.pack)
+	if err != nil {
+		return nil, err
+	}
+	fuel, alias, err := e.resolveFuel(key.fuel)
+	if err != nil {
+		return nil, err
+	}
+	u, err := units.ParseAs(key.unit, units.Energy, units.Mass, units.Volume)
+	if err != nil {
+		return nil, unitError("unit", err)
+	}
+	p := &plan{}
+	if alias {
+		p.notes = append(p.notes, "fuel "+quote(key.fuel)+" read as "+fuel.ID)
+	}
+	switch key.kind {
+	case kindCO2:
+		k, fs, notes, err := e.emission(packName, fuel, u, "co2_ef")
+		if err != nil {
+			return nil, err
+		}
+		p.k, p.unit = k, "t CO2"
+		p.factors, p.notes = append(p.factors, fs...), append(p.notes, notes...)
+		if bio := e.biogenicFraction(packName, fuel); bio > 0 {
+			p.notes = append(p.notes, biogenicNote(fuel, bio)+"; fuel_co2e leaves it out")
+		}
+	case kindCO2e:
+		set, err := e.resolveGWPSet(key.to)
+		if err != nil {
+			return nil, err
+		}
+		if err := e.co2ePlan(p, packName, fuel, u, set); err != nil {
+			return nil, err
+		}
+	case kindCarbon:
+		if err := e.carbonPlan(p, packName, fuel, u); err != nil {
+			return nil, err
+		}
+	case kindEnergy:
+		to, err := units.ParseAs(key.to, units.Energy)
+		if err != nil {
+			return nil, unitError("to_unit", err)
+		}
+		b := to.Basis
+		if b == units.NoBasis {
+			b = units.NCV
+		}
+		c, err := e.convertAmount(packName, fuel, u, units.Energy, b)
+		if err != nil {
+			return nil, err
+		}
+		p.k = u.SIFloat() * c.mul / to.SIFloat()
+		p.unit = to.String()
+		p.factors, p.notes = append(p.factors, c.factors...), append(p.notes, c.notes...)
+		if to.Basis == units.NoBasis {
+			p.notes = append(p.notes, "energy on an NCV basis")
+		}
+	}
+	return p, nil
+}
+
+// emission returns tonnes of the factor's species per unit amount.
+func (e *Engine) emission(packName string, fuel *Fuel, u units.Unit, quantity string) (float64, []*Factor, []string, error) {
+	ef := e.packs.lookup(packName, fuel.ID, quantity)
+	if ef == nil {
+		return 0, nil, nil, e.missingRow(packName, fuel.ID, quantity)
+	}
+	c, err := e.convertAmount(packName, fuel, u, ef.denDim(), ef.Basis)
+	if err != nil {
+		return 0, nil, nil, err
+	}
+	k := u.SIFloat() * c.mul * ef.si / 1000 // kg per SI amount -> t
+	return k, append(c.factors, ef), c.notes, nil
+}
+
+// missingRow is the error for a row the pack does not have, naming the packs
+// that have it.
+func (e *Engine) missingRow(packName, id, quantity string) error {
+	msg := "pack " + packName + " has no " + quantity + " for " + id
+	if others := e.packs.packsWith(id, quantity); len(others) > 0 {
+		msg += "; pack " + strings.Join(others, ", ") + " has it (pass it as pack)"
+	} else if !e.packs.hasID(packName, id) {
+		if others := e.packs.packsWithID(id); len(others) > 0 {
+			msg = "pack " + packName + " has no factors for " + id + "; pack " + strings.Join(others, ", ") + " has (pass it as pack)"
+		}
+	}
+	return &Error{Code: CodeMissingFactor, Param: "fuel", Msg: msg}
+}
+
+func (e *Engine) biogenicFraction(packName string, fuel *Fuel) float64 {
+	if f := e.packs.lookup(packName, fuel.ID, "biogenic_fraction"); f != nil {
+		return f.Value
+	}
+	if fuel.Biogenic {
+		return 1
+	}
+	return 0
+}
+
+func biogenicNote(fuel *Fuel, bio float64) string {
+	share := "all of it"
+	if bio < 1 {
+		share = FormatNumber(bio*100) + " % of it"
+	}
+	return "CO2 from " + fuel.ID + " is biogenic (" + share + "): report it separately as a memo item, outside the Scope 1 total"
+}
+
+func (e *Engine) co2ePlan(p *plan, packName string, fuel *Fuel, u units.Unit, set string) error {
+	bio := e.biogenicFraction(packName, fuel)
+	kCO2, fs, notes, err := e.emission(packName, fuel, u, "co2_ef")
+	if err != nil {
+		return err
+	}
+	p.factors, p.notes = append(p.factors, fs...), append(p.notes, notes...)
+	kCH4, fs, notes, err := e.emission(packName, fuel, u, "ch4_ef")
+	if err != nil {
+		return err
+	}
+	p.factors, p.notes = append(p.factors, fs...), append(p.notes, notes...)
+	kN2O, fs, notes, err := e.emission(packName, fuel, u, "n2o_ef")
+	if err != nil {
+		return err
+	}
+	p.factors, p.notes = append(p.factors, fs...), append(p.notes, notes...)
+
+	gCH4, ch4Factors, ch4Desc, err := e.methaneGWP(packName, set, bio)
+	if err != nil {
+		return err
+	}
+	gN2O := e.packs.lookup(packName, "n2o", "gwp100_"+set)
+	if gN2O == nil {
+		return e.missingGWP(set, "n2o")
+	}
+	p.factors = append(p.factors, ch4Factors...)
+	p.factors = append(p.factors, gN2O)
+	p.k = kCO2*(1-bio) + kCH4*gCH4 + kN2O*gN2O.Value
+	p.unit = "t CO2e"
+	p.notes = append(p.notes, "CO2e with GWP-100 "+strings.ToUpper(set)+": "+ch4Desc+", N2O "+FormatNumber(gN2O.Value))
+	if bio > 0 {
+		p.notes = append(p.notes, biogenicNote(fuel, bio)+"; it is excluded from this CO2e, which counts CH4 and N2O")
+	}
+	return nil
+}
+
+// methaneGWP is the CH4 GWP for a fuel whose CO2 is a fraction bio biogenic.
+// A set that gives fossil and non-fossil CH4 separately (AR6 Table 7.15) is
+// weighted by origin; otherwise its single CH4 value is used.
+func (e *Engine) methaneGWP(packName, set string, bio float64) (float64, []*Factor, string, error) {
+	fossil := e.packs.lookup(packName, "ch4_fossil", "gwp100_"+set)
+	nonFossil := e.packs.lookup(packName, "ch4_nonfossil", "gwp100_"+set)
+	if fossil != nil && nonFossil != nil {
+		g := fossil.Value*(1-bio) + nonFossil.Value*bio
+		switch {
+		case bio == 0:
+			return g, []*Factor{fossil}, "fossil CH4 " + FormatNumber(fossil.Value), nil
+		case bio == 1:
+			return g, []*Factor{nonFossil}, "non-fossil CH4 " + FormatNumber(nonFossil.Value), nil
+		}
+		return g, []*Factor{fossil, nonFossil}, "CH4 " + FormatNumber(g) + " (fossil and non-fossil by share)", nil
+	}
+	ch4 := e.packs.lookup(packName, "ch4", "gwp100_"+set)
+	if ch4 == nil {
+		return 0, nil, "", e.missingGWP(set, "ch4")
+	}
+	return ch4.Value, []*Factor{ch4}, "CH4 " + FormatNumber(ch4.Value), nil
+}
+
+func (e *Engine) missingGWP(set, gas string) error {
+	msg := "GWP set " + set + " has no value for " + gas
+	var with []string
+	for _, s := range e.gwpSets() {
+		if e.packs.lookup(e.defaultPack, gas, "gwp100_"+s) != nil {
+			with = append(with, s)
+		}
+	}
+	if len(with) > 0 {
+		msg += "; sets with it: " + strings.Join(with, ", ")
+	}
+	return &Error{Code: CodeMissingFactor, Param: "gwp_set", Msg: msg}
+}
+
+func (e *Engine) carbonPlan(p *plan, packName string, fuel *Fuel, u units.Unit) error {
+	if cc := e.packs.lookup(packName, fuel.ID, "carbon_content"); cc != nil {
+		k, fs, notes, err := e.emission(packName, fuel, u, "carbon_content")
+		if err != nil {
+			return err
+		}
+		p.k, p.unit = k, "t C"
+		p.factors, p.notes = append(p.factors, fs...), append(p.notes, notes...)
+		return nil
+	}
+	k, fs, notes, err := e.emission(packName, fuel, u, "co2_ef")
+	if err != nil {
+		if fe, ok := AsError(err); ok && fe.Code == CodeMissingFactor && e.packs.lookup(packName, fuel.ID, "co2_ef") == nil {
+			return &Error{Code: CodeMissingFactor, Param: "fuel", Msg: "pack " + packName + " has neither carbon_content nor co2_ef for " + fuel.ID}
+		}
+		return err
+	}
+	ratio, rf, err := e.co2PerCarbon(packName)
+	if err != nil {
+		return err
+	}
+	p.k, p.unit = k/ratio, "t C"
+	p.factors = append(append(p.factors, fs...), rf...)
+	p.notes = append(append(p.notes, notes...), "carbon derived from the CO2 factor x 12/44 (full oxidation assumed)")
+	return nil
+}
+
+// co2PerCarbon is the mass ratio CO2/C from the molar-mass rows (44/12).
+func (e *Engine) co2PerCarbon(packName string) (float64, []*Factor, error) {
+	mCO2 := e.packs.lookup(packName, "co2", "molar_mass")
+	mC := e.packs.lookup(packName, "c", "molar_mass")
+	if mCO2 == nil || mC == nil || mC.Value == 0 {
+		return 0, nil, &Error{Code: CodeMissingFactor, Msg: "no molar_mass rows for co2 and c in pack " + packName + " or common"}
+	}
+	return mCO2.Value / mC.Value, []*Factor{mCO2, mC}, nil
+}
+
+func callFuel(kind planKind, toIndex int, toDefault string) func(e *Engine, c *callCtx, a argList) (float64, string, error) {
+	return func(e *Engine, c *callCtx, a argList) (float64, string, error) {
+		fuel, err := a.str(0)
+		if err != nil {
+			return 0, "", err
+		}
+		amount, err := a.num(1)
+		if err != nil {
+			return 0, "", err
+		}
+		unit, err := a.str(2)
+		if err != nil {
+			return 0, "", err
+		}
+		to := ""
+		packIndex := 3
+		if toIndex > 0 {
+			if to, err = a.optStr(toIndex, toDefault); err != nil {
+				return 0, "", err
+			}
+			packIndex = toIndex + 1
+		}
+		pack, err := a.optStr(packIndex, "")
+		if err != nil {
+			return 0, "", err
+		}
+		p, err := e.fuelPlan(planKey{kind: kind, pack: pack, fuel: fuel, unit: unit, to: to})
+		if err != nil {
+			return 0, "", withFunc(err, a.fn.Name)
+		}
+		c.use(p.factors...)
+		c.note(p.notes...)
+		return amount * p.k, p.unit, nil
+	}
+}
+
+// withFunc sets the function name on a funcs error.
+func withFunc(err error, name string) error {
+	if fe, ok := AsError(err); ok && fe.Func == "" {
+		c := *fe
+		c.Func = name
+		return &c
+	}
+	return err
+}
+
+// unitError turns a units error into a funcs error for parameter param.
+func unitError(param string, err error) error {
+	if ue, ok := err.(*units.Error); ok {
+		return &Error{Code: CodeUnit, UnitCode: ue.Code, Param: param, Msg: ue.Msg, Err: err}
+	}
+	return &Error{Code: CodeUnit, Param: param, Msg: err.Error(), Err: err}
+}
