@@ -77,7 +77,7 @@ func callPPMFromCO2(e *Engine, c *callCtx, a argList) (float64, string, error) {
 	}
 	c.use(fs...)
 	gtCO2 := amount * u.SIFloat() / 1e12
-	return gtCO2 / ratio * af / per, "", nil
+	return gtCO2 / ratFloat(ratio) * af / per, "", nil
 }
 
 func callGtCFromPPM(e *Engine, c *callCtx, a argList) (float64, string, error) {
@@ -102,7 +102,7 @@ func callCO2FromCarbon(e *Engine, c *callCtx, a argList) (float64, string, error
 		return 0, "", err
 	}
 	c.use(fs...)
-	return m * ratio, "", nil
+	return m * ratFloat(ratio), "", nil
 }
 
 func callCarbonFromCO2(e *Engine, c *callCtx, a argList) (float64, string, error) {
@@ -115,5 +115,5 @@ func callCarbonFromCO2(e *Engine, c *callCtx, a argList) (float64, string, error
 		return 0, "", err
 	}
 	c.use(fs...)
-	return m / ratio, "", nil
+	return m / ratFloat(ratio), "", nil
 }

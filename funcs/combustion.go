@@ -1,6 +1,7 @@
 package funcs
 
 import (
+	"math/big"
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs/units"
@@ -77,9 +78,9 @@ func (e *Engine) buildPlan(key planKey) (*plan, error) {
 		if err != nil {
 			return nil, err
 		}
-		p.k, p.unit = k, "t CO2"
+		p.k, p.unit = ratFloat(k), "t CO2"
 		p.factors, p.notes = append(p.factors, fs...), append(p.notes, notes...)
-		if bio := e.biogenicFraction(packName, fuel); bio > 0 {
+		if bio := e.biogenicFraction(packName, fuel); bio.Sign() > 0 {
 			p.notes = append(p.notes, biogenicNote(fuel, bio)+"; fuel_co2e leaves it out")
 		}
 	case kindCO2e:
@@ -107,7 +108,8 @@ func (e *Engine) buildPlan(key planKey) (*plan, error) {
 		if err != nil {
 			return nil, err
 		}
-		p.k = u.SIFloat() * c.mul / to.SIFloat()
+		k := new(big.Rat).Mul(u.SI(), c.mul)
+		p.k = ratFloat(k.Quo(k, to.SI()))
 		p.unit = to.String()
 		p.factors, p.notes = append(p.factors, c.factors...), append(p.notes, c.notes...)
 		if to.Basis == units.NoBasis {
@@ -117,18 +119,26 @@ func (e *Engine) buildPlan(key planKey) (*plan, error) {
 	return p, nil
 }
 
-// emission returns tonnes of the factor's species per unit amount.
-func (e *Engine) emission(packName string, fuel *Fuel, u units.Unit, quantity string) (float64, []*Factor, []string, error) {
+// emission returns tonnes of the factor's species per unit amount, exactly.
+func (e *Engine) emission(packName string, fuel *Fuel, u units.Unit, quantity string) (*big.Rat, []*Factor, []string, error) {
 	ef := e.packs.lookup(packName, fuel.ID, quantity)
 	if ef == nil {
-		return 0, nil, nil, e.missingRow(packName, fuel.ID, quantity)
+		return nil, nil, nil, e.missingRow(packName, fuel.ID, quantity)
 	}
 	c, err := e.convertAmount(packName, fuel, u, ef.denDim(), ef.Basis)
 	if err != nil {
-		return 0, nil, nil, err
+		return nil, nil, nil, err
 	}
-	k := u.SIFloat() * c.mul * ef.si / 1000 // kg per SI amount -> t
+	k := new(big.Rat).Mul(u.SI(), c.mul)
+	k.Mul(k, ef.exact)
+	k.Quo(k, big.NewRat(1000, 1)) // kg -> t
 	return k, append(c.factors, ef), c.notes, nil
+}
+
+// ratFloat rounds an exact value once.
+func ratFloat(r *big.Rat) float64 {
+	f, _ := r.Float64()
+	return f
 }
 
 // missingRow is the error for a row the pack does not have, naming the packs
@@ -145,20 +155,22 @@ func (e *Engine) missingRow(packName, id, quantity string) error {
 	return &Error{Code: CodeMissingFactor, Param: "fuel", Msg: msg}
 }
 
-func (e *Engine) biogenicFraction(packName string, fuel *Fuel) float64 {
+// biogenicFraction is the share of the fuel's CO2 that is biogenic: its
+// biogenic_fraction row, else 1 for biomass fuels and 0 for the others.
+func (e *Engine) biogenicFraction(packName string, fuel *Fuel) *big.Rat {
 	if f := e.packs.lookup(packName, fuel.ID, "biogenic_fraction"); f != nil {
-		return f.Value
+		return f.exact
 	}
 	if fuel.Biogenic {
-		return 1
+		return big.NewRat(1, 1)
 	}
-	return 0
+	return new(big.Rat)
 }
 
-func biogenicNote(fuel *Fuel, bio float64) string {
+func biogenicNote(fuel *Fuel, bio *big.Rat) string {
 	share := "all of it"
-	if bio < 1 {
-		share = FormatNumber(bio*100) + " % of it"
+	if bio.Cmp(big.NewRat(1, 1)) < 0 {
+		share = FormatNumber(ratFloat(bio)*100) + " % of it"
 	}
 	return "CO2 from " + fuel.ID + " is biogenic (" + share + "): report it separately as a memo item, outside the Scope 1 total"
 }
@@ -191,10 +203,14 @@ func (e *Engine) co2ePlan(p *plan, packName string, fuel *Fuel, u units.Unit, se
 	}
 	p.factors = append(p.factors, ch4Factors...)
 	p.factors = append(p.factors, gN2O)
-	p.k = kCO2*(1-bio) + kCH4*gCH4 + kN2O*gN2O.Value
+	fossil := new(big.Rat).Sub(big.NewRat(1, 1), bio)
+	k := new(big.Rat).Mul(kCO2, fossil)
+	k.Add(k, new(big.Rat).Mul(kCH4, gCH4))
+	k.Add(k, new(big.Rat).Mul(kN2O, gN2O.exact))
+	p.k = ratFloat(k)
 	p.unit = "t CO2e"
 	p.notes = append(p.notes, "CO2e with GWP-100 "+strings.ToUpper(set)+": "+ch4Desc+", N2O "+FormatNumber(gN2O.Value))
-	if bio > 0 {
+	if bio.Sign() > 0 {
 		p.notes = append(p.notes, biogenicNote(fuel, bio)+"; it is excluded from this CO2e, which counts CH4 and N2O")
 	}
 	return nil
@@ -203,24 +219,26 @@ func (e *Engine) co2ePlan(p *plan, packName string, fuel *Fuel, u units.Unit, se
 // methaneGWP is the CH4 GWP for a fuel whose CO2 is a fraction bio biogenic.
 // A set that gives fossil and non-fossil CH4 separately (AR6 Table 7.15) is
 // weighted by origin; otherwise its single CH4 value is used.
-func (e *Engine) methaneGWP(packName, set string, bio float64) (float64, []*Factor, string, error) {
+func (e *Engine) methaneGWP(packName, set string, bio *big.Rat) (*big.Rat, []*Factor, string, error) {
 	fossil := e.packs.lookup(packName, "ch4_fossil", "gwp100_"+set)
 	nonFossil := e.packs.lookup(packName, "ch4_nonfossil", "gwp100_"+set)
 	if fossil != nil && nonFossil != nil {
-		g := fossil.Value*(1-bio) + nonFossil.Value*bio
+		share := new(big.Rat).Sub(big.NewRat(1, 1), bio)
+		g := new(big.Rat).Mul(fossil.exact, share)
+		g.Add(g, new(big.Rat).Mul(nonFossil.exact, bio))
 		switch {
-		case bio == 0:
+		case bio.Sign() == 0:
 			return g, []*Factor{fossil}, "fossil CH4 " + FormatNumber(fossil.Value), nil
-		case bio == 1:
+		case share.Sign() == 0:
 			return g, []*Factor{nonFossil}, "non-fossil CH4 " + FormatNumber(nonFossil.Value), nil
 		}
-		return g, []*Factor{fossil, nonFossil}, "CH4 " + FormatNumber(g) + " (fossil and non-fossil by share)", nil
+		return g, []*Factor{fossil, nonFossil}, "CH4 " + FormatNumber(ratFloat(g)) + " (fossil and non-fossil by share)", nil
 	}
 	ch4 := e.packs.lookup(packName, "ch4", "gwp100_"+set)
 	if ch4 == nil {
-		return 0, nil, "", e.missingGWP(set, "ch4")
+		return nil, nil, "", e.missingGWP(set, "ch4")
 	}
-	return ch4.Value, []*Factor{ch4}, "CH4 " + FormatNumber(ch4.Value), nil
+	return ch4.exact, []*Factor{ch4}, "CH4 " + FormatNumber(ch4.Value), nil
 }
 
 func (e *Engine) missingGWP(set, gas string) error {
@@ -243,7 +261,7 @@ func (e *Engine) carbonPlan(p *plan, packName string, fuel *Fuel, u units.Unit) 
 		if err != nil {
 			return err
 		}
-		p.k, p.unit = k, "t C"
+		p.k, p.unit = ratFloat(k), "t C"
 		p.factors, p.notes = append(p.factors, fs...), append(p.notes, notes...)
 		return nil
 	}
@@ -258,20 +276,20 @@ func (e *Engine) carbonPlan(p *plan, packName string, fuel *Fuel, u units.Unit) 
 	if err != nil {
 		return err
 	}
-	p.k, p.unit = k/ratio, "t C"
+	p.k, p.unit = ratFloat(k.Quo(k, ratio)), "t C"
 	p.factors = append(append(p.factors, fs...), rf...)
 	p.notes = append(append(p.notes, notes...), "carbon derived from the CO2 factor x 12/44 (full oxidation assumed)")
 	return nil
 }
 
-// co2PerCarbon is the mass ratio CO2/C from the molar-mass rows (44/12).
-func (e *Engine) co2PerCarbon(packName string) (float64, []*Factor, error) {
+// co2PerCarbon is the exact mass ratio CO2/C from the molar-mass rows (44/12).
+func (e *Engine) co2PerCarbon(packName string) (*big.Rat, []*Factor, error) {
 	mCO2 := e.packs.lookup(packName, "co2", "molar_mass")
 	mC := e.packs.lookup(packName, "c", "molar_mass")
 	if mCO2 == nil || mC == nil || mC.Value == 0 {
-		return 0, nil, &Error{Code: CodeMissingFactor, Msg: "no molar_mass rows for co2 and c in pack " + packName + " or common"}
+		return nil, nil, &Error{Code: CodeMissingFactor, Msg: "no molar_mass rows for co2 and c in pack " + packName + " or common"}
 	}
-	return mCO2.Value / mC.Value, []*Factor{mCO2, mC}, nil
+	return new(big.Rat).Quo(mCO2.exact, mC.exact), []*Factor{mCO2, mC}, nil
 }
 
 func callFuel(kind planKind, toIndex int, toDefault string) func(e *Engine, c *callCtx, a argList) (float64, string, error) {

@@ -1,6 +1,7 @@
 package funcs
 
 import (
+	"math/big"
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs/units"
@@ -66,14 +67,14 @@ func basisOf(s amountState) units.Basis {
 // edge is one conversion: to = from * mul (SI units).
 type edge struct {
 	to     amountState
-	mul    float64
+	mul    *big.Rat
 	factor *Factor
 	note   string
 }
 
 // conversion is the result of convertAmount.
 type conversion struct {
-	mul     float64 // SI of the target state per SI of the amount's unit
+	mul     *big.Rat // SI of the target state per SI of the amount's unit
 	factors []*Factor
 	notes   []string
 }
@@ -89,9 +90,9 @@ func (e *Engine) edges(packName string, fuel *Fuel, s amountState) []edge {
 		carrier := stateOf(f.denDim(), units.NoBasis)
 		switch s {
 		case carrier:
-			out = append(out, edge{to: energy, mul: f.si, factor: f})
+			out = append(out, edge{to: energy, mul: f.exact, factor: f})
 		case energy:
-			out = append(out, edge{to: carrier, mul: 1 / f.si, factor: f})
+			out = append(out, edge{to: carrier, mul: inv(f.exact), factor: f})
 		}
 	}
 	cv("ncv", stateNCV)
@@ -100,18 +101,18 @@ func (e *Engine) edges(packName string, fuel *Fuel, s amountState) []edge {
 		note := "volume and mass related by the density " + d.Citation()
 		switch s {
 		case stateVolume:
-			out = append(out, edge{to: stateMass, mul: d.si, factor: d, note: note})
+			out = append(out, edge{to: stateMass, mul: d.exact, factor: d, note: note})
 		case stateMass:
-			out = append(out, edge{to: stateVolume, mul: 1 / d.si, factor: d, note: note})
+			out = append(out, edge{to: stateVolume, mul: inv(d.exact), factor: d, note: note})
 		}
 	}
 	if s == stateNCV || s == stateHHV {
 		if r := e.basisRatio(packName, fuel); r != nil {
 			if s == stateHHV {
-				out = append(out, edge{to: stateNCV, mul: r.Value, factor: r,
+				out = append(out, edge{to: stateNCV, mul: r.exact, factor: r,
 					note: "HHV converted to NCV with NCV/GCV = " + FormatNumber(r.Value) + " for " + ratioSubject(r) + " (" + r.Source + ")"})
 			} else {
-				out = append(out, edge{to: stateHHV, mul: 1 / r.Value, factor: r,
+				out = append(out, edge{to: stateHHV, mul: inv(r.exact), factor: r,
 					note: "NCV converted to HHV with NCV/GCV = " + FormatNumber(r.Value) + " for " + ratioSubject(r) + " (" + r.Source + ")"})
 			}
 		}
@@ -172,7 +173,7 @@ func (e *Engine) convertAmount(packName string, fuel *Fuel, u units.Unit, target
 // findPath is the breadth-first search behind convertAmount.
 func (e *Engine) findPath(packName string, fuel *Fuel, start, goal amountState) (conversion, bool) {
 	if start == goal {
-		return conversion{mul: 1}, true
+		return conversion{mul: big.NewRat(1, 1)}, true
 	}
 	// Breadth-first search over at most four states.
 	type visit struct {
@@ -200,9 +201,9 @@ func (e *Engine) findPath(packName string, fuel *Fuel, start, goal amountState) 
 	for s := goal; s != start; s = seen[s].prev {
 		path = append(path, seen[s].via)
 	}
-	c := conversion{mul: 1}
+	c := conversion{mul: big.NewRat(1, 1)}
 	for i := len(path) - 1; i >= 0; i-- {
-		c.mul *= path[i].mul
+		c.mul.Mul(c.mul, path[i].mul)
 		c.factors = append(c.factors, path[i].factor)
 		if path[i].note != "" {
 			c.notes = append(c.notes, path[i].note)
@@ -270,3 +271,7 @@ func (e *Engine) missingPath(packName string, fuel *Fuel, u units.Unit, start, g
 	}
 	return &Error{Code: CodeMissingFactor, Param: "unit", Msg: msg}
 }
+
+// inv is 1/r as a new value (r is never zero: rows with a zero value are not
+// offered as edges).
+func inv(r *big.Rat) *big.Rat { return new(big.Rat).Inv(r) }

@@ -3,6 +3,7 @@ package funcs
 import (
 	"fmt"
 	"math"
+	"math/big"
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs/units"
@@ -26,7 +27,9 @@ type Factor struct {
 	Line       int         `json:"line"`
 
 	num, den factorSide
-	si       float64 // Value in SI units of num per SI unit of den
+	text     string   // Value exactly as written, for exact arithmetic
+	exact    *big.Rat // Value in SI units of num per SI unit of den, exact
+	si       float64  // exact rounded once
 }
 
 // Key is the row's identity, "pack/id/quantity"; it names the factor in the
@@ -36,7 +39,10 @@ func (f *Factor) Key() string { return f.Pack + "/" + f.ID + "/" + f.Quantity }
 // Citation is a one-line description of the row for notes and sheets, such as
 // "56100 kg CO2/TJ (IPCC 2006 Guidelines Vol 2 Ch 1 Table 1.4)".
 func (f *Factor) Citation() string {
-	s := FormatNumber(f.Value) + " " + f.Unit
+	s := FormatNumber(f.Value)
+	if f.Unit != "1" {
+		s += " " + f.Unit
+	}
 	if f.BasisName != "" && !strings.Contains(f.Unit, f.BasisName) {
 		s += " " + f.BasisName
 	}
@@ -57,11 +63,11 @@ type factorSide struct {
 	special string     // "ppm" or "mol" for the atmosphere and molar-mass rows
 }
 
-func (s factorSide) si() float64 {
+func (s factorSide) siExact() *big.Rat {
 	if s.unit.Dim == 0 {
-		return 1
+		return big.NewRat(1, 1)
 	}
-	return s.unit.SIFloat()
+	return s.unit.SI()
 }
 
 // quantitySpec says what a quantity's unit must look like.
@@ -226,6 +232,14 @@ func (f *Factor) bind() error {
 	if f.Low != nil && *f.Low > f.Value || f.High != nil && *f.High < f.Value {
 		return fmt.Errorf("value %s lies outside its range low..high", FormatNumber(f.Value))
 	}
-	f.si = f.Value * f.num.si() / f.den.si()
+	v, ok := new(big.Rat).SetString(f.text)
+	if !ok {
+		v = new(big.Rat)
+		v.SetFloat64(f.Value)
+	}
+	v.Mul(v, f.num.siExact())
+	v.Quo(v, f.den.siExact())
+	f.exact = v
+	f.si, _ = v.Float64()
 	return nil
 }

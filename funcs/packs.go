@@ -338,6 +338,7 @@ func parseFactorCSV(data []byte, file, defaultPack string) ([]*Factor, error) {
 			return nil, bad("value", "value %q is not a number", get("value"))
 		}
 		f.Value = *v
+		f.text = strings.ReplaceAll(get("value"), "_", "")
 		if f.Low, err = parseCell(get("low")); err != nil {
 			return nil, bad("low", "low %q is not a number (leave empty when unpublished)", get("low"))
 		}

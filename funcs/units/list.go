@@ -1,0 +1,21 @@
+package units
+
+import "slices"
+
+// Entry is one unit of the table with its accepted spellings, as listed by List.
+type Entry struct {
+	Unit
+	Spellings []string // other accepted spellings, e.g. "tonne", "tonnes", "metric ton"
+	Exact     string   // exact SI factor as a decimal string, e.g. "1055.05585262" (J), "0.003785411784" (m3)
+}
+
+// List returns every unit (canonical symbols, sorted by dimension then SI factor), each with
+// its accepted spellings; used by `fluecell units` and GET /v1/units. The result is a fresh
+// slice the caller may modify.
+func List() []Entry {
+	out := make([]Entry, len(table.order))
+	for i, id := range table.order {
+		out[i] = Entry{Unit: table.units[id], Spellings: slices.Clone(table.spell[id]), Exact: table.exact[id]}
+	}
+	return out
+}
