@@ -102,8 +102,13 @@ func (c *Calc) receive(id int, timeout time.Duration, what string) (*response, e
 			return nil, fmt.Errorf("%s: answer %d to request %d: %s", what, resp.ID, id, resp.Error)
 		}
 		return &resp, nil
+	case <-c.soffice.done:
+		// soffice ended on its own (it never does during a call); the bridge may still be
+		// reporting the dropped connection, so give it a moment for its words.
+		c.bridge.wait(2 * time.Second)
+		return nil, fmt.Errorf("%s: soffice exited: %s; %s", what, c.soffice.describe(), c.bridge.describe())
 	case <-timer.C:
-		return nil, fmt.Errorf("%s: soffice did not answer within %v (hung? killed it); %s; %s",
+		return nil, fmt.Errorf("%s: soffice did not answer within %v (hung?, killing it); %s; %s",
 			what, timeout, c.soffice.describe(), c.bridge.describe())
 	}
 }

@@ -72,7 +72,11 @@ func Start(t testing.TB, trustedDir string) *Calc {
 	// A port found free can be taken before soffice binds it; soffice then runs without a
 	// listener, and the bridge notices a foreign profile on the port. Try again elsewhere.
 	for attempt := 1; ; attempt++ {
-		c, err := launch(soffice, trusted)
+		port, err := freePort()
+		if err != nil {
+			t.Fatalf("calctest: Start: %v", err)
+		}
+		c, err := launch(soffice, trusted, port)
 		if err == nil {
 			t.Cleanup(c.close)
 			return c
@@ -83,17 +87,14 @@ func Start(t testing.TB, trustedDir string) *Calc {
 	}
 }
 
-// launch starts one soffice and its bridge and waits until the bridge is connected.
-func launch(soffice, trusted string) (c *Calc, err error) {
-	port, err := freePort()
-	if err != nil {
-		return nil, err
-	}
+// launch starts one soffice listening on port and its bridge, and waits until the bridge is
+// connected. On error nothing is left running.
+func launch(soffice, trusted string, port int) (_ *Calc, err error) {
 	profile, err := os.MkdirTemp("", "fluecell-calc-")
 	if err != nil {
 		return nil, fmt.Errorf("profile: %w", err)
 	}
-	c = &Calc{profile: profile, port: port}
+	c := &Calc{profile: profile, port: port}
 	defer func() {
 		if err != nil {
 			c.broken = err // no graceful quit: just kill and clean up
@@ -137,7 +138,7 @@ func launch(soffice, trusted string) (c *Calc, err error) {
 	}
 	c.lines = readLines(outR)
 
-	resp, err := c.receive(0, startTimeout+15*time.Second, "start-up")
+	resp, err := c.receive(0, startTimeout+15*time.Second, fmt.Sprintf("start-up (UNO port %d)", port))
 	if err != nil {
 		return nil, err
 	}

@@ -221,9 +221,20 @@ def run_bridge(argv):
         requests.put(None)
 
     threading.Thread(target=reader, daemon=True).start()
-
     try:
-        bridge = Bridge(connect(port, opts["--user"], deadline))
+        return serve(port, opts["--user"], deadline, requests, state)
+    finally:
+        if not state["quit"]:
+            # Leaving without being told to (start-up failed, or a crash): leave no soffice.
+            try:
+                os.killpg(pgid, signal.SIGKILL)
+            except OSError:
+                pass
+
+
+def serve(port, want_user, deadline, requests, state):
+    try:
+        bridge = Bridge(connect(port, want_user, deadline))
     except Fail as e:
         send({"id": 0, "ok": False, "error": str(e)})
         return 2

@@ -3,6 +3,7 @@
 package calctest
 
 import (
+	"errors"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -111,4 +112,23 @@ func liveGroupMembers(t *testing.T, pgid int) int {
 		}
 	}
 	return n
+}
+
+// TestPortTaken starts a second soffice on the port of a running one: the bridge must notice
+// the foreign profile (so Start can retry on another port) and leave nothing running.
+func TestPortTaken(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	first := Start(t, dir)
+	c, err := launch(lookSoffice(t), dir, first.port)
+	if err == nil {
+		c.close()
+		t.Fatalf("second soffice on port %d: no error", first.port)
+	}
+	if !errors.Is(err, errPortTaken) || !strings.Contains(err.Error(), "is answered by the soffice with profile "+fileURL(first.profile)) {
+		t.Fatalf("second soffice on port %d: err = %v, want errPortTaken naming the first profile", first.port, err)
+	}
+	if got, err := first.Cells(writeBook(t, dir, ""), "A1"); err != nil || got["A1"] != "42" {
+		t.Errorf("first instance after the clash: %v, %v", got, err)
+	}
 }
