@@ -71,12 +71,11 @@ func (e *Engine) Compile(src string, opts ...CompileOption) (*Program, error) {
 	if err := c.check(tree.Node); err != nil {
 		return nil, err
 	}
-	env := map[string]any{runVar: (*runState)(nil)}
-	for _, v := range c.vars {
-		env[v] = nil
-	}
+	// Variables stay undeclared for expr: their types are only known per row,
+	// and the checker above has already vetted every name.
 	options := []expr.Option{
-		expr.Env(env),
+		expr.Env(map[string]any{runVar: (*runState)(nil)}),
+		expr.AllowUndefinedVariables(),
 		expr.DisableAllBuiltins(),
 		expr.MaxNodes(4 * MaxExprNodes),
 		expr.Patch(runPatcher{e: e}),
@@ -195,6 +194,8 @@ func (c *checker) variable(n *ast.IdentifierNode) error {
 		}
 		if len(c.cfg.list) > 0 {
 			msg += "; known variables: " + strings.Join(c.cfg.list, ", ")
+		} else {
+			msg += "; no variables are given"
 		}
 		return &Error{Code: CodeVariable, Param: "expr", Msg: msg, Column: n.Location().From + 1, Source: c.src}
 	}

@@ -156,11 +156,14 @@ func (e *Engine) convertAmount(packName string, fuel *Fuel, u units.Unit, target
 			}
 		}
 		start = stateOf(units.Energy, b)
-		note := u.Symbol + " without a stated basis read as " + b.String()
-		if u.Usual == units.HHV && b == units.NCV {
-			note += "; North American figures in " + u.Symbol + " are usually HHV: write \"" + u.Symbol + " HHV\" to convert"
+		// Say so where the reading is not the obvious one: an HHV reading, or
+		// a unit that is usually quoted on the other basis.
+		switch {
+		case u.Usual == units.HHV && b == units.NCV:
+			notes = append(notes, u.Symbol+" without a stated basis read as NCV; North American figures in "+u.Symbol+" are usually HHV: write \""+u.Symbol+" HHV\" to convert")
+		case b == units.HHV && u.Usual != units.HHV:
+			notes = append(notes, u.Symbol+" without a stated basis read as HHV, the basis of pack "+packName+"; write \""+u.Symbol+" NCV\" to convert")
 		}
-		notes = append(notes, note)
 	}
 	c, ok := e.findPath(packName, fuel, start, goal)
 	if !ok {
