@@ -14,11 +14,12 @@ func (c *catalog) suggestFor(name string) string {
 	}
 	// rank = 2*distance, plus 1 for a spelling that is not the unit's symbol
 	best, bestID, tie := 2*limit+2, uint16(0), false
+	var rows [3][]int // reused by editDistance across candidates
 	for _, cand := range c.suggest {
 		if abs(len(cand.fold)-len(in)) > limit {
 			continue
 		}
-		d := editDistance(in, cand.fold, min(limit, best/2))
+		d := editDistance(in, cand.fold, min(limit, best/2), &rows)
 		if d > limit {
 			continue
 		}
@@ -41,9 +42,14 @@ func (c *catalog) suggestFor(name string) string {
 
 // editDistance is the optimal-string-alignment distance between a and b (insertions,
 // deletions, substitutions and swaps of neighbours each count 1), or max+1 as soon as it is
-// known to exceed max.
-func editDistance(a, b []rune, max int) int {
-	rows := [3][]int{make([]int, len(b)+1), make([]int, len(b)+1), make([]int, len(b)+1)}
+// known to exceed max. rows is scratch space, grown as needed.
+func editDistance(a, b []rune, max int, rows *[3][]int) int {
+	for i := range rows {
+		if cap(rows[i]) < len(b)+1 {
+			rows[i] = make([]int, len(b)+1)
+		}
+		rows[i] = rows[i][:len(b)+1]
+	}
 	pp, prev, cur := rows[0], rows[1], rows[2]
 	for j := range prev {
 		prev[j] = j
