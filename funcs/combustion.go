@@ -31,6 +31,9 @@ type planKey struct {
 // plan is a cached fuel computation: result = amount x k.
 type plan struct {
 	k       float64
+	exact   *big.Rat // k exactly
+	num     float64  // k = num / den exactly, when both are integers below 2^53;
+	den     float64  // otherwise num = k and den = 1
 	unit    string
 	factors []*Factor
 	notes   []string
@@ -46,6 +49,13 @@ func (e *Engine) fuelPlan(key planKey) (*plan, error) {
 	p, err := e.buildPlan(key)
 	if err != nil {
 		return nil, err
+	}
+	p.k = ratFloat(p.exact)
+	p.num, p.den = p.k, 1
+	if p.exact != nil {
+		if n, d, ok := smallFraction(p.exact); ok {
+			p.num, p.den = n, d
+		}
 	}
 	if e.planCount.Load() < maxCachedPlans {
 		if _, loaded := e.plans.LoadOrStore(key, p); !loaded {
@@ -78,7 +88,7 @@ func (e *Engine) buildPlan(key planKey) (*plan, error) {
 		if err != nil {
 			return nil, err
 		}
-		p.k, p.unit = ratFloat(k), "t CO2"
+		p.exact, p.unit = k, "t CO2"
 		p.factors, p.notes = append(p.factors, fs...), append(p.notes, notes...)
 		if bio := e.biogenicFraction(packName, fuel); bio.Sign() > 0 {
 			p.notes = append(p.notes, biogenicNote(fuel, bio)+"; fuel_co2e leaves it out")
@@ -109,7 +119,7 @@ func (e *Engine) buildPlan(key planKey) (*plan, error) {
 			return nil, err
 		}
 		k := new(big.Rat).Mul(u.SI(), c.mul)
-		p.k = ratFloat(k.Quo(k, to.SI()))
+		p.exact = k.Quo(k, to.SI())
 		p.unit = to.String()
 		p.factors, p.notes = append(p.factors, c.factors...), append(p.notes, c.notes...)
 		if to.Basis == units.NoBasis {
@@ -207,7 +217,7 @@ func (e *Engine) co2ePlan(p *plan, packName string, fuel *Fuel, u units.Unit, se
 	k := new(big.Rat).Mul(kCO2, fossil)
 	k.Add(k, new(big.Rat).Mul(kCH4, gCH4))
 	k.Add(k, new(big.Rat).Mul(kN2O, gN2O.exact))
-	p.k = ratFloat(k)
+	p.exact = k
 	p.unit = "t CO2e"
 	p.notes = append(p.notes, "CO2e with GWP-100 "+strings.ToUpper(set)+": "+ch4Desc+", N2O "+FormatNumber(gN2O.Value))
 	if bio.Sign() > 0 {
@@ -261,7 +271,7 @@ func (e *Engine) carbonPlan(p *plan, packName string, fuel *Fuel, u units.Unit) 
 		if err != nil {
 			return err
 		}
-		p.k, p.unit = ratFloat(k), "t C"
+		p.exact, p.unit = k, "t C"
 		p.factors, p.notes = append(p.factors, fs...), append(p.notes, notes...)
 		return nil
 	}
@@ -276,7 +286,7 @@ func (e *Engine) carbonPlan(p *plan, packName string, fuel *Fuel, u units.Unit) 
 	if err != nil {
 		return err
 	}
-	p.k, p.unit = ratFloat(k.Quo(k, ratio)), "t C"
+	p.exact, p.unit = k.Quo(k, ratio), "t C"
 	p.factors = append(append(p.factors, fs...), rf...)
 	p.notes = append(append(p.notes, notes...), "carbon derived from the CO2 factor x 12/44 (full oxidation assumed)")
 	return nil
@@ -324,7 +334,7 @@ func callFuel(kind planKind, toIndex int, toDefault string) func(e *Engine, c *c
 		}
 		c.use(p.factors...)
 		c.note(p.notes...)
-		return amount * p.k, p.unit, nil
+		return p.apply(amount), p.unit, nil
 	}
 }
 
@@ -344,4 +354,22 @@ func unitError(param string, err error) error {
 		return &Error{Code: CodeUnit, UnitCode: ue.Code, Param: param, Msg: ue.Msg, Err: err}
 	}
 	return &Error{Code: CodeUnit, Param: param, Msg: err.Error(), Err: err}
+}
+
+// apply is amount x k. With k held as a fraction of two exact integers, the
+// product is rounded once (1000 x 561/10000 = 56.1, not 56.099999999999994)
+// whenever amount x num is exact, as it is for ordinary amounts.
+func (p *plan) apply(amount float64) float64 { return amount * p.num / p.den }
+
+// smallFraction returns r as num/den when both fit exactly in a float64.
+func smallFraction(r *big.Rat) (num, den float64, ok bool) {
+	const limit = 1 << 53
+	n, d := r.Num(), r.Denom()
+	if n.IsInt64() && d.IsInt64() {
+		ni, di := n.Int64(), d.Int64()
+		if ni > -limit && ni < limit && di < limit {
+			return float64(ni), float64(di), true
+		}
+	}
+	return 0, 0, false
 }
