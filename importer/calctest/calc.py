@@ -30,6 +30,9 @@ PROTO = os.fdopen(os.dup(1), "w", encoding="utf-8")
 os.dup2(2, 1)
 sys.stdout = sys.stderr
 
+# com.sun.star.sheet.CellFlags.FORMULA
+FORMULA_CELLS = 16
+
 CELL_RE = re.compile(r"^\$?([A-Za-z]{1,3})\$?([1-9][0-9]{0,6})$")
 
 
@@ -130,38 +133,63 @@ class Bridge:
             doc.close(True)
 
     def dump(self, req):
-        from com.sun.star.table.CellContentType import EMPTY, FORMULA, VALUE
+        import csv
+        import tempfile
+        import uno
 
         doc = self.open(req.get("path"))
         try:
             doc.calculateAll()
             result = []
-            for i in range(doc.Sheets.Count):
-                sh = doc.Sheets.getByIndex(i)
-                cur = sh.createCursor()
-                cur.gotoEndOfUsedArea(False)
-                end = cur.RangeAddress
-                rows = []
-                for r in range(end.EndRow + 1):
-                    row = []
-                    for c in range(end.EndColumn + 1):
-                        cell = sh.getCellByPosition(c, r)
-                        kind = cell.getType()
-                        item = {"Text": "", "Formula": "", "Value": 0.0, "IsNumber": False}
-                        if kind != EMPTY:
-                            item["Text"] = cell.getString()
-                            if kind == VALUE:
+            with tempfile.TemporaryDirectory(prefix="fluecell-dump-") as tmp:
+                for i in range(doc.Sheets.Count):
+                    sh = doc.Sheets.getByIndex(i)
+                    cur = sh.createCursor()
+                    cur.gotoEndOfUsedArea(False)
+                    end = cur.RangeAddress
+                    rng = sh.getCellRangeByPosition(0, 0, end.EndColumn, end.EndRow)
+                    # Bulk reads: every UNO call is a round trip to soffice, and reading cell by
+                    # cell took 1-2 ms a cell (5000 cells: 5-8 s; this way: 0.1 s). Values and
+                    # formula texts come as arrays, displayed text from a CSV export "as
+                    # shown", formula cells from one query.
+                    data = rng.getDataArray()
+                    formulas = rng.getFormulaArray()
+                    is_formula = set()
+                    for a in rng.queryContentCells(FORMULA_CELLS).RangeAddresses:
+                        for r in range(a.StartRow, a.EndRow + 1):
+                            for c in range(a.StartColumn, a.EndColumn + 1):
+                                is_formula.add((r, c))
+                    # LibreOffice names the file after the sheet (s-Name.csv); one dir per sheet.
+                    sub = os.path.join(tmp, str(i))
+                    os.mkdir(sub)
+                    # Tokens: ',' '"' UTF-8, from line 1, standard formats, system language,
+                    # quoted text as text, detect numbers, save cell contents as shown,
+                    # no formulas, keep spaces, sheet number i+1.
+                    opts = "44,34,76,1,,0,true,true,true,false,false,%d" % (i + 1)
+                    doc.storeToURL(uno.systemPathToFileUrl(os.path.join(sub, "s.csv")), (
+                        self.prop("FilterName", "Text - txt - csv (StarCalc)"),
+                        self.prop("FilterOptions", opts),
+                    ))
+                    written = os.listdir(sub)
+                    if len(written) != 1:
+                        raise Fail("sheet %r: CSV export wrote %r, want one file" % (sh.Name, written))
+                    with open(os.path.join(sub, written[0]), newline="", encoding="utf-8") as fh:
+                        texts = list(csv.reader(fh))
+                    rows = []
+                    for r in range(end.EndRow + 1):
+                        row = []
+                        for c in range(end.EndColumn + 1):
+                            v, f = data[r][c], formulas[r][c]
+                            t = texts[r][c] if r < len(texts) and c < len(texts[r]) else ""
+                            item = {"Text": t, "Formula": "", "Value": 0.0, "IsNumber": False}
+                            if (r, c) in is_formula:
+                                item["Formula"] = f
+                            if isinstance(v, float):
                                 item["IsNumber"] = True
-                                item["Value"] = finite(cell.getValue())
-                            elif kind == FORMULA:
-                                item["Formula"] = cell.getFormula()
-                                # FormulaResult VALUE = 1
-                                if cell.FormulaResultType2 == 1:
-                                    item["IsNumber"] = True
-                                    item["Value"] = finite(cell.getValue())
-                        row.append(item)
-                    rows.append(row)
-                result.append({"Name": sh.Name, "Rows": rows})
+                                item["Value"] = finite(v)
+                            row.append(item)
+                        rows.append(row)
+                    result.append({"Name": sh.Name, "Rows": rows})
             return {"sheets": result}
         finally:
             doc.close(True)

@@ -18,7 +18,7 @@ import (
 
 // writeBook writes a small workbook with excelize: Sheet1 A1 =2*21, A2 3.5, B2 "tonnes",
 // B1/C1 WEBSERVICE formulas against url (when not empty), and a second sheet Data with
-// A1 =SUM(1,2) and C3 7.
+// A1 =SUM(1,2), B1 the text "=not a formula" and C3 7.
 func writeBook(t *testing.T, dir, url string) string {
 	t.Helper()
 	f := excelize.NewFile()
@@ -40,6 +40,7 @@ func writeBook(t *testing.T, dir, url string) string {
 	_, err := f.NewSheet("Data")
 	must(err)
 	must(f.SetCellFormula("Data", "A1", "SUM(1,2)"))
+	must(f.SetCellValue("Data", "B1", "=not a formula"))
 	must(f.SetCellValue("Data", "C3", 7))
 	path := filepath.Join(dir, "book.xlsx")
 	must(f.SaveAs(path))
@@ -149,8 +150,9 @@ func TestCalc(t *testing.T) {
 		}
 		data := sheets[1].Rows
 		if len(data) != 3 || len(data[2]) != 3 || data[2][2] != (Cell{Text: "7", Value: 7, IsNumber: true}) ||
-			data[0][0] != (Cell{Text: "3", Formula: "=SUM(1;2)", Value: 3, IsNumber: true}) {
-			t.Errorf("Data = %+v, want 3x3 with A1 =SUM(1;2) (Calc's separator) and C3 = 7", data)
+			data[0][0] != (Cell{Text: "3", Formula: "=SUM(1;2)", Value: 3, IsNumber: true}) ||
+			data[0][1] != (Cell{Text: "=not a formula"}) {
+			t.Errorf("Data = %+v, want 3x3 with A1 =SUM(1;2) (Calc's separator), B1 text, C3 = 7", data)
 		}
 	})
 
@@ -237,8 +239,8 @@ func TestOpenpyxl(t *testing.T) {
 		}
 	}
 	if d := sheets[1].Rows; len(d) != 3 || d[2][2] != (Cell{Text: "7", Value: 7, IsNumber: true}) ||
-		d[0][0] != (Cell{Formula: "=SUM(1,2)"}) {
-		t.Errorf("Data = %+v, want A1 =SUM(1,2) and C3 = 7", d)
+		d[0][0] != (Cell{Formula: "=SUM(1,2)"}) || d[0][1] != (Cell{Text: "=not a formula"}) {
+		t.Errorf("Data = %+v, want A1 =SUM(1,2), B1 text and C3 = 7", d)
 	}
 }
 
@@ -300,6 +302,40 @@ func BenchmarkCells(b *testing.B) {
 	for b.Loop() {
 		if _, err := c.Cells(book, "A1"); err != nil {
 			b.Fatal(err)
+		}
+	}
+}
+
+// BenchmarkDump measures Dump of a 500 x 10 sheet, half formulas.
+func BenchmarkDump(b *testing.B) {
+	dir := b.TempDir()
+	f := excelize.NewFile()
+	for r := 1; r <= 500; r++ {
+		for col := 1; col <= 10; col++ {
+			cell, err := excelize.CoordinatesToCellName(col, r)
+			if err == nil && col%2 == 0 {
+				err = f.SetCellFormula("Sheet1", cell, "ROW()*2/3")
+			} else if err == nil {
+				err = f.SetCellValue("Sheet1", cell, r*col)
+			}
+			if err != nil {
+				b.Fatal(err)
+			}
+		}
+	}
+	book := filepath.Join(dir, "big.xlsx")
+	if err := f.SaveAs(book); err != nil {
+		b.Fatal(err)
+	}
+	f.Close()
+	c := Start(b, dir)
+	for b.Loop() {
+		sheets, err := c.Dump(book)
+		if err != nil {
+			b.Fatal(err)
+		}
+		if got := sheets[0].Rows[499][1].Text; got != "333.333333333333" {
+			b.Fatalf("B500 = %q, want 333.333333333333", got)
 		}
 	}
 }
