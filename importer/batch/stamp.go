@@ -1,0 +1,89 @@
+package batch
+
+import (
+	"crypto/sha256"
+	"encoding/hex"
+	"encoding/json"
+	"io"
+	"os"
+	"path/filepath"
+)
+
+// stampDir is the folder below the output folder that holds one stamp per
+// output: the input's hash and the fingerprint it was made with.
+const stampDir = ".fluecell-batch"
+
+type stamp struct {
+	InputSHA256 string  `json:"input_sha256"`
+	Fingerprint string  `json:"fingerprint"`
+	OutputSize  int64   `json:"output_size"`
+	Outcome     Outcome `json:"outcome"`
+}
+
+type stamps struct{ dir string }
+
+func (s stamps) path(rel string) string { return filepath.Join(s.dir, filepath.FromSlash(rel)+".json") }
+
+// upToDate reports whether dst was made from an input with this hash and
+// this fingerprint, and is still the file that was written.
+func (s stamps) upToDate(rel, dst, sum, fingerprint string) (stamp, bool) {
+	b, err := os.ReadFile(s.path(rel))
+	if err != nil {
+		return stamp{}, false
+	}
+	var st stamp
+	if json.Unmarshal(b, &st) != nil || st.InputSHA256 != sum || st.Fingerprint != fingerprint {
+		return stamp{}, false
+	}
+	fi, err := os.Stat(dst)
+	if err != nil || fi.Size() != st.OutputSize {
+		return stamp{}, false
+	}
+	return st, true
+}
+
+// write records dst's stamp, atomically; it is written after dst is in
+// place, so that a run killed in between only redoes that file.
+func (s stamps) write(rel, dst, sum, fingerprint string, o Outcome) error {
+	fi, err := os.Stat(dst)
+	if err != nil {
+		return err
+	}
+	b, err := json.Marshal(stamp{InputSHA256: sum, Fingerprint: fingerprint, OutputSize: fi.Size(), Outcome: o})
+	if err != nil {
+		return err
+	}
+	p := s.path(rel)
+	if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
+		return err
+	}
+	tmp, err := os.CreateTemp(filepath.Dir(p), ".stamp-*")
+	if err != nil {
+		return err
+	}
+	if _, err := tmp.Write(b); err != nil {
+		tmp.Close()
+		os.Remove(tmp.Name())
+		return err
+	}
+	if err := tmp.Close(); err != nil {
+		os.Remove(tmp.Name())
+		return err
+	}
+	return os.Rename(tmp.Name(), p)
+}
+
+func (s stamps) remove(rel string) { os.Remove(s.path(rel)) }
+
+func hashFile(path string) (string, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return "", err
+	}
+	defer f.Close()
+	h := sha256.New()
+	if _, err := io.Copy(h, f); err != nil {
+		return "", err
+	}
+	return hex.EncodeToString(h.Sum(nil)), nil
+}
