@@ -1,6 +1,7 @@
 package funcs
 
 import (
+	"math"
 	"sort"
 	"strconv"
 	"strings"
@@ -92,6 +93,12 @@ func (e *Engine) callValues(f *Function, vals []any) (Result, error) {
 	v, unit, err := f.call(e, &c, argList{fn: f, vals: vals})
 	if err != nil {
 		return Result{}, withFunc(err, f.Name)
+	}
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return Result{}, &Error{Code: CodeArithmetic, Func: f.Name, Msg: "the result is not a finite number (" + FormatNumber(v) + "): an argument is too large"}
+	}
+	if v == 0 {
+		v = 0 // no negative zero in answers
 	}
 	if unit == "" {
 		unit = f.staticUnit(vals)

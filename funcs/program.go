@@ -98,6 +98,9 @@ func (r *Runner) Run(vars map[string]any) (Result, error) {
 	if math.IsNaN(value) || math.IsInf(value, 0) {
 		return Result{}, &Error{Code: CodeArithmetic, Param: "expr", Msg: "the result is not a finite number (" + FormatNumber(value) + "): check for overflow or an undefined operation"}
 	}
+	if value == 0 {
+		value = 0 // no negative zero in answers
+	}
 	return Result{Value: value, Unit: r.p.unit, Sources: r.st.ctx.factors, Notes: r.st.ctx.notes}, nil
 }
 
