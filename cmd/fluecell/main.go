@@ -33,6 +33,7 @@ type command struct {
 
 func commands() []command {
 	return []command{
+		{"serve", "serve the carbon functions over HTTP for sheets and notebooks", cmdServe},
 		{"eval", "evaluate one expression, e.g. fuel_co2(\"diesel\", 1000, \"L\")", cmdEval},
 		{"functions", "list the carbon functions with parameters and examples", cmdFunctions},
 		{"factors", "list factor rows with their sources", cmdFactors},
