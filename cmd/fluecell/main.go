@@ -35,6 +35,7 @@ func commands() []command {
 	return []command{
 		{"serve", "serve the carbon functions over HTTP for sheets and notebooks", cmdServe},
 		{"eval", "evaluate one expression, e.g. fuel_co2(\"diesel\", 1000, \"L\")", cmdEval},
+		{"annotate", "add tCO2/tCO2e columns and unit warnings to a workbook (.xlsx, .xlsm, .csv)", cmdAnnotate},
 		{"functions", "list the carbon functions with parameters and examples", cmdFunctions},
 		{"factors", "list factor rows with their sources", cmdFactors},
 		{"units", "list the accepted units with their exact factors", cmdUnits},

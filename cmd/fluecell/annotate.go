@@ -1,0 +1,142 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"github.com/fluecell/fluecell/funcs"
+	"github.com/fluecell/fluecell/importer"
+)
+
+// exitFailOn is the exit code when --fail-on finds warnings of that
+// severity (the output is written all the same).
+const exitFailOn = 3
+
+func cmdAnnotate(ctx context.Context, s stdio, args []string) int {
+	fs := newFlags("annotate", "annotate IN.xlsx|IN.csv [-o OUT] [--rule 'COLUMN = EXPR']... [--sheet S] [--report R.json] [--pack P] [--factors F]... [--fail-on warning|error]", s.err, true)
+	out := fs.String("o", "", "write the annotated workbook to `OUT` (default: IN with .carbon before the extension)")
+	var rules listFlag
+	fs.Var(&rules, "rule", "compute a column: `'COLUMN = EXPR'` over the header identifiers, e.g. 'tCO2e = fuel_co2e(fuel, quantity, unit)'; repeatable (default: rules proposed from the columns)")
+	sheet := fs.String("sheet", "", "look for tables on sheet `S` only")
+	report := fs.String("report", "", "also write the report as JSON to `R.json` (- for standard output)")
+	failOn := fs.String("fail-on", "", "exit with code 3 when a finding of this `severity` or worse exists: warning or error (the output is still written)")
+	var ef engineFlags
+	ef.register(fs)
+	pos, code, ok := parseArgs(fs, args)
+	if !ok {
+		return code
+	}
+	if len(pos) != 1 {
+		fmt.Fprintln(s.err, "fluecell annotate: give exactly one input workbook, e.g. fluecell annotate fuel-log.xlsx")
+		return 2
+	}
+	switch *failOn {
+	case "", importer.SevWarning, importer.SevError:
+	default:
+		fmt.Fprintf(s.err, "fluecell annotate: --fail-on %q: accepted are warning and error\n", *failOn)
+		return 2
+	}
+	in := pos[0]
+	dst := *out
+	if dst == "" {
+		dst = importer.DefaultOutput(in)
+	}
+	e, err := ef.engine()
+	if err != nil {
+		return fail(s, "annotate", err)
+	}
+	opt := importer.Options{Rules: rules, Sheet: *sheet, Pack: ef.pack, FactorFiles: append([]string{}, ef.factors...)}
+	rep, err := importer.Annotate(ctx, e, in, dst, opt)
+	if err != nil {
+		return fail(s, "annotate", err)
+	}
+	printReport(s.out, rep)
+	if *report != "" {
+		if err := writeReport(*report, s.out, rep); err != nil {
+			return fail(s, "annotate", err)
+		}
+	}
+	switch {
+	case *failOn == importer.SevError && rep.Count(importer.SevError) > 0,
+		*failOn == importer.SevWarning && rep.Count(importer.SevError)+rep.Count(importer.SevWarning) > 0:
+		fmt.Fprintf(s.err, "fluecell annotate: --fail-on %s: %d errors and %d warnings (see the %q sheet)\n", *failOn,
+			rep.Count(importer.SevError), rep.Count(importer.SevWarning), importer.SheetWarnings)
+		return exitFailOn
+	}
+	return 0
+}
+
+// printReport writes the short human summary of an annotation.
+func printReport(w io.Writer, rep *importer.Report) {
+	fmt.Fprintf(w, "wrote %s (%s; %d of %d rows computed)\n", rep.Output, rep.Layout, rep.Computed, rep.Rows)
+	fmt.Fprintln(w, "rules:")
+	for _, r := range rep.Rules {
+		fmt.Fprintf(w, "  %s\n", r)
+	}
+	fmt.Fprintf(w, "total: %s tCO2, %s tCO2e\n", funcs.FormatNumber(round3(rep.Totals.TCO2)), funcs.FormatNumber(round3(rep.Totals.TCO2e)))
+	nErr, nWarn, nInfo := rep.Count(importer.SevError), rep.Count(importer.SevWarning), rep.Count(importer.SevInfo)
+	where := "in the " + importer.SheetWarnings + " sheet"
+	if strings.EqualFold(filepath.Ext(rep.Output), ".csv") {
+		where = "in the report (--report)"
+	}
+	fmt.Fprintf(w, "findings: %d errors (rows not computed), %d warnings, %d notes; all %s\n", nErr, nWarn, nInfo, where)
+	shown := 0
+	for _, x := range rep.Warnings {
+		if x.Severity == importer.SevInfo {
+			continue
+		}
+		if shown == 10 {
+			fmt.Fprintf(w, "  ... and %d more\n", nErr+nWarn-shown)
+			break
+		}
+		fmt.Fprintf(w, "  %s!%s %s %s: %s\n", x.Sheet, x.Cell, x.Severity, x.Code, x.Message)
+		shown++
+	}
+}
+
+func round3(x float64) float64 { return math.Round(x*1000) / 1000 }
+
+// writeReport writes the report JSON to path (through a temporary file and
+// a rename), or to out for "-".
+func writeReport(path string, out io.Writer, rep *importer.Report) error {
+	var buf bytes.Buffer
+	enc := json.NewEncoder(&buf)
+	enc.SetIndent("", "  ")
+	if err := enc.Encode(rep); err != nil {
+		return err
+	}
+	if path == "-" {
+		_, err := out.Write(buf.Bytes())
+		return err
+	}
+	dir, base := filepath.Split(path)
+	if dir == "" {
+		dir = "."
+	}
+	tmp, err := os.CreateTemp(dir, "."+base+".*.tmp")
+	if err != nil {
+		return fmt.Errorf("--report %s: %v", path, err)
+	}
+	_ = tmp.Chmod(0o644)
+	if _, err := tmp.Write(buf.Bytes()); err != nil {
+		tmp.Close()
+		os.Remove(tmp.Name())
+		return fmt.Errorf("--report %s: %v", path, err)
+	}
+	if err := tmp.Close(); err != nil {
+		os.Remove(tmp.Name())
+		return fmt.Errorf("--report %s: %v", path, err)
+	}
+	if err := os.Rename(tmp.Name(), path); err != nil {
+		os.Remove(tmp.Name())
+		return fmt.Errorf("--report %s: %v", path, err)
+	}
+	return nil
+}

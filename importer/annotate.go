@@ -1,0 +1,144 @@
+package importer
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"github.com/fluecell/fluecell/funcs"
+)
+
+// Annotate scans the workbook (or CSV file) at inPath like Scan and writes
+// outPath: the original, unchanged cell for cell, plus the computed columns
+// of each table (tCO2, tCO2e and source by default; beside the table, or in
+// a side sheet "Carbon columns" when its sheet is too large to rewrite) and
+// the sheets "Carbon summary", "Carbon warnings" and "Carbon sources". A CSV
+// file gives a CSV file with the computed fields appended to the table's
+// records (the warnings are in the report only).
+//
+// outPath is written through a temporary file in its folder and renamed, so
+// it is either complete or absent; inPath is only read. outPath must differ
+// from inPath and keep its extension (.xlsx, .xlsm or .csv). Annotate is safe
+// for concurrent use and honours ctx until the output is renamed into place.
+// Errors are *Error (see Scan).
+func Annotate(ctx context.Context, e *funcs.Engine, inPath, outPath string, opt Options) (rep *Report, err error) {
+	defer recoverInternal(&err, inPath)
+	if err := checkOutPath(inPath, outPath); err != nil {
+		return nil, err
+	}
+	lc := &lazyCalc{path: inPath, lim: opt.limits()}
+	defer lc.close()
+	res, err := scan(ctx, e, inPath, opt, lc)
+	if err != nil {
+		return nil, err
+	}
+	if res.csv != nil {
+		err = writeAtomic(ctx, outPath, func(w io.Writer) error { return res.writeCSV(w) })
+	} else {
+		for _, s := range res.sheets {
+			if ownSheet(s) && s != SheetFactors {
+				return nil, newErr(ErrInput, inPath, "the workbook already has a sheet %q: it is an annotated output; annotate the original workbook instead", s)
+			}
+		}
+		f := lc.f
+		lc.f = nil
+		if f == nil {
+			if f, err = openExcelize(inPath, opt.limits()); err != nil {
+				return nil, &Error{Code: ErrCorrupt, Path: inPath, Msg: "cannot open the workbook for writing: " + err.Error(), Err: err}
+			}
+		}
+		defer f.Close()
+		if err := ctx.Err(); err != nil {
+			return nil, res.sc.cancelled()
+		}
+		if err := res.writeWorkbook(f); err != nil {
+			return nil, err
+		}
+		err = writeAtomic(ctx, outPath, func(w io.Writer) error { return f.Write(w) })
+	}
+	if err != nil {
+		return nil, err
+	}
+	res.Report.Output = outPath
+	return res.Report, nil
+}
+
+// DefaultOutput is IN's name with ".carbon" before the extension.
+func DefaultOutput(in string) string {
+	ext := filepath.Ext(in)
+	return strings.TrimSuffix(in, ext) + ".carbon" + ext
+}
+
+func checkOutPath(in, out string) error {
+	if out == "" {
+		return newErr(ErrInput, in, "no output path given (the default is %s)", DefaultOutput(in))
+	}
+	inExt, outExt := strings.ToLower(filepath.Ext(in)), strings.ToLower(filepath.Ext(out))
+	if inExt != outExt {
+		return newErr(ErrInput, out, "the output must keep the input's extension %q (a workbook's type is in its content, so renaming it breaks it)", inExt)
+	}
+	ai, err1 := filepath.Abs(in)
+	ao, err2 := filepath.Abs(out)
+	if err1 == nil && err2 == nil && ai == ao {
+		return newErr(ErrInput, out, "the output would replace the input; inputs are never modified: choose another name (default %s)", DefaultOutput(in))
+	}
+	if si, err := os.Stat(in); err == nil {
+		if so, err := os.Stat(out); err == nil && os.SameFile(si, so) {
+			return newErr(ErrInput, out, "the output is the input file (a link?); inputs are never modified")
+		}
+	}
+	if st, err := os.Stat(filepath.Dir(out)); err != nil || !st.IsDir() {
+		return newErr(ErrIO, out, "the output folder %s does not exist", filepath.Dir(out))
+	}
+	return nil
+}
+
+// writeAtomic writes a temporary file in out's folder, syncs it and renames
+// it to out. On any error, or when ctx ends first, the temporary file is
+// removed and out is left as it was.
+func writeAtomic(ctx context.Context, out string, write func(io.Writer) error) (err error) {
+	dir, base := filepath.Split(out)
+	if dir == "" {
+		dir = "."
+	}
+	tmp, err := os.CreateTemp(dir, "."+base+".*.tmp")
+	if err != nil {
+		return &Error{Code: ErrIO, Path: out, Msg: "cannot create the output: " + err.Error(), Err: err}
+	}
+	name := tmp.Name()
+	_ = tmp.Chmod(0o644) // CreateTemp makes it private; an output is an ordinary file
+	defer func() {
+		if err != nil {
+			tmp.Close()
+			os.Remove(name)
+		}
+	}()
+	if err = write(tmp); err != nil {
+		if _, ok := err.(*Error); ok {
+			return err
+		}
+		return &Error{Code: ErrIO, Path: out, Msg: "cannot write the output: " + err.Error(), Err: err}
+	}
+	if err = tmp.Sync(); err != nil {
+		return &Error{Code: ErrIO, Path: out, Msg: "cannot write the output: " + err.Error(), Err: err}
+	}
+	if err = tmp.Close(); err != nil {
+		return &Error{Code: ErrIO, Path: out, Msg: "cannot write the output: " + err.Error(), Err: err}
+	}
+	if cerr := ctx.Err(); cerr != nil {
+		err = &Error{Code: ErrIO, Path: out, Msg: "stopped before the output was written: " + cerr.Error(), Err: cerr}
+		return err
+	}
+	if err = os.Rename(name, out); err != nil {
+		return &Error{Code: ErrIO, Path: out, Msg: "cannot write the output: " + err.Error(), Err: err}
+	}
+	return nil
+}
+
+// excelErr wraps an excelize error while writing.
+func excelErr(path, what string, err error) error {
+	return &Error{Code: ErrIO, Path: path, Msg: fmt.Sprintf("cannot write %s: %v", what, err), Err: err}
+}

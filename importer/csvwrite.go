@@ -1,0 +1,100 @@
+package importer
+
+import (
+	"bufio"
+	"bytes"
+	"io"
+	"math"
+	"strings"
+
+	"github.com/fluecell/fluecell/funcs"
+)
+
+// writeCSV copies every record of the input byte for byte and appends the
+// computed fields to the records of each table (the header record gets the
+// rule names and "source"); other records are unchanged.
+func (res *ScanResult) writeCSV(w io.Writer) error {
+	in := res.csv
+	bw := bufio.NewWriterSize(w, 256<<10)
+	if in.bom {
+		bw.Write([]byte{0xEF, 0xBB, 0xBF})
+	}
+	type extra struct {
+		at     int // fields to pad the record to
+		fields []string
+	}
+	add := map[int]extra{}
+	for _, t := range res.sc.tables {
+		if len(t.rules) == 0 {
+			continue
+		}
+		width := t.spec.lastCol
+		for r := t.spec.headerRow; r <= t.lastRow && r <= len(in.widths); r++ {
+			width = max(width, in.widths[r-1])
+		}
+		t.outSheet, t.outCol = csvSheetName(res.Path), width+1
+		head := make([]string, 0, len(t.rules)+1)
+		for _, r := range t.rules {
+			head = append(head, r.column)
+		}
+		add[t.spec.headerRow] = extra{width, append(head, "source")}
+		for i, rn := range t.rowNums {
+			fields := make([]string, len(t.rules)+1)
+			for j := range t.rules {
+				if v := t.res[j][i]; !math.IsNaN(v) {
+					fields[j] = funcs.FormatNumber(v)
+				}
+			}
+			if s := t.src[i]; s >= 0 {
+				fields[len(t.rules)] = t.srcText[s]
+			}
+			add[int(rn)] = extra{width, fields}
+		}
+	}
+	sep := string(in.comma)
+	start := 0
+	for i, end := range in.ends {
+		if i&4095 == 0 {
+			if err := res.sc.cancelled(); err != nil {
+				return err
+			}
+		}
+		rec := in.data[start:end]
+		start = end
+		x, ok := add[i+1]
+		if !ok {
+			bw.Write(rec)
+			continue
+		}
+		body, nl := rec, []byte(nil)
+		switch {
+		case bytes.HasSuffix(body, []byte("\r\n")):
+			body, nl = body[:len(body)-2], body[len(body)-2:]
+		case bytes.HasSuffix(body, []byte("\n")), bytes.HasSuffix(body, []byte("\r")):
+			body, nl = body[:len(body)-1], body[len(body)-1:]
+		}
+		bw.Write(body)
+		if pad := x.at - in.widths[i]; pad > 0 {
+			bw.WriteString(strings.Repeat(sep, pad))
+		}
+		for _, fv := range x.fields {
+			bw.WriteString(sep)
+			bw.WriteString(csvQuote(fv, in.comma))
+		}
+		if nl == nil && i < len(in.ends)-1 {
+			nl = []byte("\n")
+		}
+		bw.Write(nl)
+	}
+	bw.Write(in.data[start:])
+	return bw.Flush()
+}
+
+// csvQuote quotes a field when it holds the delimiter, a quote, a line
+// break or leading/trailing space.
+func csvQuote(s string, comma rune) string {
+	if s == "" || !strings.ContainsAny(s, string(comma)+"\"\r\n") && strings.TrimSpace(s) == s {
+		return s
+	}
+	return "\"" + strings.ReplaceAll(s, "\"", "\"\"") + "\""
+}

@@ -1,0 +1,378 @@
+package importer
+
+import (
+	"strings"
+
+	"github.com/fluecell/fluecell/funcs"
+	"github.com/fluecell/fluecell/funcs/units"
+)
+
+// role is what a column means to fluecell.
+type role uint8
+
+const (
+	roleNone     role = iota
+	roleFuel          // fuel names
+	roleQuantity      // amounts of fuel
+	roleUnit          // the unit of the quantity (or of the capacity)
+	roleWideFuel      // one fuel per column: "Diesel (L)"
+	roleTech          // technology of a build plan
+	roleCapacity      // capacity of a build plan
+	roleCF            // capacity factor
+	roleLifetime      // lifetime in years
+	roleExisting      // the workbook's own carbon figures
+	roleGroup         // site, region, department...: totals by it
+)
+
+func (r role) String() string {
+	return [...]string{"", "fuel", "quantity", "unit", "fuel-column", "technology", "capacity",
+		"capacity-factor", "lifetime", "existing-carbon", "group"}[r]
+}
+
+// Table kinds.
+const (
+	kindFuelLog   = "fuel-log"
+	kindWide      = "wide"
+	kindBuildPlan = "build-plan"
+	kindCustom    = "custom"
+)
+
+// column is one column of a detected table.
+type column struct {
+	col       int
+	hdr       headerInfo
+	ident     string
+	unitIdent string // ident+"_unit" when the header carries a unit
+	role      role
+	fuelID    string // roleWideFuel: the fuel of the column
+	fuelAlias bool
+	carbon    carbonCol
+	numeric   bool // values are mostly numbers
+	unitBad   bool // the header unit cannot be used for this column's role
+	st        colStats
+}
+
+type colStats struct {
+	nonEmpty, num, text, fuel, unitLike, tech, power int
+}
+
+// tableSpec is a detected table: its header, columns and roles.
+type tableSpec struct {
+	sheet                                            string
+	headerRow                                        int
+	unitRow                                          int // a row of units under the header, 0 when none
+	dataStart                                        int // first row that may hold data
+	cols                                             []*column
+	kind                                             string
+	fuel, qty, unit, tech, capacity, cf, life, group *column
+	wide                                             []*column
+	existing                                         []*column
+	firstCol                                         int
+	lastCol                                          int
+	headerErr                                        *Warning // a header-level problem that stops every row (no unit anywhere)
+	score                                            int
+}
+
+func (t *tableSpec) colAt(c int) *column {
+	for _, x := range t.cols {
+		if x.col == c {
+			return x
+		}
+	}
+	return nil
+}
+
+// sampleRows is how many rows under a candidate header are looked at.
+const sampleRows = 30
+
+// detector finds tables in buffered rows.
+type detector struct {
+	sc     *scanCtx
+	sheet  string
+	merges []rangeRef
+}
+
+// headerLike reports whether r could be a header row: at least two cells,
+// mostly text, not a total row.
+func headerLike(r *row) bool {
+	n, txt := 0, 0
+	for i := range r.cells {
+		c := &r.cells[i]
+		if c.isBlank() {
+			continue
+		}
+		n++
+		if c.kind == kText {
+			if _, ok, amb := textNumber(c.text); !ok && !amb {
+				txt++
+			}
+		}
+	}
+	return n >= 2 && 3*txt >= 2*n && !totalRow(r)
+}
+
+// totalRow reports a "Total" / "Subtotal" / "Sum" row.
+func totalRow(r *row) bool {
+	for i := range r.cells {
+		c := &r.cells[i]
+		if c.isBlank() {
+			continue
+		}
+		if c.kind != kText {
+			return false
+		}
+		w := words(c.text)
+		return len(w) > 0 && len(w) <= 4 && hasWord(w[:1], "total", "totals", "subtotal", "sum", "grand")
+	}
+	return false
+}
+
+// keywordHits counts header cells that name a role, for telling a new
+// header apart from a data row inside a table.
+func (sc *scanCtx) keywordHits(r *row) int {
+	n := 0
+	for i := range r.cells {
+		c := &r.cells[i]
+		if c.kind != kText {
+			continue
+		}
+		h := sc.header(c.text)
+		ws := words(h.base)
+		if h.unitTxt != "" || hasWord(ws, "fuel", "unit", "units", "uom", "technology", "capacity") || hasWord(ws, qtyWords...) || hasWord(ws, groupWords...) {
+			n++
+		} else if _, ok := parseCarbonHeader(h.text); ok {
+			n++
+		}
+	}
+	return n
+}
+
+// pick looks for a header among rows[0:look] and returns the table and the
+// index of its header row. The earliest header that fits wins, except that a
+// better one at most three rows below it (the real header under a banner
+// row) is preferred.
+func (d *detector) pick(rows []row, look int, final bool) (*tableSpec, int) {
+	var best *tableSpec
+	bestI, firstNum := -1, 0
+	for i := 0; i < look; i++ {
+		if best != nil && rows[i].num-firstNum > 3 {
+			break
+		}
+		if !headerLike(&rows[i]) {
+			continue
+		}
+		if !final && len(rows)-i-1 < sampleRows {
+			break
+		}
+		t := d.tryHeader(rows, i)
+		if t != nil && best == nil {
+			firstNum = rows[i].num
+		}
+		if t != nil && (best == nil || t.score > best.score) {
+			best, bestI = t, i
+		}
+	}
+	return best, bestI
+}
+
+// cellAt finds the cell at (col, rowNum) among buffered rows.
+func cellAt(rows []row, col, rowNum int) cell {
+	for i := range rows {
+		if rows[i].num == rowNum {
+			return rows[i].at(col)
+		}
+	}
+	return cell{col: col}
+}
+
+func (d *detector) headerText(rows []row, col, rowNum int) string {
+	c := cellAt(rows, col, rowNum)
+	if c.kind == kText && strings.TrimSpace(c.text) != "" {
+		return c.text
+	}
+	if c.kind == kNumber {
+		return funcs.FormatNumber(c.num)
+	}
+	for _, m := range d.merges {
+		if m.contains(col, rowNum) && (m.c1 != col || m.r1 != rowNum) {
+			tl := cellAt(rows, m.c1, m.r1)
+			if tl.kind == kText {
+				return tl.text
+			}
+		}
+	}
+	return ""
+}
+
+// tryHeader evaluates rows[h] as a header row; nil when no table fits.
+func (d *detector) tryHeader(rows []row, h int) *tableSpec {
+	sc := d.sc
+	hdr := &rows[h]
+	t := &tableSpec{sheet: d.sheet, headerRow: hdr.num}
+	// Sample rows: up to sampleRows non-blank rows, stopping at a gap of
+	// three blank rows or at the next header-like row with role keywords.
+	var sample []*row
+	prev := hdr.num
+	for j := h + 1; j < len(rows) && len(sample) < sampleRows; j++ {
+		r := &rows[j]
+		if r.num-prev > 3 {
+			break
+		}
+		prev = r.num
+		if r.blank() || totalRow(r) {
+			continue
+		}
+		if headerLike(r) && sc.keywordHits(r) >= 2 && len(sample) > 0 {
+			break
+		}
+		sample = append(sample, r)
+	}
+	// Columns: every header cell, and cells under a merged header.
+	first, last := 0, 0
+	for i := range hdr.cells {
+		if !hdr.cells[i].isBlank() {
+			if first == 0 {
+				first = hdr.cells[i].col
+			}
+			last = hdr.cells[i].col
+		}
+	}
+	if first == 0 {
+		return nil
+	}
+	// A row of units right under the header ("L", "kWh", "t").
+	if len(sample) > 0 && unitRowLike(sample[0]) {
+		t.unitRow = sample[0].num
+		sample = sample[1:]
+	}
+	if len(sample) == 0 {
+		return nil
+	}
+	t.firstCol, t.lastCol = first, last
+	t.dataStart = hdr.num + 1
+	if t.unitRow > 0 {
+		t.dataStart = t.unitRow + 1
+	}
+	used := map[string]bool{}
+	for c := first; c <= last; c++ {
+		text := d.headerText(rows, c, hdr.num)
+		col := &column{col: c, hdr: parseHeader(text)}
+		if t.unitRow > 0 && col.hdr.unitTxt == "" {
+			if u := cellAt(rows, c, t.unitRow); u.kind == kText && strings.TrimSpace(u.text) != "" {
+				uh := parseHeader("x (" + u.text + ")")
+				col.hdr.unitTxt, col.hdr.unit, col.hdr.unitErr, col.hdr.percent = uh.unitTxt, uh.unit, uh.unitErr, uh.percent
+				if uh.unitTxt == "" {
+					if _, err := units.Parse(u.text); err != nil {
+						if ue, ok := err.(*units.Error); ok {
+							col.hdr.unitTxt, col.hdr.unitErr = strings.TrimSpace(u.text), ue
+						}
+					}
+				}
+			}
+		}
+		name := col.hdr.base
+		if name == "" {
+			name = col.hdr.text
+		}
+		id := identFor(name, c)
+		if sc.isFunction(id) {
+			id += "_col"
+		}
+		base := id
+		for k := 2; used[id]; k++ {
+			id = base + "_" + itoa(k)
+		}
+		used[id] = true
+		col.ident = id
+		if col.hdr.unitTxt != "" {
+			col.unitIdent = id + "_unit"
+		}
+		for _, r := range sample {
+			d.count(col, r.at(c))
+		}
+		col.numeric = col.st.nonEmpty > 0 && 2*col.st.num >= col.st.nonEmpty
+		t.cols = append(t.cols, col)
+	}
+	for _, col := range t.cols {
+		if col.unitIdent != "" {
+			if used[col.unitIdent] {
+				col.unitIdent = "" // a real column of that name wins
+			} else {
+				used[col.unitIdent] = true
+			}
+		}
+	}
+	d.assignRoles(t)
+	if !d.decideKind(t) {
+		return nil
+	}
+	t.score = 10 + len(sample)
+	for _, c := range t.cols {
+		if c.role != roleNone {
+			t.score += 3
+		}
+	}
+	return t
+}
+
+func itoa(n int) string { return funcs.FormatNumber(float64(n)) }
+
+// unitRowLike reports a row whose non-empty cells are all units.
+func unitRowLike(r *row) bool {
+	n := 0
+	for i := range r.cells {
+		c := &r.cells[i]
+		if c.isBlank() {
+			continue
+		}
+		if c.kind != kText {
+			return false
+		}
+		s := strings.Trim(strings.TrimSpace(c.text), "()[]")
+		if _, err := units.Parse(s); err != nil {
+			if ue, ok := err.(*units.Error); !ok || ue.Code == units.CodeUnknown {
+				return false
+			}
+		}
+		n++
+	}
+	return n >= 1
+}
+
+func (d *detector) count(col *column, c cell) {
+	if c.isBlank() && !c.noCache {
+		return
+	}
+	col.st.nonEmpty++
+	switch c.kind {
+	case kNumber:
+		col.st.num++
+		return
+	case kEmpty:
+		if c.noCache {
+			col.st.num++ // a formula: most likely a number
+		}
+		return
+	case kText:
+	default:
+		return
+	}
+	if _, ok, amb := textNumber(c.text); ok || amb {
+		col.st.num++
+		return
+	}
+	col.st.text++
+	sc := d.sc
+	if sc.fuel(c.text).err == nil {
+		col.st.fuel++
+	}
+	if u := sc.unit(c.text); u.err == nil || u.err.Code != units.CodeUnknown {
+		col.st.unitLike++
+		if u.err == nil && u.u.Dim == units.Power {
+			col.st.power++
+		}
+	}
+	if sc.tech(c.text).err == nil {
+		col.st.tech++
+	}
+}

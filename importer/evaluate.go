@@ -1,0 +1,652 @@
+package importer
+
+import (
+	"math"
+	"sort"
+	"strings"
+
+	"github.com/fluecell/fluecell/funcs"
+	"github.com/fluecell/fluecell/funcs/units"
+)
+
+// unitSeen counts the rows of one unit in a unit column (for unit-mixed).
+type unitSeen struct {
+	sym   string
+	rows  int
+	first int
+}
+
+// sample is a quantity kept for the outlier check.
+type sample struct {
+	row, col int
+	v        float64
+}
+
+// evaluate runs the table's rules over its rows and makes the checks that
+// need whole columns: outliers, mixed units, existing carbon figures.
+func (sc *scanCtx) evaluate(t *table) error {
+	spec := t.spec
+	sheet := spec.sheet
+	n := len(t.rowNums)
+	t.res = make([][]float64, len(t.rules))
+	for i := range t.res {
+		t.res[i] = make([]float64, n)
+	}
+	t.src = make([]int32, n)
+	t.byFuel, t.byGroup = map[string]*sum{}, map[string]*sum{}
+	sc.headerWarnings(t)
+
+	// The variables rows give, each once.
+	var binds []*binding
+	seen := map[string]bool{}
+	for _, r := range t.rules {
+		for _, b := range r.vars {
+			if !seen[b.name] {
+				seen[b.name] = true
+				binds = append(binds, b)
+			}
+		}
+	}
+	good := make(map[string]bool, len(binds))
+	vars := make(map[string]any, len(binds))
+	srcIndex := map[srcKey]int32{}
+	samples := map[string][]sample{}
+	wideK := sc.wideFactors(t)
+	var rowNotes []string
+
+	for i := 0; i < n; i++ {
+		if i&4095 == 0 {
+			if err := sc.cancelled(); err != nil {
+				return err
+			}
+		}
+		for ri := range t.res {
+			t.res[ri][i] = math.NaN()
+		}
+		t.src[i] = -1
+		if t.blankRoles(i) {
+			continue
+		}
+		t.dataRows++
+		rowNum := int(t.rowNums[i])
+		for _, b := range binds {
+			if t.omitted(i, b) {
+				vars[b.name], good[b.name] = nil, false
+				continue
+			}
+			v, ok := sc.value(t, i, b)
+			vars[b.name], good[b.name] = v, ok
+		}
+		all := len(t.rules) > 0
+		var key srcKey
+		nk := 0
+		var long []*funcs.Factor
+		rowNotes = rowNotes[:0]
+		for ri, r := range t.rules {
+			r = sc.variantFor(t, r, i, good)
+			ok := true
+			for _, b := range r.vars {
+				if !good[b.name] {
+					ok = false
+					break
+				}
+			}
+			if !ok {
+				all = false
+				continue
+			}
+			out, err := r.run.Run(vars)
+			if err != nil {
+				sc.ruleError(t, i, r, err)
+				all = false
+				continue
+			}
+			t.res[ri][i] = out.Value
+			for _, f := range out.Sources {
+				if nk < len(key) {
+					key[nk] = f
+					nk++
+				} else {
+					long = append(long, f)
+				}
+			}
+			for _, note := range out.Notes {
+				if !slicesContains(rowNotes, note) {
+					rowNotes = append(rowNotes, note)
+					sc.noteCount(note)
+				}
+			}
+		}
+		if nk > 0 {
+			t.src[i] = sc.sourceIndex(t, srcIndex, key, long)
+		}
+		if all {
+			t.computed++
+		}
+		sc.rowTotals(t, i, rowNum, vars, wideK)
+		sc.collectSamples(t, i, rowNum, vars, samples)
+		sc.checkExisting(t, i, rowNum)
+	}
+	sc.checkOutliers(sheet, samples)
+	sc.checkMixed(t)
+	return nil
+}
+
+// blankRoles reports a row with nothing in the columns the rules or roles
+// read (a note row inside the table): it is skipped without warnings.
+func (t *table) blankRoles(i int) bool {
+	for s, c := range t.slots {
+		if c.role == roleGroup || c.role == roleExisting {
+			continue
+		}
+		v := t.val(i, s)
+		if v.kind != kEmpty || v.formula {
+			if v.kind == kText && strings.TrimSpace(v.text) == "" {
+				continue
+			}
+			return false
+		}
+	}
+	return true
+}
+
+// headerWarnings records the problems of the header row: units in headers
+// that cannot be used, fuel names read as aliases, per-fuel columns left out.
+func (sc *scanCtx) headerWarnings(t *table) {
+	spec := t.spec
+	sheet, hr := spec.sheet, spec.headerRow
+	if spec.headerErr != nil {
+		w := spec.headerErr
+		c, r, _ := parseRef(w.Cell)
+		sc.warn.add(sheet, c, r, w.Severity, w.Code, w.Message)
+	}
+	used := map[*column]bool{}
+	for _, r := range t.rules {
+		for _, b := range r.vars {
+			if b.unitOf != nil {
+				used[b.unitOf] = true
+			}
+		}
+	}
+	for _, c := range spec.cols {
+		if c.hdr.unitErr != nil && (used[c] || c.role == roleWideFuel || c.role == roleQuantity || c.role == roleCapacity) {
+			msg := c.hdr.unitErr.Msg + " (in the header " + quoteText(c.hdr.text) + ")"
+			if c.role == roleWideFuel {
+				msg += "; the column is left out of the totals"
+			} else {
+				msg += "; no row is computed from it"
+			}
+			sc.warn.add(sheet, c.col, hr, SevError, c.hdr.unitErr.Code, msg)
+			continue
+		}
+		if used[c] && c.hdr.unitTxt != "" {
+			power := c.role == roleCapacity
+			if _, ok := sc.checkUnit(t, c, c.hdr.unitTxt, c.col, hr, power); !ok {
+				c.unitBad = true
+			}
+		}
+		if c.role == roleWideFuel && c.fuelAlias {
+			sc.warn.add(sheet, c.col, hr, SevInfo, CodeFuelAlias, quoteText(c.hdr.base)+" read as "+c.fuelID)
+		}
+		if c.role == roleWideFuel && c.unitIdent == "" && c.hdr.unitErr == nil {
+			sc.warn.add(sheet, c.col, hr, SevError, CodeUnitUnknown, "no unit for "+quoteText(c.hdr.text)+": write it in the header, e.g. "+quoteText(c.hdr.base+" (L)")+"; the column is left out of the totals")
+		}
+	}
+	if spec.kind == kindWide {
+		for _, c := range spec.cols {
+			if c.role != roleNone || !c.numeric || c.hdr.unitTxt == "" || !isQuantityDim(c.hdr.unit) {
+				continue
+			}
+			ws := words(c.hdr.base)
+			if hasWord(ws, "total", "totals", "sum", "all", "month", "year", "period") {
+				continue
+			}
+			if hasWord(ws, "electricity", "electric", "grid", "power", "heat", "steam", "cooling") {
+				sc.warn.add(sheet, c.col, hr, SevInfo, CodeFuelUnknown, quoteText(c.hdr.text)+
+					" is purchased energy, not a fuel burned on site (Scope 2, which needs the supplier's or the grid's factor): the column is left out of the totals")
+				continue
+			}
+			msg := "column " + quoteText(c.hdr.text) + " has a unit but names no known fuel"
+			if f := sc.fuel(c.hdr.base); f.err != nil {
+				if fe, ok := funcs.AsError(f.err); ok {
+					msg = fe.Msg
+				}
+			}
+			sc.warn.add(sheet, c.col, hr, SevWarning, CodeFuelUnknown, msg+"; the column is left out of the totals")
+		}
+	}
+}
+
+// ruleError records why a rule failed on a row, at the cell of the
+// parameter that failed.
+func (sc *scanCtx) ruleError(t *table, i int, r *rule, err error) {
+	sheet := t.spec.sheet
+	rowNum := int(t.rowNums[i])
+	code, msg := CodeRuleError, err.Error()
+	var target *binding
+	if fe, ok := funcs.AsError(err); ok {
+		msg = fe.Headline()
+		switch fe.Code {
+		case funcs.CodeUnit:
+			code = fe.UnitCode
+			if code == "" {
+				code = CodeUnitUnknown
+			}
+		case funcs.CodeUnknownFuel:
+			code = CodeFuelUnknown
+		case funcs.CodeMissingFactor:
+			code = CodeFactorMissing
+		case funcs.CodeBadArgument:
+			if fe.Param == "tech" {
+				code = CodeTechUnknown
+			}
+		}
+		if v, ok := r.paramVar[fe.Param]; ok {
+			for _, b := range r.vars {
+				if b.name == v {
+					target = b
+				}
+			}
+		}
+	}
+	if target == nil && len(r.vars) > 0 {
+		target = r.vars[0]
+	}
+	col, row := t.spec.firstCol, rowNum
+	switch {
+	case target != nil && target.col != nil:
+		col = target.col.col
+	case target != nil && target.unitOf != nil:
+		col, row = target.unitOf.col, t.spec.headerRow
+	}
+	sc.warn.add(sheet, col, row, SevError, code, "rule "+r.column+": "+msg+"; not computed")
+}
+
+// srcKey identifies the factor rows behind a row's numbers (up to eight;
+// longer lists are joined each time).
+type srcKey [8]*funcs.Factor
+
+// sourceIndex returns the index of the row's source text, building it once
+// per distinct set of factors.
+func (sc *scanCtx) sourceIndex(t *table, idx map[srcKey]int32, key srcKey, long []*funcs.Factor) int32 {
+	if long == nil {
+		if i, ok := idx[key]; ok {
+			sc.countFactors(key[:], nil)
+			return i
+		}
+	}
+	t.srcText = append(t.srcText, sourceText(append(key[:], long...)))
+	i := int32(len(t.srcText) - 1)
+	if long == nil {
+		idx[key] = i
+	}
+	sc.countFactors(key[:], long)
+	return i
+}
+
+// wideFactors gives, per per-fuel column, tonnes of CO2 and CO2e per unit
+// amount: the same plan the rule's calls use, for the totals by fuel.
+func (sc *scanCtx) wideFactors(t *table) map[*column][2]float64 {
+	if t.spec.kind != kindWide || len(sc.userRules) > 0 {
+		return nil
+	}
+	out := map[*column][2]float64{}
+	for _, c := range t.spec.wide {
+		if c.unitIdent == "" || c.hdr.unitErr != nil || c.unitBad {
+			continue
+		}
+		a, err1 := sc.e.CallValues("fuel_co2", c.fuelID, 1.0, c.hdr.unitTxt)
+		b, err2 := sc.e.CallValues("fuel_co2e", c.fuelID, 1.0, c.hdr.unitTxt)
+		if err1 == nil && err2 == nil {
+			out[c] = [2]float64{a.Value, b.Value}
+		}
+	}
+	return out
+}
+
+// rowTotals adds a row's numbers to the table's totals by fuel and group.
+func (sc *scanCtx) rowTotals(t *table, i, rowNum int, vars map[string]any, wideK map[*column][2]float64) {
+	var co2, co2e float64
+	has1, has2 := false, false
+	for ri, r := range t.rules {
+		v := t.res[ri][i]
+		if math.IsNaN(v) {
+			continue
+		}
+		switch r.total {
+		case 1:
+			co2, has1 = v, true
+		case 2:
+			co2e, has2 = v, true
+		}
+	}
+	if !has1 && !has2 {
+		return
+	}
+	add := func(m map[string]*sum, ord *[]string, key string, a, b float64) {
+		s := m[key]
+		if s == nil {
+			s = &sum{}
+			m[key] = s
+			*ord = append(*ord, key)
+		}
+		if has1 {
+			s.TCO2 += a
+		}
+		if has2 {
+			s.TCO2e += b
+		}
+		s.rows++
+	}
+	spec := t.spec
+	switch {
+	case spec.kind == kindWide && wideK != nil:
+		for _, c := range spec.wide {
+			k, ok := wideK[c]
+			x, isNum := vars[c.ident].(float64)
+			if !ok || !isNum || x == 0 {
+				continue
+			}
+			add(t.byFuel, &t.fuelOrd, c.fuelID, x*k[0], x*k[1])
+		}
+	default:
+		key := "(all rows)"
+		if spec.fuel != nil {
+			if s, ok := vars[spec.fuel.ident].(string); ok {
+				key = strings.TrimSpace(s)
+				if f := sc.fuel(s); f.err == nil {
+					key = f.id
+				}
+			}
+		} else if spec.tech != nil {
+			if s, ok := vars[spec.tech.ident].(string); ok {
+				key = strings.TrimSpace(s)
+				if r := sc.tech(s); r.err == nil {
+					key = r.id
+				}
+			}
+		}
+		add(t.byFuel, &t.fuelOrd, key, co2, co2e)
+	}
+	if g := spec.group; g != nil {
+		v := t.val(i, t.slotOf[g.col])
+		key := strings.TrimSpace(cell{kind: v.kind, num: v.num, text: v.text}.display())
+		if v.kind == kEmpty {
+			key = "(blank)"
+		}
+		add(t.byGroup, &t.groupOrd, key, co2, co2e)
+	}
+}
+
+// collectSamples keeps positive quantities by fuel and unit for the
+// outlier check.
+func (sc *scanCtx) collectSamples(t *table, i, rowNum int, vars map[string]any, samples map[string][]sample) {
+	spec := t.spec
+	switch spec.kind {
+	case kindFuelLog:
+		q, ok := vars[spec.qty.ident].(float64)
+		if !ok || q <= 0 {
+			return
+		}
+		fs, ok1 := vars[spec.fuel.ident].(string)
+		unit := spec.qty.hdr.unitTxt
+		if spec.unit != nil {
+			us, ok2 := vars[spec.unit.ident].(string)
+			if !ok2 {
+				return
+			}
+			unit = us
+		}
+		f := sc.fuel(fs)
+		u := sc.unit(unit)
+		if !ok1 || f.err != nil || u.err != nil {
+			return
+		}
+		k := spec.sheet + "|" + colName(spec.qty.col) + "|" + f.id + "|" + u.u.String()
+		samples[k] = append(samples[k], sample{rowNum, spec.qty.col, q})
+	case kindWide:
+		for _, c := range spec.wide {
+			if q, ok := vars[c.ident].(float64); ok && q > 0 {
+				k := spec.sheet + "|" + colName(c.col) + "|" + c.fuelID
+				samples[k] = append(samples[k], sample{rowNum, c.col, q})
+			}
+		}
+	}
+}
+
+// checkOutliers flags quantities more than 100 times above or below the
+// median of the same fuel and unit (at least three rows).
+func (sc *scanCtx) checkOutliers(sheet string, samples map[string][]sample) {
+	keys := make([]string, 0, len(samples))
+	for k := range samples {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	for _, k := range keys {
+		ss := samples[k]
+		if len(ss) < 3 {
+			continue
+		}
+		vals := make([]float64, len(ss))
+		for i, s := range ss {
+			vals[i] = s.v
+		}
+		sort.Float64s(vals)
+		med := vals[len(vals)/2]
+		if len(vals)%2 == 0 {
+			med = (vals[len(vals)/2-1] + vals[len(vals)/2]) / 2
+		}
+		parts := strings.SplitN(k, "|", 4)
+		what := parts[2]
+		if len(parts) == 4 {
+			what += " in " + parts[3]
+		}
+		for _, s := range ss {
+			if s.v > 100*med || s.v < med/100 {
+				ratio := s.v / med
+				dir := funcs.FormatNumber(math.Round(ratio)) + " times"
+				if ratio < 1 {
+					dir = "1/" + funcs.FormatNumber(math.Round(1/ratio))
+				}
+				sc.warn.add(sheet, s.col, s.row, SevWarning, CodeValueOutlier, funcs.FormatNumber(s.v)+" is "+dir+" the median "+
+					funcs.FormatNumber(med)+" of the "+plural(len(ss), "row")+" of "+what+" (a unit slip or a typo?): computed, check it")
+			}
+		}
+	}
+}
+
+// noteUnit counts the unit of a row for the unit-mixed check.
+func (t *table) noteUnit(c *column, u units.Unit, r int) {
+	if t.unitsSeen == nil {
+		t.unitsSeen = map[string]*unitSeen{}
+	}
+	sym := u.String()
+	s := t.unitsSeen[sym]
+	if s == nil {
+		s = &unitSeen{sym: sym, first: r}
+		t.unitsSeen[sym] = s
+		t.unitOrder = append(t.unitOrder, sym)
+	}
+	s.rows++
+}
+
+// checkMixed notes once per unit column that it mixes units.
+func (sc *scanCtx) checkMixed(t *table) {
+	if len(t.unitOrder) < 2 || t.spec.unit == nil {
+		return
+	}
+	list := make([]*unitSeen, 0, len(t.unitOrder))
+	for _, s := range t.unitOrder {
+		list = append(list, t.unitsSeen[s])
+	}
+	sort.SliceStable(list, func(i, j int) bool { return list[i].rows > list[j].rows })
+	var parts []string
+	for _, s := range list {
+		parts = append(parts, s.sym+" in "+plural(s.rows, "row"))
+	}
+	second := list[1]
+	for _, s := range list[2:] {
+		if s.first < second.first {
+			second = s
+		}
+	}
+	c := t.spec.unit
+	sc.warn.add(t.spec.sheet, c.col, second.first, SevWarning, CodeUnitMixed, "column "+colName(c.col)+" ("+quoteText(c.hdr.text)+") mixes units: "+
+		strings.Join(parts, ", ")+"; each row is converted from its own unit (first "+second.sym+" here)")
+}
+
+// checkExisting compares the workbook's own carbon figures with the
+// computed ones (more than 2 % apart is flagged).
+func (sc *scanCtx) checkExisting(t *table, i, rowNum int) {
+	for _, c := range t.spec.existing {
+		if c.carbon.unit.Symbol == "" {
+			continue
+		}
+		want := -1
+		for ri, r := range t.rules {
+			if (c.carbon.species == "CO2" || c.carbon.species == "C") && r.total == 1 || c.carbon.species == "CO2e" && r.total == 2 {
+				want = ri
+			}
+		}
+		if want < 0 {
+			continue
+		}
+		ours := t.res[want][i]
+		if math.IsNaN(ours) {
+			continue
+		}
+		v := t.val(i, t.slotOf[c.col])
+		var theirs float64
+		switch v.kind {
+		case kNumber:
+			theirs = v.num
+		case kText:
+			f, ok, _ := textNumber(v.text)
+			if !ok {
+				continue
+			}
+			theirs = f
+		default:
+			continue
+		}
+		unitT := c.carbon.unit.SIFloat() / 1000 // tonnes per unit
+		theirsT := theirs * unitT
+		oursS := ours
+		label := "t CO2"
+		if t.rules[want].total == 2 {
+			label = "t CO2e"
+		}
+		if c.carbon.species == "C" {
+			oursS = ours * 12 / 44
+			label = "t C"
+		}
+		diff := theirsT - oursS
+		if math.Abs(diff) <= 0.02*math.Abs(oursS) || oursS == 0 && theirsT == 0 {
+			continue
+		}
+		pct := "n/a"
+		if oursS != 0 {
+			pct = signed(math.Round(1000*diff/math.Abs(oursS))/10) + " %"
+		}
+		msg := "the workbook says " + funcs.FormatNumber(theirs) + " " + c.carbon.unit.Symbol + " " + c.carbon.species
+		if c.carbon.unit.Symbol != "t" {
+			msg += " (" + funcs.FormatNumber(roundSig(theirsT)) + " " + label + ")"
+		}
+		msg += ", fluecell computes " + funcs.FormatNumber(roundSig(oursS)) + " " + label +
+			" with rule " + t.rules[want].column + ": " + pct
+		if c.carbon.species == "C" && math.Abs(theirsT-ours) <= 0.02*math.Abs(ours) {
+			msg += "; the figure matches CO2, not carbon: is the column mislabelled?"
+		}
+		sc.warn.add(t.spec.sheet, c.col, rowNum, SevWarning, CodeExistingMismatch, msg)
+	}
+}
+
+func signed(x float64) string {
+	if x > 0 {
+		return "+" + funcs.FormatNumber(x)
+	}
+	return funcs.FormatNumber(x)
+}
+
+// roundSig rounds to 6 significant digits for messages.
+func roundSig(x float64) float64 {
+	if x == 0 || math.IsNaN(x) || math.IsInf(x, 0) {
+		return x
+	}
+	p := math.Pow(10, 5-math.Floor(math.Log10(math.Abs(x))))
+	return math.Round(x*p) / p
+}
+
+func slicesContains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
+	}
+	return false
+}
+
+// sourceText lists factor rows compactly, grouping the quantities of one
+// pack and id: "ipcc2006/gas_diesel_oil: ncv, co2_ef; common/ch4/gwp100_ar5".
+func sourceText(fs []*funcs.Factor) string {
+	type group struct {
+		head string
+		qs   []string
+	}
+	var groups []*group
+	byHead := map[string]*group{}
+	dup := map[string]bool{}
+	for _, f := range fs {
+		if f == nil || dup[f.Key()] {
+			continue
+		}
+		dup[f.Key()] = true
+		h := f.Pack + "/" + f.ID
+		g := byHead[h]
+		if g == nil {
+			g = &group{head: h}
+			byHead[h] = g
+			groups = append(groups, g)
+		}
+		g.qs = append(g.qs, f.Quantity)
+	}
+	parts := make([]string, len(groups))
+	for i, g := range groups {
+		if len(g.qs) == 1 {
+			parts[i] = g.head + "/" + g.qs[0]
+		} else {
+			parts[i] = g.head + ": " + strings.Join(g.qs, ", ")
+		}
+	}
+	return strings.Join(parts, "; ")
+}
+
+// omitted reports an empty optional argument (capacity factor, lifetime)
+// of a build-plan row: the technology's default applies.
+func (t *table) omitted(i int, b *binding) bool {
+	if b.col == nil || b.col.role != roleCF && b.col.role != roleLifetime || len(t.rules) == 0 || len(t.rules[0].optional) == 0 {
+		return false
+	}
+	v := t.val(i, b.slot)
+	return v.kind == kEmpty && !v.formula || v.kind == kText && strings.TrimSpace(v.text) == ""
+}
+
+// variantFor picks the rule variant for a row whose optional arguments are
+// empty, and notes once per column that the defaults were used.
+func (sc *scanCtx) variantFor(t *table, r *rule, i int, good map[string]bool) *rule {
+	for k, c := range r.optional {
+		if good[c.ident] || !t.omitted(i, &binding{col: c, slot: t.slotOf[c.col]}) {
+			continue
+		}
+		rowNum := int(t.rowNums[i])
+		msg := "empty " + strings.ToLower(c.hdr.base) + ": the technology's default is used (see " + SheetSources + ")"
+		if k+1 < len(r.optional) {
+			if next := r.optional[k+1]; good[next.ident] {
+				msg = "empty " + strings.ToLower(c.hdr.base) + ": the technology's default capacity factor and lifetime are used, not the lifetime given in " + cellRef(next.col, rowNum)
+			}
+		}
+		sc.warn.addOnce("optional|"+t.spec.sheet+"|"+colName(c.col)+"|"+itoa(rowNum), t.spec.sheet, c.col, rowNum, SevInfo, CodeValueNotNumber, msg)
+		return r.variants[k]
+	}
+	return r
+}

@@ -1,0 +1,67 @@
+package importer
+
+// Options configures Scan and Annotate. The zero value is usable.
+type Options struct {
+	// Rules are "COLUMN = EXPR" over the header identifiers of a table, e.g.
+	// `tCO2e = fuel_co2e(fuel, quantity, quantity_unit)`. Without rules,
+	// fluecell proposes them from the detected roles (Report.Rules says which).
+	Rules []string
+	// Sheet restricts detection to one sheet ("" = every sheet).
+	Sheet string
+	// Pack is the factor pack used by calls that name none ("" = the
+	// engine's default pack).
+	Pack string
+	// FactorFiles are the user factor files the engine was built with
+	// (funcs.WithFactorFiles). They are needed only when Annotate must build
+	// a derived engine: for a Pack other than the engine's default, or for a
+	// workbook with its own "Carbon factors" sheet, which is layered over
+	// them. When nil, the user files are taken from e.Packs().
+	FactorFiles []string
+
+	// InlineMaxCells is the largest sheet (cells with a value or formula)
+	// that gets its computed columns written beside the table; a larger one
+	// is left untouched and the columns go to a side sheet. 0 means
+	// DefaultInlineMaxCells; a negative value always uses side sheets.
+	InlineMaxCells int
+	// MaxUnzippedBytes bounds the total uncompressed size of a workbook
+	// (zip-bomb protection) and the size of a CSV file. 0 means
+	// DefaultMaxUnzippedBytes.
+	MaxUnzippedBytes int64
+	// MaxWarningsPerColumn bounds the warnings listed one by one for one
+	// code in one column; the rest are counted in one summary warning. 0
+	// means DefaultMaxWarningsPerColumn; negative means no limit.
+	MaxWarningsPerColumn int
+}
+
+// Defaults of Options.
+const (
+	// DefaultInlineMaxCells: excelize's per-cell API loads a whole sheet at
+	// about 800 bytes per cell (docs/notes), so 200 000 cells cost about
+	// 160 MB; bigger sheets are left untouched.
+	DefaultInlineMaxCells       = 200_000
+	DefaultMaxUnzippedBytes     = 1 << 30 // 1 GB
+	DefaultMaxWarningsPerColumn = 100
+)
+
+// limits are the resolved size limits.
+type limits struct {
+	maxUnzipped int64
+	maxParts    int
+	maxRatio    int
+	inlineCells int
+	maxWarn     int
+}
+
+func (o *Options) limits() limits {
+	l := limits{maxUnzipped: o.MaxUnzippedBytes, maxParts: 10_000, maxRatio: 500, inlineCells: o.InlineMaxCells, maxWarn: o.MaxWarningsPerColumn}
+	if l.maxUnzipped <= 0 {
+		l.maxUnzipped = DefaultMaxUnzippedBytes
+	}
+	if l.inlineCells == 0 {
+		l.inlineCells = DefaultInlineMaxCells
+	}
+	if l.maxWarn == 0 {
+		l.maxWarn = DefaultMaxWarningsPerColumn
+	}
+	return l
+}

@@ -1,0 +1,121 @@
+package importer
+
+// Report is what Scan and Annotate found and computed. It marshals to the
+// JSON of `fluecell annotate --report`.
+type Report struct {
+	// Rules are the rules used, as "COLUMN = EXPR", each once.
+	Rules []string `json:"rules"`
+	// Totals sums the computed tCO2 and tCO2e columns over every table.
+	Totals Totals `json:"totals"`
+	// ByFuel splits Totals by canonical fuel id (or technology for build
+	// plans; the cell text when it names no known fuel).
+	ByFuel map[string]Totals `json:"by_fuel"`
+	// Warnings are the unit-consistency findings, in sheet, row, column order.
+	Warnings []Warning `json:"warnings"`
+	// Layout is "inline" when every table got its computed columns beside
+	// it, "side-sheet" when any table's columns went to a side sheet.
+	Layout string `json:"layout"`
+	// Rows is the number of data rows in the tables; Computed how many got
+	// a number from every rule.
+	Rows     int `json:"rows"`
+	Computed int `json:"computed"`
+	// Tables describes each table found.
+	Tables []TableInfo `json:"tables"`
+	// Packs are the factor packs of the engine used, with their versions.
+	Packs []PackVersion `json:"packs"`
+	// Output is the path written by Annotate ("" for Scan).
+	Output string `json:"output,omitempty"`
+}
+
+// Totals are tonnes of CO2 and of CO2e.
+type Totals struct {
+	TCO2  float64 `json:"tCO2"`
+	TCO2e float64 `json:"tCO2e"`
+}
+
+// Warning is one finding at one cell.
+type Warning struct {
+	Sheet    string `json:"sheet"`
+	Cell     string `json:"cell"`     // "C17"; the header cell for a header-level finding
+	Severity string `json:"severity"` // error (row not computed), warning, info
+	Code     string `json:"code"`     // see the Code constants
+	Message  string `json:"message"`
+}
+
+// Severities.
+const (
+	SevError   = "error"   // the row could not be computed: it has no number
+	SevWarning = "warning" // computed, but check it
+	SevInfo    = "info"    // how a value was read (alias, basis conversion)
+)
+
+// Warning codes (DESIGN.md), plus factor-missing, tech-unknown and
+// rule-error for rows a rule cannot compute for other reasons.
+const (
+	CodeUnitUnknown      = "unit-unknown"
+	CodeUnitAmbiguous    = "unit-ambiguous"
+	CodeUnitDimension    = "unit-dimension"
+	CodeUnitBasis        = "unit-basis"
+	CodeUnitMixed        = "unit-mixed"
+	CodeValueNotNumber   = "value-not-number"
+	CodeValueTextNumber  = "value-text-number"
+	CodeValueNegative    = "value-negative"
+	CodeValueOutlier     = "value-outlier"
+	CodeFuelUnknown      = "fuel-unknown"
+	CodeFuelAlias        = "fuel-alias"
+	CodeFormulaNoCache   = "formula-no-cache"
+	CodeExistingMismatch = "existing-mismatch"
+	CodeFactorMissing    = "factor-missing" // the pack lacks a value this row needs
+	CodeTechUnknown      = "tech-unknown"   // a build plan names an unknown technology
+	CodeRuleError        = "rule-error"     // a rule failed on this row for another reason
+)
+
+// TableInfo describes one detected table.
+type TableInfo struct {
+	Sheet     string       `json:"sheet"`
+	Range     string       `json:"range"` // header to last data row, e.g. "A4:H120"
+	HeaderRow int          `json:"header_row"`
+	Kind      string       `json:"kind"` // fuel-log, wide, build-plan, custom
+	Columns   []ColumnInfo `json:"columns"`
+	Rules     []string     `json:"rules"`
+	Rows      int          `json:"rows"`
+	Computed  int          `json:"computed"`
+	Layout    string       `json:"layout"`           // inline or side-sheet
+	Output    string       `json:"output,omitempty"` // where the computed columns are, e.g. "Fuel log!I4:K120"
+}
+
+// ColumnInfo is one column of a table: its header, the identifier rules use
+// and the role fluecell gave it.
+type ColumnInfo struct {
+	Cell       string `json:"cell"` // header cell
+	Header     string `json:"header"`
+	Ident      string `json:"ident"`
+	HeaderUnit string `json:"header_unit,omitempty"` // unit written in the header; its variable is Ident+"_unit"
+	Role       string `json:"role,omitempty"`
+}
+
+// PackVersion names a factor pack and the hash of its rows.
+type PackVersion struct {
+	Name    string `json:"name"`
+	Title   string `json:"title"`
+	Basis   string `json:"basis,omitempty"`
+	Version string `json:"version"`
+	Rows    int    `json:"rows"`
+}
+
+// Layouts.
+const (
+	LayoutInline    = "inline"
+	LayoutSideSheet = "side-sheet"
+)
+
+// Count returns how many warnings have severity sev.
+func (r *Report) Count(sev string) int {
+	n := 0
+	for _, w := range r.Warnings {
+		if w.Severity == sev {
+			n++
+		}
+	}
+	return n
+}

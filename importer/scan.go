@@ -1,0 +1,339 @@
+package importer
+
+import (
+	"archive/zip"
+	"context"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"runtime/debug"
+	"strings"
+
+	"github.com/fluecell/fluecell/funcs"
+)
+
+// Sheet names fluecell writes. A workbook that already has them is an
+// annotated output; Scan skips them and Annotate refuses to write over them.
+const (
+	SheetWarnings = "Carbon warnings"
+	SheetSources  = "Carbon sources"
+	SheetSummary  = "Carbon summary"
+	SheetColumns  = "Carbon columns" // side sheet for large tables; " 2", " 3"... for more
+	SheetFactors  = "Carbon factors" // a workbook's own factor rows (read, never written)
+)
+
+// ScanResult is what Scan found in a workbook: the report and, for
+// Annotate, the computed values of each table.
+type ScanResult struct {
+	Path   string
+	Format string // xlsx, xlsm or csv
+	Report *Report
+
+	sc         *scanCtx
+	e          *funcs.Engine // the engine used (derived when the workbook has its own factors)
+	csv        *csvInput
+	sheetCells map[string]int // cells with a value or formula, per scanned sheet
+	sheets     []string       // every sheet of the workbook, in order
+}
+
+// Scan reads the workbook or CSV file at path, finds its tables, runs the
+// rules (opt.Rules, or rules proposed from the columns' roles) and makes the
+// unit-consistency checks. It writes nothing. Errors are *Error: an
+// unreadable, encrypted, legacy, corrupt or oversized file, a bad rule, or a
+// file without a table. It is safe for concurrent use and honours ctx.
+func Scan(ctx context.Context, e *funcs.Engine, path string, opt Options) (res *ScanResult, err error) {
+	defer recoverInternal(&err, path)
+	return scan(ctx, e, path, opt, nil)
+}
+
+// recoverInternal turns a panic (in fluecell or a library, on a malformed
+// file) into an *Error, so that no input can crash a server or a batch.
+func recoverInternal(err *error, path string) {
+	if r := recover(); r != nil {
+		*err = &Error{Code: ErrInternal, Path: path, Msg: fmt.Sprintf("internal error while reading the file (please report it with the file): %v\n%s", r, debug.Stack())}
+	}
+}
+
+func scan(ctx context.Context, e *funcs.Engine, path string, opt Options, calc formulaCalc) (*ScanResult, error) {
+	if e == nil {
+		return nil, &Error{Code: ErrInput, Msg: "importer: no engine (funcs.New)"}
+	}
+	if err := ctx.Err(); err != nil {
+		return nil, &Error{Code: ErrIO, Path: path, Msg: "stopped: " + err.Error(), Err: err}
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, &Error{Code: ErrIO, Path: path, Msg: "cannot open the file: " + err.Error(), Err: err}
+	}
+	defer f.Close()
+	st, err := f.Stat()
+	if err != nil {
+		return nil, &Error{Code: ErrIO, Path: path, Msg: err.Error(), Err: err}
+	}
+	if st.IsDir() {
+		return nil, newErr(ErrInput, path, "is a folder, not a workbook")
+	}
+	kind, err := sniff(path, f, st.Size())
+	if err != nil {
+		return nil, err
+	}
+	userRules, err := parseUserRules(e, opt.Rules)
+	if err != nil {
+		return nil, err
+	}
+	res := &ScanResult{Path: path, sheetCells: map[string]int{}}
+	lim := opt.limits()
+	if kind == fmtCSV {
+		res.Format = "csv"
+		in, err := readCSV(path, f, st.Size(), lim)
+		if err != nil {
+			return nil, err
+		}
+		eng, err := deriveEngine(e, opt, nil, "")
+		if err != nil {
+			return nil, err
+		}
+		sc := newScanCtx(ctx, eng, path, opt)
+		sc.csv, sc.userRules = true, userRules
+		sheet := csvSheetName(path)
+		sc.sheetOrd[sheet] = 0
+		res.sheets = []string{sheet}
+		if err := sc.scanCSV(in, sheet); err != nil {
+			return nil, err
+		}
+		res.sc, res.e, res.csv = sc, eng, in
+		return res, res.finish()
+	}
+	res.Format = strings.TrimPrefix(strings.ToLower(filepath.Ext(path)), ".")
+	zr, err := openZip(path, f, st.Size(), lim)
+	if err != nil {
+		return nil, err
+	}
+	b, err := openBook(zr, lim.maxUnzipped)
+	if err != nil {
+		return nil, bookError(path, err)
+	}
+	res.sheets = b.sheetNames()
+	var factorCSV []byte
+	if s, ok := b.sheet(SheetFactors); ok {
+		if factorCSV, err = b.factorSheetCSV(s); err != nil {
+			return nil, bookError(path, err)
+		}
+	}
+	eng, err := deriveEngine(e, opt, factorCSV, filepath.Base(path))
+	if err != nil {
+		return nil, err
+	}
+	sc := newScanCtx(ctx, eng, path, opt)
+	sc.userRules, sc.calc = userRules, calc
+	if lc, ok := calc.(*lazyCalc); ok {
+		lc.book = b
+	} else if calc == nil {
+		lc := &lazyCalc{path: path, lim: lim, book: b}
+		sc.calc = lc
+		defer lc.close()
+	}
+	for i, name := range res.sheets {
+		sc.sheetOrd[name] = i
+	}
+	targets, err := scanTargets(b, opt.Sheet, path)
+	if err != nil {
+		return nil, err
+	}
+	for _, s := range targets {
+		n, err := sc.scanSheet(b, s)
+		if err != nil {
+			return nil, bookError(path, err)
+		}
+		res.sheetCells[s.Name] = n
+	}
+	res.sc, res.e = sc, eng
+	return res, res.finish()
+}
+
+// bookError wraps a package read error as a corrupt-file error.
+func bookError(path string, err error) error {
+	if _, ok := err.(*Error); ok {
+		return err
+	}
+	msg := err.Error()
+	code := ErrCorrupt
+	if strings.Contains(msg, "zip-bomb") {
+		code = ErrTooLarge
+	}
+	if err == zip.ErrChecksum || strings.Contains(msg, "checksum") {
+		msg += " (the file is damaged)"
+	}
+	return &Error{Code: code, Path: path, Msg: "cannot read the workbook: " + msg, Err: err}
+}
+
+// ownSheet reports a sheet fluecell writes or reads as data.
+func ownSheet(name string) bool {
+	switch name {
+	case SheetWarnings, SheetSources, SheetSummary, SheetFactors:
+		return true
+	}
+	return name == SheetColumns || strings.HasPrefix(name, SheetColumns+" ")
+}
+
+// scanTargets lists the worksheets to look at.
+func scanTargets(b *book, only, path string) ([]sheetRef, error) {
+	if only != "" {
+		s, ok := b.sheet(only)
+		if !ok {
+			return nil, newErr(ErrInput, path, "no sheet %q: the sheets are %s", only, quoteList(b.sheetNames()))
+		}
+		if s.Kind != "worksheet" {
+			return nil, newErr(ErrInput, path, "sheet %q is a %s, not a worksheet with cells", only, s.Kind)
+		}
+		return []sheetRef{s}, nil
+	}
+	var out []sheetRef
+	for _, s := range b.sheets {
+		if s.Kind == "worksheet" && !ownSheet(s.Name) {
+			out = append(out, s)
+		}
+	}
+	return out, nil
+}
+
+func quoteList(names []string) string {
+	q := make([]string, len(names))
+	for i, n := range names {
+		q[i] = "\"" + n + "\""
+	}
+	return strings.Join(q, ", ")
+}
+
+// scanSheet streams one worksheet through a segmenter; it returns the number
+// of cells with a value or formula.
+func (sc *scanCtx) scanSheet(b *book, s sheetRef) (int, error) {
+	merges, err := b.readMerges(s)
+	if err != nil {
+		return 0, err
+	}
+	rd, err := b.openSheet(s)
+	if err != nil {
+		return 0, err
+	}
+	defer rd.close()
+	seg := &segmenter{sc: sc, det: &detector{sc: sc, sheet: s.Name, merges: merges}, sheet: s.Name, merges: merges}
+	cells := 0
+	for n := 0; ; n++ {
+		if n&4095 == 0 {
+			if err := sc.cancelled(); err != nil {
+				return 0, err
+			}
+		}
+		r, ok := rd.next()
+		if !ok {
+			break
+		}
+		cells += len(r.cells)
+		if err := seg.feed(r); err != nil {
+			return 0, err
+		}
+	}
+	if rd.err != nil {
+		return 0, rd.err
+	}
+	return cells, seg.finish()
+}
+
+// finish builds the report from the tables.
+func (res *ScanResult) finish() error {
+	sc := res.sc
+	rep := &Report{Rules: []string{}, ByFuel: map[string]Totals{}, Warnings: []Warning{}, Tables: []TableInfo{}, Layout: LayoutInline}
+	seenRule := map[string]bool{}
+	for _, t := range sc.tables {
+		spec := t.spec
+		info := TableInfo{Sheet: spec.sheet, HeaderRow: spec.headerRow, Kind: spec.kind, Rules: []string{},
+			Range: rangeRef{spec.firstCol, spec.headerRow, max(spec.lastCol, spec.firstCol), max(t.lastRow, spec.headerRow)}.String(),
+			Rows:  t.dataRows, Computed: t.computed, Layout: res.layoutFor(t)}
+		t.layout = info.Layout
+		for _, c := range spec.cols {
+			info.Columns = append(info.Columns, ColumnInfo{Cell: cellRef(c.col, spec.headerRow), Header: c.hdr.text, Ident: c.ident,
+				HeaderUnit: c.hdr.unitTxt, Role: c.role.String()})
+		}
+		for _, r := range t.rules {
+			info.Rules = append(info.Rules, r.src)
+			if !seenRule[r.src] {
+				seenRule[r.src] = true
+				rep.Rules = append(rep.Rules, r.src)
+			}
+		}
+		for _, k := range t.fuelOrd {
+			s := t.byFuel[k]
+			tot := rep.ByFuel[k]
+			tot.TCO2 += s.TCO2
+			tot.TCO2e += s.TCO2e
+			rep.ByFuel[k] = tot
+			rep.Totals.TCO2 += s.TCO2
+			rep.Totals.TCO2e += s.TCO2e
+		}
+		if info.Layout == LayoutSideSheet {
+			rep.Layout = LayoutSideSheet
+		}
+		rep.Rows += t.dataRows
+		rep.Computed += t.computed
+		rep.Tables = append(rep.Tables, info)
+	}
+	rep.Totals.TCO2, rep.Totals.TCO2e = cleanZero(rep.Totals.TCO2), cleanZero(rep.Totals.TCO2e)
+	for _, p := range res.e.Packs() {
+		rep.Packs = append(rep.Packs, PackVersion{Name: p.Name, Title: p.Title, Basis: p.Basis, Version: p.Version, Rows: p.Rows})
+	}
+	rep.Warnings = sc.warn.finish(sc.sheetOrd)
+	if rep.Warnings == nil {
+		rep.Warnings = []Warning{}
+	}
+	res.Report = rep
+	if len(sc.tables) == 0 {
+		return res.noTableError()
+	}
+	return nil
+}
+
+func cleanZero(x float64) float64 {
+	if x == 0 || math.IsNaN(x) {
+		return 0
+	}
+	return x
+}
+
+// layoutFor decides where a table's computed columns go: beside it when its
+// sheet is small enough to rewrite, else in a side sheet.
+func (res *ScanResult) layoutFor(t *table) string {
+	if res.csv != nil {
+		return LayoutInline
+	}
+	lim := res.sc.lim
+	if lim.inlineCells < 0 || res.sheetCells[t.spec.sheet] > lim.inlineCells {
+		return LayoutSideSheet
+	}
+	return LayoutInline
+}
+
+func (res *ScanResult) noTableError() error {
+	sc := res.sc
+	if len(sc.userRules) > 0 {
+		var vars []string
+		seen := map[string]bool{}
+		for _, r := range sc.userRules {
+			for _, v := range r.vars {
+				if !seen[v] {
+					seen[v] = true
+					vars = append(vars, v)
+				}
+			}
+		}
+		msg := "no table has a header with every variable the rules use (" + strings.Join(vars, ", ") + ")"
+		if len(sc.missed) > 0 {
+			msg += "; the header at " + sc.missedAt + " gives " + strings.Join(sc.missed, ", ")
+		}
+		return newErr(ErrNoTable, res.Path, "%s", msg)
+	}
+	return newErr(ErrNoTable, res.Path, "no table found: fluecell looks for a header row (title rows above it are fine) naming a fuel and a quantity "+
+		"(Fuel | Quantity | Unit), one column per fuel with its unit (Month | Diesel (L) | Natural gas (m3)), or a build plan "+
+		"(Technology | Capacity (MW)); for other columns pass a rule such as --rule 'tCO2e = fuel_co2e(\"diesel\", litres, \"L\")'")
+}

@@ -1,0 +1,164 @@
+package importer
+
+import (
+	"context"
+	"strings"
+
+	"github.com/fluecell/fluecell/funcs"
+	"github.com/fluecell/fluecell/funcs/units"
+)
+
+// scanCtx is the state of one Scan: the engine, the options, the caches of
+// resolved fuels, units and technologies, and the warnings. It belongs to
+// one goroutine.
+type scanCtx struct {
+	ctx       context.Context
+	e         *funcs.Engine
+	opt       Options
+	lim       limits
+	path      string
+	csv       bool
+	packName  string
+	packBasis units.Basis
+	userRules []*userRule
+	warn      *warnSink
+	calc      formulaCalc // evaluates formulas without a cached value; may be nil
+	tables    []*table
+	sheetOrd  map[string]int
+	missed    []string // identifiers of a header that lacked a rule's variables
+	missedAt  string
+	provenance
+
+	fuels map[string]fuelRes
+	units map[string]unitRes
+	techs map[string]techRes
+	hdrs  map[string]headerInfo
+}
+
+// formulaCalc evaluates the formula in a cell; ok is false when it cannot.
+type formulaCalc interface {
+	calc(sheet, cell string) (string, bool)
+}
+
+type fuelRes struct {
+	id    string
+	alias bool
+	err   error
+}
+
+type unitRes struct {
+	u   units.Unit
+	err *units.Error
+}
+
+type techRes struct {
+	id  string
+	err error
+}
+
+const maxCache = 20_000
+
+func newScanCtx(ctx context.Context, e *funcs.Engine, path string, opt Options) *scanCtx {
+	sc := &scanCtx{ctx: ctx, e: e, opt: opt, lim: opt.limits(), path: path,
+		fuels: map[string]fuelRes{}, units: map[string]unitRes{}, techs: map[string]techRes{}, hdrs: map[string]headerInfo{}, sheetOrd: map[string]int{}}
+	sc.packName = e.DefaultPackName()
+	for _, p := range e.Packs() {
+		if p.Name == sc.packName {
+			switch p.Basis {
+			case "NCV":
+				sc.packBasis = units.NCV
+			case "HHV":
+				sc.packBasis = units.HHV
+			}
+		}
+	}
+	sc.warn = newWarnSink(sc.lim.maxWarn)
+	return sc
+}
+
+// fuel resolves a fuel name through the engine, cached.
+func (sc *scanCtx) fuel(s string) fuelRes {
+	if r, ok := sc.fuels[s]; ok {
+		return r
+	}
+	var r fuelRes
+	if strings.TrimSpace(s) == "" {
+		r.err = &funcs.Error{Code: funcs.CodeBadArgument, Param: "fuel", Msg: "no fuel given"}
+	} else {
+		f, alias, err := sc.e.ResolveFuel(s)
+		r = fuelRes{id: f.ID, alias: alias, err: err}
+	}
+	if len(sc.fuels) < maxCache {
+		sc.fuels[s] = r
+	}
+	return r
+}
+
+// unit parses a unit string (any dimension), cached.
+func (sc *scanCtx) unit(s string) unitRes {
+	if r, ok := sc.units[s]; ok {
+		return r
+	}
+	var r unitRes
+	u, err := units.Parse(s)
+	if err != nil {
+		ue, ok := err.(*units.Error)
+		if !ok {
+			ue = &units.Error{Input: s, Code: units.CodeUnknown, Msg: err.Error()}
+		}
+		r.err = ue
+	} else {
+		r.u = u
+	}
+	if len(sc.units) < maxCache {
+		sc.units[s] = r
+	}
+	return r
+}
+
+// tech resolves a technology name through lifecycle_intensity, cached.
+func (sc *scanCtx) tech(s string) techRes {
+	if r, ok := sc.techs[s]; ok {
+		return r
+	}
+	var r techRes
+	res, err := sc.e.CallValues("lifecycle_intensity", s)
+	if err != nil {
+		r.err = err
+	} else if len(res.Sources) > 0 {
+		r.id = res.Sources[0].ID
+	} else {
+		r.id = s
+	}
+	if len(sc.techs) < maxCache {
+		sc.techs[s] = r
+	}
+	return r
+}
+
+// isFunction reports whether name is a catalog function (not usable as a
+// variable).
+func (sc *scanCtx) isFunction(name string) bool {
+	_, ok := sc.e.Function(name)
+	return ok
+}
+
+// cancelled returns the context's error as an *Error.
+func (sc *scanCtx) cancelled() error {
+	if err := sc.ctx.Err(); err != nil {
+		return &Error{Code: ErrIO, Path: sc.path, Msg: "stopped: " + err.Error(), Err: err}
+	}
+	return nil
+}
+
+// header is parseHeader, cached.
+func (sc *scanCtx) header(s string) headerInfo {
+	if h, ok := sc.hdrs[s]; ok {
+		return h
+	}
+	h := parseHeader(s)
+	if len(sc.hdrs) < maxCache {
+		sc.hdrs[s] = h
+	}
+	return h
+}

@@ -1,0 +1,325 @@
+package importer
+
+// cellVal is a stored cell of a table row, for the columns rules and checks
+// read.
+type cellVal struct {
+	kind    cellKind
+	formula bool
+	noCache bool
+	merged  bool // filled from the top-left cell of a merged range
+	num     float64
+	text    string
+}
+
+// table is a detected table with its stored rows and, after evaluate, its
+// results.
+type table struct {
+	spec      *tableSpec
+	slots     []*column // stored columns
+	slotOf    map[int]int
+	rowNums   []int32
+	vals      []cellVal // len(rowNums) x len(slots)
+	totalRows []int
+	lastRow   int
+	maxUsed   int // rightmost used column in the table's rows
+	intern    map[string]string
+	rules     []*rule
+	merges    []rangeRef
+
+	// Results (see evaluate).
+	res       [][]float64 // per rule, per row; NaN when not computed
+	src       []int32     // per row: index into srcText, -1 for none
+	srcText   []string
+	dataRows  int
+	computed  int
+	byFuel    map[string]*sum
+	byGroup   map[string]*sum
+	groupOrd  []string
+	fuelOrd   []string
+	layout    string
+	outSheet  string
+	outCol    int
+	unitsSeen map[string]*unitSeen
+	unitOrder []string
+}
+
+// sum accumulates totals.
+type sum struct {
+	Totals
+	rows int
+}
+
+// newTable sets up a table for a detected spec: it compiles the rules and
+// decides which columns are stored.
+func (sc *scanCtx) newTable(spec *tableSpec, merges []rangeRef) (*table, error) {
+	t := &table{spec: spec, slotOf: map[int]int{}, intern: map[string]string{}, lastRow: spec.dataStart - 1, maxUsed: spec.lastCol}
+	for _, m := range merges {
+		if m.r2 >= spec.dataStart {
+			t.merges = append(t.merges, m)
+		}
+	}
+	for _, c := range spec.cols {
+		if c.role != roleNone {
+			t.slot(c)
+		}
+	}
+	if err := sc.compileRules(t); err != nil {
+		return nil, err
+	}
+	return t, nil
+}
+
+func (t *table) slot(c *column) int {
+	if i, ok := t.slotOf[c.col]; ok {
+		return i
+	}
+	t.slots = append(t.slots, c)
+	t.slotOf[c.col] = len(t.slots) - 1
+	return len(t.slots) - 1
+}
+
+// bind finds the column or header unit behind a rule variable.
+func (t *table) bind(name string) *binding {
+	for _, c := range t.spec.cols {
+		if c.ident == name {
+			return &binding{name: name, col: c, slot: t.slot(c)}
+		}
+	}
+	for _, c := range t.spec.cols {
+		if c.unitIdent == name {
+			return &binding{name: name, unitOf: c, constant: c.hdr.unitTxt, slot: -1}
+		}
+	}
+	return &binding{name: name, slot: -1} // not reached: rules compile against the table's identifiers
+}
+
+// blankIn reports whether r has no value in the table's columns.
+func (t *table) blankIn(r *row) bool {
+	for i := range r.cells {
+		c := &r.cells[i]
+		if c.col >= t.spec.firstCol && c.col <= t.spec.lastCol && !c.isBlank() {
+			return false
+		}
+	}
+	return true
+}
+
+// add stores a data row.
+func (t *table) add(r *row) {
+	for i := len(r.cells) - 1; i >= 0; i-- {
+		if !r.cells[i].isBlank() {
+			t.maxUsed = max(t.maxUsed, r.cells[i].col)
+			break
+		}
+	}
+	t.lastRow = r.num
+	if t.blankIn(r) {
+		return
+	}
+	if totalRow(r) {
+		t.totalRows = append(t.totalRows, r.num)
+		return
+	}
+	t.rowNums = append(t.rowNums, int32(r.num))
+	base := len(t.vals)
+	for range t.slots {
+		t.vals = append(t.vals, cellVal{})
+	}
+	for i := range r.cells {
+		c := &r.cells[i]
+		s, ok := t.slotOf[c.col]
+		if !ok {
+			continue
+		}
+		v := &t.vals[base+s]
+		v.kind, v.formula, v.noCache, v.num = c.kind, c.formula, c.noCache, c.num
+		if c.kind != kNumber {
+			v.text = t.internStr(c.text)
+		}
+	}
+}
+
+func (t *table) internStr(s string) string {
+	if s == "" {
+		return ""
+	}
+	if v, ok := t.intern[s]; ok {
+		return v
+	}
+	if len(t.intern) < 50_000 {
+		t.intern[s] = s
+	}
+	return s
+}
+
+func (t *table) val(i, slot int) *cellVal { return &t.vals[i*len(t.slots)+slot] }
+
+// fillMerged copies the top-left value of merged ranges into the covered
+// rows of the stored columns (a site or fuel merged down over its rows).
+func (t *table) fillMerged() {
+	if len(t.merges) == 0 || len(t.rowNums) == 0 {
+		return
+	}
+	index := func(rowNum int) int {
+		lo, hi := 0, len(t.rowNums)
+		for lo < hi {
+			m := (lo + hi) / 2
+			if int(t.rowNums[m]) < rowNum {
+				lo = m + 1
+			} else {
+				hi = m
+			}
+		}
+		if lo < len(t.rowNums) && int(t.rowNums[lo]) == rowNum {
+			return lo
+		}
+		return -1
+	}
+	for _, m := range t.merges {
+		if m.r1 == m.r2 {
+			continue
+		}
+		s, ok := t.slotOf[m.c1]
+		if !ok {
+			continue
+		}
+		top := index(m.r1)
+		if top < 0 {
+			continue
+		}
+		src := *t.val(top, s)
+		for r := m.r1 + 1; r <= m.r2; r++ {
+			if i := index(r); i >= 0 {
+				if v := t.val(i, s); v.kind == kEmpty && !v.formula {
+					*v = src
+					v.merged = true
+				}
+			}
+		}
+	}
+}
+
+// segmenter splits the rows of one sheet into tables as they stream by.
+type segmenter struct {
+	sc     *scanCtx
+	det    *detector
+	sheet  string
+	merges []rangeRef
+	head   []row
+	cur    *table
+}
+
+// headKeep is how many rows are buffered while looking for a header:
+// candidates in the first headLook rows, each with sampleRows rows under it.
+const (
+	headLook = 40
+	headKeep = headLook + sampleRows
+)
+
+func copyRow(r row) row {
+	return row{num: r.num, cells: append([]cell(nil), r.cells...)}
+}
+
+// feed takes the next row of the sheet (rows arrive in order; rows with
+// no cells are absent).
+func (s *segmenter) feed(r row) error {
+	if s.cur != nil {
+		t := s.cur
+		switch {
+		case r.num-t.lastRow > 3:
+			if err := s.closeTable(); err != nil {
+				return err
+			}
+		case !t.dataLike(&r) && !t.blankIn(&r) && headerLike(&r) && s.sc.keywordHits(&r) >= 2:
+			if err := s.closeTable(); err != nil {
+				return err
+			}
+		default:
+			t.add(&r)
+			return nil
+		}
+	}
+	s.head = append(s.head, copyRow(r))
+	if len(s.head) >= headKeep {
+		return s.tryDetect(false)
+	}
+	return nil
+}
+
+// dataLike reports whether r has a number in a column where the table has
+// numbers (a data row, however text-heavy).
+func (t *table) dataLike(r *row) bool {
+	for _, c := range t.spec.cols {
+		if c.numeric && r.at(c.col).kind == kNumber {
+			return true
+		}
+	}
+	return false
+}
+
+// tryDetect looks for a header in the buffered rows. Without final, only
+// candidates in the first headLook rows are tried and the buffer slides on
+// when none fits.
+func (s *segmenter) tryDetect(final bool) error {
+	for len(s.head) > 0 {
+		look := s.head
+		if !final && len(look) > headLook {
+			look = look[:headLook]
+		}
+		spec, h := s.det.pick(s.head, len(look), final)
+		if spec == nil {
+			if final {
+				s.head = nil
+				return nil
+			}
+			s.head = append(s.head[:0], s.head[len(look):]...)
+			return nil
+		}
+		t, err := s.sc.newTable(spec, s.merges)
+		if err != nil {
+			return err
+		}
+		rest := s.head[h+1:]
+		s.head = nil
+		s.cur = t
+		for _, r := range rest {
+			if r.num < spec.dataStart {
+				continue
+			}
+			if err := s.feed(r); err != nil {
+				return err
+			}
+		}
+		if s.cur != nil || !final {
+			return nil
+		}
+	}
+	return nil
+}
+
+// closeTable finishes the current table.
+func (s *segmenter) closeTable() error {
+	t := s.cur
+	s.cur = nil
+	t.fillMerged()
+	s.sc.tables = append(s.sc.tables, t)
+	return s.sc.evaluate(t)
+}
+
+// finish ends the sheet.
+func (s *segmenter) finish() error {
+	if s.cur != nil {
+		if err := s.closeTable(); err != nil {
+			return err
+		}
+	}
+	if len(s.head) > 0 {
+		if err := s.tryDetect(true); err != nil {
+			return err
+		}
+		if s.cur != nil {
+			return s.closeTable()
+		}
+	}
+	return nil
+}

@@ -1,0 +1,317 @@
+package importer
+
+import (
+	"path/filepath"
+	"sort"
+	"strconv"
+	"strings"
+
+	"github.com/fluecell/fluecell/funcs"
+	"github.com/xuri/excelize/v2"
+)
+
+// Cautions written to the Carbon sources sheet (and the summary).
+const (
+	CautionTier1     = "Default factors are Tier 1 estimates (IPCC 2006 defaults, US EPA Hub averages), not measurements of these fuels or plants."
+	CautionRegulated = "Regulated reporting follows the jurisdiction's rules and accredited verification: check the figures and factors before relying on them."
+)
+
+// quoteSheet writes a sheet name for a formula reference.
+func quoteSheet(s string) string { return "'" + strings.ReplaceAll(s, "'", "''") + "'" }
+
+type sumRow struct {
+	key string
+	sum
+}
+
+// sortedSums orders totals by tCO2e (then tCO2), largest first.
+func sortedSums(m map[string]*sum) []sumRow {
+	out := make([]sumRow, 0, len(m))
+	for k, s := range m {
+		out = append(out, sumRow{k, *s})
+	}
+	sort.Slice(out, func(i, j int) bool {
+		if out[i].TCO2e != out[j].TCO2e {
+			return out[i].TCO2e > out[j].TCO2e
+		}
+		if out[i].TCO2 != out[j].TCO2 {
+			return out[i].TCO2 > out[j].TCO2
+		}
+		return out[i].key < out[j].key
+	})
+	return out
+}
+
+// writeSummary writes totals by fuel and by each table's grouping column,
+// with a column chart of the totals by fuel.
+func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
+	name := SheetSummary
+	if _, err := f.NewSheet(name); err != nil {
+		return excelErr(res.Path, "sheet "+name, err)
+	}
+	var werr error
+	set := func(ref string, v any, style int) {
+		if werr != nil {
+			return
+		}
+		if s, ok := v.(string); ok {
+			werr = f.SetCellStr(name, ref, s)
+		} else {
+			werr = f.SetCellValue(name, ref, v)
+		}
+		if werr == nil && style != 0 {
+			werr = f.SetCellStyle(name, ref, ref, style)
+		}
+	}
+	rep := res.Report
+	set("A1", "Carbon summary", st.title)
+	set("A2", "Workbook: "+filepath.Base(res.Path)+"; rules: "+strings.Join(rep.Rules, "; "), st.note)
+	set("A3", CautionTier1+" "+CautionRegulated, st.note)
+	row := 5
+	header := func(first string) {
+		for i, h := range []string{first, "tCO2", "tCO2e", "rows"} {
+			set(cellRef(1+i, row), h, st.head)
+		}
+		row++
+	}
+	header("")
+	set(cellRef(1, row), "Total", 0)
+	set(cellRef(2, row), rep.Totals.TCO2, st.num)
+	set(cellRef(3, row), rep.Totals.TCO2e, st.num)
+	set(cellRef(4, row), rep.Computed, st.int)
+	row += 2
+
+	fuels := map[string]*sum{}
+	for _, t := range res.sc.tables {
+		for k, s := range t.byFuel {
+			a := fuels[k]
+			if a == nil {
+				a = &sum{}
+				fuels[k] = a
+			}
+			a.TCO2 += s.TCO2
+			a.TCO2e += s.TCO2e
+			a.rows += s.rows
+		}
+	}
+	set(cellRef(1, row), "By fuel (technology for build plans)", st.head)
+	row++
+	header("fuel")
+	fuelFirst := row
+	for _, s := range sortedSums(fuels) {
+		set(cellRef(1, row), s.key, 0)
+		set(cellRef(2, row), s.TCO2, st.num)
+		set(cellRef(3, row), s.TCO2e, st.num)
+		set(cellRef(4, row), s.rows, st.int)
+		row++
+	}
+	fuelLast := row - 1
+	row++
+	type groupBlock struct{ first, last int }
+	var groups []groupBlock
+	for _, t := range res.sc.tables {
+		if t.spec.group == nil || len(t.byGroup) == 0 {
+			continue
+		}
+		set(cellRef(1, row), "By "+t.spec.group.hdr.text+" ("+t.spec.sheet+"!"+cellRef(t.spec.firstCol, t.spec.headerRow)+")", st.head)
+		row++
+		header(strings.ToLower(t.spec.group.hdr.text))
+		g := groupBlock{first: row}
+		for _, s := range sortedSums(t.byGroup) {
+			set(cellRef(1, row), s.key, 0)
+			set(cellRef(2, row), s.TCO2, st.num)
+			set(cellRef(3, row), s.TCO2e, st.num)
+			set(cellRef(4, row), s.rows, st.int)
+			row++
+		}
+		g.last = row - 1
+		groups = append(groups, g)
+		row++
+	}
+	if werr != nil {
+		return excelErr(res.Path, "sheet "+name, werr)
+	}
+	_ = f.SetColWidth(name, "A", "A", 34)
+	_ = f.SetColWidth(name, "B", "D", 14)
+	q := quoteSheet(name)
+	chart := func(cell, title string, first, last int) error {
+		if last < first {
+			return nil
+		}
+		cats := q + "!$A$" + strconv.Itoa(first) + ":$A$" + strconv.Itoa(last)
+		return f.AddChart(name, cell, &excelize.Chart{
+			Type: excelize.Col,
+			Series: []excelize.ChartSeries{
+				{Name: q + "!$B$" + strconv.Itoa(first-1), Categories: cats, Values: q + "!$B$" + strconv.Itoa(first) + ":$B$" + strconv.Itoa(last)},
+				{Name: q + "!$C$" + strconv.Itoa(first-1), Categories: cats, Values: q + "!$C$" + strconv.Itoa(first) + ":$C$" + strconv.Itoa(last)},
+			},
+			Title:     excelize.ChartTitle{Paragraph: []excelize.RichTextRun{{Text: title}}},
+			Legend:    excelize.ChartLegend{Position: "bottom"},
+			Dimension: excelize.ChartDimension{Width: 560, Height: 300},
+			YAxis:     excelize.ChartAxis{Title: excelize.ChartTitle{Paragraph: []excelize.RichTextRun{{Text: "t"}}}},
+		})
+	}
+	if err := chart("F5", "Emissions by fuel (t)", fuelFirst, fuelLast); err != nil {
+		return excelErr(res.Path, "the summary chart", err)
+	}
+	for i, g := range groups {
+		if i >= 3 {
+			break
+		}
+		if err := chart("F"+strconv.Itoa(22+18*i), "Emissions by group (t)", g.first, g.last); err != nil {
+			return excelErr(res.Path, "the summary chart", err)
+		}
+	}
+	return nil
+}
+
+// writeWarnings streams the warnings, one per row.
+func (res *ScanResult) writeWarnings(f *excelize.File, st *styles) error {
+	name := SheetWarnings
+	if _, err := f.NewSheet(name); err != nil {
+		return excelErr(res.Path, "sheet "+name, err)
+	}
+	sw, err := f.NewStreamWriter(name)
+	if err != nil {
+		return excelErr(res.Path, "sheet "+name, err)
+	}
+	_ = sw.SetColWidth(1, 1, 20)
+	_ = sw.SetColWidth(2, 2, 8)
+	_ = sw.SetColWidth(3, 3, 9)
+	_ = sw.SetColWidth(4, 4, 18)
+	_ = sw.SetColWidth(5, 5, 110)
+	_ = sw.SetPanes(&excelize.Panes{Freeze: true, YSplit: 1, TopLeftCell: "A2", ActivePane: "bottomLeft"})
+	head := []any{}
+	for _, h := range []string{"sheet", "cell", "severity", "code", "message"} {
+		head = append(head, excelize.Cell{StyleID: st.head, Value: h})
+	}
+	if err := sw.SetRow("A1", head); err != nil {
+		return excelErr(res.Path, "sheet "+name, err)
+	}
+	vals := make([]any, 5)
+	for i, w := range res.Report.Warnings {
+		vals[0], vals[1], vals[2], vals[3], vals[4] = w.Sheet, w.Cell, w.Severity, w.Code, w.Message
+		if err := sw.SetRow("A"+strconv.Itoa(i+2), vals); err != nil {
+			return excelErr(res.Path, "sheet "+name, err)
+		}
+	}
+	if len(res.Report.Warnings) == 0 {
+		if err := sw.SetRow("A2", []any{"", "", "", "", "no warnings: every unit and value was read as written"}); err != nil {
+			return excelErr(res.Path, "sheet "+name, err)
+		}
+	}
+	if err := sw.Flush(); err != nil {
+		return excelErr(res.Path, "sheet "+name, err)
+	}
+	return nil
+}
+
+// writeSources streams the provenance: cautions, rules, packs with their
+// versions, every factor used with its citation, and the notes.
+func (res *ScanResult) writeSources(f *excelize.File, st *styles) error {
+	name := SheetSources
+	if _, err := f.NewSheet(name); err != nil {
+		return excelErr(res.Path, "sheet "+name, err)
+	}
+	sw, err := f.NewStreamWriter(name)
+	if err != nil {
+		return excelErr(res.Path, "sheet "+name, err)
+	}
+	_ = sw.SetColWidth(1, 1, 42)
+	_ = sw.SetColWidth(2, 3, 16)
+	_ = sw.SetColWidth(4, 7, 11)
+	_ = sw.SetColWidth(8, 8, 70)
+	row := 1
+	var werr error
+	put := func(style int, vals ...any) {
+		if werr != nil {
+			return
+		}
+		if style != 0 {
+			for i, v := range vals {
+				vals[i] = excelize.Cell{StyleID: style, Value: v}
+			}
+		}
+		werr = sw.SetRow("A"+strconv.Itoa(row), vals)
+		row++
+	}
+	put(st.title, "Carbon sources")
+	put(0, CautionTier1)
+	put(0, CautionRegulated)
+	row++
+	put(st.head, "rule", "table", "rows computed", "of rows")
+	for i, t := range res.sc.tables {
+		info := res.Report.Tables[i]
+		for _, r := range t.rules {
+			put(0, r.src, info.Sheet+"!"+info.Range, t.computed, t.dataRows)
+		}
+		if len(t.rules) == 0 {
+			put(0, "(no rule: see Carbon warnings)", info.Sheet+"!"+info.Range, 0, t.dataRows)
+		}
+	}
+	row++
+	put(st.head, "factor pack", "version", "basis", "rows", "", "", "", "title")
+	for _, p := range res.Report.Packs {
+		put(0, p.Name, p.Version, p.Basis, p.Rows, "", "", "", p.Title)
+	}
+	put(0, "engine version "+res.e.Version()+"; default pack "+res.e.DefaultPackName()+"; GWP set "+funcs.DefaultGWPSet+" unless a rule names another")
+	row++
+	put(st.head, "factor", "value", "unit", "low", "high", "basis", "rows using it", "source")
+	used := append([]*funcs.Factor(nil), res.sc.usedOrd...)
+	sort.SliceStable(used, func(i, j int) bool { return used[i].Key() < used[j].Key() })
+	for _, fa := range used {
+		u := res.sc.used[fa]
+		src := fa.Source
+		if fa.FromMemory && !strings.Contains(strings.ToLower(src), "memory") {
+			src += " (value from memory: check it against the publication)"
+		}
+		put(0, fa.Key(), fa.Value, fa.Unit, optFloat(fa.Low), optFloat(fa.High), fa.BasisName, u.rows, src)
+	}
+	if len(used) == 0 {
+		put(0, "(no factor was used: no row was computed)")
+	}
+	row++
+	put(st.head, "note", "rows")
+	for _, n := range res.sc.noteOrd {
+		put(0, n, res.sc.notes[n])
+	}
+	for _, n := range res.readingNotes() {
+		put(0, n)
+	}
+	if werr != nil {
+		return excelErr(res.Path, "sheet "+name, werr)
+	}
+	if err := sw.Flush(); err != nil {
+		return excelErr(res.Path, "sheet "+name, err)
+	}
+	return nil
+}
+
+func optFloat(p *float64) any {
+	if p == nil {
+		return nil
+	}
+	return *p
+}
+
+// readingNotes says how the workbook was read where that is a convention.
+func (res *ScanResult) readingNotes() []string {
+	var out []string
+	wide, side := false, false
+	for _, t := range res.sc.tables {
+		wide = wide || t.spec.kind == kindWide
+		side = side || t.layout == LayoutSideSheet
+	}
+	if wide {
+		out = append(out, "blank cells and dashes in a per-fuel column count as zero use")
+	}
+	if side {
+		why := "on sheets with more than " + strconv.Itoa(res.sc.lim.inlineCells) + " cells"
+		if res.sc.lim.inlineCells < 0 {
+			why = "(side sheets were asked for)"
+		}
+		out = append(out, "tables "+why+" get their computed columns in a \""+SheetColumns+"\" sheet, row for row; their own sheet is left untouched")
+	}
+	out = append(out, "numbers stored as text are read where they are unambiguous (1,250.5) and flagged; a row with an unusable cell gets no number (see "+SheetWarnings+")")
+	return out
+}

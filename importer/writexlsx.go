@@ -1,0 +1,219 @@
+package importer
+
+import (
+	"math"
+	"strconv"
+
+	"github.com/xuri/excelize/v2"
+)
+
+// styles are the cell styles fluecell adds to a workbook.
+type styles struct {
+	num, int, head, title, note int
+}
+
+func newStyles(f *excelize.File) (*styles, error) {
+	numFmt := "#,##0.000"
+	st := &styles{}
+	var err error
+	if st.num, err = f.NewStyle(&excelize.Style{CustomNumFmt: &numFmt}); err != nil {
+		return nil, err
+	}
+	if st.int, err = f.NewStyle(&excelize.Style{NumFmt: 1}); err != nil {
+		return nil, err
+	}
+	if st.head, err = f.NewStyle(&excelize.Style{Font: &excelize.Font{Bold: true},
+		Fill:   excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{"E7EEF3"}},
+		Border: []excelize.Border{{Type: "bottom", Color: "7F8C8D", Style: 1}}}); err != nil {
+		return nil, err
+	}
+	if st.title, err = f.NewStyle(&excelize.Style{Font: &excelize.Font{Bold: true, Size: 14}}); err != nil {
+		return nil, err
+	}
+	if st.note, err = f.NewStyle(&excelize.Style{Font: &excelize.Font{Italic: true, Color: "555555"}}); err != nil {
+		return nil, err
+	}
+	return st, nil
+}
+
+// writeWorkbook adds the computed columns and fluecell's sheets to f, which
+// holds the original workbook.
+func (res *ScanResult) writeWorkbook(f *excelize.File) error {
+	st, err := newStyles(f)
+	if err != nil {
+		return excelErr(res.Path, "styles", err)
+	}
+	side := 0
+	for i, t := range res.sc.tables {
+		if len(t.rules) == 0 || len(t.rowNums) == 0 {
+			continue
+		}
+		if i%4 == 0 {
+			if err := res.sc.cancelled(); err != nil {
+				return err
+			}
+		}
+		if t.layout == LayoutInline {
+			err = res.writeInline(f, t, st)
+		} else {
+			side++
+			name := SheetColumns
+			if side > 1 {
+				name += " " + strconv.Itoa(side)
+			}
+			err = res.writeSide(f, t, name, st)
+		}
+		if err != nil {
+			return err
+		}
+		k := len(t.rules) + 1
+		first := t.outCol
+		last := first + k - 1
+		if t.layout == LayoutSideSheet {
+			last = first + k
+		}
+		res.Report.Tables[i].Output = t.outSheet + "!" + rangeRef{first, t.spec.headerRow, last, max(t.lastRow, t.spec.headerRow)}.String()
+	}
+	if err := res.writeSummary(f, st); err != nil {
+		return err
+	}
+	if err := res.writeWarnings(f, st); err != nil {
+		return err
+	}
+	return res.writeSources(f, st)
+}
+
+// placeInline chooses the first column of the computed columns: right of
+// the table, or right of whatever else its rows hold, clear of merged cells.
+func placeInline(f *excelize.File, t *table, k int) int {
+	col := t.spec.lastCol + 1
+	if t.maxUsed > t.spec.lastCol {
+		col = t.maxUsed + 2
+	}
+	merges, _ := f.GetMergeCells(t.spec.sheet)
+	top, bottom := t.spec.headerRow, max(t.lastRow, t.spec.headerRow)
+	for moved := true; moved; {
+		moved = false
+		for _, m := range merges {
+			r, ok := parseRange(m.GetStartAxis() + ":" + m.GetEndAxis())
+			if !ok || r.r2 < top || r.r1 > bottom || r.c2 < col || r.c1 > col+k-1 {
+				continue
+			}
+			col, moved = r.c2+2, true
+		}
+	}
+	return min(col, 16384-k+1)
+}
+
+// writeInline writes the computed columns beside the table, in its sheet.
+func (res *ScanResult) writeInline(f *excelize.File, t *table, st *styles) error {
+	sheet := t.spec.sheet
+	k := len(t.rules) + 1
+	col := placeInline(f, t, k)
+	t.outSheet, t.outCol = sheet, col
+	hr := t.spec.headerRow
+	head := st.head
+	if id, err := f.GetCellStyle(sheet, cellRef(t.spec.lastCol, hr)); err == nil && id != 0 {
+		head = id
+	}
+	for j, r := range t.rules {
+		if err := f.SetCellStr(sheet, cellRef(col+j, hr), r.column); err != nil {
+			return excelErr(res.Path, "sheet "+sheet, err)
+		}
+	}
+	if err := f.SetCellStr(sheet, cellRef(col+k-1, hr), "source"); err != nil {
+		return excelErr(res.Path, "sheet "+sheet, err)
+	}
+	if err := f.SetCellStyle(sheet, cellRef(col, hr), cellRef(col+k-1, hr), head); err != nil {
+		return excelErr(res.Path, "sheet "+sheet, err)
+	}
+	for i, rn := range t.rowNums {
+		if i&4095 == 0 {
+			if err := res.sc.cancelled(); err != nil {
+				return err
+			}
+		}
+		r := int(rn)
+		for j := range t.rules {
+			if v := t.res[j][i]; !math.IsNaN(v) {
+				if err := f.SetCellFloat(sheet, cellRef(col+j, r), v, -1, 64); err != nil {
+					return excelErr(res.Path, "sheet "+sheet, err)
+				}
+			}
+		}
+		if s := t.src[i]; s >= 0 {
+			if err := f.SetCellStr(sheet, cellRef(col+k-1, r), t.srcText[s]); err != nil {
+				return excelErr(res.Path, "sheet "+sheet, err)
+			}
+		}
+	}
+	first, last := int(t.rowNums[0]), int(t.rowNums[len(t.rowNums)-1])
+	if err := f.SetCellStyle(sheet, cellRef(col, first), cellRef(col+k-2, last), st.num); err != nil {
+		return excelErr(res.Path, "sheet "+sheet, err)
+	}
+	_ = f.SetColWidth(sheet, colName(col), colName(col+k-2), 12)
+	_ = f.SetColWidth(sheet, colName(col+k-1), colName(col+k-1), 48)
+	return nil
+}
+
+// writeSide streams the computed columns into a new sheet, row for row
+// aligned with the table (column A repeats the row number); the table's own
+// sheet is not touched.
+func (res *ScanResult) writeSide(f *excelize.File, t *table, name string, st *styles) error {
+	if _, err := f.NewSheet(name); err != nil {
+		return excelErr(res.Path, "sheet "+name, err)
+	}
+	sw, err := f.NewStreamWriter(name)
+	if err != nil {
+		return excelErr(res.Path, "sheet "+name, err)
+	}
+	k := len(t.rules) + 1
+	t.outSheet, t.outCol = name, 1
+	_ = sw.SetColWidth(1, 1, 8)
+	_ = sw.SetColWidth(2, k, 14)
+	_ = sw.SetColWidth(k+1, k+1, 60)
+	hr := t.spec.headerRow
+	_ = sw.SetPanes(&excelize.Panes{Freeze: true, YSplit: hr, TopLeftCell: cellRef(1, hr+1), ActivePane: "bottomLeft"})
+	if hr > 1 {
+		note := "Computed columns of the table at " + t.spec.sheet + "!" + rangeRef{t.spec.firstCol, hr, t.spec.lastCol, max(t.lastRow, hr)}.String() +
+			": each row here is the same row of that sheet (too large to rewrite in place, so the sheet is left untouched)"
+		if err := sw.SetRow("A1", []any{excelize.Cell{StyleID: st.note, Value: note}}); err != nil {
+			return excelErr(res.Path, "sheet "+name, err)
+		}
+	}
+	vals := make([]any, k+1)
+	vals[0] = excelize.Cell{StyleID: st.head, Value: "row"}
+	for j, r := range t.rules {
+		vals[1+j] = excelize.Cell{StyleID: st.head, Value: r.column}
+	}
+	vals[k] = excelize.Cell{StyleID: st.head, Value: "source"}
+	if err := sw.SetRow(cellRef(1, hr), vals); err != nil {
+		return excelErr(res.Path, "sheet "+name, err)
+	}
+	for i, rn := range t.rowNums {
+		if i&4095 == 0 {
+			if err := res.sc.cancelled(); err != nil {
+				return err
+			}
+		}
+		vals[0] = int(rn)
+		for j := range t.rules {
+			if v := t.res[j][i]; !math.IsNaN(v) {
+				vals[1+j] = excelize.Cell{StyleID: st.num, Value: v}
+			} else {
+				vals[1+j] = nil
+			}
+		}
+		vals[k] = nil
+		if s := t.src[i]; s >= 0 {
+			vals[k] = t.srcText[s]
+		}
+		if err := sw.SetRow(cellRef(1, int(rn)), vals); err != nil {
+			return excelErr(res.Path, "sheet "+name, err)
+		}
+	}
+	if err := sw.Flush(); err != nil {
+		return excelErr(res.Path, "sheet "+name, err)
+	}
+	return nil
+}
