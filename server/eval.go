@@ -248,7 +248,12 @@ func (s *Server) evalJSON(ctx context.Context, c *gin.Context) {
 			return
 		}
 		s.metrics.evalRows.WithLabelValues("ok").Inc()
-		s.writeJSON(c, res)
+		b, err := s.json.resultJSON(res)
+		if err != nil {
+			s.abort(c, internalError(err))
+			return
+		}
+		s.writeBody(c, http.StatusOK, ctJSON, b)
 		return
 	}
 	rows := *req.Rows
@@ -297,6 +302,7 @@ func (s *Server) runRows(ctx context.Context, p *funcs.Program, vars map[string]
 	seenSrc := map[*funcs.Factor]bool{}
 	var notes []string
 	seenNote := map[string]bool{}
+	unitJSON := map[string][]byte{} // the few units of a request, encoded once
 	okRows, badRows := 0, 0
 	for i, row := range rows {
 		if i%256 == 255 && ctx.Err() != nil {
@@ -342,9 +348,14 @@ func (s *Server) runRows(ctx context.Context, p *funcs.Program, vars map[string]
 		}
 		okRows++
 		b.WriteString(`{"value":`)
-		b.WriteString(funcs.FormatNumber(res.Value))
+		b.Write(appendJSONFloat(b.AvailableBuffer(), res.Value))
 		b.WriteString(`,"unit":`)
-		writeJSONString(&b, res.Unit)
+		u, ok := unitJSON[res.Unit]
+		if !ok {
+			u, _ = marshalJSON(res.Unit)
+			unitJSON[res.Unit] = u
+		}
+		b.Write(u)
 		b.WriteByte('}')
 		for _, f := range res.Sources {
 			if !seenSrc[f] {
@@ -368,11 +379,9 @@ func (s *Server) runRows(ctx context.Context, p *funcs.Program, vars map[string]
 		notes = []string{}
 	}
 	b.WriteString(`],"sources":`)
-	sb, err := marshalJSON(sources)
-	if err != nil {
+	if err := s.json.appendSources(&b, sources); err != nil {
 		return nil, internalError(err)
 	}
-	b.Write(sb)
 	b.WriteString(`,"notes":`)
 	nb, err := marshalJSON(notes)
 	if err != nil {
@@ -394,15 +403,6 @@ func writeRowError(b *bytes.Buffer, msg, code string) {
 func writeJSONString(b *bytes.Buffer, s string) {
 	out, _ := marshalJSON(s) // a string always marshals
 	b.Write(out)
-}
-
-func (s *Server) writeJSON(c *gin.Context, v any) {
-	b, err := marshalJSON(v)
-	if err != nil {
-		s.abort(c, internalError(err))
-		return
-	}
-	s.writeBody(c, http.StatusOK, ctJSON, b)
 }
 
 func (s *Server) writeBody(c *gin.Context, status int, contentType string, body []byte) {

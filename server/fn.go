@@ -62,7 +62,7 @@ func (s *Server) computeFn(name, raw string) *answer {
 	if err != nil {
 		return s.fnErrorAnswer(q, fromFuncs(err, true))
 	}
-	body, err := renderResult(q.format, res)
+	body, err := s.renderResult(q.format, res)
 	if err != nil {
 		return s.fnErrorAnswer(fnQuery{}, internalError(err))
 	}

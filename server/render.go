@@ -35,10 +35,10 @@ func (f format) contentType() string {
 }
 
 // renderResult writes a function's result in format f.
-func renderResult(f format, r funcs.Result) ([]byte, error) {
+func (s *Server) renderResult(f format, r funcs.Result) ([]byte, error) {
 	switch f {
 	case formatJSON:
-		return marshalJSON(r)
+		return s.json.resultJSON(r)
 	case formatCSV:
 		var b bytes.Buffer
 		w := csv.NewWriter(&b)

@@ -27,6 +27,7 @@ type Server struct {
 	static  staticPages      // answers that never change for this engine
 	token   []byte           // sha256 of Config.Token, nil when none
 	hdr     headerValues
+	json    factorJSON // JSON of factor rows, written once each
 }
 
 // headerValues are header values set on many answers, built once; never modified.
