@@ -128,7 +128,7 @@ type lazyCalc struct {
 	failed bool
 }
 
-// allowed limits evaluation to sheets whose part is at most about 100
+// allowed limits evaluation to sheets whose part is at most about 30
 // bytes per cell of Options.InlineMaxCells: excelize loads the whole sheet.
 func (l *lazyCalc) allowed(sheet string) bool {
 	if l.book == nil {
@@ -139,7 +139,7 @@ func (l *lazyCalc) allowed(sheet string) bool {
 		return false
 	}
 	zf := l.book.file(s.Part)
-	return zf != nil && int64(zf.UncompressedSize64) <= int64(max(l.lim.inlineCells, 0))*100
+	return zf != nil && int64(zf.UncompressedSize64) <= int64(max(l.lim.inlineCells, 0))*30
 }
 
 func (l *lazyCalc) calc(sheet, ref string) (out string, ok bool) {

@@ -225,7 +225,10 @@ func (sc *scanCtx) ruleError(t *table, i int, r *rule, err error) {
 	code, msg := CodeRuleError, err.Error()
 	var target *binding
 	if fe, ok := funcs.AsError(err); ok {
-		msg = fe.Headline()
+		msg = fe.Msg
+		if fe.Func != "" {
+			msg = fe.Func + ": " + msg
+		}
 		switch fe.Code {
 		case funcs.CodeUnit:
 			code = fe.UnitCode

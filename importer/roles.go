@@ -75,13 +75,14 @@ func (d *detector) assignRoles(t *tableSpec) {
 	if best != nil {
 		best.role, t.tech = roleTech, best
 	}
-	// Unit column.
+	// Unit column (a column headed "Unit" counts even when its sampled
+	// cells are empty).
 	best, bestScore = nil, 0
 	for _, c := range t.cols {
-		if taken(c) || !textual(c) {
+		ws := words(c.hdr.base)
+		if taken(c) || !textual(c) && !(c.st.nonEmpty == 0 && hasWord(ws, unitWords...)) {
 			continue
 		}
-		ws := words(c.hdr.base)
 		score := 2 * frac(c.st.unitLike, c.st.text)
 		if hasWord(ws, unitWords...) && !hasWord(ws, groupWords...) || hasPhrase(ws, "unit of measure", "unit of measurement") {
 			score += 3
@@ -110,34 +111,38 @@ func (d *detector) assignRoles(t *tableSpec) {
 			c.role, t.capacity = roleCapacity, c
 		}
 	}
-	// Quantity: a numeric column whose header names an amount or a unit.
+	// Quantity: a numeric column whose header names an amount or a unit;
+	// failing that, a column so headed whose cells are not numbers (they
+	// get warnings).
 	best, bestScore = nil, 0
-	for _, c := range t.cols {
-		if taken(c) || !c.numeric || moneyHeader(c.hdr.text) {
-			continue
-		}
-		ws := words(c.hdr.base)
-		if hasWord(ws, notQtyWords...) {
-			continue
-		}
-		if c.hdr.unitTxt != "" && sc.fuel(c.hdr.base).err == nil && !hasWord(ws, qtyWords...) && !fuelHeader(ws) {
-			continue // "Diesel (L)": a column per fuel
-		}
-		score := 0.0
-		if hasWord(ws, qtyWords...) {
-			score += 3
-		}
-		if c.hdr.unitTxt != "" && (isQuantityDim(c.hdr.unit) || c.hdr.unitErr != nil) {
-			score += 2
-		}
-		if fuelHeader(ws) && c.hdr.unitTxt != "" {
-			score += 1 // "Fuel (L)", "Fuel used, kWh"
-		}
-		if score == 0 {
-			continue
-		}
-		if score > bestScore {
-			best, bestScore = c, score
+	for pass := 0; pass < 2 && best == nil; pass++ {
+		for _, c := range t.cols {
+			if taken(c) || moneyHeader(c.hdr.text) || pass == 0 && !c.numeric || pass == 1 && (c.numeric || !hasWord(words(c.hdr.base), qtyWords...)) {
+				continue
+			}
+			ws := words(c.hdr.base)
+			if hasWord(ws, notQtyWords...) {
+				continue
+			}
+			if c.hdr.unitTxt != "" && sc.fuel(c.hdr.base).err == nil && !hasWord(ws, qtyWords...) && !fuelHeader(ws) {
+				continue // "Diesel (L)": a column per fuel
+			}
+			score := 0.0
+			if hasWord(ws, qtyWords...) {
+				score += 3
+			}
+			if c.hdr.unitTxt != "" && (isQuantityDim(c.hdr.unit) || c.hdr.unitErr != nil) {
+				score += 2
+			}
+			if fuelHeader(ws) && c.hdr.unitTxt != "" {
+				score += 1 // "Fuel (L)", "Fuel used, kWh"
+			}
+			if score == 0 {
+				continue
+			}
+			if score > bestScore {
+				best, bestScore = c, score
+			}
 		}
 	}
 	if best != nil && t.fuel != nil {
