@@ -155,7 +155,9 @@ func compareExcelize(t *testing.T, in, out string, side bool) {
 			for c := range row {
 				ref := cellRef(c+1, r+1)
 				for _, get := range []func(*excelize.File) (string, error){
-					func(f *excelize.File) (string, error) { return f.GetCellValue(s, ref, excelize.Options{RawCellValue: true}) },
+					func(f *excelize.File) (string, error) {
+						return f.GetCellValue(s, ref, excelize.Options{RawCellValue: true})
+					},
 					func(f *excelize.File) (string, error) { return f.GetCellFormula(s, ref) },
 					func(f *excelize.File) (string, error) {
 						ty, err := f.GetCellType(s, ref)
