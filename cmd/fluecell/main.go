@@ -36,9 +36,11 @@ func commands() []command {
 		{"serve", "serve the carbon functions over HTTP for sheets and notebooks", cmdServe},
 		{"eval", "evaluate one expression, e.g. fuel_co2(\"diesel\", 1000, \"L\")", cmdEval},
 		{"annotate", "add tCO2/tCO2e columns and unit warnings to a workbook (.xlsx, .xlsm, .csv)", cmdAnnotate},
+		{"batch", "annotate every workbook below a folder into a mirror folder, in parallel", cmdBatch},
 		{"functions", "list the carbon functions with parameters and examples", cmdFunctions},
 		{"factors", "list factor rows with their sources", cmdFactors},
 		{"units", "list the accepted units with their exact factors", cmdUnits},
+		{"demo", "write and annotate the workbooks of an invented dairy co-operative", cmdDemo},
 	}
 }
 

@@ -121,6 +121,7 @@ func Run(ctx context.Context, cfg Config) (*Summary, error) {
 			sum.Others++
 		}
 	}
+	removeStaleTemps(out, cfg.Shard)
 	st := stamps{dir: filepath.Join(out, stampDir)}
 	jobs := cfg.Jobs
 	if jobs <= 0 {
@@ -241,4 +242,37 @@ func listWorkbooks(in, out string) ([]string, int, error) {
 	})
 	sort.Strings(files)
 	return files, skipped, err
+}
+
+// removeStaleTemps deletes the temporary files a killed run left in the
+// output folder (".name.xlsx.123.tmp" beside name.xlsx), for this shard's
+// files only: other shards may be writing theirs into the same folder.
+func removeStaleTemps(out string, shard Shard) {
+	filepath.WalkDir(out, func(p string, d fs.DirEntry, err error) error {
+		if err != nil {
+			return nil
+		}
+		if d.IsDir() {
+			if d.Name() == stampDir {
+				return filepath.SkipDir
+			}
+			return nil
+		}
+		name := d.Name()
+		if !strings.HasPrefix(name, ".") || !strings.HasSuffix(name, ".tmp") {
+			return nil
+		}
+		base := strings.TrimSuffix(strings.TrimPrefix(name, "."), ".tmp")
+		if i := strings.LastIndexByte(base, '.'); i > 0 {
+			base = base[:i] // the random part of the temporary name
+		}
+		if !isWorkbook(base) {
+			return nil
+		}
+		rel, err := filepath.Rel(out, filepath.Join(filepath.Dir(p), base))
+		if err == nil && shard.Takes(filepath.ToSlash(rel)) {
+			os.Remove(p)
+		}
+		return nil
+	})
 }

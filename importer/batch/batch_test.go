@@ -232,3 +232,23 @@ func TestRunCancelled(t *testing.T) {
 		t.Errorf("%d files done after cancel", len(s.Files))
 	}
 }
+
+func TestStaleTempsRemoved(t *testing.T) {
+	in := tree(t, map[string]string{"north/a.xlsx": "a", "b.xlsx": "b"})
+	out := t.TempDir()
+	os.MkdirAll(filepath.Join(out, "north"), 0o755)
+	stale := filepath.Join(out, "north", ".a.xlsx.123456.tmp")
+	keep := filepath.Join(out, ".notes.txt.1.tmp")
+	os.WriteFile(stale, []byte("half a workbook"), 0o644)
+	os.WriteFile(keep, []byte("not ours"), 0o644)
+	var calls atomic.Int64
+	if _, err := Run(context.Background(), Config{InDir: in, OutDir: out, Annotate: copyAnnotate(&calls)}); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := os.Stat(stale); !os.IsNotExist(err) {
+		t.Error("stale temporary output left in place")
+	}
+	if _, err := os.Stat(keep); err != nil {
+		t.Error("removed a file that is not a temporary workbook")
+	}
+}

@@ -1,0 +1,104 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"os"
+	"strings"
+
+	"golang.org/x/term"
+
+	"github.com/fluecell/fluecell/importer"
+	"github.com/fluecell/fluecell/importer/batch"
+)
+
+func cmdBatch(ctx context.Context, s stdio, args []string) int {
+	fs := newFlags("batch", "batch IN_DIR OUT_DIR [--jobs N] [--shard I/N] [--summary FILE.csv] [--rule 'COLUMN = EXPR']... [--sheet S] [--pack P] [--factors FILE]...", s.err, true)
+	jobs := fs.Int("jobs", 0, "annotate `N` workbooks at a time (default: the number of CPUs)")
+	shardFlag := fs.String("shard", "", "take only shard `I/N` of the files (1 <= I <= N), chosen by relative path, for job arrays")
+	summary := fs.String("summary", "", "write one CSV row per workbook to `FILE.csv`: file, status, rows, tCO2, tCO2e, warnings, error, seconds")
+	var rules listFlag
+	fs.Var(&rules, "rule", "compute a column in every workbook: `'COLUMN = EXPR'`; repeatable (default: rules proposed per table)")
+	sheet := fs.String("sheet", "", "look for tables on sheet `S` only")
+	var ef engineFlags
+	ef.register(fs)
+	pos, code, ok := parseArgs(fs, args)
+	if !ok {
+		return code
+	}
+	if len(pos) != 2 {
+		fmt.Fprintln(s.err, "fluecell batch: give the input and the output folder, e.g. fluecell batch reviews/2026 reviews/2026-carbon")
+		return 2
+	}
+	if *jobs < 0 {
+		fmt.Fprintf(s.err, "fluecell batch: --jobs %d: give a positive number of workers (0 = the number of CPUs)\n", *jobs)
+		return 2
+	}
+	var shard batch.Shard
+	if *shardFlag != "" {
+		var err error
+		if shard, err = batch.ParseShard(*shardFlag); err != nil {
+			fmt.Fprintf(s.err, "fluecell batch: --%v\n", err)
+			return 2
+		}
+	}
+	e, err := ef.engine()
+	if err != nil {
+		return fail(s, "batch", err)
+	}
+	opt := importer.Options{Rules: rules, Sheet: *sheet, Pack: ef.pack, FactorFiles: append([]string{}, ef.factors...)}
+	cfg := batch.Config{
+		InDir: pos[0], OutDir: pos[1], Jobs: *jobs, Shard: shard,
+		Fingerprint: strings.Join(append([]string{"fluecell " + version, "packs " + e.Version(), "pack " + ef.pack, "sheet " + *sheet}, rules...), "\n"),
+		Annotate: func(ctx context.Context, in, out string) (batch.Outcome, error) {
+			rep, err := importer.Annotate(ctx, e, in, out, opt)
+			if err != nil {
+				return batch.Outcome{}, err
+			}
+			return batch.Outcome{Rows: rep.Rows, TCO2: rep.Totals.TCO2, TCO2e: rep.Totals.TCO2e,
+				Warnings: rep.Count(importer.SevError) + rep.Count(importer.SevWarning)}, nil
+		},
+	}
+	if f, isFile := s.err.(*os.File); isFile && term.IsTerminal(int(f.Fd())) {
+		cfg.Progress = s.err
+	}
+	sum, runErr := batch.Run(ctx, cfg)
+	if sum == nil {
+		return fail(s, "batch", runErr)
+	}
+	if *summary != "" {
+		if err := batch.WriteSummaryCSV(*summary, sum); err != nil {
+			fmt.Fprintf(s.err, "fluecell batch: --summary %s: %v\n", *summary, err)
+			return 1
+		}
+	}
+	var t2, t2e float64
+	for _, f := range sum.Files {
+		t2 += f.Outcome.TCO2
+		t2e += f.Outcome.TCO2e
+		if f.Status == batch.StatusFailed {
+			fmt.Fprintf(s.err, "fluecell batch: %s: %s\n", f.File, f.Error)
+		}
+	}
+	line := fmt.Sprintf("%d workbooks: %d written, %d up to date, %d failed", len(sum.Files), sum.Written, sum.UpToDate, sum.Failed)
+	if sum.Skipped > 0 {
+		line += fmt.Sprintf("; %d other files skipped", sum.Skipped)
+	}
+	if shard.Count > 1 {
+		line += fmt.Sprintf("; shard %s (%d workbooks left to other shards)", shard, sum.Others)
+	}
+	fmt.Fprintln(s.out, line)
+	fmt.Fprintf(s.out, "total: %s tCO2, %s tCO2e; outputs in %s\n", fmtTonnes(t2), fmtTonnes(t2e), pos[1])
+	if *summary != "" {
+		fmt.Fprintf(s.out, "summary: %s\n", *summary)
+	}
+	if runErr != nil {
+		return fail(s, "batch", runErr)
+	}
+	if sum.Failed > 0 {
+		return 1
+	}
+	return 0
+}
+
+func fmtTonnes(v float64) string { return fmt.Sprintf("%.3f", round3(v)) }
