@@ -1,0 +1,240 @@
+package main
+
+import (
+	"archive/zip"
+	"context"
+	"encoding/csv"
+	"fmt"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"syscall"
+	"testing"
+	"time"
+
+	"github.com/xuri/excelize/v2"
+
+	"github.com/fluecell/fluecell/importer/demo"
+)
+
+// TestMain lets a test run this binary as the fluecell command itself
+// (FLUECELL_TEST_MAIN=1), so that it can be killed like a real process.
+func TestMain(m *testing.M) {
+	if os.Getenv("FLUECELL_TEST_MAIN") == "1" {
+		os.Exit(run(context.Background(), os.Args[1:], stdio{in: os.Stdin, out: os.Stdout, err: os.Stderr}))
+	}
+	os.Exit(m.Run())
+}
+
+// fuelLog writes an invented fuel log of n rows.
+func fuelLog(t *testing.T, path string, n int) {
+	t.Helper()
+	f := excelize.NewFile()
+	sw, err := f.NewStreamWriter("Sheet1")
+	if err != nil {
+		t.Fatal(err)
+	}
+	sw.SetRow("A1", []any{"Site", "Fuel", "Quantity", "Unit"})
+	fuels := []string{"natural_gas", "diesel", "lpg"}
+	unitsOf := []string{"GJ", "L", "kg"}
+	for i := 0; i < n; i++ {
+		cell, _ := excelize.CoordinatesToCellName(1, i+2)
+		sw.SetRow(cell, []any{fmt.Sprintf("Depot %d", i%9), fuels[i%3], float64(100 + i%50), unitsOf[i%3]})
+	}
+	if err := sw.Flush(); err != nil {
+		t.Fatal(err)
+	}
+	if err := f.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+}
+
+func batchInputs(t *testing.T, copies, rows int) string {
+	t.Helper()
+	in := t.TempDir()
+	if _, err := demo.Write(filepath.Join(in, "kestrel")); err != nil {
+		t.Fatal(err)
+	}
+	for i := 0; i < copies; i++ {
+		dir := filepath.Join(in, fmt.Sprintf("region-%d", i%4))
+		os.MkdirAll(dir, 0o755)
+		fuelLog(t, filepath.Join(dir, fmt.Sprintf("log-%02d.xlsx", i)), rows)
+	}
+	os.WriteFile(filepath.Join(in, "README.txt"), []byte("not a workbook"), 0o644)
+	os.WriteFile(filepath.Join(in, "broken.xlsx"), []byte("PK\x03\x04 truncated"), 0o644)
+	return in
+}
+
+func TestBatchCommand(t *testing.T) {
+	in := batchInputs(t, 6, 50)
+	out := filepath.Join(t.TempDir(), "out")
+	sum := filepath.Join(t.TempDir(), "summary.csv")
+	code, stdout, stderr := runCLI(t, "batch", in, out, "--jobs", "2", "--summary", sum)
+	if code != 1 {
+		t.Fatalf("exit %d (want 1: one broken file)\n%s\n%s", code, stdout, stderr)
+	}
+	if !strings.Contains(stdout, "10 workbooks: 9 written, 0 up to date, 1 failed; 1 other files skipped") {
+		t.Errorf("stdout:\n%s", stdout)
+	}
+	if !strings.Contains(stderr, "broken.xlsx") {
+		t.Errorf("stderr does not name the broken file:\n%s", stderr)
+	}
+	f, err := os.Open(sum)
+	if err != nil {
+		t.Fatal(err)
+	}
+	recs, _ := csv.NewReader(f).ReadAll()
+	f.Close()
+	if len(recs) != 11 || strings.Join(recs[0], ",") != "file,status,rows,tCO2,tCO2e,warnings,error,seconds" {
+		t.Fatalf("summary: %v", recs)
+	}
+	for _, r := range recs[1:] {
+		if r[0] == "broken.xlsx" {
+			if r[1] != "failed" || r[6] == "" {
+				t.Errorf("broken row %v", r)
+			}
+			continue
+		}
+		if r[1] != "ok" {
+			t.Errorf("row %v", r)
+		}
+		if _, err := excelize.OpenFile(filepath.Join(out, filepath.FromSlash(r[0]))); err != nil {
+			t.Errorf("%s: %v", r[0], err)
+		}
+	}
+	// The second run finds everything up to date but the broken file.
+	code, stdout, _ = runCLI(t, "batch", in, out)
+	if code != 1 || !strings.Contains(stdout, "10 workbooks: 0 written, 9 up to date, 1 failed") {
+		t.Errorf("re-run: exit %d\n%s", code, stdout)
+	}
+	// Shards split the files between them.
+	total := 0
+	for i := 1; i <= 3; i++ {
+		o := filepath.Join(t.TempDir(), "o")
+		code, stdout, _ = runCLI(t, "batch", in, o, "--shard", fmt.Sprintf("%d/3", i))
+		var n, w, u, fl int
+		fmt.Sscanf(stdout, "%d workbooks: %d written, %d up to date, %d failed", &n, &w, &u, &fl)
+		total += n
+	}
+	if total != 10 {
+		t.Errorf("shards took %d workbooks in all, want 10", total)
+	}
+	if code, _, stderr := runCLI(t, "batch", in, out, "--shard", "0/3"); code != 2 || !strings.Contains(stderr, "numbered from 1") {
+		t.Errorf("--shard 0/3: %d %s", code, stderr)
+	}
+}
+
+// TestBatchKill kills a running batch with SIGKILL and checks that the
+// output folder holds only complete workbooks, then that a second run
+// completes the rest.
+func TestBatchKill(t *testing.T) {
+	if testing.Short() {
+		t.Skip("kill test in -short mode")
+	}
+	const copies = 16
+	in := batchInputs(t, copies, 2000)
+	out := filepath.Join(t.TempDir(), "out")
+	cmd := exec.Command(os.Args[0], "batch", in, out, "--jobs", "2")
+	cmd.Env = append(os.Environ(), "FLUECELL_TEST_MAIN=1")
+	if err := cmd.Start(); err != nil {
+		t.Fatal(err)
+	}
+	deadline := time.Now().Add(60 * time.Second)
+	for time.Now().Before(deadline) {
+		if n := len(listOutputs(t, out)); n >= 3 {
+			break
+		}
+		time.Sleep(20 * time.Millisecond)
+	}
+	if err := cmd.Process.Signal(syscall.SIGKILL); err != nil {
+		t.Fatal(err)
+	}
+	cmd.Wait()
+	done := listOutputs(t, out)
+	if len(done) == 0 || len(done) >= copies+3 {
+		t.Fatalf("%d outputs when killed: the kill did not land mid-run", len(done))
+	}
+	for _, p := range done {
+		if err := completeWorkbook(p); err != nil {
+			t.Errorf("%s after kill -9: %v", p, err)
+		}
+	}
+	code, stdout, stderr := runCLI(t, "batch", in, out, "--jobs", "2")
+	if code != 1 || !strings.Contains(stdout, fmt.Sprintf("%d workbooks:", copies+4)) || !strings.Contains(stdout, "1 failed") {
+		t.Fatalf("re-run: exit %d\n%s\n%s", code, stdout, stderr)
+	}
+	var n, w, u int
+	fmt.Sscanf(stdout, "%d workbooks: %d written, %d up to date", &n, &w, &u)
+	if u < len(done)-2 || w+u != copies+3 {
+		t.Errorf("re-run wrote %d and skipped %d; %d were complete before", w, u, len(done))
+	}
+	leftovers := 0
+	filepath.Walk(out, func(p string, fi os.FileInfo, err error) error {
+		if err == nil && strings.HasSuffix(p, ".tmp") {
+			leftovers++
+		}
+		return nil
+	})
+	if leftovers != 0 {
+		t.Errorf("%d temporary files left after the re-run", leftovers)
+	}
+	for _, p := range listOutputs(t, out) {
+		if err := completeWorkbook(p); err != nil {
+			t.Errorf("%s: %v", p, err)
+		}
+	}
+}
+
+// listOutputs lists the workbooks (not temporary files) below dir.
+func listOutputs(t *testing.T, dir string) []string {
+	var out []string
+	filepath.Walk(dir, func(p string, fi os.FileInfo, err error) error {
+		if err != nil || fi.IsDir() || strings.HasPrefix(fi.Name(), ".") {
+			return nil
+		}
+		if strings.HasSuffix(p, ".xlsx") || strings.HasSuffix(p, ".xlsm") {
+			out = append(out, p)
+		}
+		return nil
+	})
+	return out
+}
+
+// completeWorkbook checks that a file is a whole zip whose workbook opens
+// and carries the annotation's summary sheet.
+func completeWorkbook(p string) error {
+	z, err := zip.OpenReader(p)
+	if err != nil {
+		return err
+	}
+	z.Close()
+	f, err := excelize.OpenFile(p)
+	if err != nil {
+		return err
+	}
+	defer f.Close()
+	if idx, _ := f.GetSheetIndex("Carbon summary"); idx < 0 {
+		return fmt.Errorf("no Carbon summary sheet")
+	}
+	return nil
+}
+
+func TestDemoCommand(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "demo")
+	code, out, errs := runCLI(t, "demo", dir)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	for _, name := range demo.Names() {
+		ext := filepath.Ext(name)
+		if err := completeWorkbook(filepath.Join(dir, strings.TrimSuffix(name, ext)+".carbon"+ext)); err != nil {
+			t.Errorf("%s: %v", name, err)
+		}
+	}
+	for _, want := range []string{"fuel-unknown", "unit-dimension", "Tier 1 estimates", "accredited verification"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("demo output lacks %q:\n%s", want, out)
+		}
+	}
+}
