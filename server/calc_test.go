@@ -41,6 +41,7 @@ func TestCalcWebservice(t *testing.T) {
 			`#ERROR: fuel_co2: unit: ambiguous unit "ton": write t (tonne, 1000 kg), short_ton (2000 lb) or long_ton (2240 lb)`},
 		{"B8", "NUMBERVALUE with a . separator", `_xlfn.NUMBERVALUE(` + ws(gas) + `,".")`, "56.1"},
 		{"B9", "FILTERXML on format=xml", `VALUE(_xlfn.FILTERXML(` + ws(gas+"&format=xml") + `,"//value"))`, "56.1"},
+		{"B12", "FILTERXML of the unit", `_xlfn.FILTERXML(` + ws(gas+"&format=xml") + `,"//unit")`, "t CO2"},
 		{"B11", "CO2e of diesel by volume", "ROUND(VALUE(" + ws(fn("fuel_co2e", "fuel=diesel&amount=1000&unit=L")) + "),4)", "2.6613"},
 	}
 	failing := []struct{ cell, label, formula string }{
