@@ -96,7 +96,7 @@ func (s *Server) writeAnswer(c *gin.Context, label string, a *answer) {
 		h["Etag"] = a.etag
 		h["Cache-Control"] = s.hdr.fnCache
 		if s.token != nil {
-			h["Vary"] = s.hdr.vary
+			h.Add("Vary", "Authorization")
 		}
 		if inm := c.Request.Header.Get("If-None-Match"); inm != "" && etagMatch(inm, a.etag[0]) {
 			c.Writer.WriteHeader(http.StatusNotModified)

@@ -146,6 +146,8 @@ func (s *Server) cors(c *gin.Context) {
 	if len(s.cfg.CORSOrigins) == 0 {
 		return
 	}
+	h := c.Writer.Header()
+	h.Add("Vary", "Origin") // the answer depends on the origin, for caches
 	origin := c.GetHeader("Origin")
 	if origin == "" {
 		return
@@ -164,9 +166,7 @@ func (s *Server) cors(c *gin.Context) {
 	if allow == "" {
 		return // no CORS headers: the browser refuses the answer
 	}
-	h := c.Writer.Header()
 	h.Set("Access-Control-Allow-Origin", allow)
-	h.Add("Vary", "Origin")
 	h.Set("Access-Control-Expose-Headers", "ETag")
 	if c.Request.Method == http.MethodOptions && c.GetHeader("Access-Control-Request-Method") != "" {
 		h.Set("Access-Control-Allow-Methods", "GET, POST, OPTIONS")

@@ -132,6 +132,12 @@ func TestCORS(t *testing.T) {
 	if r.Header.Get("Access-Control-Allow-Origin") != "" {
 		t.Errorf("another origin allowed: %v", r.Header)
 	}
+	// with a token as well, both headers vary the answer
+	both := startServer(t, Config{CORSOrigins: []string{"https://sheets.example.org"}, Token: "t"})
+	r = do(t, http.MethodGet, both.URL+"/v1/fn/co2_from_carbon?mass=12&token=t", map[string]string{"Origin": "https://sheets.example.org"}, "")
+	if v := strings.Join(r.Header.Values("Vary"), ","); r.Body != "44" || !strings.Contains(v, "Origin") || !strings.Contains(v, "Authorization") {
+		t.Errorf("Vary %q", v)
+	}
 	// a preflight needs no token: browsers send none
 	tok := startServer(t, Config{CORSOrigins: []string{"*"}, Token: "t"})
 	pre = do(t, http.MethodOptions, tok.URL+"/v1/fn/gwp", map[string]string{"Origin": "https://a.example", "Access-Control-Request-Method": "GET"}, "")

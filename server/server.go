@@ -35,7 +35,6 @@ type headerValues struct {
 	noStore []string // errors: not to be stored by any cache
 	fnCache []string // GET /v1/fn answers: pure functions of the URL and the loaded packs
 	page    []string // catalog pages: revalidate with the ETag
-	vary    []string
 }
 
 // fnMaxAge is the max-age of GET /v1/fn answers. An answer depends only on the URL and the
@@ -59,7 +58,7 @@ func New(cfg Config, e *funcs.Engine, logger *slog.Logger) (*Server, error) {
 	s.answers = newCache[*answer](cfg.CacheEntries)
 	s.progs = newCache[*program](programCacheEntries)
 	s.hdr = headerValues{noStore: []string{"no-store"}, fnCache: []string{"public, max-age=" + fnMaxAge},
-		page: []string{"no-cache"}, vary: []string{"Authorization"}}
+		page: []string{"no-cache"}}
 	if cfg.Token != "" {
 		s.token = hashToken(cfg.Token)
 		// answers behind a token are for the client that sent it, not for shared caches
