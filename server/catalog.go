@@ -186,18 +186,10 @@ func (s *Server) healthz(c *gin.Context) { s.writePage(c, s.static.health) }
 func (s *Server) openapi(c *gin.Context) { s.writePage(c, s.static.openapi) }
 
 func (s *Server) functions(c *gin.Context) {
-	if e := checkQuery(c.Request.URL.RawQuery); e != nil {
-		s.abort(c, e)
-		return
-	}
 	s.writePage(c, s.static.functions)
 }
 
 func (s *Server) function(c *gin.Context) {
-	if e := checkQuery(c.Request.URL.RawQuery); e != nil {
-		s.abort(c, e)
-		return
-	}
 	name := c.Param("name")
 	p, ok := s.static.function[name]
 	if !ok {
@@ -209,10 +201,6 @@ func (s *Server) function(c *gin.Context) {
 }
 
 func (s *Server) units(c *gin.Context) {
-	if e := checkQuery(c.Request.URL.RawQuery); e != nil {
-		s.abort(c, e)
-		return
-	}
 	s.writePage(c, s.static.units)
 }
 

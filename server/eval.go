@@ -413,3 +413,8 @@ func (s *Server) writeBody(c *gin.Context, status int, contentType string, body 
 	c.Writer.WriteHeader(status)
 	_, _ = c.Writer.Write(body)
 }
+
+// withTimeout returns the request context bounded by EvalTimeout.
+func (s *Server) withTimeout(c *gin.Context) (context.Context, context.CancelFunc) {
+	return context.WithTimeout(c.Request.Context(), s.cfg.EvalTimeout)
+}

@@ -1,10 +1,8 @@
 package server
 
 import (
-	"context"
 	"crypto/sha256"
 	"crypto/subtle"
-	"errors"
 	"fmt"
 	"log/slog"
 	"net/http"
@@ -227,54 +225,6 @@ func (s *Server) noQuery(c *gin.Context) {
 	}
 }
 
-// checkQuery parses a raw query and refuses any parameter not in accepted (token is always
-// accepted). It returns the values of the accepted ones.
-func checkQuery(raw string, accepted ...string) *apiError {
-	_, e := queryValues(raw, accepted...)
-	return e
-}
-
-// queryValues parses a raw query: each accepted parameter at most once, token ignored, any
-// other parameter refused with a message listing the accepted ones.
-func queryValues(raw string, accepted ...string) (map[string]string, *apiError) {
-	vals, err := url.ParseQuery(raw)
-	if err != nil {
-		return nil, badRequest("query", "malformed query: "+queryErrorText(err)+"; write name=value pairs joined by &, with %XX escapes")
-	}
-	out := map[string]string{}
-	for k, vs := range vals {
-		if k == paramToken {
-			continue
-		}
-		ok := false
-		for _, a := range accepted {
-			ok = ok || a == k
-		}
-		if !ok {
-			msg := "unknown query parameter " + fmt.Sprintf("%q", k) + ": "
-			if len(accepted) == 0 {
-				msg += "this route takes none"
-			} else {
-				msg += "accepted are " + strings.Join(accepted, ", ")
-			}
-			return nil, badRequest(k, msg)
-		}
-		if len(vs) > 1 {
-			return nil, badRequest(k, "query parameter "+k+" is given more than once; give it once")
-		}
-		out[k] = vs[0]
-	}
-	return out, nil
-}
-
-func queryErrorText(err error) string {
-	var ee url.EscapeError
-	if errors.As(err, &ee) {
-		return "malformed %-escape " + fmt.Sprintf("%q", string(ee))
-	}
-	return err.Error()
-}
-
 func (s *Server) noRoute(c *gin.Context) {
 	s.abort(c, &apiError{Status: http.StatusNotFound, Code: codeNotFound,
 		Msg: "no route " + c.Request.Method + " " + c.Request.URL.Path + ": the API is described at /openapi.yaml (functions: GET /v1/fn/{name}, list: GET /v1/functions)"})
@@ -288,9 +238,4 @@ func (s *Server) noMethod(c *gin.Context) {
 	c.Header("Allow", allow)
 	s.abort(c, &apiError{Status: http.StatusMethodNotAllowed, Code: codeMethod,
 		Msg: "method " + c.Request.Method + " is not allowed on " + c.Request.URL.Path + ": use " + allow})
-}
-
-// withTimeout returns the request context bounded by EvalTimeout.
-func (s *Server) withTimeout(c *gin.Context) (context.Context, context.CancelFunc) {
-	return context.WithTimeout(c.Request.Context(), s.cfg.EvalTimeout)
 }

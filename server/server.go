@@ -96,12 +96,12 @@ func (s *Server) routes() *gin.Engine {
 	api := r.Group("", s.authorize)
 	api.GET("/v1/fn/:name", s.fn)
 	api.POST("/v1/eval", s.eval)
-	api.GET("/v1/functions", s.functions)
-	api.GET("/v1/functions/:name", s.function)
+	api.GET("/v1/functions", s.noQuery, s.functions)
+	api.GET("/v1/functions/:name", s.noQuery, s.function)
 	api.GET("/v1/factors", s.factors)
-	api.GET("/v1/units", s.units)
+	api.GET("/v1/units", s.noQuery, s.units)
 	api.GET("/openapi.yaml", s.openapi)
-	api.GET("/metrics", s.noQuery, gin.WrapH(promhttp.HandlerFor(s.metrics.reg, promhttp.HandlerOpts{})))
+	api.GET("/metrics", gin.WrapH(promhttp.HandlerFor(s.metrics.reg, promhttp.HandlerOpts{})))
 	if s.cfg.Annotate != nil {
 		api.POST("/v1/annotate", s.annotate)
 	}
