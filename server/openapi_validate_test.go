@@ -67,6 +67,7 @@ func TestOpenAPIValidatesAnswers(t *testing.T) {
 	tok := startServer(t, Config{Token: "tk"})
 	small := startServer(t, Config{MaxBodyBytes: 256, MaxRows: 2})
 	slow := startServer(t, Config{EvalTimeout: time.Nanosecond})
+	faulty := startServer(t, Config{Annotate: http.HandlerFunc(func(http.ResponseWriter, *http.Request) { panic("a fault") })})
 	e := newEngine(t)
 
 	var cases []apiCase
@@ -126,6 +127,9 @@ func TestOpenAPIValidatesAnswers(t *testing.T) {
 	ev("too many rows", small.URL, "/v1/eval", "application/json", `{"expr": "1", "rows": [{}, {}, {}]}`, 413, true)
 	ev("timeout", slow.URL, "/v1/eval", "application/json", `{"expr": "1", "rows": [`+strings.TrimSuffix(strings.Repeat(`{},`, 600), ",")+`]}`, 503, true)
 	ev("no token", tok.URL, "/v1/eval", "application/json", `{"expr": "1"}`, 401, false)
+	// a fault: the 500 answer of the server itself (the handler panics)
+	add(apiCase{name: "500", base: faulty.URL, method: http.MethodPost, target: "/v1/annotate",
+		header: map[string]string{"Content-Type": "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet"}, body: "PK", status: 500, request: true})
 
 	for _, c := range []apiCase{
 		{name: "functions", base: plain.URL, target: "/v1/functions", status: 200, request: true},
