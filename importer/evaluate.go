@@ -185,7 +185,7 @@ func (sc *scanCtx) headerWarnings(t *table) {
 				c.unitBad = true
 			}
 		}
-		if c.role == roleWideFuel && c.fuelAlias {
+		if c.role == roleWideFuel && c.fuelAlias && !sameName(c.hdr.base, c.fuelID) {
 			sc.warn.add(sheet, c.col, hr, SevInfo, CodeFuelAlias, quoteText(c.hdr.base)+" read as "+c.fuelID)
 		}
 		if c.role == roleWideFuel && c.unitIdent == "" && c.hdr.unitErr == nil {

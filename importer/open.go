@@ -161,8 +161,8 @@ func openZip(path string, f *os.File, size int64, lim limits) (*zip.Reader, erro
 	for _, zf := range zr.File {
 		total += zf.UncompressedSize64
 		if total > uint64(lim.maxUnzipped) || zf.UncompressedSize64 > 1<<62 {
-			return nil, newErr(ErrTooLarge, path, "the workbook unpacks to more than %s (the limit, zip-bomb protection); part %s alone declares %s; raise the limit (Options.MaxUnzippedBytes) only for files you trust",
-				byteSize(lim.maxUnzipped), zf.Name, byteSize(int64(min(zf.UncompressedSize64, 1<<62))))
+			return nil, newErr(ErrTooLarge, path, "the workbook unpacks to more than %s, the limit (zip-bomb protection); raise it (Options.MaxUnzippedBytes) only for files you trust",
+				byteSize(lim.maxUnzipped))
 		}
 		if zf.CompressedSize64 > 0 && zf.UncompressedSize64/zf.CompressedSize64 > uint64(lim.maxRatio) && zf.UncompressedSize64 > 16<<20 {
 			return nil, newErr(ErrTooLarge, path, "part %s would unpack %d times its packed size (%s), far beyond any real workbook (zip-bomb protection)",

@@ -80,6 +80,7 @@ type TableInfo struct {
 	Rules     []string     `json:"rules"`
 	Rows      int          `json:"rows"`
 	Computed  int          `json:"computed"`
+	Totals    Totals       `json:"totals"`           // this table's share of Report.Totals
 	Layout    string       `json:"layout"`           // inline or side-sheet
 	Output    string       `json:"output,omitempty"` // where the computed columns are, e.g. "Fuel log!I4:K120"
 }

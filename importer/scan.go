@@ -269,9 +269,11 @@ func (res *ScanResult) finish() error {
 			tot.TCO2 += s.TCO2
 			tot.TCO2e += s.TCO2e
 			rep.ByFuel[k] = tot
-			rep.Totals.TCO2 += s.TCO2
-			rep.Totals.TCO2e += s.TCO2e
+			info.Totals.TCO2 += s.TCO2
+			info.Totals.TCO2e += s.TCO2e
 		}
+		rep.Totals.TCO2 += info.Totals.TCO2
+		rep.Totals.TCO2e += info.Totals.TCO2e
 		if info.Layout == LayoutSideSheet {
 			rep.Layout = LayoutSideSheet
 		}
@@ -330,6 +332,14 @@ func (res *ScanResult) noTableError() error {
 		msg := "no table has a header with every variable the rules use (" + strings.Join(vars, ", ") + ")"
 		if len(sc.missed) > 0 {
 			msg += "; the header at " + sc.missedAt + " gives " + strings.Join(sc.missed, ", ")
+			for _, r := range sc.userRules {
+				if _, err := sc.e.Compile(r.expr, funcs.WithVariables(sc.missed...)); err != nil {
+					if fe, ok := funcs.AsError(err); ok && fe.Code == funcs.CodeVariable {
+						msg += " (rule " + r.column + ": " + fe.Msg + ")"
+						break
+					}
+				}
+			}
 		}
 		return newErr(ErrNoTable, res.Path, "%s", msg)
 	}

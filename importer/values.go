@@ -84,7 +84,7 @@ func (sc *scanCtx) fuelValue(t *table, c *column, v *cellVal, r int) (any, bool)
 		sc.warn.add(sheet, c.col, r, SevError, CodeFuelUnknown, notComputed(msg))
 		return nil, false
 	}
-	if f.alias {
+	if f.alias && !sameName(text, f.id) {
 		sc.warn.addOnce("alias|"+sheet+"|"+colName(c.col)+"|"+strings.ToLower(strings.TrimSpace(text)), sheet, c.col, r, SevInfo, CodeFuelAlias,
 			quoteText(text)+" read as "+f.id+" (here and in every cell of column "+colName(c.col)+" that says so)")
 	}
@@ -315,4 +315,10 @@ func notComputed(msg string) string {
 		return msg + " Row not computed."
 	}
 	return msg + "; row not computed"
+}
+
+// sameName reports a fuel written as its id in other case or with spaces
+// ("Natural gas" for natural_gas): not worth a note.
+func sameName(text, id string) bool {
+	return strings.Join(words(text), "_") == id
 }

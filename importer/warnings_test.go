@@ -18,7 +18,6 @@ func TestWarningsAtCells(t *testing.T) {
 	}{
 		{"Fuel log", "C5", CodeFuelAlias, SevInfo, `"Diesel" read as gas_diesel_oil`},
 		{"Fuel log", "D6", CodeValueTextNumber, SevWarning, `"1,250.5": read as 1250.5`},
-		{"Fuel log", "C7", CodeFuelAlias, SevInfo, `"Natural gas" read as natural_gas`},
 		{"Fuel log", "E7", CodeUnitMixed, SevWarning, "L in 8 rows, MWh in 1 row, GJ in 1 row, MMBtu HHV in 1 row"},
 		{"Fuel log", "C9", CodeFuelAlias, SevInfo, "other_bituminous_coal"},
 		{"Fuel log", "E9", CodeUnitAmbiguous, SevError, `"ton": write t (tonne, 1000 kg), short_ton (2000 lb) or long_ton (2240 lb)`},
@@ -33,9 +32,7 @@ func TestWarningsAtCells(t *testing.T) {
 		{"Fuel log", "G17", CodeExistingMismatch, SevWarning, "the workbook says 2 t CO2, fluecell computes 2.38734 t CO2"},
 		{"Fuel log", "D18", CodeFormulaNoCache, SevWarning, `evaluated it to "1000"`},
 		{"Fuel log", "C19", CodeFuelAlias, SevInfo, `"Gas oil" read as gas_diesel_oil`},
-		{"Monthly energy", "B2", CodeFuelAlias, SevInfo, "natural_gas"},
 		{"Monthly energy", "C2", CodeFuelAlias, SevInfo, "gas_diesel_oil"},
-		{"Monthly energy", "D2", CodeFuelAlias, SevInfo, "lpg"},
 		{"Monthly energy", "E2", CodeFuelUnknown, SevInfo, "purchased energy"},
 		{"Monthly energy", "F2", CodeUnitAmbiguous, SevError, `(in the header "Coal (ton)"); the column is left out of the totals`},
 		{"Build plan", "E5", CodeValueNotNumber, SevInfo, "the technology's default is used"},
