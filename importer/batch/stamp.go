@@ -7,6 +7,8 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+
+	"github.com/fluecell/fluecell/importer/atomicfile"
 )
 
 // stampDir is the folder below the output folder that holds one stamp per
@@ -57,20 +59,7 @@ func (s stamps) write(rel, dst, sum, fingerprint string, o Outcome) error {
 	if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
 		return err
 	}
-	tmp, err := os.CreateTemp(filepath.Dir(p), ".stamp-*")
-	if err != nil {
-		return err
-	}
-	if _, err := tmp.Write(b); err != nil {
-		tmp.Close()
-		os.Remove(tmp.Name())
-		return err
-	}
-	if err := tmp.Close(); err != nil {
-		os.Remove(tmp.Name())
-		return err
-	}
-	return os.Rename(tmp.Name(), p)
+	return atomicfile.Write(p, func(w io.Writer) error { _, err := w.Write(b); return err })
 }
 
 func (s stamps) remove(rel string) { os.Remove(s.path(rel)) }

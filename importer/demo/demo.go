@@ -8,11 +8,14 @@ package demo
 
 import (
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"time"
 
 	"github.com/xuri/excelize/v2"
+
+	"github.com/fluecell/fluecell/importer/atomicfile"
 )
 
 // Files are the names Write creates, in order.
@@ -45,21 +48,7 @@ func Write(dir string) ([]string, error) {
 
 func saveAtomic(f *excelize.File, path string) error {
 	defer f.Close()
-	tmp, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".tmp-*")
-	if err != nil {
-		return err
-	}
-	name := tmp.Name()
-	if err := f.Write(tmp); err != nil {
-		tmp.Close()
-		os.Remove(name)
-		return err
-	}
-	if err := tmp.Close(); err != nil {
-		os.Remove(name)
-		return err
-	}
-	return os.Rename(name, path)
+	return atomicfile.Write(path, func(w io.Writer) error { return f.Write(w) })
 }
 
 type styles struct {
