@@ -129,7 +129,7 @@ func writeAtomic(ctx context.Context, out string, write func(io.Writer) error) (
 		return &Error{Code: ErrIO, Path: out, Msg: "cannot write the output: " + err.Error(), Err: err}
 	}
 	if cerr := ctx.Err(); cerr != nil {
-		err = &Error{Code: ErrIO, Path: out, Msg: "stopped before the output was written: " + cerr.Error(), Err: cerr}
+		err = &Error{Code: ErrCancelled, Path: out, Msg: "stopped before the output was written: " + cerr.Error(), Err: cerr}
 		return err
 	}
 	if err = os.Rename(name, out); err != nil {

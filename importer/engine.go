@@ -128,8 +128,9 @@ type lazyCalc struct {
 	failed bool
 }
 
-// allowed limits evaluation to sheets whose part is at most about 30
-// bytes per cell of Options.InlineMaxCells: excelize loads the whole sheet.
+// allowed limits evaluation to sheets whose part is at most about 30 bytes
+// per cell of Options.InlineMaxCells (at least the default): excelize loads
+// the whole sheet to evaluate one cell.
 func (l *lazyCalc) allowed(sheet string) bool {
 	if l.book == nil {
 		return true
@@ -139,7 +140,7 @@ func (l *lazyCalc) allowed(sheet string) bool {
 		return false
 	}
 	zf := l.book.file(s.Part)
-	return zf != nil && int64(zf.UncompressedSize64) <= int64(max(l.lim.inlineCells, 0))*30
+	return zf != nil && int64(zf.UncompressedSize64) <= int64(max(l.lim.inlineCells, DefaultInlineMaxCells))*30
 }
 
 func (l *lazyCalc) calc(sheet, ref string) (out string, ok bool) {

@@ -33,6 +33,7 @@ const (
 	ErrRule      = "rule"      // a --rule that does not parse or compile
 	ErrFactors   = "factors"   // the workbook's own Carbon factors sheet is malformed
 	ErrIO        = "io"        // the file cannot be opened or the output not written
+	ErrCancelled = "cancelled" // the context ended first (nothing was written)
 	ErrInput     = "input"     // a bad option (sheet, output path)
 	ErrInternal  = "internal"  // a failure inside fluecell or a library: a bug to report
 )

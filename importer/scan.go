@@ -60,7 +60,7 @@ func scan(ctx context.Context, e *funcs.Engine, path string, opt Options, calc f
 		return nil, &Error{Code: ErrInput, Msg: "importer: no engine (funcs.New)"}
 	}
 	if err := ctx.Err(); err != nil {
-		return nil, &Error{Code: ErrIO, Path: path, Msg: "stopped: " + err.Error(), Err: err}
+		return nil, &Error{Code: ErrCancelled, Path: path, Msg: "stopped: " + err.Error(), Err: err}
 	}
 	f, err := os.Open(path)
 	if err != nil {

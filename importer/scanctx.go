@@ -146,7 +146,7 @@ func (sc *scanCtx) isFunction(name string) bool {
 // cancelled returns the context's error as an *Error.
 func (sc *scanCtx) cancelled() error {
 	if err := sc.ctx.Err(); err != nil {
-		return &Error{Code: ErrIO, Path: sc.path, Msg: "stopped: " + err.Error(), Err: err}
+		return &Error{Code: ErrCancelled, Path: sc.path, Msg: "stopped: " + err.Error(), Err: err}
 	}
 	return nil
 }
