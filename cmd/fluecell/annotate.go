@@ -7,12 +7,12 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs"
 	"github.com/fluecell/fluecell/importer"
+	"github.com/fluecell/fluecell/importer/atomicfile"
 )
 
 // exitFailOn is the exit code when --fail-on finds warnings of that
@@ -66,8 +66,8 @@ func cmdAnnotate(ctx context.Context, s stdio, args []string) int {
 	switch {
 	case *failOn == importer.SevError && rep.Count(importer.SevError) > 0,
 		*failOn == importer.SevWarning && rep.Count(importer.SevError)+rep.Count(importer.SevWarning) > 0:
-		fmt.Fprintf(s.err, "fluecell annotate: --fail-on %s: %d errors and %d warnings (see the %q sheet)\n", *failOn,
-			rep.Count(importer.SevError), rep.Count(importer.SevWarning), importer.SheetWarnings)
+		fmt.Fprintf(s.err, "fluecell annotate: --fail-on %s: %s and %s, listed %s\n", *failOn,
+			count(rep.Count(importer.SevError), "error"), count(rep.Count(importer.SevWarning), "warning"), findingsWhere(rep))
 		return exitFailOn
 	}
 	return 0
@@ -82,11 +82,7 @@ func printReport(w io.Writer, rep *importer.Report) {
 	}
 	fmt.Fprintf(w, "total: %s tCO2, %s tCO2e\n", funcs.FormatNumber(round3(rep.Totals.TCO2)), funcs.FormatNumber(round3(rep.Totals.TCO2e)))
 	nErr, nWarn, nInfo := rep.Count(importer.SevError), rep.Count(importer.SevWarning), rep.Count(importer.SevInfo)
-	where := "in the " + importer.SheetWarnings + " sheet"
-	if strings.EqualFold(filepath.Ext(rep.Output), ".csv") {
-		where = "in the report (--report)"
-	}
-	fmt.Fprintf(w, "findings: %d errors (rows not computed), %d warnings, %d notes; all %s\n", nErr, nWarn, nInfo, where)
+	fmt.Fprintf(w, "findings: %s (rows not computed), %s, %s; all %s\n", count(nErr, "error"), count(nWarn, "warning"), count(nInfo, "note"), findingsWhere(rep))
 	shown := 0
 	for _, x := range rep.Warnings {
 		if x.Severity == importer.SevInfo {
@@ -99,6 +95,21 @@ func printReport(w io.Writer, rep *importer.Report) {
 		fmt.Fprintf(w, "  %s!%s %s %s: %s\n", x.Sheet, x.Cell, x.Severity, x.Code, x.Message)
 		shown++
 	}
+}
+
+// findingsWhere says where the full list of findings is.
+func findingsWhere(rep *importer.Report) string {
+	if strings.EqualFold(filepath.Ext(rep.Output), ".csv") {
+		return "in the report (--report)"
+	}
+	return "in the " + importer.SheetWarnings + " sheet"
+}
+
+func count(n int, word string) string {
+	if n == 1 {
+		return "1 " + word
+	}
+	return fmt.Sprintf("%d %ss", n, word)
 }
 
 func round3(x float64) float64 { return math.Round(x*1000) / 1000 }
@@ -116,26 +127,7 @@ func writeReport(path string, out io.Writer, rep *importer.Report) error {
 		_, err := out.Write(buf.Bytes())
 		return err
 	}
-	dir, base := filepath.Split(path)
-	if dir == "" {
-		dir = "."
-	}
-	tmp, err := os.CreateTemp(dir, "."+base+".*.tmp")
-	if err != nil {
-		return fmt.Errorf("--report %s: %v", path, err)
-	}
-	_ = tmp.Chmod(0o644)
-	if _, err := tmp.Write(buf.Bytes()); err != nil {
-		tmp.Close()
-		os.Remove(tmp.Name())
-		return fmt.Errorf("--report %s: %v", path, err)
-	}
-	if err := tmp.Close(); err != nil {
-		os.Remove(tmp.Name())
-		return fmt.Errorf("--report %s: %v", path, err)
-	}
-	if err := os.Rename(tmp.Name(), path); err != nil {
-		os.Remove(tmp.Name())
+	if err := atomicfile.Write(path, func(w io.Writer) error { _, err := w.Write(buf.Bytes()); return err }); err != nil {
 		return fmt.Errorf("--report %s: %v", path, err)
 	}
 	return nil
