@@ -3,8 +3,11 @@ package main
 import (
 	"context"
 	"fmt"
+	"io"
 	"log/slog"
 	"os"
+	"sync"
+	"time"
 
 	"github.com/fluecell/fluecell/server"
 )
@@ -35,12 +38,14 @@ func cmdServe(ctx context.Context, s stdio, args []string) int {
 		fmt.Fprintf(s.err, "fluecell serve: takes no arguments, got %q; see fluecell serve --help\n", pos[0])
 		return 2
 	}
+	logs := newLogBuffer(s.err, logFlushEvery)
+	defer logs.Close()
 	var logger *slog.Logger
 	switch *logFormat {
 	case "text":
-		logger = slog.New(slog.NewTextHandler(s.err, nil))
+		logger = slog.New(slog.NewTextHandler(logs, nil))
 	case "json":
-		logger = slog.New(slog.NewJSONHandler(s.err, nil))
+		logger = slog.New(slog.NewJSONHandler(logs, nil))
 	default:
 		fmt.Fprintf(s.err, "fluecell serve: --log-format %q: accepted are text and json\n", *logFormat)
 		return 2
@@ -78,4 +83,69 @@ func cmdServe(ctx context.Context, s stdio, args []string) int {
 		return fail(s, "serve", err)
 	}
 	return 0
+}
+
+// logFlushEvery is how long a log line may wait in memory before it is written.
+const logFlushEvery = 100 * time.Millisecond
+
+// logBufferLimit is how many bytes of log lines may wait before they are written at once.
+const logBufferLimit = 64 << 10
+
+// logBuffer gathers log lines and writes them to w every logFlushEvery (or once
+// logBufferLimit bytes wait), so that the request log costs no system call per request. Close
+// writes what is left. Write errors of w are dropped: the log must not stop the server.
+type logBuffer struct {
+	mu   sync.Mutex
+	w    io.Writer
+	buf  []byte
+	stop chan struct{}
+	done chan struct{}
+}
+
+func newLogBuffer(w io.Writer, every time.Duration) *logBuffer {
+	b := &logBuffer{w: w, stop: make(chan struct{}), done: make(chan struct{})}
+	go func() {
+		defer close(b.done)
+		t := time.NewTicker(every)
+		defer t.Stop()
+		for {
+			select {
+			case <-t.C:
+				b.flush()
+			case <-b.stop:
+				return
+			}
+		}
+	}()
+	return b
+}
+
+func (b *logBuffer) Write(p []byte) (int, error) {
+	b.mu.Lock()
+	defer b.mu.Unlock()
+	b.buf = append(b.buf, p...)
+	if len(b.buf) >= logBufferLimit {
+		b.flushLocked()
+	}
+	return len(p), nil
+}
+
+func (b *logBuffer) flush() {
+	b.mu.Lock()
+	defer b.mu.Unlock()
+	b.flushLocked()
+}
+
+func (b *logBuffer) flushLocked() {
+	if len(b.buf) > 0 {
+		_, _ = b.w.Write(b.buf)
+		b.buf = b.buf[:0]
+	}
+}
+
+// Close stops the flushing and writes the lines still waiting.
+func (b *logBuffer) Close() {
+	close(b.stop)
+	<-b.done
+	b.flush()
 }
