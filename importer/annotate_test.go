@@ -325,6 +325,35 @@ func TestStackedTables(t *testing.T) {
 	}
 }
 
+// TestTwoRowHeader reads a header whose first columns are merged down over
+// two rows and whose quantity is split under a merged banner.
+func TestTwoRowHeader(t *testing.T) {
+	f := newBook(t, "Log")
+	setRows(t, f, "Log", 1, [][]any{
+		{"Heron Mills energy register"},
+		{},
+		{"Site", "Fuel", "Fuel use", nil, "Cost"},
+		{nil, nil, "Amount", "Unit", "EUR"},
+		{"Mill 1", "Natural gas", 1200, "MWh", 50000},
+		{"Mill 1", "Gas oil", 3000, "litres", 3000},
+		{"Mill 2", "Heavy fuel oil", 12, "tonnes", 9000},
+	})
+	must(t, f.MergeCell("Log", "A3", "A4"))
+	must(t, f.MergeCell("Log", "B3", "B4"))
+	must(t, f.MergeCell("Log", "C3", "D3"))
+	rep := scanFile(t, save(t, f, filepath.Join(t.TempDir(), "two.xlsx")), Options{})
+	if len(rep.Tables) != 1 || rep.Tables[0].HeaderRow != 4 || rep.Tables[0].Range != "A4:E7" || rep.Computed != 3 {
+		t.Fatalf("tables %+v", rep.Tables)
+	}
+	roles := map[string]string{}
+	for _, c := range rep.Tables[0].Columns {
+		roles[c.Header] = c.Role
+	}
+	if roles["Site"] != "group" || roles["Fuel"] != "fuel" || roles["Amount"] != "quantity" || roles["Unit"] != "unit" {
+		t.Errorf("roles %v", roles)
+	}
+}
+
 func TestErrorsAreTyped(t *testing.T) {
 	_, err := Scan(context.Background(), testEngine(t), "", Options{})
 	var ie *Error

@@ -237,7 +237,29 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 			last = hdr.cells[i].col
 		}
 	}
+	// Header cells merged down from the row above, or across from the left,
+	// belong to the header too.
+	for grown := true; grown; {
+		grown = false
+		for _, m := range d.merges {
+			if m.r1 > hdr.num || hdr.num > m.r2 || first != 0 && (m.c2 < first-1 || m.c1 > last+1) || first != 0 && m.c1 >= first && m.c2 <= last {
+				continue
+			}
+			if d.headerText(rows, m.c1, m.r1) == "" {
+				continue
+			}
+			if first == 0 || m.c1 < first {
+				first = m.c1
+			}
+			last, grown = max(last, m.c2), true
+		}
+	}
 	if first == 0 {
+		return nil
+	}
+	// A banner over the real header ("Fuel use" merged over "Amount | Unit")
+	// is not the header.
+	if len(sample) > 0 && headerLike(sample[0]) && sc.keywordHits(sample[0]) >= 2 {
 		return nil
 	}
 	// A row of units right under the header ("L", "kWh", "t").
@@ -306,7 +328,7 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 	if !d.decideKind(t) {
 		return nil
 	}
-	t.score = 10 + len(sample)
+	t.score = 10 + min(len(sample), 5)
 	for _, c := range t.cols {
 		if c.role != roleNone {
 			t.score += 3

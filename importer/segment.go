@@ -231,6 +231,10 @@ func (s *segmenter) feed(r row) error {
 				return err
 			}
 		case !t.dataLike(&r) && !t.blankIn(&r) && headerLike(&r) && s.sc.keywordHits(&r) >= 2:
+			if len(t.rowNums) == 0 {
+				s.cur = nil // a header row straight after a header: the first was a banner
+				break
+			}
 			if err := s.closeTable(); err != nil {
 				return err
 			}
