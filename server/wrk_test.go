@@ -8,6 +8,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"regexp"
+	"runtime"
 	"strconv"
 	"testing"
 	"time"
@@ -72,7 +73,7 @@ end
 		t.Logf("run %d: bare gin %.0f req/s p99 %s | fluecell %.0f req/s p99 %s", i+1, base[i].rps, base[i].p99, fl[i].rps, fl[i].p99)
 	}
 	t.Logf("fluecell, every call a cache miss: %.0f req/s p99 %s", miss.rps, miss.p99)
-	t.Logf("fluecell / bare gin = %.2f (target >= 0.6); wrk -t2 -c64 -d%s, GOMAXPROCS %s", ratio, dur, os.Getenv("GOMAXPROCS"))
+	t.Logf("fluecell / bare gin = %.2f (target >= 0.6); wrk -t2 -c64 -d%s on %d CPUs shared by wrk and the server", ratio, dur, runtime.NumCPU())
 	for _, r := range append(append(base, fl...), miss) {
 		if r.non2xx > 0 || r.errors != "" {
 			t.Errorf("wrk saw %d non-2xx answers, errors %q", r.non2xx, r.errors)
