@@ -115,3 +115,34 @@ func TestComputedValues(t *testing.T) {
 		t.Errorf("by_fuel pv_utility %v", d)
 	}
 }
+
+// TestPeriodsAndScale reads a fuel per row with a month per column, and a
+// header in thousands of litres.
+func TestPeriodsAndScale(t *testing.T) {
+	dir := t.TempDir()
+	f := newBook(t, "Monthly")
+	setRows(t, f, "Monthly", 1, [][]any{
+		{"Site", "Fuel", "Unit", "Jan", "Feb", "Mar", "Total"},
+		{"Depot", "diesel", "L", 1000, nil, 500, 1500},
+		{"Boilers", "natural_gas", "GJ", 100, 80, "-", 180},
+	})
+	addSheet(t, f, "Fleet")
+	setRows(t, f, "Fleet", 1, [][]any{{"Fuel", "Quantity ('000 L)"}, {"diesel", 2}})
+	rep := scanFile(t, save(t, f, filepath.Join(dir, "periods.xlsx")), Options{})
+	if len(rep.Tables) != 2 || rep.Tables[0].Kind != kindPeriods {
+		t.Fatalf("tables %+v", rep.Tables)
+	}
+	if !strings.Contains(rep.Rules[0], "fuel_co2(fuel, jan, unit) + fuel_co2(fuel, feb, unit) + fuel_co2(fuel, mar, unit)") {
+		t.Errorf("rule %s", rep.Rules[0])
+	}
+	// 1500 L of diesel and 180 GJ of gas (TestComputedValues), then 2000 L.
+	want := []float64{1.5*2.65259475 + 0.18*56.1, 2 * 2.65259475}
+	for i, w := range want {
+		if got := rep.Tables[i].Totals.TCO2; math.Abs(got-w) > 1e-9 {
+			t.Errorf("table %d: %v t CO2, want %v", i, got, w)
+		}
+	}
+	if !strings.Contains(rep.Rules[len(rep.Rules)-2], "quantity * 1000") {
+		t.Errorf("rules %v", rep.Rules)
+	}
+}

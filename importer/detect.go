@@ -22,11 +22,12 @@ const (
 	roleLifetime      // lifetime in years
 	roleExisting      // the workbook's own carbon figures
 	roleGroup         // site, region, department...: totals by it
+	rolePeriod        // one period per column (Jan, Feb... or 2024, 2025) of the row's fuel
 )
 
 func (r role) String() string {
 	return [...]string{"", "fuel", "quantity", "unit", "fuel-column", "technology", "capacity",
-		"capacity-factor", "lifetime", "existing-carbon", "group"}[r]
+		"capacity-factor", "lifetime", "existing-carbon", "group", "period"}[r]
 }
 
 // Table kinds.
@@ -35,6 +36,7 @@ const (
 	kindWide      = "wide"
 	kindBuildPlan = "build-plan"
 	kindCustom    = "custom"
+	kindPeriods   = "fuel-by-period" // a fuel per row, a period per column
 )
 
 // column is one column of a detected table.
@@ -58,19 +60,21 @@ type colStats struct {
 
 // tableSpec is a detected table: its header, columns and roles.
 type tableSpec struct {
-	sheet                                            string
-	headerRow                                        int
-	unitRow                                          int // a row of units under the header, 0 when none
-	dataStart                                        int // first row that may hold data
-	cols                                             []*column
-	kind                                             string
-	fuel, qty, unit, tech, capacity, cf, life, group *column
-	wide                                             []*column
-	existing                                         []*column
-	firstCol                                         int
-	lastCol                                          int
-	headerErr                                        *Warning // a header-level problem that stops every row (no unit anywhere)
-	score                                            int
+	sheet     string
+	headerRow int
+	unitRow   int // a row of units under the header, 0 when none
+	dataStart int // first row that may hold data
+	cols      []*column
+	kind      string
+	firstCol  int
+	lastCol   int
+	headerErr *Warning // a header-level problem that stops every row (no unit anywhere)
+	score     int
+
+	// The columns with a role (nil when absent).
+	fuel, qty, unit, group   *column
+	tech, capacity, cf, life *column
+	wide, periods, existing  []*column
 }
 
 func (t *tableSpec) colAt(c int) *column {
@@ -282,7 +286,7 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 		if t.unitRow > 0 && col.hdr.unitTxt == "" {
 			if u := cellAt(rows, c, t.unitRow); u.kind == kText && strings.TrimSpace(u.text) != "" {
 				uh := parseHeader("x (" + u.text + ")")
-				col.hdr.unitTxt, col.hdr.unit, col.hdr.unitErr, col.hdr.percent = uh.unitTxt, uh.unit, uh.unitErr, uh.percent
+				col.hdr.unitTxt, col.hdr.unit, col.hdr.unitErr, col.hdr.percent, col.hdr.scale = uh.unitTxt, uh.unit, uh.unitErr, uh.percent, uh.scale
 				if uh.unitTxt == "" {
 					if _, err := units.Parse(u.text); err != nil {
 						if ue, ok := err.(*units.Error); ok {

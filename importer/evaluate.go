@@ -407,6 +407,22 @@ func (sc *scanCtx) collectSamples(t *table, i, rowNum int, vars map[string]any, 
 		}
 		k := spec.sheet + "|" + colName(spec.qty.col) + "|" + f.id + "|" + u.u.String()
 		samples[k] = append(samples[k], sample{rowNum, spec.qty.col, q})
+	case kindPeriods:
+		fs, ok1 := vars[spec.fuel.ident].(string)
+		us, ok2 := vars[spec.unit.ident].(string)
+		if !ok1 || !ok2 {
+			return
+		}
+		f, u := sc.fuel(fs), sc.unit(us)
+		if f.err != nil || u.err != nil {
+			return
+		}
+		k := spec.sheet + "|" + colName(spec.periods[0].col) + "|" + f.id + "|" + u.u.String()
+		for _, c := range spec.periods {
+			if q, ok := vars[c.ident].(float64); ok && q > 0 {
+				samples[k] = append(samples[k], sample{rowNum, c.col, q})
+			}
+		}
 	case kindWide:
 		for _, c := range spec.wide {
 			if q, ok := vars[c.ident].(float64); ok && q > 0 {
@@ -532,7 +548,7 @@ func (sc *scanCtx) checkExisting(t *table, i, rowNum int) {
 		default:
 			continue
 		}
-		unitT := c.carbon.unit.SIFloat() / 1000 // tonnes per unit
+		unitT := c.carbon.unit.SIFloat() / 1000 * c.carbon.scale // tonnes per unit
 		theirsT := theirs * unitT
 		oursS := ours
 		label := "t CO2"

@@ -18,6 +18,7 @@ type headerInfo struct {
 	unit    units.Unit   // parsed unit (zero when unitErr is set)
 	unitErr *units.Error // an ambiguous or otherwise unusable unit in the header
 	percent bool         // the header says the values are percentages: "(%)"
+	scale   float64      // values in thousands ('000 L): 1000; else 1
 }
 
 // cleanHeader folds white space (line breaks are common in headers) and the
@@ -38,13 +39,14 @@ var (
 // it parses, or where it is a known ambiguous spelling ("ton", "MT",
 // "MBtu"): then unitErr says so and the rows are not computed from it.
 func parseHeader(raw string) headerInfo {
-	h := headerInfo{text: cleanHeader(raw)}
+	h := headerInfo{text: cleanHeader(raw), scale: 1}
 	h.base = h.text
 	try := func(base, u string, anyDim bool) bool {
-		u = strings.TrimSpace(u)
+		u, scale := splitScale(strings.TrimSpace(u))
 		if u == "" {
 			return false
 		}
+		h.scale = scale
 		if u == "%" || strings.EqualFold(u, "percent") {
 			h.base, h.percent = base, true
 			return true
@@ -56,9 +58,11 @@ func parseHeader(raw string) headerInfo {
 				h.base, h.unitTxt, h.unitErr = base, u, ue
 				return true
 			}
+			h.scale = 1
 			return false
 		}
 		if !anyDim && pu.Dim != units.Energy && pu.Dim != units.Mass && pu.Dim != units.Volume && pu.Dim != units.Power {
+			h.scale = 1
 			return false
 		}
 		h.base, h.unitTxt, h.unit = base, u, pu
@@ -80,6 +84,27 @@ func parseHeader(raw string) headerInfo {
 		h.unitTxt, h.unit = h.text, u
 	}
 	return h
+}
+
+// splitScale takes a thousands or millions marker off a header unit:
+// "'000 L", "000s litres", "thousand m3", "m3 '000", "x1000 kWh", "million
+// kWh". The scale is 1 when there is none.
+func splitScale(u string) (string, float64) {
+	low := strings.ToLower(u)
+	marks := []struct {
+		mark  string
+		scale float64
+	}{{"'000s", 1e3}, {"'000", 1e3}, {"’000", 1e3}, {"000s", 1e3}, {"000", 1e3}, {"thousands of", 1e3}, {"thousand", 1e3},
+		{"x1000", 1e3}, {"×1000", 1e3}, {"x 1000", 1e3}, {"millions of", 1e6}, {"million", 1e6}, {"mln", 1e6}, {"x1e6", 1e6}}
+	for _, m := range marks {
+		if strings.HasPrefix(low, m.mark+" ") {
+			return strings.TrimSpace(u[len(m.mark):]), m.scale
+		}
+		if strings.HasSuffix(low, " "+m.mark) {
+			return strings.TrimSpace(u[:len(u)-len(m.mark)]), m.scale
+		}
+	}
+	return u, 1
 }
 
 // exprWords may not be identifiers of an expression.
@@ -199,6 +224,7 @@ type carbonCol struct {
 	unit    units.Unit
 	unitTxt string
 	unitErr *units.Error
+	scale   float64 // values in thousands: 1000
 }
 
 var (
@@ -212,7 +238,7 @@ func parseCarbonHeader(text string) (carbonCol, bool) {
 	if strings.Contains(low, "/") || hasWord(ws, "per", "factor", "ef", "intensity", "rate", "price", "cost", "tax", "%", "percent", "share", "ppm") {
 		return carbonCol{}, false
 	}
-	var c carbonCol
+	c := carbonCol{scale: 1}
 	species := func(s string) string {
 		s = strings.ToLower(s)
 		switch {
@@ -247,7 +273,7 @@ func parseCarbonHeader(text string) (carbonCol, bool) {
 				}
 			}
 		} else {
-			c.unitTxt = h.unitTxt
+			c.unitTxt, c.scale = h.unitTxt, h.scale
 		}
 	} else {
 		return carbonCol{}, false

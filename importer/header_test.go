@@ -50,27 +50,34 @@ func TestParseHeader(t *testing.T) {
 	cases := []struct {
 		in, base, unit string
 		bad, pct       bool
+		scale          float64
 	}{
-		{"Quantity (MWh)", "Quantity", "MWh", false, false},
-		{"Diesel [L]", "Diesel", "L", false, false},
-		{"Natural gas, m3", "Natural gas", "m3", false, false},
-		{"Consumption kWh", "Consumption", "kWh", false, false},
-		{"Energy - GJ", "Energy", "GJ", false, false},
-		{"Gas (MMBtu, HHV)", "Gas", "MMBtu, HHV", false, false},
-		{"Fuel used in litres", "Fuel used", "litres", false, false},
-		{"Litres", "Litres", "Litres", false, false},
-		{"Quantity\n(t)", "Quantity", "t", false, false},
-		{"Coal (ton)", "Coal", "ton", true, false},
-		{"Capacity factor (%)", "Capacity factor", "", false, true},
-		{"Capacity (MW)", "Capacity", "MW", false, false},
-		{"Cost (EUR)", "Cost (EUR)", "", false, false},
-		{"Fuel type", "Fuel type", "", false, false},
-		{"Year", "Year", "", false, false},
-		{"Site", "Site", "", false, false},
+		{"Quantity ('000 L)", "Quantity", "L", false, false, 1000},
+		{"Gas (thousand m3)", "Gas", "m3", false, false, 1000},
+		{"Energy (million kWh)", "Energy", "kWh", false, false, 1e6},
+		{"Quantity (MWh)", "Quantity", "MWh", false, false, 0},
+		{"Diesel [L]", "Diesel", "L", false, false, 0},
+		{"Natural gas, m3", "Natural gas", "m3", false, false, 0},
+		{"Consumption kWh", "Consumption", "kWh", false, false, 0},
+		{"Energy - GJ", "Energy", "GJ", false, false, 0},
+		{"Gas (MMBtu, HHV)", "Gas", "MMBtu, HHV", false, false, 0},
+		{"Fuel used in litres", "Fuel used", "litres", false, false, 0},
+		{"Litres", "Litres", "Litres", false, false, 0},
+		{"Quantity\n(t)", "Quantity", "t", false, false, 0},
+		{"Coal (ton)", "Coal", "ton", true, false, 0},
+		{"Capacity factor (%)", "Capacity factor", "", false, true, 0},
+		{"Capacity (MW)", "Capacity", "MW", false, false, 0},
+		{"Cost (EUR)", "Cost (EUR)", "", false, false, 0},
+		{"Fuel type", "Fuel type", "", false, false, 0},
+		{"Year", "Year", "", false, false, 0},
+		{"Site", "Site", "", false, false, 0},
 	}
 	for _, c := range cases {
 		h := parseHeader(c.in)
-		if h.base != c.base || h.unitTxt != c.unit || (h.unitErr != nil) != c.bad || h.percent != c.pct {
+		if c.scale == 0 {
+			c.scale = 1
+		}
+		if h.base != c.base || h.unitTxt != c.unit || (h.unitErr != nil) != c.bad || h.percent != c.pct || h.scale != c.scale {
 			t.Errorf("parseHeader(%q) = base %q unit %q err %v pct %v", c.in, h.base, h.unitTxt, h.unitErr, h.percent)
 		}
 	}

@@ -165,6 +165,21 @@ func (d *detector) assignRoles(t *tableSpec) {
 			t.wide = append(t.wide, c)
 		}
 	}
+	// A fuel per row and a period per column: Fuel | Unit | Jan | Feb ...
+	if t.qty == nil && len(t.wide) == 0 && t.fuel != nil {
+		var ps []*column
+		for _, c := range t.cols {
+			if !taken(c) && (c.numeric || c.st.nonEmpty == 0) && periodHeader(c.hdr.text) {
+				ps = append(ps, c)
+			}
+		}
+		if len(ps) >= 2 {
+			for _, c := range ps {
+				c.role = rolePeriod
+			}
+			t.periods = ps
+		}
+	}
 	// Grouping column: a site, region, department...
 	for _, c := range t.cols {
 		if taken(c) || !textual(c) {
@@ -195,6 +210,12 @@ func (d *detector) decideKind(t *tableSpec) bool {
 			t.headerErr = &Warning{Sheet: t.sheet, Cell: cellRef(t.qty.col, t.headerRow), Severity: SevError, Code: CodeUnitUnknown,
 				Message: "no unit for " + quoteText(t.qty.hdr.text) + ": add a unit column or write the unit in the header, e.g. " + quoteText(t.qty.hdr.base+" (L)") + "; no row is computed"}
 		}
+	case len(t.periods) > 0:
+		t.kind = kindPeriods
+		if t.unit == nil {
+			t.headerErr = &Warning{Sheet: t.sheet, Cell: cellRef(t.periods[0].col, t.headerRow), Severity: SevError, Code: CodeUnitUnknown,
+				Message: "no unit for the amounts by period: add a unit column (L, kWh, t...) beside " + quoteText(t.fuel.hdr.text) + "; no row is computed"}
+		}
 	case len(t.wide) > 0:
 		t.kind = kindWide
 	case t.tech != nil && t.capacity != nil:
@@ -219,4 +240,37 @@ func quoteText(s string) string {
 		s = string(r[:57]) + "..."
 	}
 	return "\"" + s + "\""
+}
+
+// periodHeader recognises a column per period: month names (Jan, January,
+// Jan-25, 2025-01), quarters and halves (Q1, H2 2025), years (2024, FY2025)
+// and dates stored as numbers (Excel serials of 1955 to 2118).
+func periodHeader(text string) bool {
+	ws := words(text)
+	if len(ws) == 0 || len(ws) > 3 {
+		return false
+	}
+	months := []string{"jan", "feb", "mar", "apr", "may", "jun", "jul", "aug", "sep", "sept", "oct", "nov", "dec",
+		"january", "february", "march", "april", "june", "july", "august", "september", "october", "november", "december"}
+	for _, w := range ws {
+		switch {
+		case hasWord([]string{w}, months...):
+		case len(w) == 2 && (w[0] == 'q' && w[1] >= '1' && w[1] <= '4' || w[0] == 'h' && (w[1] == '1' || w[1] == '2')):
+		case strings.HasPrefix(w, "fy") && allDigits(w[2:]) && (len(w) == 4 || len(w) == 6):
+		case allDigits(w) && (len(w) == 2 || len(w) == 4 && w >= "1990" && w <= "2100"):
+		case allDigits(w) && len(w) == 5 && w >= "20000" && w <= "80000" && len(ws) == 1:
+		default:
+			return false
+		}
+	}
+	return true
+}
+
+func allDigits(s string) bool {
+	for i := 0; i < len(s); i++ {
+		if s[i] < '0' || s[i] > '9' {
+			return false
+		}
+	}
+	return s != ""
 }

@@ -1,6 +1,7 @@
 package importer
 
 import (
+	"strconv"
 	"strings"
 
 	"github.com/expr-lang/expr/ast"
@@ -141,7 +142,7 @@ func proposeRules(t *tableSpec) []string {
 		default:
 			return nil
 		}
-		args := t.fuel.ident + ", " + t.qty.ident + ", " + unit
+		args := t.fuel.ident + ", " + scaled(t.qty) + ", " + unit
 		return []string{"tCO2 = fuel_co2(" + args + ")", "tCO2e = fuel_co2e(" + args + ")"}
 	case kindWide:
 		var co2, co2e []string
@@ -149,12 +150,23 @@ func proposeRules(t *tableSpec) []string {
 			if c.hdr.unitErr != nil || c.unitIdent == "" {
 				continue
 			}
-			args := "\"" + c.fuelID + "\", " + c.ident + ", " + c.unitIdent
+			args := "\"" + c.fuelID + "\", " + scaled(c) + ", " + c.unitIdent
 			co2 = append(co2, "fuel_co2("+args+")")
 			co2e = append(co2e, "fuel_co2e("+args+")")
 		}
 		if len(co2) == 0 {
 			return nil
+		}
+		return []string{"tCO2 = " + strings.Join(co2, " + "), "tCO2e = " + strings.Join(co2e, " + ")}
+	case kindPeriods:
+		if t.headerErr != nil {
+			return nil
+		}
+		var co2, co2e []string
+		for _, c := range t.periods {
+			args := t.fuel.ident + ", " + scaled(c) + ", " + t.unit.ident
+			co2 = append(co2, "fuel_co2("+args+")")
+			co2e = append(co2e, "fuel_co2e("+args+")")
 		}
 		return []string{"tCO2 = " + strings.Join(co2, " + "), "tCO2e = " + strings.Join(co2e, " + ")}
 	case kindBuildPlan:
@@ -170,7 +182,7 @@ func proposeRules(t *tableSpec) []string {
 		default:
 			return nil
 		}
-		args := t.tech.ident + ", " + t.capacity.ident + ", " + unit
+		args := t.tech.ident + ", " + scaled(t.capacity) + ", " + unit
 		if t.cf != nil {
 			cf := t.cf.ident
 			if t.cf.hdr.percent {
@@ -184,6 +196,15 @@ func proposeRules(t *tableSpec) []string {
 		return []string{"tCO2e = embodied(" + args + ")"}
 	}
 	return nil
+}
+
+// scaled is a column's identifier, times its header's scale ("'000 L").
+func scaled(c *column) string {
+	switch c.hdr.scale {
+	case 0, 1:
+		return c.ident
+	}
+	return c.ident + " * " + strconv.FormatFloat(c.hdr.scale, 'f', -1, 64)
 }
 
 // compileRules compiles the rules for t (the user's, or proposed ones).
@@ -239,7 +260,7 @@ func (sc *scanCtx) buildPlanVariants(t *table, r *rule) error {
 	if spec.unit != nil {
 		unit = spec.unit.ident
 	}
-	base := "embodied(" + spec.tech.ident + ", " + spec.capacity.ident + ", " + unit
+	base := "embodied(" + spec.tech.ident + ", " + scaled(spec.capacity) + ", " + unit
 	cf := spec.cf.ident
 	if spec.cf.hdr.percent {
 		cf += " / 100"

@@ -299,11 +299,11 @@ func (res *ScanResult) readingNotes() []string {
 	var out []string
 	wide, side := false, false
 	for _, t := range res.sc.tables {
-		wide = wide || t.spec.kind == kindWide
+		wide = wide || t.spec.kind == kindWide || t.spec.kind == kindPeriods
 		side = side || t.layout == LayoutSideSheet
 	}
 	if wide {
-		out = append(out, "blank cells and dashes in a per-fuel column count as zero use")
+		out = append(out, "blank cells and dashes in a per-fuel or per-period column count as zero use")
 	}
 	if side {
 		why := "on sheets with more than " + strconv.Itoa(res.sc.lim.inlineCells) + " cells"

@@ -28,7 +28,7 @@ func (sc *scanCtx) value(t *table, i int, b *binding) (any, bool) {
 		return sc.unitValue(t, c, v, r)
 	case roleTech:
 		return sc.techValue(t, c, v, r)
-	case roleQuantity, roleWideFuel, roleCapacity, roleCF, roleLifetime, roleExisting:
+	case roleQuantity, roleWideFuel, rolePeriod, roleCapacity, roleCF, roleLifetime, roleExisting:
 		return sc.numberValue(t, c, v, r)
 	}
 	if c.numeric {
@@ -219,7 +219,7 @@ func (sc *scanCtx) numberValue(t *table, c *column, v *cellVal, r int) (any, boo
 				" (decimal comma): store it as a number; row not computed")
 			return nil, false
 		default:
-			if c.role == roleWideFuel && isDash(v.text) {
+			if (c.role == roleWideFuel || c.role == rolePeriod) && isDash(v.text) {
 				return 0.0, true
 			}
 			sc.warn.add(sheet, c.col, r, SevError, CodeValueNotNumber, quoteText(v.text)+" is not a number; row not computed")
@@ -235,7 +235,7 @@ func (sc *scanCtx) numberValue(t *table, c *column, v *cellVal, r int) (any, boo
 			break
 		}
 		switch c.role {
-		case roleWideFuel:
+		case roleWideFuel, rolePeriod:
 			return 0.0, true
 		case roleQuantity, roleCapacity:
 			sc.warn.add(sheet, c.col, r, SevWarning, CodeValueNotNumber, "no "+strings.ToLower(c.hdr.base)+" given: row not computed")
@@ -253,7 +253,7 @@ func (sc *scanCtx) numberValue(t *table, c *column, v *cellVal, r int) (any, boo
 	if c.hdr.percent && c.role != roleCF {
 		x /= 100
 	}
-	if x < 0 && (c.role == roleQuantity || c.role == roleWideFuel || c.role == roleCapacity) {
+	if x < 0 && (c.role == roleQuantity || c.role == roleWideFuel || c.role == rolePeriod || c.role == roleCapacity) {
 		sc.warn.add(sheet, c.col, r, SevWarning, CodeValueNegative, "negative "+strings.ToLower(c.hdr.base)+" "+funcs.FormatNumber(x)+
 			" (a return or a correction?): computed, giving negative emissions")
 	}
