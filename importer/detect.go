@@ -131,8 +131,8 @@ func totalRow(r *row) bool {
 	return false
 }
 
-// keywordHits counts header cells that name a role, for telling a new
-// header apart from a data row inside a table.
+// keywordHits counts cells that name a role (a unit alone does not: data
+// rows have units), for telling a header from a data row.
 func (sc *scanCtx) keywordHits(r *row) int {
 	n := 0
 	for i := range r.cells {
@@ -142,7 +142,11 @@ func (sc *scanCtx) keywordHits(r *row) int {
 		}
 		h := sc.header(c.text)
 		ws := words(h.base)
-		if h.unitTxt != "" || hasWord(ws, "fuel", "unit", "units", "uom", "technology", "capacity") || hasWord(ws, qtyWords...) || hasWord(ws, groupWords...) {
+		if len(ws) > 4 {
+			continue // a sentence, not a header
+		}
+		if hasWord(ws, "fuel", "unit", "units", "uom", "technology", "capacity", "month", "date") || hasWord(ws, qtyWords...) || hasWord(ws, groupWords...) ||
+			h.unitTxt != "" && h.base != h.text && sc.fuel(h.base).err == nil {
 			n++
 		} else if _, ok := parseCarbonHeader(h.text); ok {
 			n++

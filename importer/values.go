@@ -222,7 +222,11 @@ func (sc *scanCtx) numberValue(t *table, c *column, v *cellVal, r int) (any, boo
 			if (c.role == roleWideFuel || c.role == rolePeriod) && isDash(v.text) {
 				return 0.0, true
 			}
-			sc.warn.add(sheet, c.col, r, SevError, CodeValueNotNumber, quoteText(v.text)+" is not a number; row not computed")
+			msg := quoteText(v.text) + " is not a number; row not computed"
+			if num, unit, ok := numberWithUnit(v.text); ok {
+				msg = quoteText(v.text) + " holds a number and a unit: write " + num + " here and " + unit + " in the unit column (or the header); row not computed"
+			}
+			sc.warn.add(sheet, c.col, r, SevError, CodeValueNotNumber, msg)
 			return nil, false
 		}
 	case kEmpty:
@@ -321,4 +325,21 @@ func notComputed(msg string) string {
 // ("Natural gas" for natural_gas): not worth a note.
 func sameName(text, id string) bool {
 	return strings.Join(words(text), "_") == id
+}
+
+// numberWithUnit splits "1200 litres" or "3.5t" into a number and a unit.
+func numberWithUnit(s string) (num, unit string, ok bool) {
+	s = strings.TrimSpace(s)
+	i := strings.LastIndexAny(s, "0123456789")
+	if i <= 0 || i == len(s)-1 {
+		return "", "", false
+	}
+	num, unit = strings.TrimSpace(s[:i+1]), strings.TrimSpace(s[i+1:])
+	if _, isNum, _ := textNumber(num); !isNum {
+		return "", "", false
+	}
+	if _, err := units.Parse(unit); err != nil {
+		return "", "", false
+	}
+	return num, unit, true
 }
