@@ -1,6 +1,10 @@
 package importer
 
-import "github.com/fluecell/fluecell/funcs"
+import (
+	"strings"
+
+	"github.com/fluecell/fluecell/funcs"
+)
 
 // provenance collects the factor rows and notes behind the computed numbers,
 // for the Carbon sources sheet: nothing is dropped between layers.
@@ -68,4 +72,70 @@ func (p *provenance) noteCount(note string) {
 		p.noteOrd = append(p.noteOrd, note)
 	}
 	p.notes[note]++
+}
+
+// srcKey identifies the factor rows behind a row's numbers (up to eight;
+// longer lists are joined each time).
+type srcKey [8]*funcs.Factor
+
+// sourceIndex returns the index of the row's source text, building it once
+// per distinct set of factors.
+func (sc *scanCtx) sourceIndex(t *table, idx map[srcKey]int32, key srcKey, long []*funcs.Factor) int32 {
+	if long == nil {
+		if i, ok := idx[key]; ok {
+			sc.countFactors(key[:], nil)
+			return i
+		}
+	}
+	t.srcText = append(t.srcText, sourceText(append(key[:], long...)))
+	i := int32(len(t.srcText) - 1)
+	if long == nil {
+		idx[key] = i
+	}
+	sc.countFactors(key[:], long)
+	return i
+}
+
+func slicesContains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
+	}
+	return false
+}
+
+// sourceText lists factor rows compactly, grouping the quantities of one
+// pack and id: "ipcc2006/gas_diesel_oil: ncv, co2_ef; common/ch4/gwp100_ar5".
+func sourceText(fs []*funcs.Factor) string {
+	type group struct {
+		head string
+		qs   []string
+	}
+	var groups []*group
+	byHead := map[string]*group{}
+	dup := map[string]bool{}
+	for _, f := range fs {
+		if f == nil || dup[f.Key()] {
+			continue
+		}
+		dup[f.Key()] = true
+		h := f.Pack + "/" + f.ID
+		g := byHead[h]
+		if g == nil {
+			g = &group{head: h}
+			byHead[h] = g
+			groups = append(groups, g)
+		}
+		g.qs = append(g.qs, f.Quantity)
+	}
+	parts := make([]string, len(groups))
+	for i, g := range groups {
+		if len(g.qs) == 1 {
+			parts[i] = g.head + "/" + g.qs[0]
+		} else {
+			parts[i] = g.head + ": " + strings.Join(g.qs, ", ")
+		}
+	}
+	return strings.Join(parts, "; ")
 }

@@ -79,7 +79,19 @@ func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
 	set(cellRef(2, row), rep.Totals.TCO2, st.num)
 	set(cellRef(3, row), rep.Totals.TCO2e, st.num)
 	set(cellRef(4, row), rep.Computed, st.int)
-	row += 2
+	row++
+	if len(rep.Tables) > 1 {
+		// Each table apart: a fuel log's Scope 1 emissions and a build plan's
+		// embodied emissions are different things, whatever the grand total.
+		for _, tb := range rep.Tables {
+			set(cellRef(1, row), tb.Kind+" "+tb.Sheet+"!"+tb.Range, 0)
+			set(cellRef(2, row), tb.Totals.TCO2, st.num)
+			set(cellRef(3, row), tb.Totals.TCO2e, st.num)
+			set(cellRef(4, row), tb.Computed, st.int)
+			row++
+		}
+	}
+	row++
 
 	fuels := map[string]*sum{}
 	for _, t := range res.sc.tables {

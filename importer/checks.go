@@ -1,0 +1,228 @@
+package importer
+
+import (
+	"math"
+	"sort"
+	"strings"
+
+	"github.com/fluecell/fluecell/funcs"
+	"github.com/fluecell/fluecell/funcs/units"
+)
+
+// The checks that need whole columns: outliers by fuel and unit, units mixed
+// in one column, the workbook's own carbon figures against the computed ones.
+
+// collectSamples keeps positive quantities by fuel and unit for the
+// outlier check.
+func (sc *scanCtx) collectSamples(t *table, i, rowNum int, vars map[string]any, samples map[string][]sample) {
+	spec := t.spec
+	switch spec.kind {
+	case kindFuelLog:
+		q, ok := vars[spec.qty.ident].(float64)
+		if !ok || q <= 0 {
+			return
+		}
+		fs, ok1 := vars[spec.fuel.ident].(string)
+		unit := spec.qty.hdr.unitTxt
+		if spec.unit != nil {
+			us, ok2 := vars[spec.unit.ident].(string)
+			if !ok2 {
+				return
+			}
+			unit = us
+		}
+		f := sc.fuel(fs)
+		u := sc.unit(unit)
+		if !ok1 || f.err != nil || u.err != nil {
+			return
+		}
+		k := spec.sheet + "|" + colName(spec.qty.col) + "|" + f.id + "|" + u.u.String()
+		samples[k] = append(samples[k], sample{rowNum, spec.qty.col, q})
+	case kindPeriods:
+		fs, ok1 := vars[spec.fuel.ident].(string)
+		us, ok2 := vars[spec.unit.ident].(string)
+		if !ok1 || !ok2 {
+			return
+		}
+		f, u := sc.fuel(fs), sc.unit(us)
+		if f.err != nil || u.err != nil {
+			return
+		}
+		k := spec.sheet + "|" + colName(spec.periods[0].col) + "|" + f.id + "|" + u.u.String()
+		for _, c := range spec.periods {
+			if q, ok := vars[c.ident].(float64); ok && q > 0 {
+				samples[k] = append(samples[k], sample{rowNum, c.col, q})
+			}
+		}
+	case kindWide:
+		for _, c := range spec.wide {
+			if q, ok := vars[c.ident].(float64); ok && q > 0 {
+				k := spec.sheet + "|" + colName(c.col) + "|" + c.fuelID
+				samples[k] = append(samples[k], sample{rowNum, c.col, q})
+			}
+		}
+	}
+}
+
+// checkOutliers flags quantities more than 100 times above or below the
+// median of the same fuel and unit (at least three rows).
+func (sc *scanCtx) checkOutliers(sheet string, samples map[string][]sample) {
+	keys := make([]string, 0, len(samples))
+	for k := range samples {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	for _, k := range keys {
+		ss := samples[k]
+		if len(ss) < 3 {
+			continue
+		}
+		vals := make([]float64, len(ss))
+		for i, s := range ss {
+			vals[i] = s.v
+		}
+		sort.Float64s(vals)
+		med := vals[len(vals)/2]
+		if len(vals)%2 == 0 {
+			med = (vals[len(vals)/2-1] + vals[len(vals)/2]) / 2
+		}
+		parts := strings.SplitN(k, "|", 4)
+		what := parts[2]
+		if len(parts) == 4 {
+			what += " in " + parts[3]
+		}
+		for _, s := range ss {
+			if s.v > 100*med || s.v < med/100 {
+				ratio := s.v / med
+				dir := funcs.FormatNumber(math.Round(ratio)) + " times"
+				if ratio < 1 {
+					dir = "1/" + funcs.FormatNumber(math.Round(1/ratio))
+				}
+				sc.warn.add(sheet, s.col, s.row, SevWarning, CodeValueOutlier, funcs.FormatNumber(s.v)+" is "+dir+" the median "+
+					funcs.FormatNumber(med)+" of the "+plural(len(ss), "row")+" of "+what+" (a unit slip or a typo?): computed, check it")
+			}
+		}
+	}
+}
+
+// noteUnit counts the unit of a row for the unit-mixed check.
+func (t *table) noteUnit(c *column, u units.Unit, r int) {
+	if t.unitsSeen == nil {
+		t.unitsSeen = map[string]*unitSeen{}
+	}
+	sym := u.String()
+	s := t.unitsSeen[sym]
+	if s == nil {
+		s = &unitSeen{sym: sym, first: r}
+		t.unitsSeen[sym] = s
+		t.unitOrder = append(t.unitOrder, sym)
+	}
+	s.rows++
+}
+
+// checkMixed notes once per unit column that it mixes units.
+func (sc *scanCtx) checkMixed(t *table) {
+	if len(t.unitOrder) < 2 || t.spec.unit == nil {
+		return
+	}
+	list := make([]*unitSeen, 0, len(t.unitOrder))
+	for _, s := range t.unitOrder {
+		list = append(list, t.unitsSeen[s])
+	}
+	sort.SliceStable(list, func(i, j int) bool { return list[i].rows > list[j].rows })
+	var parts []string
+	for _, s := range list {
+		parts = append(parts, s.sym+" in "+plural(s.rows, "row"))
+	}
+	second := list[1]
+	for _, s := range list[2:] {
+		if s.first < second.first {
+			second = s
+		}
+	}
+	c := t.spec.unit
+	sc.warn.add(t.spec.sheet, c.col, second.first, SevWarning, CodeUnitMixed, "column "+colName(c.col)+" ("+quoteText(c.hdr.text)+") mixes units: "+
+		strings.Join(parts, ", ")+"; each row is converted from its own unit (first "+second.sym+" here)")
+}
+
+// checkExisting compares the workbook's own carbon figures with the
+// computed ones (more than 2 % apart is flagged).
+func (sc *scanCtx) checkExisting(t *table, i, rowNum int) {
+	for _, c := range t.spec.existing {
+		if c.carbon.unit.Symbol == "" {
+			continue
+		}
+		want := -1
+		for ri, r := range t.rules {
+			if (c.carbon.species == "CO2" || c.carbon.species == "C") && r.total == 1 || c.carbon.species == "CO2e" && r.total == 2 {
+				want = ri
+			}
+		}
+		if want < 0 {
+			continue
+		}
+		ours := t.res[want][i]
+		if math.IsNaN(ours) {
+			continue
+		}
+		v := t.val(i, t.slotOf[c.col])
+		var theirs float64
+		switch v.kind {
+		case kNumber:
+			theirs = v.num
+		case kText:
+			f, ok, _ := textNumber(v.text)
+			if !ok {
+				continue
+			}
+			theirs = f
+		default:
+			continue
+		}
+		unitT := c.carbon.unit.SIFloat() / 1000 * c.carbon.scale // tonnes per unit
+		theirsT := theirs * unitT
+		oursS := ours
+		label := "t CO2"
+		if t.rules[want].total == 2 {
+			label = "t CO2e"
+		}
+		if c.carbon.species == "C" {
+			oursS = ours * 12 / 44
+			label = "t C"
+		}
+		diff := theirsT - oursS
+		if math.Abs(diff) <= 0.02*math.Abs(oursS) || oursS == 0 && theirsT == 0 {
+			continue
+		}
+		pct := "n/a"
+		if oursS != 0 {
+			pct = signed(math.Round(1000*diff/math.Abs(oursS))/10) + " %"
+		}
+		msg := "the workbook says " + funcs.FormatNumber(theirs) + " " + c.carbon.unit.Symbol + " " + c.carbon.species
+		if c.carbon.unit.Symbol != "t" {
+			msg += " (" + funcs.FormatNumber(roundSig(theirsT)) + " " + label + ")"
+		}
+		msg += ", fluecell computes " + funcs.FormatNumber(roundSig(oursS)) + " " + label +
+			" with rule " + t.rules[want].column + ": " + pct
+		if c.carbon.species == "C" && math.Abs(theirsT-ours) <= 0.02*math.Abs(ours) {
+			msg += "; the figure matches CO2, not carbon: is the column mislabelled?"
+		}
+		sc.warn.add(t.spec.sheet, c.col, rowNum, SevWarning, CodeExistingMismatch, msg)
+	}
+}
+
+func signed(x float64) string {
+	if x > 0 {
+		return "+" + funcs.FormatNumber(x)
+	}
+	return funcs.FormatNumber(x)
+}
+
+// roundSig rounds to 6 significant digits for messages.
+func roundSig(x float64) float64 {
+	if x == 0 || math.IsNaN(x) || math.IsInf(x, 0) {
+		return x
+	}
+	p := math.Pow(10, 5-math.Floor(math.Log10(math.Abs(x))))
+	return math.Round(x*p) / p
+}
