@@ -9,6 +9,7 @@ import (
 	"sync"
 	"time"
 
+	"github.com/fluecell/fluecell/importer"
 	"github.com/fluecell/fluecell/server"
 )
 
@@ -71,10 +72,14 @@ func cmdServe(ctx context.Context, s stdio, args []string) int {
 	if err != nil {
 		return fail(s, "serve", err)
 	}
+	annotate := server.AnnotateHandler(e, server.AnnotateConfig{
+		Options: importer.Options{Pack: ef.pack, FactorFiles: append([]string{}, ef.factors...)},
+		Logger:  logger,
+	})
 	srv, err := server.New(server.Config{
 		Addr: *addr, Token: tok, CORSOrigins: cors,
 		MaxBodyBytes: *maxBody, MaxUploadBytes: *maxUpload, MaxRows: *maxRows, EvalTimeout: *evalTimeout,
-		CacheEntries: cache, Version: version,
+		CacheEntries: cache, Version: version, Annotate: annotate,
 	}, e, logger)
 	if err != nil {
 		return fail(s, "serve", err)

@@ -1,0 +1,331 @@
+package server
+
+import (
+	"bufio"
+	"context"
+	"encoding/json"
+	"errors"
+	"io"
+	"log/slog"
+	"mime"
+	"mime/multipart"
+	"net/http"
+	"os"
+	"path/filepath"
+	"runtime"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/fluecell/fluecell/funcs"
+	"github.com/fluecell/fluecell/importer"
+)
+
+// Content types of workbooks.
+const (
+	typeXLSX = "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet"
+	typeXLSM = "application/vnd.ms-excel.sheet.macroEnabled.12"
+	typeCSV  = "text/csv"
+)
+
+// AnnotateConfig configures AnnotateHandler.
+type AnnotateConfig struct {
+	// Options are the importer options every request starts from (user
+	// factor files, limits); a request may add rules, a sheet and a pack.
+	Options importer.Options
+	// Concurrent is how many workbooks are annotated at once (default: the
+	// number of CPUs); further requests wait for a turn until their
+	// deadline.
+	Concurrent int
+	// Timeout bounds one annotation, upload and answer included (default 5
+	// minutes); past it the answer is 503.
+	Timeout time.Duration
+	// TempDir holds the uploads and outputs while a request runs ("" = the
+	// system's temporary folder); each request's files are removed when it
+	// ends.
+	TempDir string
+	Logger  *slog.Logger
+}
+
+// AnnotateHandler returns the handler of POST /v1/annotate, to be set as
+// Config.Annotate. The body is the workbook (.xlsx, .xlsm or CSV, by
+// Content-Type or the name= query parameter), or a multipart form whose part
+// "file" holds it. Query parameters: rule (repeatable, "COLUMN = EXPR"),
+// sheet, pack, name, and report=json to answer the report instead of the
+// annotated workbook. The upload is spooled to a temporary file, annotated
+// with importer.Annotate, and both files are removed at the end.
+func AnnotateHandler(e *funcs.Engine, cfg AnnotateConfig) http.Handler {
+	if cfg.Concurrent <= 0 {
+		cfg.Concurrent = runtime.NumCPU()
+	}
+	if cfg.Timeout <= 0 {
+		cfg.Timeout = 5 * time.Minute
+	}
+	if cfg.Logger == nil {
+		cfg.Logger = slog.New(slog.NewTextHandler(io.Discard, nil))
+	}
+	return &annotateHandler{e: e, cfg: cfg, turns: make(chan struct{}, cfg.Concurrent)}
+}
+
+type annotateHandler struct {
+	e     *funcs.Engine
+	cfg   AnnotateConfig
+	turns chan struct{}
+}
+
+func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
+	// A workbook takes longer than a function call: extend this request's
+	// deadlines past the server's defaults, up to the annotation timeout.
+	deadline := time.Now().Add(h.cfg.Timeout)
+	rc := http.NewResponseController(w)
+	_ = rc.SetReadDeadline(deadline)
+	_ = rc.SetWriteDeadline(deadline.Add(30 * time.Second))
+	ctx, cancel := context.WithDeadline(r.Context(), deadline)
+	defer cancel()
+
+	q := r.URL.Query()
+	for k := range q {
+		switch k {
+		case "rule", "sheet", "pack", "name", "report", "token":
+		default:
+			h.fail(w, badRequest(k, "unknown parameter "+quoteParam(k)+": /v1/annotate takes rule, sheet, pack, name and report=json"))
+			return
+		}
+	}
+	asReport := false
+	switch v := q.Get("report"); v {
+	case "":
+	case "json":
+		asReport = true
+	default:
+		h.fail(w, badRequest("report", "report="+quoteParam(v)+": the only accepted value is json"))
+		return
+	}
+	opt := h.cfg.Options
+	opt.Rules = append(append([]string(nil), opt.Rules...), q["rule"]...)
+	opt.Sheet = q.Get("sheet")
+	if p := q.Get("pack"); p != "" {
+		if _, err := h.e.Factors(p, ""); err != nil {
+			h.fail(w, fromFuncs(err, false))
+			return
+		}
+		opt.Pack = p
+	}
+
+	select {
+	case h.turns <- struct{}{}:
+		defer func() { <-h.turns }()
+	case <-ctx.Done():
+		h.fail(w, &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout, Msg: "the server is busy annotating other workbooks; try again later"})
+		return
+	}
+
+	dir, err := os.MkdirTemp(h.cfg.TempDir, "fluecell-annotate-")
+	if err != nil {
+		h.fail(w, internalError(err))
+		return
+	}
+	defer os.RemoveAll(dir)
+	name, ext, body, apiErr := uploadedWorkbook(r, q.Get("name"))
+	if apiErr != nil {
+		h.fail(w, apiErr)
+		return
+	}
+	in := filepath.Join(dir, "upload"+ext)
+	if apiErr := spool(in, body); apiErr != nil {
+		h.fail(w, apiErr)
+		return
+	}
+	out := filepath.Join(dir, "annotated"+ext)
+	rep, err := importer.Annotate(ctx, h.e, in, out, opt)
+	if err != nil {
+		h.fail(w, importerError(err, ctx))
+		return
+	}
+	if asReport {
+		rep.Output = ""
+		w.Header().Set("Content-Type", "application/json; charset=utf-8")
+		w.Header().Set("Cache-Control", "no-store")
+		json.NewEncoder(w).Encode(rep)
+		return
+	}
+	f, err := os.Open(out)
+	if err != nil {
+		h.fail(w, internalError(err))
+		return
+	}
+	defer f.Close()
+	ctype := typeXLSX
+	switch ext {
+	case ".xlsm":
+		ctype = typeXLSM
+	case ".csv":
+		ctype = typeCSV + "; charset=utf-8"
+	}
+	w.Header().Set("Content-Type", ctype)
+	w.Header().Set("Cache-Control", "no-store")
+	w.Header().Set("Content-Disposition", mime.FormatMediaType("attachment", map[string]string{"filename": importer.DefaultOutput(name)}))
+	if fi, err := f.Stat(); err == nil {
+		w.Header().Set("Content-Length", strconv.FormatInt(fi.Size(), 10))
+	}
+	if _, err := io.Copy(w, f); err != nil {
+		h.cfg.Logger.Warn("annotate: writing the answer", "err", err)
+	}
+}
+
+// uploadedWorkbook finds the workbook in the request: the body itself, or the
+// part "file" of a multipart form. It returns the file name to answer with,
+// its extension (.xlsx, .xlsm or .csv; .xls so that the importer refuses it
+// by name) and the reader.
+func uploadedWorkbook(r *http.Request, nameParam string) (name, ext string, body io.Reader, err *apiError) {
+	ct := r.Header.Get("Content-Type")
+	mt, params, perr := mime.ParseMediaType(ct)
+	if ct != "" && perr != nil {
+		return "", "", nil, &apiError{Status: http.StatusUnsupportedMediaType, Code: codeMediaType, Msg: "unreadable Content-Type " + quoteParam(ct)}
+	}
+	name = nameParam
+	body = r.Body
+	switch mt {
+	case "multipart/form-data":
+		mr := multipart.NewReader(r.Body, params["boundary"])
+		for {
+			part, e := mr.NextPart()
+			if e == io.EOF {
+				return "", "", nil, badRequest("file", "the multipart form has no part named file: send the workbook as file")
+			}
+			if e != nil {
+				return "", "", nil, uploadError(e, "the multipart form cannot be read: "+e.Error())
+			}
+			if part.FormName() == "file" {
+				if name == "" {
+					name = part.FileName()
+				}
+				body = part
+				if pt := part.Header.Get("Content-Type"); pt != "" && pt != "application/octet-stream" {
+					mt, _, _ = mime.ParseMediaType(pt)
+				} else {
+					mt = ""
+				}
+				break
+			}
+		}
+	case typeXLSX, typeXLSM, typeCSV, "application/vnd.ms-excel", "application/octet-stream", "":
+	case "application/x-www-form-urlencoded":
+		// what curl --data-binary sends by default: the body decides
+		mt = ""
+	default:
+		return "", "", nil, &apiError{Status: http.StatusUnsupportedMediaType, Code: codeMediaType,
+			Msg: "Content-Type " + quoteParam(mt) + " is not a workbook: send " + typeXLSX + ", " + typeXLSM + ", text/csv or multipart/form-data with a part file"}
+	}
+	name = filepath.Base(strings.ReplaceAll(name, "\\", "/"))
+	ext = strings.ToLower(filepath.Ext(name))
+	switch ext {
+	case ".xlsx", ".xlsm", ".csv", ".xls":
+	default:
+		switch mt {
+		case typeXLSM:
+			ext = ".xlsm"
+		case typeCSV:
+			ext = ".csv"
+		case "application/vnd.ms-excel":
+			ext = ".xls"
+		default:
+			// Look at the first bytes: a zip is an OOXML workbook, the OLE2
+			// signature a legacy .xls (refused with its own message).
+			br := bufio.NewReader(body)
+			head, _ := br.Peek(8)
+			body = br
+			switch {
+			case len(head) >= 4 && string(head[:4]) == "PK\x03\x04":
+				ext = ".xlsx"
+			case len(head) >= 8 && string(head) == "\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1":
+				ext = ".xls"
+			default:
+				return "", "", nil, &apiError{Status: http.StatusUnsupportedMediaType, Code: codeMediaType,
+					Msg: "the body is not an .xlsx or .xlsm workbook: send CSV with Content-Type text/csv or name=FILE.csv"}
+			}
+		}
+	}
+	if name == "." || name == "/" || name == "" || strings.ToLower(filepath.Ext(name)) != ext {
+		name = "workbook" + ext
+	}
+	return name, ext, body, nil
+}
+
+// spool copies the upload into path.
+func spool(path string, body io.Reader) *apiError {
+	f, err := os.Create(path)
+	if err != nil {
+		return internalError(err)
+	}
+	n, err := io.Copy(f, body)
+	if cerr := f.Close(); err == nil && cerr != nil {
+		return internalError(cerr)
+	}
+	if err != nil {
+		return uploadError(err, "the upload was cut off: "+err.Error())
+	}
+	if n == 0 {
+		return badRequest("body", "empty body: send the workbook (.xlsx, .xlsm or CSV) as the body or as the multipart part file")
+	}
+	return nil
+}
+
+// uploadError is 413 for a body over the limit, else 400 with msg.
+func uploadError(err error, msg string) *apiError {
+	var mbe *http.MaxBytesError
+	if errors.As(err, &mbe) {
+		return tooLarge(mbe.Limit)
+	}
+	if errors.Is(err, os.ErrDeadlineExceeded) || errors.Is(err, context.DeadlineExceeded) {
+		return &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout, Msg: "the upload did not arrive within the server's time limit"}
+	}
+	return badRequest("body", msg)
+}
+
+// importerError maps an annotation failure to its answer. The temporary
+// paths are the server's business: messages leave them out.
+func importerError(err error, ctx context.Context) *apiError {
+	var ie *importer.Error
+	if !errors.As(err, &ie) {
+		if fe, ok := funcs.AsError(err); ok {
+			return fromFuncs(fe, false)
+		}
+		return internalError(err)
+	}
+	msg := ie.Msg
+	switch ie.Code {
+	case importer.ErrTooLarge:
+		return &apiError{Status: http.StatusRequestEntityTooLarge, Code: codeTooLarge, Msg: oneLine(msg)}
+	case importer.ErrCancelled:
+		if ctx.Err() == context.DeadlineExceeded {
+			return &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout, Msg: "the annotation ran past the server's time limit"}
+		}
+		return &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout, Msg: "the request ended before the annotation did"}
+	case importer.ErrIO, importer.ErrInternal:
+		return internalError(err)
+	}
+	out := &apiError{Status: http.StatusBadRequest, Code: "workbook-" + ie.Code, Msg: oneLine(msg)}
+	if first, _, multi := strings.Cut(msg, "\n"); multi {
+		// a rule's compile error: the expression and a caret on lines of their own
+		out.Msg, out.Detail = oneLine(first), strings.ToValidUTF8(msg, "\ufffd")
+	}
+	return out
+}
+
+func (h *annotateHandler) fail(w http.ResponseWriter, e *apiError) {
+	if e.Status >= 500 && e.cause != nil {
+		h.cfg.Logger.Error("annotate", "err", e.cause)
+	}
+	w.Header().Set("Content-Type", "application/json; charset=utf-8")
+	w.Header().Set("Cache-Control", "no-store")
+	w.WriteHeader(e.Status)
+	json.NewEncoder(w).Encode(e.body())
+}
+
+func quoteParam(s string) string {
+	if len(s) > 64 {
+		s = s[:64] + "..."
+	}
+	return `"` + oneLine(s) + `"`
+}
