@@ -70,13 +70,13 @@ func (b Basis) String() string {
 
 // basisOf reads a basis token: HHV or GCV, LHV or NCV, in any case.
 func basisOf(tok string) (Basis, bool) {
-	if len(tok) != 3 {
+	if len(tok) != 3 && len(tok) != 5 {
 		return NoBasis, false
 	}
 	for _, c := range [...]struct {
 		tok string
 		b   Basis
-	}{{"HHV", HHV}, {"GCV", HHV}, {"NCV", NCV}, {"LHV", NCV}} {
+	}{{"HHV", HHV}, {"GCV", HHV}, {"NCV", NCV}, {"LHV", NCV}, {"GROSS", HHV}, {"NET", NCV}} {
 		if equalFoldASCII(tok, c.tok) {
 			return c.b, true
 		}

@@ -88,7 +88,7 @@ func unitDefs() []unitDef {
 
 		// Volume, SI base m3.
 		{sym: "m3", name: "cubic metre", dim: v, factor: "1", source: si, spell: []string{"m³", "m^3", "cubic metre", "cubic metres", "cubic meter", "cubic meters"}},
-		{sym: "L", name: "litre", dim: v, factor: "0.001", source: si, spell: []string{"l", "litre", "litres", "liter", "liters"}},
+		{sym: "L", name: "litre", dim: v, factor: "0.001", source: si, spell: []string{"l", "litre", "litres", "liter", "liters", "ltr", "ltrs", "lts"}},
 		{sym: "mL", name: "millilitre", dim: v, factor: "0.001", of: "L", source: si, spell: []string{"millilitre", "millilitres", "milliliter", "milliliters"}},
 		{sym: "kL", name: "kilolitre", dim: v, factor: "1e3", of: "L", source: si, spell: []string{"kilolitre", "kilolitres", "kiloliter", "kiloliters"}},
 		{sym: "ML", name: "megalitre", dim: v, factor: "1e6", of: "L", source: si, spell: []string{"megalitre", "megalitres", "megaliter", "megaliters"}},
@@ -135,5 +135,9 @@ func ambiguities() []ambiguity {
 			alts: []alt{{"gal_imp", "imperial gallon, 4.54609 L"}, {"gal", "US gallon, 3.785411784 L"}}},
 		{spell: []string{"cal", "calorie", "calories"}, note: "the calorie has several definitions",
 			alts: []alt{{"kcal", "International Table calorie"}, {"J", "joule"}}},
+		{spell: []string{"lt", "LT"}, alts: []alt{{"L", "litre"}, {"long_ton", "2240 lb"}}},
+		{spell: []string{"Nm3", "Nm³", "Sm3", "Sm³", "scm", "SCM", "normal cubic metre", "normal cubic metres", "standard cubic metre", "standard cubic metres"},
+			note: "a gas volume at reference conditions (0 °C or 15 °C) that fluecell does not convert between",
+			alts: []alt{{"GJ", "the energy on the gas bill, or kWh"}, {"scf", "standard cubic feet at 60 °F, with pack epa2025"}}},
 	}
 }
