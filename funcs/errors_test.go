@@ -15,7 +15,7 @@ func TestBadInputs(t *testing.T) {
 	}{
 		{`fuel_co2("natral gas", 1, "TJ")`, CodeUnknownFuel, `fuel_co2: fuel: unknown fuel "natral gas": did you mean natural_gas? (column 10)`},
 		{`fuel_co2("disel", 1, "L")`, CodeUnknownFuel, `fuel_co2: fuel: unknown fuel "disel": did you mean gas_diesel_oil? (column 10)`},
-		{`fuel_co2("", 1, "L")`, CodeBadArgument, `fuel_co2: fuel: empty fuel: give a fuel id such as natural_gas or gas_diesel_oil (list: fluecell factors) (column 10)`},
+		{`fuel_co2("", 1, "L")`, CodeBadArgument, `fuel_co2: fuel: empty fuel: give a fuel id such as natural_gas or gas_diesel_oil (list: fluecell factors, or GET /v1/factors) (column 10)`},
 		{`fuel_co2("natural_gas", 1, "ton")`, CodeUnit, `fuel_co2: unit: ambiguous unit "ton": write t (tonne, 1000 kg), short_ton (2000 lb) or long_ton (2240 lb) (column 28)`},
 		{`fuel_co2("natural_gas", 1, "MT")`, CodeUnit, `fuel_co2: unit: ambiguous unit "MT": write t (tonne, 1000 kg) or Mt (megatonne, 1e9 kg) (column 28)`},
 		{`fuel_co2("natural_gas", 1, "MBtu")`, CodeUnit, `fuel_co2: unit: ambiguous unit "MBtu": write kBtu (thousand Btu) or MMBtu (million Btu) (column 28)`},

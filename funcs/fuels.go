@@ -74,7 +74,7 @@ func (ix *fuelIndex) resolve(name string) (f *Fuel, alias bool, err error) {
 		return f, true, nil
 	}
 	if strings.TrimSpace(name) == "" {
-		return nil, false, &Error{Code: CodeBadArgument, Param: "fuel", Msg: "empty fuel: give a fuel id such as natural_gas or gas_diesel_oil (list: fluecell factors)"}
+		return nil, false, &Error{Code: CodeBadArgument, Param: "fuel", Msg: "empty fuel: give a fuel id such as natural_gas or gas_diesel_oil (list: fluecell factors, or GET /v1/factors)"}
 	}
 	return nil, false, &Error{Code: CodeUnknownFuel, Param: "fuel", Msg: ix.unknownMessage(name)}
 }
@@ -87,7 +87,7 @@ func (ix *fuelIndex) unknownMessage(name string) string {
 	for _, f := range ix.ordered {
 		ids = append(ids, f.ID)
 	}
-	return "unknown fuel " + quote(name) + ": accepted fuel ids are " + strings.Join(ids, ", ") + " (aliases: fluecell factors)"
+	return "unknown fuel " + quote(name) + ": accepted fuel ids are " + strings.Join(ids, ", ") + " (aliases: fluecell factors, or GET /v1/factors)"
 }
 
 // suggest returns the canonical id whose id or alias is closest to name, or ""
