@@ -93,19 +93,16 @@ func callGtCFromPPM(e *Engine, c *callCtx, a argList) (float64, string, error) {
 }
 
 func callCO2FromCarbon(e *Engine, c *callCtx, a argList) (float64, string, error) {
-	m, err := a.num(0)
-	if err != nil {
-		return 0, "", err
-	}
-	ratio, fs, err := e.co2PerCarbon(CommonPack)
-	if err != nil {
-		return 0, "", err
-	}
-	c.use(fs...)
-	return m * ratFloat(ratio), "", nil
+	return carbonRatio(e, c, a, false)
 }
 
 func callCarbonFromCO2(e *Engine, c *callCtx, a argList) (float64, string, error) {
+	return carbonRatio(e, c, a, true)
+}
+
+// carbonRatio multiplies the mass argument by 44/12 (C to CO2), or divides
+// it (CO2 to C) when inverse is set.
+func carbonRatio(e *Engine, c *callCtx, a argList, inverse bool) (float64, string, error) {
 	m, err := a.num(0)
 	if err != nil {
 		return 0, "", err
@@ -115,5 +112,8 @@ func callCarbonFromCO2(e *Engine, c *callCtx, a argList) (float64, string, error
 		return 0, "", err
 	}
 	c.use(fs...)
-	return m / ratFloat(ratio), "", nil
+	if inverse {
+		return m / ratFloat(ratio), "", nil
+	}
+	return m * ratFloat(ratio), "", nil
 }
