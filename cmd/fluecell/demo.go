@@ -43,13 +43,16 @@ func cmdDemo(ctx context.Context, s stdio, args []string) int {
 		fmt.Fprintf(s.out, "  %d of %d rows computed: %s tCO2, %s tCO2e; %d errors, %d warnings, %d notes\n",
 			rep.Computed, rep.Rows, fmtTonnes(rep.Totals.TCO2), fmtTonnes(rep.Totals.TCO2e),
 			rep.Count(importer.SevError), rep.Count(importer.SevWarning), rep.Count(importer.SevInfo))
+		// The rows that got no number first, then those to check.
 		shown := 0
-		for _, w := range rep.Warnings {
-			if w.Severity == importer.SevInfo || shown == 4 {
-				continue
+		for _, sev := range []string{importer.SevError, importer.SevWarning} {
+			for _, w := range rep.Warnings {
+				if w.Severity != sev || shown == 8 {
+					continue
+				}
+				fmt.Fprintf(s.out, "    %s!%s %s %s: %s\n", w.Sheet, w.Cell, w.Severity, w.Code, w.Message)
+				shown++
 			}
-			fmt.Fprintf(s.out, "    %s!%s %s: %s\n", w.Sheet, w.Cell, w.Code, w.Message)
-			shown++
 		}
 		if n := rep.Count(importer.SevError) + rep.Count(importer.SevWarning); n > shown {
 			fmt.Fprintf(s.out, "    ... %d more in the %q sheet\n", n-shown, importer.SheetWarnings)
