@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
+	"flag"
 	"fmt"
 	"io"
 	"math"
@@ -22,13 +23,10 @@ const exitFailOn = 3
 func cmdAnnotate(ctx context.Context, s stdio, args []string) int {
 	fs := newFlags("annotate", "annotate IN.xlsx|IN.csv [-o OUT] [--rule 'COLUMN = EXPR']... [--sheet S] [--report R.json] [--pack P] [--factors F]... [--fail-on warning|error]", s.err, true)
 	out := fs.String("o", "", "write the annotated workbook to `OUT` (default: IN with .carbon before the extension)")
-	var rules listFlag
-	fs.Var(&rules, "rule", "compute a column: `'COLUMN = EXPR'` over the header identifiers, e.g. 'tCO2e = fuel_co2e(fuel, quantity, unit)'; repeatable (default: rules proposed from the columns)")
-	sheet := fs.String("sheet", "", "look for tables on sheet `S` only")
 	report := fs.String("report", "", "also write the report as JSON to `R.json` (- for standard output)")
 	failOn := fs.String("fail-on", "", "exit with code 3 when a finding of this `severity` or worse exists: warning or error (the output is still written)")
-	var ef engineFlags
-	ef.register(fs)
+	var af annotateFlags
+	af.register(fs)
 	pos, code, ok := parseArgs(fs, args)
 	if !ok {
 		return code
@@ -48,11 +46,11 @@ func cmdAnnotate(ctx context.Context, s stdio, args []string) int {
 	if dst == "" {
 		dst = importer.DefaultOutput(in)
 	}
-	e, err := ef.engine()
+	e, err := af.engine()
 	if err != nil {
 		return fail(s, "annotate", err)
 	}
-	opt := importer.Options{Rules: rules, Sheet: *sheet, Pack: ef.pack, FactorFiles: append([]string{}, ef.factors...)}
+	opt := af.options()
 	rep, err := importer.Annotate(ctx, e, in, dst, opt)
 	if err != nil {
 		return fail(s, "annotate", err)
@@ -131,4 +129,23 @@ func writeReport(path string, out io.Writer, rep *importer.Report) error {
 		return fmt.Errorf("--report %s: %v", path, err)
 	}
 	return nil
+}
+
+// annotateFlags are the flags of the commands that annotate workbooks:
+// factor packs, rules and the sheet to read.
+type annotateFlags struct {
+	engineFlags
+	rules listFlag
+	sheet string
+}
+
+func (f *annotateFlags) register(fs *flag.FlagSet) {
+	f.engineFlags.register(fs)
+	fs.Var(&f.rules, "rule", "compute a column: `'COLUMN = EXPR'` over the header identifiers, e.g. 'tCO2e = fuel_co2e(fuel, quantity, unit)'; repeatable (default: rules proposed from each table's columns)")
+	fs.StringVar(&f.sheet, "sheet", "", "look for tables on sheet `S` only")
+}
+
+// options are the importer options the flags give.
+func (f *annotateFlags) options() importer.Options {
+	return importer.Options{Rules: f.rules, Sheet: f.sheet, Pack: f.pack, FactorFiles: append([]string{}, f.factors...)}
 }

@@ -17,11 +17,8 @@ func cmdBatch(ctx context.Context, s stdio, args []string) int {
 	jobs := fs.Int("jobs", 0, "annotate `N` workbooks at a time (default: the number of CPUs)")
 	shardFlag := fs.String("shard", "", "take only shard `I/N` of the files (1 <= I <= N), chosen by relative path, for job arrays")
 	summary := fs.String("summary", "", "write one CSV row per workbook to `FILE.csv`: file, status, rows, tCO2, tCO2e, warnings, error, seconds")
-	var rules listFlag
-	fs.Var(&rules, "rule", "compute a column in every workbook: `'COLUMN = EXPR'`; repeatable (default: rules proposed per table)")
-	sheet := fs.String("sheet", "", "look for tables on sheet `S` only")
-	var ef engineFlags
-	ef.register(fs)
+	var af annotateFlags
+	af.register(fs)
 	pos, code, ok := parseArgs(fs, args)
 	if !ok {
 		return code
@@ -42,14 +39,14 @@ func cmdBatch(ctx context.Context, s stdio, args []string) int {
 			return 2
 		}
 	}
-	e, err := ef.engine()
+	e, err := af.engine()
 	if err != nil {
 		return fail(s, "batch", err)
 	}
-	opt := importer.Options{Rules: rules, Sheet: *sheet, Pack: ef.pack, FactorFiles: append([]string{}, ef.factors...)}
+	opt := af.options()
 	cfg := batch.Config{
 		InDir: pos[0], OutDir: pos[1], Jobs: *jobs, Shard: shard,
-		Fingerprint: strings.Join(append([]string{"fluecell " + version, "packs " + e.Version(), "pack " + ef.pack, "sheet " + *sheet}, rules...), "\n"),
+		Fingerprint: strings.Join(append([]string{"fluecell " + version, "packs " + e.Version(), "pack " + af.pack, "sheet " + af.sheet}, af.rules...), "\n"),
 		Annotate: func(ctx context.Context, in, out string) (batch.Outcome, error) {
 			rep, err := importer.Annotate(ctx, e, in, out, opt)
 			if err != nil {
