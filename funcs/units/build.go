@@ -11,7 +11,7 @@ import (
 type catalog struct {
 	units   []Unit     // index 0 is the zero Unit
 	si      []*big.Rat // exact factor to the SI base, by unit id
-	siFloat []float64  // si rounded once
+	siFloat []float64  // si times each magnitude, rounded once: [id*numScales+scale]
 	exact   []string   // si as an exact decimal string
 	spell   [][]string // other accepted spellings, by unit id
 	pos     []int      // position of the unit within its dimension
@@ -23,6 +23,9 @@ type catalog struct {
 	foldMap  map[string]uint16     // lower-cased spellings that are unique
 	ambig    map[string]*ambiguity // lower-cased ambiguous spellings
 	suggest  []candidate           // spellings offered as "did you mean"
+
+	prefixes []prefix             // written magnitude words ("thousand", "'000")
+	scaled   map[scaledKey]uint16 // declared units equal to a magnitude times another unit (kgal)
 }
 
 // candidate is a lower-cased spelling considered for suggestions.
@@ -41,13 +44,15 @@ func build(defs []unitDef, ambs []ambiguity) *catalog {
 	c := &catalog{
 		units:    []Unit{{}},
 		si:       []*big.Rat{nil},
-		siFloat:  []float64{0},
+		siFloat:  make([]float64, numScales),
 		exact:    []string{""},
 		spell:    [][]string{nil},
 		pos:      []int{0},
 		exactMap: map[string]uint16{},
 		foldMap:  map[string]uint16{},
 		ambig:    map[string]*ambiguity{},
+		prefixes: magnitudePrefixes(),
+		scaled:   map[scaledKey]uint16{},
 	}
 	foldIDs := map[string][]uint16{}
 	addSpelling := func(s string, id uint16, fold, symbol bool) {
@@ -79,8 +84,14 @@ func build(defs []unitDef, ambs []ambiguity) *catalog {
 		id := uint16(len(c.units))
 		c.units = append(c.units, Unit{Symbol: d.sym, Name: d.name, Dim: d.dim, Usual: d.usual, Source: d.source, id: id})
 		c.si = append(c.si, f)
-		fl, _ := f.Float64()
-		c.siFloat = append(c.siFloat, fl)
+		for scale := uint8(0); scale < numScales; scale++ {
+			_, exp := magnitudeWord(scale)
+			fl, _ := new(big.Rat).Mul(f, pow10(exp)).Float64()
+			c.siFloat = append(c.siFloat, fl)
+		}
+		if d.of != "" {
+			c.addScaled(id, d)
+		}
 		c.exact = append(c.exact, decimal(f))
 		c.spell = append(c.spell, append(slices.Clone(d.spell), d.exactOnly...))
 		c.pos = append(c.pos, c.dimLen[d.dim])
@@ -95,11 +106,6 @@ func build(defs []unitDef, ambs []ambiguity) *catalog {
 	}
 	for i := range ambs {
 		a := &ambs[i]
-		for _, al := range a.alts {
-			if id, ok := c.exactMap[al.sym]; !ok || c.units[id].Symbol != al.sym {
-				panic("units: ambiguity names unknown symbol " + al.sym)
-			}
-		}
 		for _, s := range a.spell {
 			if _, clash := c.exactMap[s]; clash {
 				panic("units: spelling is both a unit and ambiguous: " + s)
@@ -120,6 +126,16 @@ func build(defs []unitDef, ambs []ambiguity) *catalog {
 				a.alts = append(a.alts, alt{c.units[id].Symbol, c.units[id].Name})
 			}
 			c.ambig[k] = a
+		}
+	}
+	for i := range ambs {
+		for _, al := range ambs[i].alts {
+			if id, ok := c.exactMap[al.sym]; ok && c.units[id].Symbol == al.sym {
+				continue
+			}
+			if u, _, ok := c.resolveScaled(al.sym); !ok || u.Symbol != al.sym {
+				panic("units: ambiguity names unknown symbol " + al.sym)
+			}
 		}
 	}
 	c.buildRatios()
@@ -157,7 +173,7 @@ func (c *catalog) buildRatios() {
 			var r float64
 			if exactFloat[a] && exactFloat[b] {
 				// both operands exact: IEEE division rounds the exact quotient once
-				r = c.siFloat[a] / c.siFloat[b]
+				r = c.siFloat[a*numScales] / c.siFloat[b*numScales]
 			} else {
 				r, _ = q.Quo(c.si[a], c.si[b]).Float64()
 			}
@@ -166,9 +182,33 @@ func (c *catalog) buildRatios() {
 	}
 }
 
-// known reports whether u is a unit of the table (not the zero Unit, nor one made by hand).
+// addScaled records a declared unit that is a power of ten of 1000 times the unit it is
+// defined from (kgal = 1e3 gal), so that "thousand gallons" resolves to it.
+func (c *catalog) addScaled(id uint16, d unitDef) {
+	base := c.exactMap[d.of]
+	for scale := uint8(1); scale < numScales; scale++ {
+		_, exp := magnitudeWord(scale)
+		if f, ok := new(big.Rat).SetString(d.factor); ok && f.Cmp(pow10(exp)) == 0 {
+			if _, dup := c.scaled[scaledKey{base, scale}]; !dup {
+				c.scaled[scaledKey{base, scale}] = id
+			}
+		}
+	}
+}
+
+// known reports whether u is a unit of the table or a magnitude word before one (not the
+// zero Unit, nor one made by hand). It does not allocate.
 func (c *catalog) known(u Unit) bool {
-	return u.id != 0 && int(u.id) < len(c.units) && c.units[u.id].Symbol == u.Symbol
+	if u.id == 0 || int(u.id) >= len(c.units) || int(u.scale) >= numScales {
+		return false
+	}
+	base := c.units[u.id].Symbol
+	if u.scale == 0 {
+		return u.Symbol == base
+	}
+	w, _ := magnitudeWord(u.scale)
+	return len(u.Symbol) == len(w)+1+len(base) && strings.HasPrefix(u.Symbol, w) &&
+		u.Symbol[len(w)] == ' ' && strings.HasSuffix(u.Symbol, base)
 }
 
 // decimal writes r exactly as a decimal number without exponent. It panics if r has no finite

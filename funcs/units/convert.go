@@ -12,10 +12,15 @@ import (
 // It fails with Code "unit-dimension" when the dimensions differ, and with Code "unit-basis"
 // when both units declare a basis and the bases differ: converting between HHV and NCV depends
 // on the fuel (fuel_energy does it). A unit without a declared basis converts freely. Units
-// not obtained from this package fail with Code "unit-unknown". It does not allocate.
+// not obtained from this package fail with Code "unit-unknown". It does not allocate, unless
+// a unit carries a magnitude word ("thousand MWh"): that factor is computed exactly first.
 func Factor(from, to Unit) (float64, error) {
 	if err := check(from, to); err != nil {
 		return 0, err
+	}
+	if from.scale != 0 || to.scale != 0 {
+		f, _ := exactRatio(from, to).Float64()
+		return f, nil
 	}
 	d := table.units[from.id].Dim
 	return table.ratio[d][table.pos[from.id]*table.dimLen[d]+table.pos[to.id]], nil
@@ -26,7 +31,21 @@ func Ratio(from, to Unit) (*big.Rat, error) {
 	if err := check(from, to); err != nil {
 		return nil, err
 	}
-	return new(big.Rat).Quo(table.si[from.id], table.si[to.id]), nil
+	return exactRatio(from, to), nil
+}
+
+// exactRatio is SI(from) / SI(to) for two checked units.
+func exactRatio(from, to Unit) *big.Rat {
+	r := new(big.Rat).Quo(table.si[from.id], table.si[to.id])
+	_, ef := magnitudeWord(from.scale)
+	_, et := magnitudeWord(to.scale)
+	switch {
+	case ef > et:
+		r.Mul(r, pow10(ef-et))
+	case et > ef:
+		r.Quo(r, pow10(et-ef))
+	}
+	return r
 }
 
 // Convert returns v * Factor(from, to). A NaN or infinite v, or a result beyond the float64

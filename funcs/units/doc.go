@@ -24,7 +24,12 @@
 //   - gal is the US gallon, 3.785411784 L; gal_imp the imperial gallon, 4.54609 L; bbl = 42 gal.
 //   - scf is the standard cubic foot, a gas volume at 60 °F and 14.696 psia (40 CFR 98.6). Its
 //     factor is the cubic foot, 0.028316846592 m3, so the m3 it converts to is at the same
-//     standard conditions. ccf, Mcf and MMcf are 100, 1000 and 10^6 scf.
+//     standard conditions. ccf, Mcf, MMcf, Bcf and Tcf are 100, 10^3, 10^6, 10^9 and 10^12 scf.
+//   - M = 10^3 and MM = 10^6 in US oil, gas and steam usage: Mcf, MMcf, Mbbl, MMbbl, Mlb (= klb,
+//     steam billed per thousand pounds), MMlb. kgal is 1000 US gallons. Mgal stays ambiguous
+//     (a thousand on some bills, a million in others), like MBtu.
+//   - A magnitude word before any unit scales it: "Thousand Barrels" is Mbbl, "Billion Btu" the
+//     derived unit "billion Btu", "'000 L" is kL. The words are short-scale (billion = 10^9).
 //   - The e, p and th suffixes of power units (MWe, MWp, MWth) are accepted and read as the
 //     plain unit (MW).
 package units

@@ -37,9 +37,10 @@ func errEmpty(input string) *Error {
 	return &Error{Input: input, Code: CodeUnknown, Msg: "empty unit: " + emptyUnitAdvice}
 }
 
-// errUnknown reports an unknown unit; name is the (normalised) part that was not found.
-func errUnknown(input, name string) *Error {
-	e := &Error{Input: input, Code: CodeUnknown, Suggestion: table.suggestFor(name)}
+// errUnknown reports an unknown unit; name is the (normalised) part that was not found and
+// want the dimensions a suggestion may have (any when empty).
+func errUnknown(input, name string, want []Dimension) *Error {
+	e := &Error{Input: input, Code: CodeUnknown, Suggestion: table.suggestFor(name, want)}
 	if e.Suggestion != "" {
 		e.Msg = "unknown unit " + quote(name) + " (did you mean " + e.Suggestion + "?)"
 	} else {

@@ -68,6 +68,19 @@ func ExampleConvert() {
 	// 31.536
 }
 
+func ExampleParse_magnitude() {
+	for _, s := range []string{"Thousand Gallons", "Million kWh", "Billion Btu", "Thousand Short Tons", "Million cubic feet"} {
+		u, _ := units.Parse(s)
+		fmt.Printf("%s: %s = %s %s\n", s, u.Symbol, u.SI().FloatString(3), map[units.Dimension]string{units.Energy: "J", units.Mass: "kg", units.Volume: "m3"}[u.Dim])
+	}
+	// Output:
+	// Thousand Gallons: kgal = 3.785 m3
+	// Million kWh: million kWh = 3600000000000.000 J
+	// Billion Btu: billion Btu = 1055055852620.000 J
+	// Thousand Short Tons: thousand short_ton = 907184.740 kg
+	// Million cubic feet: MMcf = 28316.847 m3
+}
+
 func ExampleList() {
 	for _, e := range units.List() {
 		if e.Dim == units.Mass {
@@ -78,9 +91,11 @@ func ExampleList() {
 	// g 0.001
 	// lb 0.45359237
 	// kg 1
+	// klb 453.59237
 	// short_ton 907.18474
 	// t 1000
 	// long_ton 1016.0469088
+	// MMlb 453592.37
 	// kt 1000000
 	// Mt 1000000000
 	// Gt 1000000000000

@@ -55,6 +55,7 @@ func TestFactorsAgainstSources(t *testing.T) {
 		{"therm", "105505585.262", "definition used here (10^5 Btu IT); see TestThermDiffersFromUSTherm"},
 		{"Dth", "1055055852.62", "definition (dekatherm = 10 therm)"},
 		{"quad", "1055055852620000000", "definition (10^15 Btu IT)"},
+		{"TBtu", "1055055852620000", "definition (10^12 Btu IT; T = trillion, US EIA usage)"},
 		{"toe", "41868000000", "IEA (toe = 41.868 GJ)"},
 		{"ktoe", "41868000000000", "IEA (toe), prefix k"},
 		{"Mtoe", "41868000000000000", "IEA (toe), prefix M"},
@@ -72,6 +73,8 @@ func TestFactorsAgainstSources(t *testing.T) {
 		{"Mt", "1000000000", "SI prefix M on t (= Tg)"},
 		{"Gt", "1000000000000", "SI prefix G on t (= Pg)"},
 		{"lb", "0.45359237", "NIST SP 811 Appendix B.8 (pound, avoirdupois, exact)"},
+		{"klb", "453.59237", "NIST SP 811 Appendix B.8 (pound); klb = Mlb = 1000 lb (City of Duluth Resolution 06-0351R, thousand pounds of steam)"},
+		{"MMlb", "453592.37", "NIST SP 811 Appendix B.8 (pound); MM = 10^6"},
 		{"short_ton", "907.18474", "NIST SP 811 Appendix B.8 (ton, short = 2000 lb)"},
 		{"long_ton", "1016.0469088", "NIST SP 811 Appendix B.8 (ton, long = 2240 lb)"},
 		// Volume, m3.
@@ -82,11 +85,16 @@ func TestFactorsAgainstSources(t *testing.T) {
 		{"ML", "1000", "SI prefix M on L"},
 		{"gal", "0.003785411784", "NIST SP 811 Appendix B.8 (gallon, US = 231 in3 = 3.785411784 L)"},
 		{"gal_imp", "0.00454609", "UK Weights and Measures Act 1985 (gallon = 4.54609 dm3)"},
+		{"kgal", "3.785411784", "NIST SP 811 Appendix B.8 (gallon US), k = 10^3"},
 		{"bbl", "0.158987294928", "NIST SP 811 Appendix B.8 (barrel for petroleum = 42 gal US)"},
+		{"Mbbl", "158.987294928", "SEC Form 10-K glossary (MBbl = thousand barrels), NIST SP 811 (barrel)"},
+		{"MMbbl", "158987.294928", "SEC Form 10-K glossary (MMBbl = million barrels), NIST SP 811 (barrel)"},
 		{"scf", "0.028316846592", "NIST SP 811 Appendix B.8 (cubic foot); 40 CFR 98.6 (standard conditions)"},
 		{"ccf", "2.8316846592", "definition (100 scf)"},
 		{"Mcf", "28.316846592", "definition (1000 scf)"},
 		{"MMcf", "28316.846592", "definition (10^6 scf)"},
+		{"Bcf", "28316846.592", "definition (10^9 scf)"},
+		{"Tcf", "28316846592", "definition (10^12 scf)"},
 		// Power, W.
 		{"W", "1", "SI"},
 		{"kW", "1000", "SI prefix k"},
@@ -214,7 +222,7 @@ func TestThermDiffersFromUSTherm(t *testing.T) {
 // TestUsualBasis checks that the Btu family implies HHV (North American practice: common
 // practice) and nothing else implies a basis.
 func TestUsualBasis(t *testing.T) {
-	hhv := map[string]bool{"Btu": true, "kBtu": true, "MMBtu": true, "therm": true, "Dth": true, "quad": true}
+	hhv := map[string]bool{"Btu": true, "kBtu": true, "MMBtu": true, "TBtu": true, "therm": true, "Dth": true, "quad": true}
 	for _, e := range List() {
 		want := NoBasis
 		if hhv[e.Symbol] {

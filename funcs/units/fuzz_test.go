@@ -17,7 +17,8 @@ func FuzzParse(f *testing.F) {
 	}
 	for _, s := range []string{"", " ", "MMBtu HHV", "GJ (NCV)", "GJ [LHV]", "MWh, GCV", "GJ NCV HHV", "ton",
 		"MT", "mt", "gal (UK)", "kg HHV", "kwhh", "m³", "\u00a0GJ\tNCV ", "(", ")", "[]", ",", "GJ(", "GJ )",
-		"MWh,,GCV", "\xff\xfe", "Ａ", "İ", "ǅ"} {
+		"MWh,,GCV", "\xff\xfe", "Ａ", "İ", "ǅ", "Thousand Gallons", "Million kWh", "Billion Btu HHV",
+		"'000 L", "thousand", "thousand of", "’000tonnes", "EA", "Vehicle(s)", "Mgal", "thousand tons"} {
 		f.Add(s)
 	}
 	codes := map[string]bool{CodeUnknown: true, CodeAmbiguous: true, CodeBasis: true}
@@ -55,12 +56,15 @@ func FuzzParse(f *testing.F) {
 }
 
 // FuzzRoundTrip: a value converted from A to B and back is within 1e-12 relative of itself,
-// for all pairs of units of the same dimension.
+// for all pairs of units of the same dimension, listed units and units with a magnitude word.
 func FuzzRoundTrip(f *testing.F) {
 	for _, v := range []float64{1, 0, -1, 3.6, 1e-9, 1e12, 123.456, -7.25e5, 1e-300, 1e300, math.SmallestNonzeroFloat64} {
 		f.Add(v)
 	}
 	list := List()
+	for _, s := range []string{"thousand MWh", "million kWh", "billion Btu", "thousand short_ton", "million gal", "quadrillion J"} {
+		list = append(list, Entry{Unit: mustParse(f, s)})
+	}
 	f.Fuzz(func(t *testing.T, v float64) {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
 			if _, err := Convert(v, list[0].Unit, list[0].Unit); err == nil {

@@ -16,10 +16,36 @@ import (
 // NCV), after a space or a comma or in parentheses or brackets: "MMBtu HHV", "GJ (NCV)",
 // "GJ [LHV]", "MWh, GCV".
 //
+// A magnitude word before a unit scales it: "Thousand Gallons" is kgal, "Million kWh" is a
+// derived unit "million kWh" (see magnitude.go).
+//
 // Errors are *Error with Code "unit-unknown" (with a Suggestion when a spelling is close),
 // "unit-ambiguous" (with the Alternatives) or "unit-basis" (a basis on a unit that is not an
 // energy unit, or two bases).
-func Parse(s string) (Unit, error) {
+func Parse(s string) (Unit, error) { return parse(s, nil) }
+
+// ParseAs is Parse plus a dimension check: the unit must have one of the dimensions in want
+// (with no want, any dimension). A unit of another dimension fails with Code "unit-dimension"
+// and a message such as
+//
+//	unit "kW" is a power, but an energy is needed here (did you mean kWh?)
+//
+// An unknown unit is suggested only units of the dimensions in want.
+func ParseAs(s string, want ...Dimension) (Unit, error) {
+	u, err := parse(s, want)
+	if err != nil || len(want) == 0 {
+		return u, err
+	}
+	for _, d := range want {
+		if u.Dim == d {
+			return u, nil
+		}
+	}
+	return Unit{}, errDimension(s, normalize(s), u, want)
+}
+
+// parse is Parse; want restricts the suggestions of an unknown unit to those dimensions.
+func parse(s string, want []Dimension) (Unit, error) {
 	n := normalize(s)
 	if n == "" {
 		return Unit{}, errEmpty(s)
@@ -34,44 +60,35 @@ func Parse(s string) (Unit, error) {
 	if amb != nil {
 		return Unit{}, errAmbiguous(s, n, amb)
 	}
+	if u, amb, ok := table.resolveScaled(n); ok {
+		return u, nil
+	} else if amb != nil {
+		return Unit{}, errAmbiguous(s, n, amb)
+	}
 	part, tok, b, ok := splitBasis(n)
 	if !ok {
-		return Unit{}, errUnknown(s, n)
+		return Unit{}, errUnknown(s, n, want)
 	}
-	id, amb = table.resolve(part)
+	var u Unit
+	if id, amb = table.resolve(part); id != 0 {
+		u = table.units[id]
+	} else if amb == nil {
+		u, amb, _ = table.resolveScaled(part)
+	}
 	switch {
 	case amb != nil:
 		return Unit{}, errAmbiguous(s, part, amb)
-	case id == 0:
+	case u.id == 0:
 		if _, _, _, two := splitBasis(part); two {
 			return Unit{}, errTwoBases(s, n)
 		}
-		return Unit{}, errUnknown(s, part)
+		return Unit{}, errUnknown(s, part, want)
 	}
-	u := table.units[id]
 	if u.Dim != Energy {
 		return Unit{}, errBasisNotEnergy(s, tok, part)
 	}
 	u.Basis = b
 	return u, nil
-}
-
-// ParseAs is Parse plus a dimension check: the unit must have one of the dimensions in want
-// (with no want, any dimension). A unit of another dimension fails with Code "unit-dimension"
-// and a message such as
-//
-//	unit "kW" is a power, but an energy is needed here (did you mean kWh?)
-func ParseAs(s string, want ...Dimension) (Unit, error) {
-	u, err := Parse(s)
-	if err != nil || len(want) == 0 {
-		return u, err
-	}
-	for _, d := range want {
-		if u.Dim == d {
-			return u, nil
-		}
-	}
-	return Unit{}, errDimension(s, normalize(s), u, want)
 }
 
 // resolve looks a spelling up exactly, then case-insensitively. It returns the unit id, or the

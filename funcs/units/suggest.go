@@ -1,13 +1,42 @@
 package units
 
-import "strings"
+import (
+	"strings"
+	"unicode/utf8"
+)
+
+// maxSuggestRunes bounds the names considered for a suggestion: no spelling is longer.
+const maxSuggestRunes = 64
+
+// wanted reports whether d is among want; an empty want accepts every dimension.
+func wanted(d Dimension, want []Dimension) bool {
+	if len(want) == 0 {
+		return true
+	}
+	for _, w := range want {
+		if w == d {
+			return true
+		}
+	}
+	return false
+}
 
 // suggestFor returns the symbol of the unit whose spelling is closest to name by edit distance
 // (ignoring case), or "" when nothing is close or when the closest spellings belong to
 // different units ("st" is as close to s as to t: no guess). At equal distance a unit's
 // symbol beats another unit's longer spelling ("kwhh" is kWh, not kWth).
-func (c *catalog) suggestFor(name string) string {
+//
+// Names of one or two characters get no suggestion: "EA" (each) or "LS" (lump sum) are one
+// edit from many symbols, and a case-only difference is already resolved by Parse. With want,
+// only units of those dimensions are suggested.
+func (c *catalog) suggestFor(name string, want []Dimension) string {
+	if len(name) > 4*maxSuggestRunes || utf8.RuneCountInString(name) <= 2 {
+		return ""
+	}
 	in := []rune(strings.ToLower(name))
+	if len(in) > maxSuggestRunes {
+		return ""
+	}
 	limit := 1
 	if len(in) > 4 {
 		limit = 2
@@ -16,7 +45,7 @@ func (c *catalog) suggestFor(name string) string {
 	best, bestID, tie := 2*limit+2, uint16(0), false
 	var rows [3][]int // reused by editDistance across candidates
 	for _, cand := range c.suggest {
-		if abs(len(cand.fold)-len(in)) > limit {
+		if abs(len(cand.fold)-len(in)) > limit || !wanted(c.units[cand.id].Dim, want) {
 			continue
 		}
 		d := editDistance(in, cand.fold, min(limit, best/2), &rows)

@@ -37,6 +37,14 @@ func unitDefs() []unitDef {
 		// therm: 100 000 Btu IT here; NIST SP 811's US therm is 1.054804e8 J, about 0.02 % lower.
 		therm = "definition (100 000 Btu IT)"
 		scf   = "NIST SP 811 (ft3); standard conditions per 40 CFR 98.6"
+		// M = 10^3 and MM = 10^6 in US oil and gas usage, as defined in SEC Form 10-K
+		// glossaries (e.g. Kosmos Energy 2013 10-K: MBbl thousand barrels, MMcf million cubic
+		// feet); B = 10^9 and T = 10^12 follow the same usage (common practice).
+		oilGas = "US oil and gas usage: M = 10^3, MM = 10^6 (SEC Form 10-K glossaries)"
+		bt     = "US oil and gas and EIA usage: B = 10^9, T = 10^12 (common practice)"
+		// Steam is billed per thousand pounds, written Mlb (City of Duluth Resolution
+		// 06-0351R: "per thousand pounds of steam (Mlbs)") or klb.
+		steam = "NIST SP 811 (lb); US steam billing: Mlb = klb = 1000 lb (City of Duluth Resolution 06-0351R)"
 	)
 	e, m, v, p, t := Energy, Mass, Volume, Power, Time
 	return []unitDef{
@@ -48,11 +56,11 @@ func unitDefs() []unitDef {
 		{sym: "TJ", name: "terajoule", dim: e, factor: "1e12", of: "J", source: si, spell: []string{"terajoule", "terajoules"}},
 		{sym: "PJ", name: "petajoule", dim: e, factor: "1e15", of: "J", source: si, spell: []string{"petajoule", "petajoules"}},
 		{sym: "EJ", name: "exajoule", dim: e, factor: "1e18", of: "J", source: si, spell: []string{"exajoule", "exajoules"}},
-		{sym: "Wh", name: "watt hour", dim: e, factor: "3600", of: "J", source: si, spell: []string{"W·h", "watt hour", "watt hours", "watt-hour", "watt-hours"}},
-		{sym: "kWh", name: "kilowatt hour", dim: e, factor: "1e3", of: "Wh", source: si, spell: []string{"kW·h", "kilowatt hour", "kilowatt hours", "kilowatt-hour", "kilowatt-hours"}},
-		{sym: "MWh", name: "megawatt hour", dim: e, factor: "1e6", of: "Wh", source: si, spell: []string{"MW·h", "megawatt hour", "megawatt hours", "megawatt-hour", "megawatt-hours"}},
-		{sym: "GWh", name: "gigawatt hour", dim: e, factor: "1e9", of: "Wh", source: si, spell: []string{"GW·h", "gigawatt hour", "gigawatt hours", "gigawatt-hour", "gigawatt-hours"}},
-		{sym: "TWh", name: "terawatt hour", dim: e, factor: "1e12", of: "Wh", source: si, spell: []string{"TW·h", "terawatt hour", "terawatt hours", "terawatt-hour", "terawatt-hours"}},
+		{sym: "Wh", name: "watt hour", dim: e, factor: "3600", of: "J", source: si, spell: []string{"W·h", "watt hour", "watt hours", "watt-hour", "watt-hours", "watthour", "watthours"}},
+		{sym: "kWh", name: "kilowatt hour", dim: e, factor: "1e3", of: "Wh", source: si, spell: []string{"kW·h", "kilowatt hour", "kilowatt hours", "kilowatt-hour", "kilowatt-hours", "kilowatthour", "kilowatthours"}},
+		{sym: "MWh", name: "megawatt hour", dim: e, factor: "1e6", of: "Wh", source: si, spell: []string{"MW·h", "megawatt hour", "megawatt hours", "megawatt-hour", "megawatt-hours", "megawatthour", "megawatthours"}},
+		{sym: "GWh", name: "gigawatt hour", dim: e, factor: "1e9", of: "Wh", source: si, spell: []string{"GW·h", "gigawatt hour", "gigawatt hours", "gigawatt-hour", "gigawatt-hours", "gigawatthour", "gigawatthours"}},
+		{sym: "TWh", name: "terawatt hour", dim: e, factor: "1e12", of: "Wh", source: si, spell: []string{"TW·h", "terawatt hour", "terawatt hours", "terawatt-hour", "terawatt-hours", "terawatthour", "terawatthours"}},
 		// A watt for a 365-day year: 31 536 000 J (the Julian year would give 31 557 600 J).
 		{sym: "Wyr", name: "watt year (365-day year)", dim: e, factor: "31536000", of: "J", source: year365, spell: []string{"W·yr", "W-yr", "watt year", "watt years"}},
 		{sym: "kWyr", name: "kilowatt year (365-day year)", dim: e, factor: "1e3", of: "Wyr", source: year365, spell: []string{"kW·yr", "kW-yr", "kilowatt year", "kilowatt years"}},
@@ -62,8 +70,9 @@ func unitDefs() []unitDef {
 		{sym: "Btu", name: "British thermal unit (International Table)", dim: e, usual: HHV, factor: "1055.05585262", of: "J", source: btu, spell: []string{"British thermal unit", "British thermal units", "Btu_IT"}},
 		{sym: "kBtu", name: "thousand Btu", dim: e, usual: HHV, factor: "1e3", of: "Btu", source: btu, spell: []string{"thousand Btu"}},
 		{sym: "MMBtu", name: "million Btu", dim: e, usual: HHV, factor: "1e6", of: "Btu", source: btu, spell: []string{"mmBtu", "MMbtu", "million Btu"}},
+		{sym: "TBtu", name: "trillion Btu", dim: e, usual: HHV, factor: "1e12", of: "Btu", source: btu + "; " + bt, spell: []string{"trillion Btu"}},
 		{sym: "therm", name: "therm (100 000 Btu)", dim: e, usual: HHV, factor: "1e5", of: "Btu", source: therm, spell: []string{"therms", "thm"}},
-		{sym: "Dth", name: "dekatherm", dim: e, usual: HHV, factor: "10", of: "therm", source: therm, spell: []string{"dekatherm", "dekatherms"}},
+		{sym: "Dth", name: "dekatherm", dim: e, usual: HHV, factor: "10", of: "therm", source: therm, spell: []string{"dekatherm", "dekatherms", "decatherm", "decatherms"}},
 		{sym: "quad", name: "quad (10^15 Btu)", dim: e, usual: HHV, factor: "1e15", of: "Btu", source: btu, spell: []string{"quads", "quadrillion Btu"}},
 		{sym: "toe", name: "tonne of oil equivalent", dim: e, factor: "41.868e9", of: "J", source: "IEA (toe)", spell: []string{"tonne of oil equivalent", "tonnes of oil equivalent"}},
 		{sym: "ktoe", name: "thousand tonnes of oil equivalent", dim: e, factor: "1e3", of: "toe", source: "IEA (toe)", spell: []string{"thousand tonnes of oil equivalent"}},
@@ -83,6 +92,8 @@ func unitDefs() []unitDef {
 		{sym: "Mt", name: "megatonne", dim: m, factor: "1e6", of: "t", source: si, spell: []string{"megatonne", "megatonnes", "Tg"}},
 		{sym: "Gt", name: "gigatonne", dim: m, factor: "1e9", of: "t", source: si, spell: []string{"gigatonne", "gigatonnes", "Pg"}},
 		{sym: "lb", name: "pound (avoirdupois)", dim: m, factor: "0.45359237", source: "NIST SP 811 (lb)", spell: []string{"lbs", "pound", "pounds"}},
+		{sym: "klb", name: "thousand pounds", dim: m, factor: "1e3", of: "lb", source: steam, spell: []string{"klbs", "kLbs", "Mlb", "Mlbs", "thousand pounds"}},
+		{sym: "MMlb", name: "million pounds", dim: m, factor: "1e6", of: "lb", source: steam + "; MM = 10^6", spell: []string{"MMlbs", "million pounds"}},
 		{sym: "short_ton", name: "short ton (2000 lb)", dim: m, factor: "2000", of: "lb", source: "NIST SP 811 (ton, short)", spell: []string{"short ton", "short tons", "short_tons", "US ton", "US tons"}},
 		{sym: "long_ton", name: "long ton (2240 lb)", dim: m, factor: "2240", of: "lb", source: "NIST SP 811 (ton, long)", spell: []string{"long ton", "long tons", "long_tons"}},
 
@@ -92,15 +103,22 @@ func unitDefs() []unitDef {
 		{sym: "mL", name: "millilitre", dim: v, factor: "0.001", of: "L", source: si, spell: []string{"millilitre", "millilitres", "milliliter", "milliliters"}},
 		{sym: "kL", name: "kilolitre", dim: v, factor: "1e3", of: "L", source: si, spell: []string{"kilolitre", "kilolitres", "kiloliter", "kiloliters"}},
 		{sym: "ML", name: "megalitre", dim: v, factor: "1e6", of: "L", source: si, spell: []string{"megalitre", "megalitres", "megaliter", "megaliters"}},
-		{sym: "gal", name: "US gallon", dim: v, factor: "3.785411784", of: "L", source: "NIST SP 811 (gallon, US)", spell: []string{"gallon", "gallons", "US gal", "gal (US)", "USG", "US gallon", "US gallons"}},
+		{sym: "gal", name: "US gallon", dim: v, factor: "3.785411784", of: "L", source: "NIST SP 811 (gallon, US)", spell: []string{"gallon", "gallons", "gals", "US gal", "gal (US)", "USG", "US gallon", "US gallons"}, exactOnly: []string{"GA", "Ga", "ga"}},
+		// Water and fuel utilities bill in thousands of gallons, written kgal (common practice).
+		{sym: "kgal", name: "thousand US gallons", dim: v, factor: "1e3", of: "gal", source: "NIST SP 811 (gallon, US); k = 10^3 (common practice)", spell: []string{"kgals", "thousand gallons"}},
 		{sym: "gal_imp", name: "imperial gallon", dim: v, factor: "4.54609", of: "L", source: "UK Weights and Measures Act 1985"},
 		{sym: "bbl", name: "barrel (42 US gallons)", dim: v, factor: "42", of: "gal", source: "NIST SP 811 (barrel, petroleum)", spell: []string{"barrel", "barrels", "bbls"}},
+		{sym: "Mbbl", name: "thousand barrels", dim: v, factor: "1e3", of: "bbl", source: oilGas, spell: []string{"MBbl", "MBBL", "Mbbls", "thousand barrels"}},
+		{sym: "MMbbl", name: "million barrels", dim: v, factor: "1e6", of: "bbl", source: oilGas, spell: []string{"MMBbl", "MMBBL", "MMbbls", "million barrels"}},
 		// The standard cubic foot is the gas volume at 60 °F and 14.696 psia (40 CFR 98.6); its
 		// factor is the cubic foot, so the m3 it converts to is at the same standard conditions.
-		{sym: "scf", name: "standard cubic foot (60 °F, 14.696 psia)", dim: v, factor: "0.028316846592", source: scf, spell: []string{"standard cubic foot", "standard cubic feet"}},
-		{sym: "ccf", name: "hundred standard cubic feet", dim: v, factor: "100", of: "scf", source: scf},
-		{sym: "Mcf", name: "thousand standard cubic feet", dim: v, factor: "1e3", of: "scf", source: scf, spell: []string{"Mscf"}},
-		{sym: "MMcf", name: "million standard cubic feet", dim: v, factor: "1e6", of: "scf", source: scf, spell: []string{"MMscf"}},
+		{sym: "scf", name: "standard cubic foot (60 °F, 14.696 psia)", dim: v, factor: "0.028316846592", source: scf, spell: []string{"standard cubic foot", "standard cubic feet", "cubic foot", "cubic feet", "cu ft", "ft3", "ft³"}},
+		// C = 100 (Roman numeral), as on US gas bills (common practice).
+		{sym: "ccf", name: "hundred standard cubic feet", dim: v, factor: "100", of: "scf", source: scf + "; C = 100 (common practice)", spell: []string{"hundred cubic feet"}},
+		{sym: "Mcf", name: "thousand standard cubic feet", dim: v, factor: "1e3", of: "scf", source: scf + "; " + oilGas, spell: []string{"Mscf", "thousand cubic feet"}},
+		{sym: "MMcf", name: "million standard cubic feet", dim: v, factor: "1e6", of: "scf", source: scf + "; " + oilGas, spell: []string{"MMscf", "million cubic feet"}},
+		{sym: "Bcf", name: "billion standard cubic feet", dim: v, factor: "1e9", of: "scf", source: scf + "; " + bt, spell: []string{"billion cubic feet"}},
+		{sym: "Tcf", name: "trillion standard cubic feet", dim: v, factor: "1e12", of: "scf", source: scf + "; " + bt, spell: []string{"trillion cubic feet"}},
 
 		// Power, SI base W. The e (electric), p (peak) and th (thermal) suffixes say what is
 		// measured, not a different unit.
@@ -129,6 +147,10 @@ func ambiguities() []ambiguity {
 		{spell: []string{"mg"}, note: "milligram is not supported and megagram is t",
 			alts: []alt{tonne, {"g", "gram"}}},
 		{spell: []string{"ml"}, alts: []alt{{"mL", "millilitre"}, {"ML", "megalitre"}}},
+		// USGS water-use reports write Mgal for a million gallons; many utilities write it for a
+		// thousand (from memory).
+		{spell: []string{"Mgal", "Mgals"}, note: "M means a thousand on some bills and a million in others",
+			alts: []alt{{"kgal", "thousand US gallons"}, {"million gal", "million US gallons"}}},
 		{spell: []string{"gallon (UK)", "gallons (UK)", "gal (UK)", "UK gallon", "UK gallons", "UK gal",
 			"imperial gallon", "imperial gallons", "imp gal"},
 			note: "fluecell's gal is the US gallon",

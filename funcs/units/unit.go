@@ -20,7 +20,8 @@ type Unit struct {
 	Usual  Basis
 	Source string // where the factor comes from: "SI", "NIST SP 811 (Btu IT)", "IEA (toe)", ...
 
-	id uint16 // 1-based index into the unit table; 0 for the zero Unit
+	id    uint16 // 1-based index into the unit table; 0 for the zero Unit
+	scale uint8  // magnitude word before the table unit ("thousand"): see magnitudeWord; 0 if none
 }
 
 // String returns the Symbol, followed by " NCV" or " HHV" when a Basis is set. The result
@@ -38,7 +39,12 @@ func (u Unit) SI() *big.Rat {
 	if !table.known(u) {
 		return nil
 	}
-	return new(big.Rat).Set(table.si[u.id])
+	r := new(big.Rat).Set(table.si[u.id])
+	if u.scale != 0 {
+		_, exp := magnitudeWord(u.scale)
+		r.Mul(r, pow10(exp))
+	}
+	return r
 }
 
 // SIFloat returns SI() rounded once to float64; NaN for the zero Unit.
@@ -46,7 +52,7 @@ func (u Unit) SIFloat() float64 {
 	if !table.known(u) {
 		return math.NaN()
 	}
-	return table.siFloat[u.id]
+	return table.siFloat[int(u.id)*numScales+int(u.scale)]
 }
 
 // WithBasis returns a copy of u with Basis set to b (NoBasis clears it). A basis applies only to
