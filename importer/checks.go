@@ -22,7 +22,10 @@ func (sc *scanCtx) collectSamples(t *table, i, rowNum int, vars map[string]any, 
 		if !ok || q <= 0 {
 			return
 		}
-		fs, ok1 := vars[spec.fuel.ident].(string)
+		fs, ok1 := spec.ctxFuel, true
+		if spec.fuel != nil {
+			fs, ok1 = vars[spec.fuel.ident].(string)
+		}
 		unit := spec.qty.hdr.unitTxt
 		if spec.unit != nil {
 			us, ok2 := vars[spec.unit.ident].(string)
@@ -40,7 +43,10 @@ func (sc *scanCtx) collectSamples(t *table, i, rowNum int, vars map[string]any, 
 		samples[k] = append(samples[k], sample{rowNum, spec.qty.col, q})
 	case kindPeriods:
 		fs, ok1 := vars[spec.fuel.ident].(string)
-		us, ok2 := vars[spec.unit.ident].(string)
+		us, ok2 := spec.ctxUnit, true
+		if spec.unit != nil {
+			us, ok2 = vars[spec.unit.ident].(string)
+		}
 		if !ok1 || !ok2 {
 			return
 		}

@@ -47,6 +47,7 @@ type column struct {
 	unitIdent string // ident+"_unit" when the header carries a unit
 	role      role
 	fuelID    string // roleWideFuel: the fuel of the column
+	partOf    *column // a per-fuel column left out because a total column of its fuel is used
 	fuelAlias bool
 	carbon    carbonCol
 	numeric   bool // values are mostly numbers
@@ -54,9 +55,6 @@ type column struct {
 	st        colStats
 }
 
-type colStats struct {
-	nonEmpty, num, text, fuel, unitLike, tech, power int
-}
 
 // tableSpec is a detected table: its header, columns and roles.
 type tableSpec struct {
@@ -70,6 +68,10 @@ type tableSpec struct {
 	lastCol   int
 	headerErr *Warning // a header-level problem that stops every row (no unit anywhere)
 	score     int
+	sampled   int    // rows sampled under the header
+	ctxFuel   string // a fuel named by the title rows or the sheet name, for a table without a fuel column
+	ctxFrom   string // where ctxFuel was read, for the note
+	ctxUnit   string // a unit named by the title rows ("(MMcf)", "Quadrillion Btu")
 
 	// The columns with a role (nil when absent).
 	fuel, qty, unit, group   *column
@@ -87,7 +89,7 @@ func (t *tableSpec) colAt(c int) *column {
 }
 
 // sampleRows is how many rows under a candidate header are looked at.
-const sampleRows = 30
+const sampleRows = 50
 
 // detector finds tables in buffered rows.
 type detector struct {
@@ -279,6 +281,9 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 		return nil
 	}
 	t.firstCol, t.lastCol = first, last
+	t.sampled = len(sample)
+	d.titleContext(t, rows[:h])
+	upper := d.upperHeaderRows(rows, h, first, last)
 	t.dataStart = hdr.num + 1
 	if t.unitRow > 0 {
 		t.dataStart = t.unitRow + 1
@@ -286,7 +291,17 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 	used := map[string]bool{}
 	for c := first; c <= last; c++ {
 		text := d.headerText(rows, c, hdr.num)
+		if pre := upper(c); pre != "" && !strings.Contains(text, pre) {
+			text = strings.TrimSpace(pre + " " + text)
+		}
 		col := &column{col: c, hdr: parseHeader(text)}
+		if col.hdr.unitTxt == "" && t.ctxUnit != "" {
+			if uh := parseHeader(col.hdr.text + " (" + t.ctxUnit + ")"); uh.unitTxt != "" {
+				uh.text = col.hdr.text
+				col.hdr = uh
+			}
+		}
+		col.st.hint = sc.vocab.Hints(words(col.hdr.text))
 		if t.unitRow > 0 && col.hdr.unitTxt == "" {
 			if u := cellAt(rows, c, t.unitRow); u.kind == kText && strings.TrimSpace(u.text) != "" {
 				uh := parseHeader("x (" + u.text + ")")
@@ -367,42 +382,4 @@ func unitRowLike(r *row) bool {
 		n++
 	}
 	return n >= 1
-}
-
-func (d *detector) count(col *column, c cell) {
-	if c.isBlank() && !c.noCache {
-		return
-	}
-	col.st.nonEmpty++
-	switch c.kind {
-	case kNumber:
-		col.st.num++
-		return
-	case kEmpty:
-		if c.noCache {
-			col.st.num++ // a formula: most likely a number
-		}
-		return
-	case kText:
-	default:
-		return
-	}
-	if _, ok, amb := textNumber(c.text); ok || amb {
-		col.st.num++
-		return
-	}
-	col.st.text++
-	sc := d.sc
-	if sc.fuel(c.text).err == nil {
-		col.st.fuel++
-	}
-	if u := sc.unit(c.text); u.err == nil || u.err.Code != units.CodeUnknown {
-		col.st.unitLike++
-		if u.err == nil && u.u.Dim == units.Power {
-			col.st.power++
-		}
-	}
-	if sc.tech(c.text).err == nil {
-		col.st.tech++
-	}
 }

@@ -330,6 +330,9 @@ func (sc *scanCtx) rowTotals(t *table, i, rowNum int, vars map[string]any, wideK
 		}
 	default:
 		key := "(all rows)"
+		if spec.ctxFuel != "" {
+			key = spec.ctxFuel
+		}
 		if spec.fuel != nil {
 			if s, ok := vars[spec.fuel.ident].(string); ok {
 				key = strings.TrimSpace(s)

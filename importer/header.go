@@ -7,6 +7,7 @@ import (
 	"unicode"
 
 	"github.com/fluecell/fluecell/funcs/units"
+	"github.com/fluecell/fluecell/importer/tables"
 )
 
 // headerInfo is what a header cell says: the name, the identifier rules use
@@ -21,17 +22,15 @@ type headerInfo struct {
 	scale   float64      // values in thousands ('000 L): 1000; else 1
 }
 
-// cleanHeader folds white space (line breaks are common in headers) and the
-// subscript two of "CO₂".
-func cleanHeader(s string) string {
-	if strings.ContainsAny(s, "₂\u00a0") {
-		s = strings.ReplaceAll(strings.ReplaceAll(s, "₂", "2"), "\u00a0", " ")
-	}
-	return strings.Join(strings.Fields(s), " ")
-}
+// cleanHeader folds white space (line breaks are common in headers),
+// footnote marks, plural markers and the subscript two of "CO₂"
+// (tables.Clean).
+func cleanHeader(s string) string { return tables.Clean(s) }
 
 var (
 	reParenUnit = regexp.MustCompile(`^(.*?)\s*[(\[]\s*([^()\[\]]+?)\s*[)\]]\s*$`)
+	reAnyParen  = regexp.MustCompile(`[(\[]\s*([^()\[\]]+?)\s*[)\]]`)
+	reMidUnit   = regexp.MustCompile(`^(.*?)\s*[(\[]\s*([^()\[\]]+?)\s*[)\]]\s*(.*)$`)
 	reSepUnit   = regexp.MustCompile(`^(.+?)\s*(?:,|\s[-–—]|\sin|:)\s+(\S.*)$`)
 )
 
@@ -74,7 +73,18 @@ func parseHeader(raw string) headerInfo {
 	if m := reSepUnit.FindStringSubmatch(h.text); m != nil && try(m[1], m[2], true) {
 		return h
 	}
+	// A unit in brackets inside the header, words after it:
+	// "Total consumption (GWh): Domestic".
+	if m := reMidUnit.FindStringSubmatch(h.text); m != nil && m[3] != "" && try(strings.TrimSpace(m[1]+" "+m[3]), m[2], true) {
+		return h
+	}
 	if i := strings.LastIndexByte(h.text, ' '); i > 0 && len(h.text)-i > 2 {
+		if try(h.text[:i], h.text[i+1:], false) {
+			return h
+		}
+	}
+	// snake_case with the unit as its last part: "NaturalGasUse_therms".
+	if i := strings.LastIndexByte(h.text, '_'); i > 0 && i < len(h.text)-1 {
 		if try(h.text[:i], h.text[i+1:], false) {
 			return h
 		}
@@ -163,10 +173,9 @@ func foldAccent(r rune) rune {
 	return r
 }
 
-// words lower-cases s and splits it into words of letters and digits.
-func words(s string) []string {
-	return strings.FieldsFunc(strings.ToLower(s), func(r rune) bool { return !unicode.IsLetter(r) && !unicode.IsDigit(r) })
-}
+// words lower-cases s and splits it into words (tables.Words: also at
+// snake_case and CamelCase boundaries, footnote digits dropped).
+func words(s string) []string { return tables.Words(s) }
 
 func hasWord(ws []string, any ...string) bool {
 	for _, w := range ws {

@@ -68,6 +68,7 @@ const (
 	CodeFactorMissing    = "factor-missing" // the pack lacks a value this row needs
 	CodeTechUnknown      = "tech-unknown"   // a build plan names an unknown technology
 	CodeRuleError        = "rule-error"     // a rule failed on this row for another reason
+	CodeNotComputed      = "not-computed"   // a row or column left out on purpose: a total, a price, electricity
 )
 
 // TableInfo describes one detected table.

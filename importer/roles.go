@@ -4,6 +4,7 @@ import (
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs/units"
+	"github.com/fluecell/fluecell/importer/tables"
 )
 
 // frac is a/b, 0 when b is 0.
@@ -18,11 +19,15 @@ func isQuantityDim(u units.Unit) bool {
 	return u.Dim == units.Energy || u.Dim == units.Mass || u.Dim == units.Volume
 }
 
-// assignRoles gives each column of t at most one role, from its header and
-// the sampled values.
+// assignRoles gives each column at most one role, from the evidence of its
+// header words (tables.Vocab) and of its sampled values together: a fuel
+// column mostly holds names that resolve to fuels, a quantity column mostly
+// numbers, a unit column units; rates, prices, counts, years and 0/1 flags
+// are never quantities, whatever their header says.
 func (d *detector) assignRoles(t *tableSpec) {
 	sc := d.sc
 	taken := func(c *column) bool { return c.role != roleNone }
+	rows := t.sampled
 	// Existing carbon columns first: "CO2 (kg)" must not read as a quantity.
 	for _, c := range t.cols {
 		if cc, ok := parseCarbonHeader(c.hdr.text); ok && (c.numeric || c.st.nonEmpty == 0) {
@@ -31,25 +36,34 @@ func (d *detector) assignRoles(t *tableSpec) {
 		}
 	}
 	textual := func(c *column) bool { return c.st.text > 0 && 2*c.st.text >= c.st.nonEmpty }
-	// Fuel: a header that says so, or values that are mostly fuel names.
+	// Fuel: values that name fuels (or energy carriers), weighted by how
+	// full the column is; a header that says "fuel" helps, "type" a little.
 	var best *column
 	bestScore := 0.0
 	for _, c := range t.cols {
 		if taken(c) || !textual(c) {
 			continue
 		}
-		ws := words(c.hdr.base)
-		score := 2 * frac(c.st.fuel, c.st.text)
-		if fuelHeader(ws) {
-			score += 3
-		} else if score < 1.2 {
+		h := c.st.hint
+		share := frac(c.st.fuel, c.st.text)
+		carriers := frac(c.st.fuel+c.st.notFuel, c.st.text)
+		score := 3*share + carriers + c.st.fill(rows)
+		switch {
+		case h.Any(tables.HintFuel):
+			score += 2
+		case h.Any(tables.HintFuelWeak):
+			score += 0.5
+		case share < 0.4:
 			continue
+		}
+		if h.Any(tables.HintRate | tables.HintGroup | tables.HintKey) && !h.Any(tables.HintFuel) {
+			score -= 2
 		}
 		if score > bestScore {
 			best, bestScore = c, score
 		}
 	}
-	if best != nil {
+	if best != nil && (bestScore >= 2 || best.st.hint.Any(tables.HintFuel)) {
 		best.role, t.fuel = roleFuel, best
 	}
 	// Technology.
@@ -59,13 +73,13 @@ func (d *detector) assignRoles(t *tableSpec) {
 			continue
 		}
 		ws := words(c.hdr.base)
-		score := 2 * frac(c.st.tech, c.st.text)
-		if hasWord(ws, techWords...) || hasPhrase(ws, "generation type", "plant type", "asset type") || len(ws) == 1 && ws[0] == "type" {
-			if score < 1 {
+		score := 2*frac(c.st.tech, c.st.text) + c.st.fill(rows)
+		if c.st.hint.Any(tables.HintTech) || len(ws) == 1 && ws[0] == "type" {
+			if frac(c.st.tech, c.st.text) < 0.5 {
 				continue
 			}
 			score += 3
-		} else if score < 1.2 {
+		} else if frac(c.st.tech, c.st.text) < 0.6 {
 			continue
 		}
 		if score > bestScore {
@@ -75,18 +89,18 @@ func (d *detector) assignRoles(t *tableSpec) {
 	if best != nil {
 		best.role, t.tech = roleTech, best
 	}
-	// Unit column (a column headed "Unit" counts even when its sampled
-	// cells are empty).
+	// Unit column: values that are units (a column headed "Unit" counts even
+	// when its sampled cells are empty or are prices and counts).
 	best, bestScore = nil, 0
 	for _, c := range t.cols {
-		ws := words(c.hdr.base)
-		if taken(c) || !textual(c) && !(c.st.nonEmpty == 0 && hasWord(ws, unitWords...)) {
+		h := c.st.hint
+		if taken(c) || !textual(c) && !(c.st.nonEmpty == 0 && h.Any(tables.HintUnit)) {
 			continue
 		}
-		score := 2 * frac(c.st.unitLike, c.st.text)
-		if hasWord(ws, unitWords...) && !hasWord(ws, groupWords...) || hasPhrase(ws, "unit of measure", "unit of measurement") {
+		score := 2*frac(c.st.unitLike, c.st.text) + 0.5*frac(c.st.rate, c.st.text)
+		if h.Any(tables.HintUnit) && !h.Any(tables.HintGroup) {
 			score += 3
-		} else if score < 1.2 {
+		} else if frac(c.st.unitLike, c.st.text) < 0.6 {
 			continue
 		}
 		if score > bestScore {
@@ -107,63 +121,52 @@ func (d *detector) assignRoles(t *tableSpec) {
 			c.role, t.cf = roleCF, c
 		case t.life == nil && (hasWord(ws, "lifetime", "life", "lifespan") || hasPhrase(ws, "operating years") || c.hdr.unit.Dim == units.Time && !hasWord(ws, "hours", "date", "year", "month")):
 			c.role, t.life = roleLifetime, c
-		case t.capacity == nil && t.tech != nil && (hasWord(ws, capacityWords...) || c.hdr.unit.Dim == units.Power):
-			c.role, t.capacity = roleCapacity, c
+		case t.capacity == nil && t.tech != nil && c.st.hint.Any(tables.HintCapacity|tables.HintQty) && c.hdr.unitTxt == "" || t.capacity == nil && t.tech != nil && c.hdr.unit.Dim == units.Power:
+			if !c.st.hint.Any(tables.HintRate) {
+				c.role, t.capacity = roleCapacity, c
+			}
 		}
 	}
-	// Quantity: a numeric column whose header names an amount or a unit;
-	// failing that, a column so headed whose cells are not numbers (they
-	// get warnings).
+	// Quantity: a numeric column whose header names an amount or a unit of
+	// energy, mass or volume, and whose values are plausible amounts.
 	best, bestScore = nil, 0
-	for pass := 0; pass < 2 && best == nil; pass++ {
-		for _, c := range t.cols {
-			if taken(c) || moneyHeader(c.hdr.text) || pass == 0 && !c.numeric || pass == 1 && (c.numeric || !hasWord(words(c.hdr.base), qtyWords...)) {
-				continue
-			}
-			ws := words(c.hdr.base)
-			if hasWord(ws, notQtyWords...) {
-				continue
-			}
-			if c.hdr.unitTxt != "" && sc.fuel(c.hdr.base).err == nil && !hasWord(ws, qtyWords...) && !fuelHeader(ws) {
-				continue // "Diesel (L)": a column per fuel
-			}
-			score := 0.0
-			if hasWord(ws, qtyWords...) {
-				score += 3
-			}
-			if c.hdr.unitTxt != "" && (isQuantityDim(c.hdr.unit) || c.hdr.unitErr != nil) {
-				score += 2
-			}
-			if fuelHeader(ws) && c.hdr.unitTxt != "" {
-				score += 1 // "Fuel (L)", "Fuel used, kWh"
-			}
-			if score == 0 {
-				continue
-			}
-			if score > bestScore {
-				best, bestScore = c, score
-			}
+	for _, c := range t.cols {
+		if taken(c) {
+			continue
+		}
+		score, ok := d.quantityScore(t, c)
+		if ok && score > bestScore {
+			best, bestScore = c, score
 		}
 	}
-	if best != nil && t.fuel != nil {
+	if best != nil && (t.fuel != nil || t.ctxFuel != "") {
 		best.role, t.qty = roleQuantity, best
 	}
-	// One column per fuel.
+	// One column per fuel: the header names a fuel (around usage words:
+	// "Natural Gas Use (therms)", "FuelOil2_gal") and a unit, here or in a
+	// units row or title.
 	if t.qty == nil {
 		for _, c := range t.cols {
 			if taken(c) || c.st.nonEmpty > 0 && !c.numeric {
 				continue
 			}
-			f := sc.fuel(c.hdr.base)
-			if f.err != nil || c.hdr.unitTxt == "" && c.hdr.unitErr == nil {
+			if c.st.hint.Any(tables.HintRate|tables.HintCount) || moneyHeader(c.hdr.text) {
+				continue
+			}
+			f := sc.fuelName(c.hdr.base)
+			if f.kind != nameFuel {
+				continue
+			}
+			if c.hdr.unitTxt == "" && c.hdr.unitErr == nil {
 				continue
 			}
 			if c.hdr.unitErr == nil && !isQuantityDim(c.hdr.unit) {
 				continue
 			}
-			c.role, c.fuelID, c.fuelAlias = roleWideFuel, f.id, f.alias
+			c.role, c.fuelID, c.fuelAlias = roleWideFuel, f.id, f.alias || f.name != c.hdr.base
 			t.wide = append(t.wide, c)
 		}
+		t.wide = dropParts(t.wide)
 	}
 	// A fuel per row and a period per column: Fuel | Unit | Jan | Feb ...
 	if t.qty == nil && len(t.wide) == 0 && t.fuel != nil {
@@ -185,11 +188,89 @@ func (d *detector) assignRoles(t *tableSpec) {
 		if taken(c) || !textual(c) {
 			continue
 		}
-		if hasWord(words(c.hdr.base), groupWords...) {
+		if c.st.hint.Any(tables.HintGroup) {
 			c.role, t.group = roleGroup, c
 			break
 		}
 	}
+}
+
+// quantityScore rates c as the amount column of a fuel log; ok is false
+// when its header or values rule it out.
+func (d *detector) quantityScore(t *tableSpec, c *column) (float64, bool) {
+	h := c.st.hint
+	ws := words(c.hdr.base)
+	if h.Any(tables.HintRate|tables.HintCount|tables.HintKey|tables.HintPeriod|tables.HintGroup) && !h.Any(tables.HintQty) {
+		return 0, false
+	}
+	if h.Any(tables.HintRate) || moneyHeader(c.hdr.text) || strings.Contains(c.hdr.text, "/") {
+		return 0, false
+	}
+	// An engine size, a tank or a vehicle's capacity in litres is not fuel.
+	if hasWord(ws, "engine", "displacement", "tank", "size", "capacity", "cylinder", "cylinders", "model") {
+		return 0, false
+	}
+	if c.st.nonEmpty > 0 && !c.numeric {
+		return 0, false
+	}
+	if c.st.num > 0 && (c.st.years*10 >= c.st.num*9 || c.st.flags == c.st.num && c.st.num >= 3) {
+		return 0, false // years, or a 0/1 flag
+	}
+	hasUnit := c.hdr.unitTxt != "" && (isQuantityDim(c.hdr.unit) || c.hdr.unitErr != nil)
+	if c.hdr.unitTxt != "" && !hasUnit {
+		return 0, false // a power, a time, a percentage
+	}
+	score := 0.0
+	if h.Any(tables.HintQty) {
+		score += 3
+	}
+	if hasUnit {
+		score += 2
+		if c.hdr.base == "" || c.hdr.base == c.hdr.text {
+			score += 0.5 // the header is the unit itself: "Gallons", "mmbtu"
+		}
+	}
+	if t.fuel == nil && c.hdr.unitTxt != "" && d.sc.fuelName(c.hdr.base).kind == nameFuel && !h.Any(tables.HintFuel) {
+		return 0, false // "Diesel (L)": a column per fuel
+	}
+	if fuelHeader(ws) && hasUnit {
+		score += 1 // "Fuel (L)", "Fuel used, kWh"
+	}
+	if score == 0 && t.unit != nil && c.numeric && c.st.nonEmpty > 0 && !h.Any(tables.HintTotal) {
+		score = 0.5 // the only numbers beside a unit column: "Value"
+	}
+	if score == 0 {
+		return 0, false
+	}
+	score += c.st.fill(t.sampled) - 0.1*float64(c.col-t.firstCol)/float64(max(1, t.lastCol-t.firstCol))
+	return score, true
+}
+
+// dropParts keeps, of several per-fuel columns of one fuel, the one whose
+// header says total ("U.S. Natural Gas Total Consumption" beside its
+// parts): a total is never added to its parts.
+func dropParts(wide []*column) []*column {
+	byFuel := map[string][]*column{}
+	for _, c := range wide {
+		byFuel[c.fuelID] = append(byFuel[c.fuelID], c)
+	}
+	var out []*column
+	for _, c := range wide {
+		same := byFuel[c.fuelID]
+		var total *column
+		for _, x := range same {
+			if hasWord(words(x.hdr.base), "total", "all") {
+				total = x
+				break
+			}
+		}
+		if len(same) > 1 && total != nil && c != total {
+			c.role, c.partOf = roleNone, total
+			continue
+		}
+		out = append(out, c)
+	}
+	return out
 }
 
 func fuelHeader(ws []string) bool {
@@ -204,7 +285,7 @@ func fuelHeader(ws []string) bool {
 // can use (no roles, and no user rule whose variables it has).
 func (d *detector) decideKind(t *tableSpec) bool {
 	switch {
-	case t.fuel != nil && t.qty != nil:
+	case (t.fuel != nil || t.ctxFuel != "") && t.qty != nil:
 		t.kind = kindFuelLog
 		if t.unit == nil && t.qty.hdr.unitTxt == "" {
 			t.headerErr = &Warning{Sheet: t.sheet, Cell: cellRef(t.qty.col, t.headerRow), Severity: SevError, Code: CodeUnitUnknown,
@@ -212,7 +293,7 @@ func (d *detector) decideKind(t *tableSpec) bool {
 		}
 	case len(t.periods) > 0:
 		t.kind = kindPeriods
-		if t.unit == nil {
+		if t.unit == nil && t.ctxUnit == "" {
 			t.headerErr = &Warning{Sheet: t.sheet, Cell: cellRef(t.periods[0].col, t.headerRow), Severity: SevError, Code: CodeUnitUnknown,
 				Message: "no unit for the amounts by period: add a unit column (L, kWh, t...) beside " + quoteText(t.fuel.hdr.text) + "; no row is computed"}
 		}

@@ -142,7 +142,11 @@ func proposeRules(t *tableSpec) []string {
 		default:
 			return nil
 		}
-		args := t.fuel.ident + ", " + scaled(t.qty) + ", " + unit
+		fuel := "\"" + t.ctxFuel + "\""
+		if t.fuel != nil {
+			fuel = t.fuel.ident
+		}
+		args := fuel + ", " + scaled(t.qty) + ", " + unit
 		return []string{"tCO2 = fuel_co2(" + args + ")", "tCO2e = fuel_co2e(" + args + ")"}
 	case kindWide:
 		var co2, co2e []string
@@ -164,7 +168,11 @@ func proposeRules(t *tableSpec) []string {
 		}
 		var co2, co2e []string
 		for _, c := range t.periods {
-			args := t.fuel.ident + ", " + scaled(c) + ", " + t.unit.ident
+			unit := strconv.Quote(t.ctxUnit)
+			if t.unit != nil {
+				unit = t.unit.ident
+			}
+			args := t.fuel.ident + ", " + scaled(c) + ", " + unit
 			co2 = append(co2, "fuel_co2("+args+")")
 			co2e = append(co2e, "fuel_co2e("+args+")")
 		}

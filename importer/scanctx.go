@@ -6,6 +6,7 @@ import (
 
 	"github.com/fluecell/fluecell/funcs"
 	"github.com/fluecell/fluecell/funcs/units"
+	"github.com/fluecell/fluecell/importer/tables"
 )
 
 // scanCtx is the state of one Scan: the engine, the options, the caches of
@@ -33,6 +34,8 @@ type scanCtx struct {
 	units map[string]unitRes
 	techs map[string]techRes
 	hdrs  map[string]headerInfo
+	names map[string]fuelRef
+	vocab *tables.Vocab
 }
 
 // formulaCalc evaluates the formula in a cell; ok is false when it cannot.
@@ -59,8 +62,13 @@ type techRes struct {
 const maxCache = 20_000
 
 func newScanCtx(ctx context.Context, e *funcs.Engine, path string, opt Options) *scanCtx {
+	vocab, err := tables.NewVocab()
+	if err != nil {
+		panic(err) // the embedded vocabulary is malformed: a build defect, caught by the tables tests
+	}
 	sc := &scanCtx{ctx: ctx, e: e, opt: opt, lim: opt.limits(), path: path,
-		fuels: map[string]fuelRes{}, units: map[string]unitRes{}, techs: map[string]techRes{}, hdrs: map[string]headerInfo{}, sheetOrd: map[string]int{}}
+		fuels: map[string]fuelRes{}, units: map[string]unitRes{}, techs: map[string]techRes{}, hdrs: map[string]headerInfo{}, sheetOrd: map[string]int{},
+		names: map[string]fuelRef{}, vocab: vocab}
 	sc.packName = e.DefaultPackName()
 	for _, p := range e.Packs() {
 		if p.Name == sc.packName {

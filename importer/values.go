@@ -75,20 +75,34 @@ func (sc *scanCtx) fuelValue(t *table, c *column, v *cellVal, r int) (any, bool)
 		sc.warn.add(sheet, c.col, r, SevError, CodeFuelUnknown, "the cell holds "+v.text+", not a fuel name; row not computed")
 		return nil, false
 	}
-	f := sc.fuel(text)
-	if f.err != nil {
-		msg := f.err.Error()
+	fr := sc.fuelName(text)
+	switch fr.kind {
+	case nameFuel:
+	case nameNotFuel, nameAggregate, nameRate:
+		sc.warn.add(sheet, c.col, r, SevInfo, CodeNotComputed, quoteText(text)+" is "+fr.why+": row not computed"+notFuelHint(fr))
+		return nil, false
+	default:
+		f := sc.fuel(text)
+		msg := "unknown fuel " + quoteText(text)
 		if fe, ok := funcs.AsError(f.err); ok {
 			msg = fe.Msg
 		}
 		sc.warn.add(sheet, c.col, r, SevError, CodeFuelUnknown, notComputed(msg))
 		return nil, false
 	}
-	if f.alias && !sameName(text, f.id) {
+	if fr.alias && !sameName(text, fr.id) {
 		sc.warn.addOnce("alias|"+sheet+"|"+colName(c.col)+"|"+strings.ToLower(strings.TrimSpace(text)), sheet, c.col, r, SevInfo, CodeFuelAlias,
-			quoteText(text)+" read as "+f.id+" (here and in every cell of column "+colName(c.col)+" that says so)")
+			quoteText(text)+" read as "+fr.id+" (here and in every cell of column "+colName(c.col)+" that says so)")
 	}
-	return text, true
+	return fr.name, true
+}
+
+// notFuelHint says what to do about a row that names no fuel burned on site.
+func notFuelHint(fr fuelRef) string {
+	if fr.kind == nameNotFuel {
+		return " (electricity, heat and steam bought are Scope 2 and need a grid or supplier factor; fluecell computes fuels burned on site)"
+	}
+	return ""
 }
 
 // unitText is the unit a row states: its unit cell, or the quantity's

@@ -1,0 +1,183 @@
+package importer
+
+import (
+	"math"
+	"strings"
+
+	"github.com/fluecell/fluecell/funcs/units"
+	"github.com/fluecell/fluecell/importer/tables"
+)
+
+// colStats is the evidence of a column's sampled values: how many are
+// numbers, fuel or technology names, units; how many numbers look like
+// years, 0/1 flags or negatives.
+type colStats struct {
+	nonEmpty, num, text   int
+	fuel, notFuel, tech   int
+	unitLike, power, rate int
+	years, flags, neg     int
+	distinct              map[string]bool // distinct texts, up to a bound
+	hint                  tables.Hint     // the roles the header's words suggest
+}
+
+// fill is the share of sampled rows with a value in this column.
+func (s *colStats) fill(rows int) float64 { return frac(s.nonEmpty, rows) }
+
+// numShare is the share of non-empty values that are numbers.
+func (s *colStats) numShare() float64 { return frac(s.num, s.nonEmpty) }
+
+// count adds one sampled cell to the column's evidence.
+func (d *detector) count(col *column, c cell) {
+	st := &col.st
+	if c.isBlank() && !c.noCache {
+		return
+	}
+	st.nonEmpty++
+	switch c.kind {
+	case kNumber:
+		st.num++
+		d.countNumber(st, c.num)
+		return
+	case kEmpty:
+		if c.noCache {
+			st.num++ // a formula: most likely a number
+		}
+		return
+	case kText:
+	default:
+		return
+	}
+	if f, ok, amb := textNumber(c.text); ok || amb {
+		st.num++
+		d.countNumber(st, f)
+		return
+	}
+	st.text++
+	sc := d.sc
+	if st.distinct == nil {
+		st.distinct = map[string]bool{}
+	}
+	if len(st.distinct) < 64 {
+		st.distinct[strings.ToLower(strings.TrimSpace(c.text))] = true
+	}
+	switch fr := sc.fuelName(c.text); fr.kind {
+	case nameFuel:
+		st.fuel++
+	case nameNotFuel, nameAggregate:
+		st.notFuel++
+	}
+	if u := sc.unit(c.text); u.err == nil || u.err.Code != units.CodeUnknown {
+		st.unitLike++
+		if u.err == nil && u.u.Dim == units.Power {
+			st.power++
+		}
+	} else if rateText(c.text) || sc.vocab.Hints(words(c.text)).Any(tables.HintCount) {
+		st.rate++ // "$ per Gallon", "Consumers": a unit column's other values
+	}
+	if sc.tech(c.text).err == nil {
+		st.tech++
+	}
+}
+
+func (d *detector) countNumber(st *colStats, x float64) {
+	switch {
+	case x < 0:
+		st.neg++
+	case x == 0 || x == 1:
+		st.flags++
+	}
+	if x == math.Trunc(x) && (x >= 1900 && x <= 2100 || x >= 190001 && x <= 210013) {
+		st.years++
+	}
+}
+
+// rateText reports a text that states a rate or a price: "$ per Gallon",
+// "Cents/kWh", "kg CO2 per unit", "pence per litre".
+func rateText(s string) bool {
+	if strings.ContainsAny(s, "/$€£¥¢") {
+		return true
+	}
+	ws := words(s)
+	return tables.Has(ws, "per", "cents", "pence", "dollars", "price", "cost")
+}
+
+// nameKind says what a cell's text names.
+type nameKind uint8
+
+const (
+	nameUnknown   nameKind = iota
+	nameFuel               // a fuel (directly, or inside a phrase)
+	nameNotFuel            // an energy carrier not burned on site (electricity, steam) or no combustion
+	nameAggregate          // a total or aggregate ("Total fossil fuels", "Combined")
+	nameRate               // a price or rate line ("Crude Oil Price")
+)
+
+// fuelRef is a fuel name read from a cell: the text passed to the rules
+// (the cell itself, or the part of a phrase that names the fuel).
+type fuelRef struct {
+	kind  nameKind
+	name  string // what the rules get
+	id    string
+	alias bool
+	why   string // for nameNotFuel, nameAggregate, nameRate: the word that decided
+}
+
+// fuelName reads a fuel from a cell text: the text itself, or a fuel named
+// inside a phrase ("Natural Gas Consumption (Excluding ...)", "Gas Firm",
+// "Diesel fuel used by the fleet"). A phrase with a price word is a rate,
+// one with a total word an aggregate, one that names electricity, steam or
+// a non-combustion source is not a fuel. Cached per text.
+func (sc *scanCtx) fuelName(s string) fuelRef {
+	if r, ok := sc.names[s]; ok {
+		return r
+	}
+	r := sc.readFuelName(s)
+	if len(sc.names) < maxCache {
+		sc.names[s] = r
+	}
+	return r
+}
+
+func (sc *scanCtx) readFuelName(s string) fuelRef {
+	t := strings.TrimSpace(s)
+	if t == "" || len(t) > 200 {
+		return fuelRef{}
+	}
+	if f := sc.fuel(t); f.err == nil {
+		return fuelRef{kind: nameFuel, name: t, id: f.id, alias: f.alias}
+	}
+	// Brackets hold qualifiers: "(Excluding Supplemental Gaseous Fuels)", "(bulk)".
+	if i := strings.IndexAny(t, "(["); i > 0 {
+		if f := sc.fuel(strings.TrimSpace(t[:i])); f.err == nil {
+			return fuelRef{kind: nameFuel, name: strings.TrimSpace(t[:i]), id: f.id, alias: true}
+		}
+		t = strings.TrimSpace(t[:i])
+	}
+	ws := words(t)
+	if len(ws) == 0 {
+		return fuelRef{}
+	}
+	h := sc.vocab.Hints(ws)
+	if h.Any(tables.HintRate) || rateText(t) {
+		return fuelRef{kind: nameRate, why: "a price or rate"}
+	}
+	if h.Any(tables.HintTotal) {
+		return fuelRef{kind: nameAggregate, why: "a total or aggregate"}
+	}
+	// The longest run of words that names a fuel.
+	for n := min(len(ws), 4); n >= 1; n-- {
+		for i := 0; i+n <= len(ws); i++ {
+			cand := strings.Join(ws[i:i+n], " ")
+			if n == 1 && len(cand) < 3 {
+				continue // "no", "of": never a fuel on its own inside a phrase
+			}
+			if f := sc.fuel(cand); f.err == nil {
+				return fuelRef{kind: nameFuel, name: cand, id: f.id, alias: true}
+			}
+		}
+	}
+	if h.Any(tables.HintNotFuel) {
+		return fuelRef{kind: nameNotFuel, why: "not a fuel burned on site"}
+	}
+	return fuelRef{}
+}
