@@ -110,9 +110,14 @@ func (e *Engine) buildPlan(key planKey) (*plan, error) {
 		if err != nil {
 			return nil, unitError("to_unit", err)
 		}
+		// A target without a basis is NCV, except the Btu family, which is HHV by
+		// North American practice (see convertAmount).
 		b := to.Basis
 		if b == units.NoBasis {
 			b = units.NCV
+			if to.Usual != units.NoBasis {
+				b = to.Usual
+			}
 		}
 		c, err := e.convertAmount(packName, fuel, u, units.Energy, b)
 		if err != nil {
@@ -122,7 +127,10 @@ func (e *Engine) buildPlan(key planKey) (*plan, error) {
 		p.exact = k.Quo(k, to.SI())
 		p.unit = to.String()
 		p.factors, p.notes = append(p.factors, c.factors...), append(p.notes, c.notes...)
-		if to.Basis == units.NoBasis {
+		switch {
+		case to.Basis == units.NoBasis && to.Usual != units.NoBasis:
+			p.notes = append(p.notes, "energy on an "+b.String()+" basis: "+usualBasisNote(to))
+		case to.Basis == units.NoBasis:
 			p.notes = append(p.notes, "energy on an NCV basis")
 		}
 	}

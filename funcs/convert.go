@@ -146,23 +146,26 @@ func (e *Engine) convertAmount(packName string, fuel *Fuel, u units.Unit, target
 	start := stateOf(u.Dim, u.Basis)
 	var notes []string
 	if u.Dim == units.Energy && u.Basis == units.NoBasis {
-		// An energy without a stated basis is read on the basis of the factor
-		// it meets, or the pack's own basis when the path leaves energy.
-		b := targetBasis
-		if target != units.Energy {
-			b = e.packs.packs[packName].basis
-			if b == units.NoBasis {
-				b = units.NCV
+		if u.Usual != units.NoBasis {
+			// The Btu family (Btu, kBtu, MMBtu, therm, Dth, quad) is quoted gross in North
+			// America: US EPA's Emission Factors Hub and 40 CFR 98 Subpart C state heat
+			// contents and factors per MMBtu HHV (common practice).
+			start = stateOf(units.Energy, u.Usual)
+			notes = append(notes, usualBasisNote(u))
+		} else {
+			// Any other energy without a stated basis is read on the basis of the factor
+			// it meets, or the pack's own basis when the path leaves energy.
+			b := targetBasis
+			if target != units.Energy {
+				b = e.packs.packs[packName].basis
+				if b == units.NoBasis {
+					b = units.NCV
+				}
 			}
-		}
-		start = stateOf(units.Energy, b)
-		// Say so where the reading is not the obvious one: an HHV reading, or
-		// a unit that is usually quoted on the other basis.
-		switch {
-		case u.Usual == units.HHV && b == units.NCV:
-			notes = append(notes, u.Symbol+" without a stated basis read as NCV; North American figures in "+u.Symbol+" are usually HHV: write \""+u.Symbol+" HHV\" to convert")
-		case b == units.HHV && u.Usual != units.HHV:
-			notes = append(notes, u.Symbol+" without a stated basis read as HHV, the basis of pack "+packName+"; write \""+u.Symbol+" NCV\" to convert")
+			start = stateOf(units.Energy, b)
+			if b == units.HHV {
+				notes = append(notes, u.Symbol+" without a stated basis read as HHV, the basis of pack "+packName+"; write \""+u.Symbol+" NCV\" to convert")
+			}
 		}
 	}
 	c, ok := e.findPath(packName, fuel, start, goal)
@@ -171,6 +174,15 @@ func (e *Engine) convertAmount(packName string, fuel *Fuel, u units.Unit, target
 	}
 	c.notes = append(notes, c.notes...)
 	return c, nil
+}
+
+// usualBasisNote says which basis a unit without one was read on, and how to say the other:
+// "therm read as HHV (gross), North American practice; write 'therm NCV' to say net".
+func usualBasisNote(u units.Unit) string {
+	if u.Usual == units.NCV {
+		return u.Symbol + " read as NCV (net); write '" + u.Symbol + " HHV' to say gross"
+	}
+	return u.Symbol + " read as HHV (gross), North American practice; write '" + u.Symbol + " NCV' to say net"
 }
 
 // findPath is the breadth-first search behind convertAmount.

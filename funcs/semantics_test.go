@@ -71,9 +71,23 @@ func TestBasisConversions(t *testing.T) {
 	if !near(r.Value, want, 1e-12) || !hasNote(r, "HHV converted to NCV with NCV/GCV = 0.9") {
 		t.Errorf("MMBtu HHV: %v want %v, %q", r.Value, want, r.Notes)
 	}
+	// Without a basis the Btu family is read as HHV (North American practice: US EPA GHG
+	// Emission Factors Hub and 40 CFR 98 Subpart C state heat contents on HHV).
 	r = call(t, e, `fuel_co2("natural_gas", 1000, "MMBtu")`)
-	if !near(r.Value, 1.05505585262*56.1, 1e-12) || !hasNote(r, `usually HHV: write "MMBtu HHV"`) {
-		t.Errorf("MMBtu bare: %v %q", r.Value, r.Notes)
+	if !near(r.Value, want, 1e-12) || !hasNote(r, "MMBtu read as HHV (gross), North American practice; write 'MMBtu NCV' to say net") {
+		t.Errorf("MMBtu bare: %v want %v, %q", r.Value, want, r.Notes)
+	}
+	r = call(t, e, `fuel_co2("natural_gas", 1000, "therm NCV")`)
+	if !near(r.Value, 1000*0.105505585262*56.1/1000, 1e-12) || hasNote(r, "read as HHV") {
+		t.Errorf("therm NCV: %v %q", r.Value, r.Notes)
+	}
+	r = call(t, e, `fuel_co2("natural_gas", 1000, "GJ")`)
+	if !near(r.Value, 56.1, 1e-12) || len(r.Notes) != 0 {
+		t.Errorf("GJ bare keeps the pack basis: %v %q", r.Value, r.Notes)
+	}
+	r = call(t, e, `fuel_energy("natural_gas", 1000, "scf", "MMBtu", "epa2025")`)
+	if !near(r.Value, 1.026, 1e-12) || !hasNote(r, "energy on an HHV basis: MMBtu read as HHV (gross)") {
+		t.Errorf("fuel_energy to MMBtu: %v %q", r.Value, r.Notes)
 	}
 	// EPA factors are per MMBtu HHV: an NCV energy is divided by 0.90.
 	r = call(t, e, `fuel_co2("natural_gas", 1, "MMBtu NCV", "epa2025")`)
