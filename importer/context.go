@@ -99,7 +99,7 @@ func (d *detector) upperHeaderRows(rows []row, h, first, last int) func(col int)
 	var ups []*row
 	for k := h - 1; k >= 0 && len(ups) < 3; k-- {
 		r := &rows[k]
-		if r.num != rows[h].num-len(ups)-1 || !headerLike(r) || unitRowLike(r) {
+		if r.num != rows[h].num-len(ups)-1 || !headerLike(r) || unitRowLike(r) || hasNumber(r) || sameTexts(r, &rows[h]) {
 			break
 		}
 		ups = append([]*row{r}, ups...)
@@ -133,4 +133,30 @@ func (d *detector) upperHeaderRows(rows []row, h, first, last int) func(col int)
 		}
 		return strings.Join(parts, " ")
 	}
+}
+
+func hasNumber(r *row) bool {
+	for i := range r.cells {
+		if r.cells[i].kind == kNumber {
+			return true
+		}
+	}
+	return false
+}
+
+// sameTexts reports whether two rows repeat each other's texts (data rows
+// of a long table, not a header split over rows).
+func sameTexts(a, b *row) bool {
+	same, n := 0, 0
+	for i := range a.cells {
+		c := &a.cells[i]
+		if c.kind != kText || strings.TrimSpace(c.text) == "" {
+			continue
+		}
+		n++
+		if x := b.at(c.col); x.kind == kText && x.text == c.text {
+			same++
+		}
+	}
+	return n > 0 && 2*same >= n
 }

@@ -1,6 +1,8 @@
 package importer
 
 import (
+	"fmt"
+	"os"
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs"
@@ -46,7 +48,7 @@ type column struct {
 	ident     string
 	unitIdent string // ident+"_unit" when the header carries a unit
 	role      role
-	fuelID    string // roleWideFuel: the fuel of the column
+	fuelID    string  // roleWideFuel: the fuel of the column
 	partOf    *column // a per-fuel column left out because a total column of its fuel is used
 	fuelAlias bool
 	carbon    carbonCol
@@ -54,7 +56,6 @@ type column struct {
 	unitBad   bool // the header unit cannot be used for this column's role
 	st        colStats
 }
-
 
 // tableSpec is a detected table: its header, columns and roles.
 type tableSpec struct {
@@ -348,6 +349,13 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 		}
 	}
 	d.assignRoles(t)
+	if os.Getenv("FLUECELL_DEBUG") != "" {
+		fmt.Fprintf(os.Stderr, "DEBUG %s!%d ctx=%q/%q:", t.sheet, t.headerRow, t.ctxFuel, t.ctxUnit)
+		for _, c := range t.cols {
+			fmt.Fprintf(os.Stderr, " [%s %q u=%q r=%s n=%d/%d f=%d nf=%d ul=%d h=%b]", colName(c.col), c.hdr.text, c.hdr.unitTxt, c.role, c.st.num, c.st.nonEmpty, c.st.fuel, c.st.notFuel, c.st.unitLike, c.st.hint)
+		}
+		fmt.Fprintln(os.Stderr)
+	}
 	if !d.decideKind(t) {
 		return nil
 	}

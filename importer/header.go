@@ -204,7 +204,7 @@ var (
 		"purchased", "purchase", "purchases", "delivered", "delivery", "deliveries", "burned", "burnt", "combusted",
 		"throughput", "energy", "mass", "weight", "litres", "liters", "gallons", "input", "reading", "fuel_use", "volumes", "quantities"}
 	moneyWords = []string{"cost", "costs", "price", "spend", "spent", "invoice", "invoiced", "usd", "eur", "gbp", "chf",
-		"jpy", "aud", "cad", "value", "paid", "charge", "charges", "tax", "vat", "net", "gross"}
+		"jpy", "aud", "cad", "paid", "charge", "charges", "tax", "vat"}
 	notQtyWords = []string{"date", "month", "year", "period", "id", "no", "number", "ref", "reference", "code", "rate",
 		"factor", "ef", "intensity", "percent", "share", "ratio", "hours", "distance", "km", "miles", "mileage", "odometer"}
 	unitWords  = []string{"unit", "units", "uom", "measure", "unidad", "einheit", "unité"}

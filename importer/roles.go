@@ -56,7 +56,7 @@ func (d *detector) assignRoles(t *tableSpec) {
 		case share < 0.4:
 			continue
 		}
-		if h.Any(tables.HintRate | tables.HintGroup | tables.HintKey) && !h.Any(tables.HintFuel) {
+		if h.Any(tables.HintRate|tables.HintGroup|tables.HintKey) && !h.Any(tables.HintFuel) {
 			score -= 2
 		}
 		if score > bestScore {

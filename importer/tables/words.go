@@ -58,9 +58,9 @@ func Words(s string) []string {
 			lowerRun = 0
 			continue
 		}
-		if unicode.IsUpper(r) && lowerRun >= 2 {
+		if unicode.IsUpper(r) && lowerRun >= 1 && (lowerRun >= 2 || len(cur) >= 2 && i+2 < len(rs) && unicode.IsLower(rs[i+1]) && unicode.IsLower(rs[i+2])) {
 			flush()
-		} else if unicode.IsUpper(r) && i+1 < len(rs) && unicode.IsLower(rs[i+1]) && len(cur) >= 2 && allUpper(cur) {
+		} else if unicode.IsUpper(r) && i+1 < len(rs) && unicode.IsLower(rs[i+1]) && len(cur) >= 3 && allUpper(cur) {
 			// "ABCWord": the capital before a lower-case letter starts a word.
 			flush()
 		}
