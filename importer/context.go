@@ -1,6 +1,7 @@
 package importer
 
 import (
+	"path/filepath"
 	"strings"
 
 	"github.com/fluecell/fluecell/importer/tables"
@@ -38,7 +39,7 @@ func (d *detector) titleContext(t *tableSpec, above []row) {
 			t.ctxUnit = u
 		}
 	}
-	for _, s := range append(texts, d.sheet) {
+	for _, s := range append(texts, d.sheet, strings.TrimSuffix(filepath.Base(sc.path), filepath.Ext(sc.path))) {
 		if len(s) > 300 || rateText(s) {
 			continue
 		}

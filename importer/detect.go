@@ -278,7 +278,7 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 		t.unitRow = sample[0].num
 		sample = sample[1:]
 	}
-	if len(sample) == 0 {
+	if len(sample) == 0 || !d.headerFits(hdr, sample) {
 		return nil
 	}
 	t.firstCol, t.lastCol = first, last
@@ -357,6 +357,9 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 		fmt.Fprintln(os.Stderr)
 	}
 	if !d.decideKind(t) {
+		if _, seen := sc.skipWhy[d.sheet]; !seen {
+			sc.skipWhy[d.sheet] = whyNot(t)
+		}
 		return nil
 	}
 	t.score = 10 + min(len(sample), 5)
@@ -390,4 +393,30 @@ func unitRowLike(r *row) bool {
 		n++
 	}
 	return n >= 1
+}
+
+// headerFits reports whether hdr reads as the header of the sampled rows,
+// not as one of them: its numbers are periods (2024, a date), and its texts
+// do not recur among the values below (a text-heavy data row of a long
+// table).
+func (d *detector) headerFits(hdr *row, sample []*row) bool {
+	texts, recur := 0, 0
+	for i := range hdr.cells {
+		c := &hdr.cells[i]
+		switch {
+		case c.kind == kNumber:
+			if !periodHeader(funcs.FormatNumber(c.num)) {
+				return false
+			}
+		case c.kind == kText && strings.TrimSpace(c.text) != "":
+			texts++
+			for _, r := range sample {
+				if x := r.at(c.col); x.kind == kText && x.text == c.text {
+					recur++
+					break
+				}
+			}
+		}
+	}
+	return texts == 0 || 2*recur < texts
 }

@@ -21,6 +21,9 @@ type Report struct {
 	Computed int `json:"computed"`
 	// Tables describes each table found.
 	Tables []TableInfo `json:"tables"`
+	// Sheets says what happened to every worksheet scanned, in workbook
+	// order: computed, partial, nothing computed or skipped, with the reason.
+	Sheets []SheetInfo `json:"sheets"`
 	// Packs are the factor packs of the engine used, with their versions.
 	Packs []PackVersion `json:"packs"`
 	// Output is the path written by Annotate ("" for Scan).
@@ -83,6 +86,8 @@ type TableInfo struct {
 	Computed  int          `json:"computed"`
 	Totals    Totals       `json:"totals"`           // this table's share of Report.Totals
 	Layout    string       `json:"layout"`           // inline or side-sheet
+	Status    string       `json:"status"`           // StatusOK, StatusPartial or StatusNone
+	Reason    string       `json:"reason,omitempty"` // "computed 6,504 of 6,570 rows", or why none
 	Output    string       `json:"output,omitempty"` // where the computed columns are, e.g. "Fuel log!I4:K120"
 }
 
@@ -120,4 +125,33 @@ func (r *Report) Count(sev string) int {
 		}
 	}
 	return n
+}
+
+// SheetInfo says what happened to one worksheet.
+type SheetInfo struct {
+	Name     string `json:"name"`
+	Status   string `json:"status"` // StatusOK, StatusPartial, StatusNone or StatusSkipped
+	Reason   string `json:"reason,omitempty"`
+	Tables   int    `json:"tables"`
+	Rows     int    `json:"rows"`
+	Computed int    `json:"computed"`
+}
+
+// Statuses of a sheet or table.
+const (
+	StatusOK      = "ok"               // every data row computed
+	StatusPartial = "partial"          // some rows computed; the others have findings at their rows
+	StatusNone    = "nothing computed" // a table was found but no row could be computed
+	StatusSkipped = "skipped"          // no table: Reason says why
+)
+
+// statusOf names the status of rows of which computed were computed.
+func statusOf(rows, computed int) string {
+	switch {
+	case rows > 0 && computed == rows:
+		return StatusOK
+	case computed > 0:
+		return StatusPartial
+	}
+	return StatusNone
 }

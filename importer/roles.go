@@ -63,7 +63,8 @@ func (d *detector) assignRoles(t *tableSpec) {
 			best, bestScore = c, score
 		}
 	}
-	if best != nil && (bestScore >= 2 || best.st.hint.Any(tables.HintFuel)) {
+	if best != nil && (bestScore >= 2 || best.st.hint.Any(tables.HintFuel)) &&
+		(best.st.text < 3 || frac(best.st.fuel+best.st.notFuel, best.st.text) >= 0.2 || best.st.hint.Any(tables.HintFuel) && best.st.hint.Any(tables.HintUnit|tables.HintFuelWeak)) {
 		best.role, t.fuel = roleFuel, best
 	}
 	// Technology.
@@ -236,14 +237,17 @@ func (d *detector) quantityScore(t *tableSpec, c *column) (float64, bool) {
 	if fuelHeader(ws) && hasUnit {
 		score += 1 // "Fuel (L)", "Fuel used, kWh"
 	}
-	if score == 0 && t.unit != nil && c.numeric && c.st.nonEmpty > 0 && !h.Any(tables.HintTotal) {
+	if score == 0 && t.unit != nil && t.unit.st.hint.Any(tables.HintUnit) && c.numeric && c.st.nonEmpty > 0 && !h.Any(tables.HintTotal) {
 		score = 0.5 // the only numbers beside a unit column: "Value"
 	}
 	if score == 0 {
 		return 0, false
 	}
+	if !hasUnit && c.hdr.unitErr == nil && t.unit == nil && t.ctxUnit == "" {
+		score -= 2.5 // no unit anywhere: a column with one is better
+	}
 	score += c.st.fill(t.sampled) - 0.1*float64(c.col-t.firstCol)/float64(max(1, t.lastCol-t.firstCol))
-	return score, true
+	return score, score > 0
 }
 
 // dropParts keeps, of several per-fuel columns of one fuel, the one whose
@@ -354,4 +358,36 @@ func allDigits(s string) bool {
 		}
 	}
 	return s != ""
+}
+
+// whyNot says why a header with columns but no usable roles is not a table
+// fluecell computes: prices or rates, emission factors, carbon figures
+// already computed, no fuel, no amount.
+func whyNot(t *tableSpec) string {
+	at := t.sheet + "!" + cellRef(t.firstCol, t.headerRow)
+	var rates, factors, numeric []string
+	for _, c := range t.cols {
+		if !c.numeric {
+			continue
+		}
+		numeric = append(numeric, c.hdr.text)
+		low := strings.ToLower(c.hdr.text)
+		switch {
+		case reSpecies.MatchString(c.hdr.text) && (strings.Contains(low, "/") || c.st.hint.Any(tables.HintRate)):
+			factors = append(factors, c.hdr.text)
+		case c.st.hint.Any(tables.HintRate|tables.HintCount) || moneyHeader(c.hdr.text) || rateText(c.hdr.text):
+			rates = append(rates, c.hdr.text)
+		}
+	}
+	switch {
+	case len(factors) > 0:
+		return "a table of emission factors at " + at + " (" + quoteText(factors[0]) + "): factors, not amounts of fuel; nothing to compute"
+	case len(numeric) > 0 && len(rates) == len(numeric):
+		return "a table of prices, rates or counts at " + at + " (" + quoteText(rates[0]) + "): no amounts of fuel to compute"
+	case len(t.existing) > 0 && t.qty == nil && len(t.wide) == 0:
+		return "carbon figures already computed at " + at + " (" + quoteText(t.existing[0].hdr.text) + ") and no amounts of fuel beside them"
+	case t.fuel == nil && t.ctxFuel == "" && len(t.wide) == 0 && len(numeric) > 0:
+		return "no fuel named for the amounts at " + at + ": no column of fuel names, and no fuel in the headers, title rows, sheet or file name (name it in a mapping: fluecell inspect --write-mapping)"
+	}
+	return noTableHint
 }

@@ -8,6 +8,7 @@ import (
 	"os"
 	"path/filepath"
 	"runtime/debug"
+	"strconv"
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs"
@@ -98,6 +99,7 @@ func scan(ctx context.Context, e *funcs.Engine, path string, opt Options, calc f
 		sc.csv, sc.userRules = true, userRules
 		sheet := csvSheetName(path)
 		sc.sheetOrd[sheet] = 0
+		sc.scanned = append(sc.scanned, sheet)
 		res.sheets = []string{sheet}
 		if err := sc.scanCSV(in, sheet); err != nil {
 			return nil, err
@@ -142,6 +144,7 @@ func scan(ctx context.Context, e *funcs.Engine, path string, opt Options, calc f
 		return nil, err
 	}
 	for _, s := range targets {
+		sc.scanned = append(sc.scanned, s.Name)
 		n, err := sc.scanSheet(b, s)
 		if err != nil {
 			return nil, bookError(path, err)
@@ -279,8 +282,14 @@ func (res *ScanResult) finish() error {
 		}
 		rep.Rows += t.dataRows
 		rep.Computed += t.computed
+		info.Status = statusOf(t.dataRows, t.computed)
+		info.Reason = "computed " + countOf(t.computed) + " of " + plural(t.dataRows, "row")
+		if t.computed == 0 && t.spec.headerErr != nil {
+			info.Reason += ": " + t.spec.headerErr.Message
+		}
 		rep.Tables = append(rep.Tables, info)
 	}
+	rep.Sheets = res.sheetInfos(rep.Tables)
 	rep.Totals.TCO2, rep.Totals.TCO2e = cleanZero(rep.Totals.TCO2), cleanZero(rep.Totals.TCO2e)
 	for _, p := range res.e.Packs() {
 		rep.Packs = append(rep.Packs, PackVersion{Name: p.Name, Title: p.Title, Basis: p.Basis, Version: p.Version, Rows: p.Rows})
@@ -290,10 +299,50 @@ func (res *ScanResult) finish() error {
 		rep.Warnings = []Warning{}
 	}
 	res.Report = rep
-	if len(sc.tables) == 0 {
+	if len(sc.tables) == 0 && len(sc.userRules) > 0 {
 		return res.noTableError()
 	}
 	return nil
+}
+
+// sheetInfos says what happened to every scanned sheet.
+func (res *ScanResult) sheetInfos(tables []TableInfo) []SheetInfo {
+	sc := res.sc
+	out := []SheetInfo{}
+	for _, name := range sc.scanned {
+		si := SheetInfo{Name: name}
+		for _, t := range tables {
+			if t.Sheet == name {
+				si.Tables++
+				si.Rows += t.Rows
+				si.Computed += t.Computed
+			}
+		}
+		if si.Tables == 0 {
+			si.Status, si.Reason = StatusSkipped, sc.skipWhy[name]
+			if si.Reason == "" {
+				si.Reason = noTableHint
+			}
+		} else {
+			si.Status = statusOf(si.Rows, si.Computed)
+			si.Reason = "computed " + countOf(si.Computed) + " of " + plural(si.Rows, "row") + " in " + plural(si.Tables, "table")
+		}
+		out = append(out, si)
+	}
+	return out
+}
+
+// noTableHint says what fluecell looks for in a sheet.
+const noTableHint = "no table: fluecell looks for a header row naming a fuel and an amount (Fuel | Quantity | Unit), " +
+	"one column per fuel with its unit (Month | Diesel (L) | Natural gas (m3)), or a build plan (Technology | Capacity (MW))"
+
+// countOf writes n with thousands separators: 6,504.
+func countOf(n int) string {
+	s := strconv.Itoa(n)
+	for i := len(s) - 3; i > 0 && s[i-1] != '-'; i -= 3 {
+		s = s[:i] + "," + s[i:]
+	}
+	return s
 }
 
 func cleanZero(x float64) float64 {

@@ -35,6 +35,10 @@ type scanCtx struct {
 	techs map[string]techRes
 	hdrs  map[string]headerInfo
 	names map[string]fuelRef
+	// scanned lists the sheets looked at, in order; skipWhy says why a
+	// sheet without a table has none.
+	scanned []string
+	skipWhy map[string]string
 	vocab *tables.Vocab
 }
 
@@ -68,7 +72,7 @@ func newScanCtx(ctx context.Context, e *funcs.Engine, path string, opt Options) 
 	}
 	sc := &scanCtx{ctx: ctx, e: e, opt: opt, lim: opt.limits(), path: path,
 		fuels: map[string]fuelRes{}, units: map[string]unitRes{}, techs: map[string]techRes{}, hdrs: map[string]headerInfo{}, sheetOrd: map[string]int{},
-		names: map[string]fuelRef{}, vocab: vocab}
+		names: map[string]fuelRef{}, vocab: vocab, skipWhy: map[string]string{}}
 	sc.packName = e.DefaultPackName()
 	for _, p := range e.Packs() {
 		if p.Name == sc.packName {
