@@ -39,7 +39,7 @@ type scanCtx struct {
 	// sheet without a table has none.
 	scanned []string
 	skipWhy map[string]string
-	vocab *tables.Vocab
+	vocab   *tables.Vocab
 }
 
 // formulaCalc evaluates the formula in a cell; ok is false when it cannot.
