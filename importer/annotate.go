@@ -17,21 +17,34 @@ import (
 // a side sheet "Carbon columns" when its sheet is too large to rewrite) and
 // the sheets "Carbon summary", "Carbon warnings" and "Carbon sources". A CSV
 // file gives a CSV file with the computed fields appended to the table's
-// records (the warnings are in the report only).
+// records (the warnings are in the report only). A legacy .xls workbook is
+// converted by LibreOffice (see openLegacy) and written as .xlsx: the
+// converted workbook plus fluecell's columns and sheets.
 //
 // outPath is written through a temporary file in its folder and renamed, so
 // it is either complete or absent; inPath is only read. outPath must differ
-// from inPath and keep its extension (.xlsx, .xlsm or .csv). Annotate is safe
-// for concurrent use and honours ctx until the output is renamed into place.
-// Errors are *Error (see Scan).
+// from inPath and keep its extension (.xlsx, .xlsm or .csv; .xlsx for an
+// .xls input). Annotate is safe for concurrent use and honours ctx until
+// the output is renamed into place. Errors are *Error (see Scan).
 func Annotate(ctx context.Context, e *funcs.Engine, inPath, outPath string, opt Options) (rep *Report, err error) {
 	defer recoverInternal(&err, inPath)
 	if err := checkOutPath(inPath, outPath); err != nil {
 		return nil, err
 	}
-	lc := &lazyCalc{path: inPath, lim: opt.limits()}
-	defer lc.close()
-	res, err := scan(ctx, e, inPath, opt, lc)
+	lim := opt.limits()
+	conv, err := openLegacy(ctx, inPath, lim)
+	if err != nil {
+		return nil, err
+	}
+	readPath := inPath
+	if conv != nil {
+		defer conv.remove()
+		readPath = conv.Path
+	}
+	fe := newFormulaEval(ctx, readPath, lim)
+	defer fe.close()
+	res, err := scan(ctx, e, readPath, opt, fe)
+	res, err = conv.restore(inPath, res, err)
 	if err != nil {
 		return nil, err
 	}
@@ -43,10 +56,9 @@ func Annotate(ctx context.Context, e *funcs.Engine, inPath, outPath string, opt 
 				return nil, newErr(ErrInput, inPath, "the workbook already has a sheet %q: it is an annotated output; annotate the original workbook instead", s)
 			}
 		}
-		f := lc.f
-		lc.f = nil
+		f := fe.takeExcelize()
 		if f == nil {
-			if f, err = openExcelize(inPath, opt.limits()); err != nil {
+			if f, err = openExcelize(readPath, lim); err != nil {
 				return nil, &Error{Code: ErrCorrupt, Path: inPath, Msg: "cannot open the workbook for writing: " + err.Error(), Err: err}
 			}
 		}
@@ -66,10 +78,11 @@ func Annotate(ctx context.Context, e *funcs.Engine, inPath, outPath string, opt 
 	return res.Report, nil
 }
 
-// DefaultOutput is IN's name with ".carbon" before the extension.
+// DefaultOutput is IN's name with ".carbon" before the extension; a legacy
+// .xls gives ".carbon.xlsx" (the annotated copy is an .xlsx workbook).
 func DefaultOutput(in string) string {
 	ext := filepath.Ext(in)
-	return strings.TrimSuffix(in, ext) + ".carbon" + ext
+	return strings.TrimSuffix(in, ext) + ".carbon" + outputExt(strings.ToLower(ext))
 }
 
 func checkOutPath(in, out string) error {
@@ -77,7 +90,11 @@ func checkOutPath(in, out string) error {
 		return newErr(ErrInput, in, "no output path given (the default is %s)", DefaultOutput(in))
 	}
 	inExt, outExt := strings.ToLower(filepath.Ext(in)), strings.ToLower(filepath.Ext(out))
-	if inExt != outExt {
+	if want := outputExt(inExt); want != inExt && outExt != want {
+		return newErr(ErrInput, out, "the annotated copy of a legacy %s workbook is an %s workbook: name the output with %s (e.g. %s); fluecell writes no %s files",
+			inExt, want, want, DefaultOutput(in), inExt)
+	}
+	if want := outputExt(inExt); outExt != want {
 		return newErr(ErrInput, out, "the output must keep the input's extension %q (a workbook's type is in its content, so renaming it breaks it)", inExt)
 	}
 	ai, err1 := filepath.Abs(in)

@@ -44,8 +44,14 @@ func (r *row) blank() bool {
 	return true
 }
 
+// isBlank reports a cell that shows nothing: no value, or only spaces. A
+// formula without a stored result is not blank (its value is unknown until
+// evaluated); a formula whose stored result is "" (=IF(B2="","",B2*2)) is.
 func (c *cell) isBlank() bool {
-	return c.kind == kEmpty && !c.formula || c.kind == kText && strings.TrimSpace(c.text) == "" && !c.formula
+	if c.noCache {
+		return false
+	}
+	return c.kind == kEmpty || c.kind == kText && strings.TrimSpace(c.text) == ""
 }
 
 // at returns the cell in column col, or an empty cell.

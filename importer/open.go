@@ -25,7 +25,7 @@ type Error struct {
 
 // Error codes of *Error.
 const (
-	ErrFormat    = "format"    // not a workbook fluecell reads (.xls, .xlsb, .ods, other files)
+	ErrFormat    = "format"    // not a workbook fluecell reads (.xlsb, .ods, other files; .xls without LibreOffice)
 	ErrEncrypted = "encrypted" // a password-protected workbook
 	ErrCorrupt   = "corrupt"   // a damaged or truncated zip or part
 	ErrTooLarge  = "too-large" // over a size limit (zip-bomb protection)
@@ -88,7 +88,7 @@ func sniff(path string, f *os.File, size int64) (format, error) {
 		case ".csv":
 			return 0, newErr(ErrFormat, path, "the file is named .csv but is a zip (a workbook?): rename it to .xlsx")
 		}
-		return 0, newErr(ErrFormat, path, "unsupported file type %q: fluecell reads .xlsx, .xlsm and .csv", ext)
+		return 0, newErr(ErrFormat, path, "unsupported file type %q: fluecell reads .xlsx, .xlsm, .xls and .csv", ext)
 	}
 	switch ext {
 	case ".csv":
@@ -101,7 +101,7 @@ func sniff(path string, f *os.File, size int64) (format, error) {
 		}
 		return 0, newErr(ErrCorrupt, path, "the file is not a zip, so not an .xlsx workbook (it starts with %q): it may be damaged, or another format renamed", printable(head))
 	}
-	return 0, newErr(ErrFormat, path, "unsupported file type %q: fluecell reads .xlsx, .xlsm and .csv", ext)
+	return 0, newErr(ErrFormat, path, "unsupported file type %q: fluecell reads .xlsx, .xlsm, .xls and .csv", ext)
 }
 
 func printable(b []byte) string {
@@ -115,32 +115,47 @@ func printable(b []byte) string {
 
 // cfbError explains a compound file: a legacy .xls or an encrypted
 // OOXML workbook (Office stores those as EncryptionInfo + EncryptedPackage).
+// A legacy .xls reaches it only when LibreOffice is missing (see
+// openLegacy), or through a caller that does not convert.
 func cfbError(path string, f *os.File, size int64) error {
-	encrypted, legacy := false, false
-	if size <= 1<<30 {
-		func() {
-			defer func() { _ = recover() }()
-			doc, err := mscfb.New(io.NewSectionReader(f, 0, size))
-			if err != nil {
-				return
-			}
-			for e, err := doc.Next(); err == nil; e, err = doc.Next() {
-				switch e.Name {
-				case "EncryptionInfo", "EncryptedPackage":
-					encrypted = true
-				case "Workbook", "Book":
-					legacy = true
-				}
-			}
-		}()
-	}
+	encrypted, legacy := cfbContent(f, size)
 	switch {
 	case encrypted:
 		return newErr(ErrEncrypted, path, "the workbook is encrypted (password-protected): fluecell cannot read it; remove the password (Excel: File > Info > Protect Workbook > Encrypt with Password, clear it) and save it as .xlsx")
 	case legacy:
-		return newErr(ErrFormat, path, "a legacy Excel 97-2003 workbook (.xls) cannot be read: open it in Excel or LibreOffice and save it as .xlsx")
+		return legacyRefusal(path)
 	}
-	return newErr(ErrFormat, path, "an OLE compound file that is neither an .xls workbook nor an encrypted .xlsx: fluecell reads .xlsx, .xlsm and .csv")
+	return newErr(ErrFormat, path, "an OLE compound file that is neither an .xls workbook nor an encrypted .xlsx: fluecell reads .xlsx, .xlsm, .xls and .csv")
+}
+
+// legacyRefusal is the error for a legacy .xls that cannot be converted
+// because LibreOffice is not installed.
+func legacyRefusal(path string) *Error {
+	return newErr(ErrFormat, path, "a legacy Excel 97-2003 workbook (.xls) cannot be read without LibreOffice, which is not installed: "+
+		"install LibreOffice (Debian: %s), or open the file in Excel or LibreOffice and save it as .xlsx", officePackage)
+}
+
+// cfbContent looks at the streams of an OLE compound file: encrypted is an
+// encrypted OOXML workbook, legacy a BIFF workbook (.xls). A file that
+// cannot be parsed is neither.
+func cfbContent(f io.ReaderAt, size int64) (encrypted, legacy bool) {
+	if size > 1<<30 {
+		return false, false
+	}
+	defer func() { _ = recover() }()
+	doc, err := mscfb.New(io.NewSectionReader(f, 0, size))
+	if err != nil {
+		return false, false
+	}
+	for e, err := doc.Next(); err == nil; e, err = doc.Next() {
+		switch e.Name {
+		case "EncryptionInfo", "EncryptedPackage":
+			encrypted = true
+		case "Workbook", "Book":
+			legacy = true
+		}
+	}
+	return encrypted, legacy
 }
 
 // openZip opens the zip and checks the zip-bomb limits: number of parts and

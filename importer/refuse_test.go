@@ -98,7 +98,6 @@ func TestRefusals(t *testing.T) {
 		name, path, code, msg string
 		opt                   Options
 	}{
-		{"legacy xls", filepath.Join("testdata", "legacy-fuel-log.xls"), ErrFormat, "legacy Excel 97-2003 workbook (.xls)", Options{}},
 		{"encrypted", encrypted, ErrEncrypted, "password-protected", Options{}},
 		{"truncated zip", truncated, ErrCorrupt, "damaged or truncated zip", Options{}},
 		{"damaged part", damaged, ErrCorrupt, "corrupt", Options{}},
@@ -108,7 +107,7 @@ func TestRefusals(t *testing.T) {
 		{"empty file", empty, ErrCorrupt, "empty (0 bytes)", Options{}},
 		{"text named xlsx", text, ErrCorrupt, "not a zip", Options{}},
 		{"binary workbook", xlsb, ErrFormat, ".xlsb", Options{}},
-		{"other file", pdf, ErrFormat, "fluecell reads .xlsx, .xlsm and .csv", Options{}},
+		{"other file", pdf, ErrFormat, "fluecell reads .xlsx, .xlsm, .xls and .csv", Options{}},
 		{"bad shared string", badXML, ErrCorrupt, "shared string", Options{}},
 		{"missing file", filepath.Join(dir, "nope.xlsx"), ErrIO, "cannot open", Options{}},
 		{"unknown sheet", good, ErrInput, `no sheet "Fuel": the sheets are "Log"`, Options{Sheet: "Fuel"}},

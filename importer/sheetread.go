@@ -298,10 +298,20 @@ func (s *sheetReader) finishCell(c *cell, typ string, v []byte, hasV bool, inlin
 			c.kind, c.num = kNumber, f
 		}
 	}
-	if c.formula && !hasV && !hasInline {
-		c.noCache = true
-	}
+	c.noCache = formulaWithoutResult(c, typ, hasV)
 	return true
+}
+
+// formulaWithoutResult reports a formula cell whose file holds no stored
+// result: no <v>, or an empty <v></v> (openpyxl writes <f>2*300</f><v></v>;
+// other libraries write <v/>). An empty <v> is a stored result only for a
+// string formula (t="str", Excel's and LibreOffice's way of storing ""); for
+// a number, boolean or error it holds nothing.
+func formulaWithoutResult(c *cell, typ string, hasV bool) bool {
+	if !c.formula || c.kind != kEmpty {
+		return false
+	}
+	return !hasV || typ != "str"
 }
 
 // readMerges returns the merged ranges of a worksheet part. They follow the

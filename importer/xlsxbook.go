@@ -27,8 +27,25 @@ type sheetRef struct {
 	State string // "", hidden, veryHidden
 }
 
-// openBook reads the package structure of a zip already checked by sniff.
+// openBook reads the package structure of a zip already checked by sniff,
+// and its shared strings.
 func openBook(zr *zip.Reader, limit int64) (*book, error) {
+	b, sstPart, err := openPackage(zr, limit)
+	if err != nil {
+		return nil, err
+	}
+	if sstPart != "" {
+		if b.sst, err = b.readSST(sstPart); err != nil {
+			return nil, err
+		}
+	}
+	return b, nil
+}
+
+// openPackage reads the package structure (parts, sheets) without the
+// shared strings, and names the shared-strings part ("" when there is
+// none).
+func openPackage(zr *zip.Reader, limit int64) (*book, string, error) {
 	b := &book{zr: zr, files: map[string]*zip.File{}, folded: map[string]*zip.File{}, limit: limit}
 	for _, f := range zr.File {
 		name := strings.TrimPrefix(f.Name, "/")
@@ -44,11 +61,11 @@ func openBook(zr *zip.Reader, limit int64) (*book, error) {
 		}
 	}
 	if b.file(wbPart) == nil {
-		return nil, fmt.Errorf("the zip holds no workbook part (%s): it is not an Excel workbook", wbPart)
+		return nil, "", fmt.Errorf("the zip holds no workbook part (%s): it is not an Excel workbook", wbPart)
 	}
 	rels, err := b.rels(path.Join(path.Dir(wbPart), "_rels", path.Base(wbPart)+".rels"))
 	if err != nil {
-		return nil, err
+		return nil, "", err
 	}
 	byID := map[string]relation{}
 	sstPart := ""
@@ -59,17 +76,15 @@ func openBook(zr *zip.Reader, limit int64) (*book, error) {
 		}
 	}
 	if err := b.readWorkbook(wbPart, byID); err != nil {
-		return nil, err
+		return nil, "", err
 	}
 	if sstPart == "" && b.file("xl/sharedStrings.xml") != nil {
 		sstPart = "xl/sharedStrings.xml"
 	}
-	if sstPart != "" && b.file(sstPart) != nil {
-		if b.sst, err = b.readSST(sstPart); err != nil {
-			return nil, err
-		}
+	if sstPart != "" && b.file(sstPart) == nil {
+		sstPart = ""
 	}
-	return b, nil
+	return b, sstPart, nil
 }
 
 // file finds a part by name, falling back to a case-insensitive match.
