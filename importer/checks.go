@@ -153,7 +153,14 @@ func (sc *scanCtx) checkMixed(t *table) {
 
 // checkExisting compares the workbook's own carbon figures with the
 // computed ones (more than 2 % apart is flagged).
+//
+// A table whose columns fluecell computes only in part (electricity or
+// steam beside the fuels, a fuel it cannot read) is not compared: the
+// workbook's figure covers more than fluecell's.
 func (sc *scanCtx) checkExisting(t *table, i, rowNum int) {
+	if t.spec.partial {
+		return
+	}
 	for _, c := range t.spec.existing {
 		if c.carbon.unit.Symbol == "" {
 			continue

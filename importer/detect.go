@@ -25,11 +25,12 @@ const (
 	roleExisting      // the workbook's own carbon figures
 	roleGroup         // site, region, department...: totals by it
 	rolePeriod        // one period per column (Jan, Feb... or 2024, 2025) of the row's fuel
+	roleWhen          // the date or period of a row (YYYYMM, Date): annual rows among monthly ones are left out
 )
 
 func (r role) String() string {
 	return [...]string{"", "fuel", "quantity", "unit", "fuel-column", "technology", "capacity",
-		"capacity-factor", "lifetime", "existing-carbon", "group", "period"}[r]
+		"capacity-factor", "lifetime", "existing-carbon", "group", "period", "date"}[r]
 }
 
 // Table kinds.
@@ -73,6 +74,8 @@ type tableSpec struct {
 	ctxFuel   string // a fuel named by the title rows or the sheet name, for a table without a fuel column
 	ctxFrom   string // where ctxFuel was read, for the note
 	ctxUnit   string // a unit named by the title rows ("(MMcf)", "Quadrillion Btu")
+	partial   bool   // amounts in columns fluecell leaves out (electricity, steam): existing carbon figures cover more
+	when      *column // the date or period of each row of a long table (YYYYMM, Date)
 
 	// The columns with a role (nil when absent).
 	fuel, qty, unit, group   *column

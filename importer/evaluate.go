@@ -50,6 +50,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 	srcIndex := map[srcKey]int32{}
 	samples := map[string][]sample{}
 	wideK := sc.wideFactors(t)
+	annual := t.annualRows()
 	var rowNotes []string
 
 	for i := 0; i < n; i++ {
@@ -67,6 +68,13 @@ func (sc *scanCtx) evaluate(t *table) error {
 		}
 		t.dataRows++
 		rowNum := int(t.rowNums[i])
+		if annual != nil && annual[i] {
+			c := t.spec.when
+			v := t.val(i, t.slotOf[c.col])
+			sc.warn.add(sheet, c.col, rowNum, SevInfo, CodeNotComputed, "an annual total among monthly rows ("+
+				quoteText(cell{kind: v.kind, num: v.num, text: v.text}.display())+"): not computed, so the year is not counted twice")
+			continue
+		}
 		for _, b := range binds {
 			if t.omitted(i, b) {
 				vars[b.name], good[b.name] = nil, false
@@ -388,4 +396,49 @@ func (sc *scanCtx) variantFor(t *table, r *rule, i int, good map[string]bool) *r
 		return r.variants[k]
 	}
 	return r
+}
+
+// annualRows marks the rows whose period is a whole year in a table that
+// also has monthly rows: YYYYMM with month 13 (the statistics' annual
+// code), or a bare year beside YYYYMM or dated rows. nil when there are
+// none.
+func (t *table) annualRows() []bool {
+	c := t.spec.when
+	if c == nil {
+		return nil
+	}
+	s := t.slotOf[c.col]
+	n := len(t.rowNums)
+	kind := make([]uint8, n) // 1 monthly, 2 annual
+	monthly, yearly := false, false
+	for i := 0; i < n; i++ {
+		v := t.val(i, s)
+		x := v.num
+		if v.kind == kText {
+			f, ok, _ := textNumber(v.text)
+			if !ok {
+				continue
+			}
+			x = f
+		} else if v.kind != kNumber {
+			continue
+		}
+		if x != math.Trunc(x) {
+			continue
+		}
+		switch {
+		case x >= 190001 && x <= 210013 && int(x)%100 == 13:
+			kind[i], yearly = 2, true
+		case x >= 190001 && x <= 210012 && int(x)%100 >= 1:
+			kind[i], monthly = 1, true
+		}
+	}
+	if !monthly || !yearly {
+		return nil
+	}
+	out := make([]bool, n)
+	for i, k := range kind {
+		out[i] = k == 2
+	}
+	return out
 }

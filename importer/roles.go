@@ -184,6 +184,22 @@ func (d *detector) assignRoles(t *tableSpec) {
 			t.periods = ps
 		}
 	}
+	// Amount columns left out (electricity, steam, unknown names with a unit).
+	for _, c := range t.cols {
+		if !taken(c) && c.numeric && c.hdr.unitTxt != "" && isQuantityDim(c.hdr.unit) && !c.st.hint.Any(tables.HintRate|tables.HintCount) {
+			t.partial = true
+		}
+	}
+	if t.fuel != nil && t.fuel.st.notFuel > 0 {
+		t.partial = true
+	}
+	// The date or period of each row of a long table.
+	for _, c := range t.cols {
+		if !taken(c) && c.st.hint.Any(tables.HintPeriod) && c.st.nonEmpty > 0 {
+			c.role, t.when = roleWhen, c
+			break
+		}
+	}
 	// Grouping column: a site, region, department...
 	for _, c := range t.cols {
 		if taken(c) || !textual(c) {
