@@ -40,6 +40,7 @@ type formulaEval struct {
 
 	parts    map[string]uint64 // sheet name -> uncompressed size of its part; read on first use
 	partsErr bool
+	exMax    uint64 // largest sheet part given to excelize, in bytes
 
 	ex       *excelize.File
 	exFailed bool
@@ -57,7 +58,8 @@ const sheetBytesPerCell = 30
 // newFormulaEval returns an evaluator for the workbook at path; ctx bounds
 // any LibreOffice run it starts. Call close when the scan is done.
 func newFormulaEval(ctx context.Context, path string, lim limits) *formulaEval {
-	return &formulaEval{ctx: ctx, path: path, lim: lim, office: findOffice}
+	return &formulaEval{ctx: ctx, path: path, lim: lim, office: findOffice,
+		exMax: uint64(max(lim.inlineCells, DefaultInlineMaxCells)) * sheetBytesPerCell}
 }
 
 // calc evaluates the formula in cell ref ("B7") of sheet and returns its
@@ -82,7 +84,7 @@ func (fe *formulaEval) small(sheet string) bool {
 		fe.readParts()
 	}
 	size, ok := fe.parts[sheet]
-	return ok && size <= uint64(max(fe.lim.inlineCells, DefaultInlineMaxCells))*sheetBytesPerCell
+	return ok && size <= fe.exMax
 }
 
 // readParts reads the sizes of the sheet parts from the zip's directory.

@@ -247,6 +247,9 @@ func (s *sheetReader) readCell(c *cell, typ string) bool {
 }
 
 func (s *sheetReader) finishCell(c *cell, typ string, v []byte, hasV bool, inline string, hasInline bool) bool {
+	if hasV && typ != "str" && typ != "inlineStr" && len(bytes.TrimSpace(v)) == 0 {
+		hasV = false // an empty <v> holds no number, shared string, boolean or error
+	}
 	switch typ {
 	case "s":
 		if !hasV {
@@ -287,9 +290,6 @@ func (s *sheetReader) finishCell(c *cell, typ string, v []byte, hasV bool, inlin
 	default: // "n" or absent
 		if hasV {
 			raw := bytes.TrimSpace(v)
-			if len(raw) == 0 {
-				break
-			}
 			f, err := strconv.ParseFloat(string(raw), 64)
 			if err != nil || math.IsInf(f, 0) || math.IsNaN(f) {
 				s.fail("cell %s holds %q, which is not a number (the workbook is corrupt)", cellRef(c.col, s.rowNum), raw)
@@ -308,10 +308,7 @@ func (s *sheetReader) finishCell(c *cell, typ string, v []byte, hasV bool, inlin
 // string formula (t="str", Excel's and LibreOffice's way of storing ""); for
 // a number, boolean or error it holds nothing.
 func formulaWithoutResult(c *cell, typ string, hasV bool) bool {
-	if !c.formula || c.kind != kEmpty {
-		return false
-	}
-	return !hasV || typ != "str"
+	return c.formula && c.kind == kEmpty && !(hasV && typ == "str")
 }
 
 // readMerges returns the merged ranges of a worksheet part. They follow the
