@@ -2,6 +2,7 @@ package funcs
 
 import (
 	"math/big"
+	"slices"
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs/units"
@@ -37,6 +38,10 @@ type plan struct {
 	unit    string
 	factors []*Factor
 	notes   []string
+	// memoK is a blend's biogenic CO2 in t per unit amount, stated in a note built per call
+	// from memoPrefix and memoSuffix (see blendPlan); memoPrefix is "" for other plans.
+	memoK                  float64
+	memoPrefix, memoSuffix string
 }
 
 const maxCachedPlans = 8192
@@ -70,17 +75,33 @@ func (e *Engine) buildPlan(key planKey) (*plan, error) {
 	if err != nil {
 		return nil, err
 	}
-	fuel, alias, err := e.resolveFuel(key.fuel)
+	m, err := e.fuels.resolve(key.fuel)
 	if err != nil {
 		return nil, err
 	}
+	fuel := m.entry.fuel
 	u, err := units.ParseAs(key.unit, units.Energy, units.Mass, units.Volume)
 	if err != nil {
 		return nil, unitError("unit", err)
 	}
+	if row := m.entry.row; row != nil && len(row.dims) > 0 && !slices.Contains(row.dims, u.Dim) {
+		names := make([]string, len(row.dims))
+		for i, d := range row.dims {
+			names[i] = d.String()
+		}
+		return nil, &Error{Code: CodeUnit, UnitCode: units.CodeDimension, Param: "unit", Msg: "fuel " + quote(key.fuel) + " (" + row.desc +
+			") is read as " + fuel.ID + " only for amounts in " + strings.Join(names, " or ") + ", not " + u.Dim.String() + " (" + row.source + ")"}
+	}
+	if m.entry.kind == nameBlend {
+		return e.blendPlan(key, m)
+	}
 	p := &plan{}
-	if alias {
-		p.notes = append(p.notes, "fuel "+quote(key.fuel)+" read as "+fuel.ID)
+	if m.alias {
+		note := "fuel " + quote(key.fuel) + " read as " + fuel.ID
+		if len(m.dropped) > 0 {
+			note += " (ignoring " + strings.Join(m.dropped, ", ") + ")"
+		}
+		p.notes = append(p.notes, note)
 	}
 	switch key.kind {
 	case kindCO2:
@@ -134,12 +155,15 @@ func (e *Engine) buildPlan(key planKey) (*plan, error) {
 			p.notes = append(p.notes, "energy on an NCV basis")
 		}
 	}
+	if n := lentNote(packName, fuel, p.factors); n != "" {
+		p.notes = append(p.notes, n)
+	}
 	return p, nil
 }
 
 // emission returns tonnes of the factor's species per unit amount, exactly.
 func (e *Engine) emission(packName string, fuel *Fuel, u units.Unit, quantity string) (*big.Rat, []*Factor, []string, error) {
-	ef := e.packs.lookup(packName, fuel.ID, quantity)
+	ef := e.fuelRow(packName, fuel, quantity)
 	if ef == nil {
 		return nil, nil, nil, e.missingRow(packName, fuel.ID, quantity)
 	}
@@ -176,7 +200,7 @@ func (e *Engine) missingRow(packName, id, quantity string) error {
 // biogenicFraction is the share of the fuel's CO2 that is biogenic: its
 // biogenic_fraction row, else 1 for biomass fuels and 0 for the others.
 func (e *Engine) biogenicFraction(packName string, fuel *Fuel) *big.Rat {
-	if f := e.packs.lookup(packName, fuel.ID, "biogenic_fraction"); f != nil {
+	if f := e.fuelRow(packName, fuel, "biogenic_fraction"); f != nil {
 		return f.exact
 	}
 	if fuel.Biogenic {
@@ -274,7 +298,7 @@ func (e *Engine) missingGWP(set, gas string) error {
 }
 
 func (e *Engine) carbonPlan(p *plan, packName string, fuel *Fuel, u units.Unit) error {
-	if cc := e.packs.lookup(packName, fuel.ID, "carbon_content"); cc != nil {
+	if cc := e.fuelRow(packName, fuel, "carbon_content"); cc != nil {
 		k, fs, notes, err := e.emission(packName, fuel, u, "carbon_content")
 		if err != nil {
 			return err
@@ -285,7 +309,7 @@ func (e *Engine) carbonPlan(p *plan, packName string, fuel *Fuel, u units.Unit) 
 	}
 	k, fs, notes, err := e.emission(packName, fuel, u, "co2_ef")
 	if err != nil {
-		if fe, ok := AsError(err); ok && fe.Code == CodeMissingFactor && e.packs.lookup(packName, fuel.ID, "co2_ef") == nil {
+		if fe, ok := AsError(err); ok && fe.Code == CodeMissingFactor && e.fuelRow(packName, fuel, "co2_ef") == nil {
 			return &Error{Code: CodeMissingFactor, Param: "fuel", Msg: "pack " + packName + " has neither carbon_content nor co2_ef for " + fuel.ID}
 		}
 		return err
@@ -342,6 +366,9 @@ func callFuel(kind planKind, toIndex int, toDefault string) func(e *Engine, c *c
 		}
 		c.use(p.factors...)
 		c.note(p.notes...)
+		if p.memoPrefix != "" {
+			c.note(p.memoNote(amount))
+		}
 		return p.apply(amount), p.unit, nil
 	}
 }

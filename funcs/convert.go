@@ -83,7 +83,7 @@ type conversion struct {
 func (e *Engine) edges(packName string, fuel *Fuel, s amountState) []edge {
 	var out []edge
 	cv := func(q string, energy amountState) {
-		f := e.packs.lookup(packName, fuel.ID, q)
+		f := e.fuelRow(packName, fuel, q)
 		if f == nil || f.si == 0 {
 			return
 		}
@@ -97,7 +97,7 @@ func (e *Engine) edges(packName string, fuel *Fuel, s amountState) []edge {
 	}
 	cv("ncv", stateNCV)
 	cv("gcv", stateHHV)
-	if d := e.packs.lookup(packName, fuel.ID, "density"); d != nil && d.si > 0 {
+	if d := e.fuelRow(packName, fuel, "density"); d != nil && d.si > 0 {
 		note := "volume and mass related by the density " + d.Citation()
 		switch s {
 		case stateVolume:
@@ -130,7 +130,7 @@ func ratioSubject(r *Factor) string {
 
 // basisRatio is the NCV/GCV ratio for fuel: its own row first, then its family's.
 func (e *Engine) basisRatio(packName string, fuel *Fuel) *Factor {
-	if f := e.packs.lookup(packName, fuel.ID, "ncv_per_gcv"); f != nil {
+	if f := e.fuelRow(packName, fuel, "ncv_per_gcv"); f != nil {
 		return f
 	}
 	if fuel.Family != "" {
@@ -232,13 +232,13 @@ func (e *Engine) missingPath(packName string, fuel *Fuel, u units.Unit, start, g
 	var what string
 	hasCV := func(dim units.Dimension) bool {
 		for _, q := range []string{"ncv", "gcv"} {
-			if f := e.packs.lookup(packName, fuel.ID, q); f != nil && f.denDim() == dim {
+			if f := e.fuelRow(packName, fuel, q); f != nil && f.denDim() == dim {
 				return true
 			}
 		}
 		return false
 	}
-	hasDensity := e.packs.lookup(packName, fuel.ID, "density") != nil
+	hasDensity := e.fuelRow(packName, fuel, "density") != nil
 	switch {
 	case (start == stateMass || start == stateVolume) && (goal == stateNCV || goal == stateHHV) ||
 		(goal == stateMass || goal == stateVolume) && (start == stateNCV || start == stateHHV):

@@ -89,7 +89,13 @@ func New(opts ...Option) (*Engine, error) {
 			}
 		}
 	}
-	e.fuels = newFuelIndex(fuels)
+	vocab, err := embeddedFuelNames()
+	if err != nil {
+		return nil, packError(err)
+	}
+	if e.fuels, err = newFuelIndex(fuels, vocab); err != nil {
+		return nil, packError(err)
+	}
 	if _, ok := ps.packs[cfg.defaultPack]; !ok || cfg.defaultPack == CommonPack {
 		return nil, &Error{Code: CodeBadArgument, Param: "pack", Msg: "unknown pack " + quote(cfg.defaultPack) + ": accepted are " + strings.Join(ps.names, ", ")}
 	}
@@ -153,9 +159,11 @@ func (e *Engine) Fuels() []Fuel {
 	return out
 }
 
-// ResolveFuel maps a fuel name or alias to its canonical fuel; alias is true
-// when the name was not the id itself. The error is an *Error of code
-// CodeUnknownFuel with a suggestion where one is close.
+// ResolveFuel maps a fuel name, alias, statistics code or blend name to its canonical fuel
+// (for a blend such as E10, its fossil base fuel); alias is true when the name was not the id
+// itself. The error is an *Error of code CodeUnknownFuel saying what the name is when it is
+// known not to be a fuel, else with a suggestion where one is close. LookupFuel is the cheap
+// test that builds no message.
 func (e *Engine) ResolveFuel(name string) (f Fuel, alias bool, err error) {
 	p, alias, err := e.resolveFuel(name)
 	if err != nil {
@@ -164,7 +172,13 @@ func (e *Engine) ResolveFuel(name string) (f Fuel, alias bool, err error) {
 	return *p, alias, nil
 }
 
-func (e *Engine) resolveFuel(name string) (*Fuel, bool, error) { return e.fuels.resolve(name) }
+func (e *Engine) resolveFuel(name string) (*Fuel, bool, error) {
+	m, err := e.fuels.resolve(name)
+	if err != nil {
+		return nil, false, err
+	}
+	return m.entry.fuel, m.alias, nil
+}
 
 // Factors lists the rows of a pack ("" = the default pack), with the common
 // rows after them; fuel, when not empty, keeps only that fuel's rows (and the

@@ -1,7 +1,7 @@
 package funcs
 
 import (
-	"sort"
+	"slices"
 	"strings"
 )
 
@@ -14,10 +14,38 @@ type Fuel struct {
 	Biogenic bool     `json:"biogenic"`         // CO2 is reported separately (memo item), not in totals
 	Aliases  []string `json:"aliases,omitempty"`
 	Custom   bool     `json:"custom,omitempty"` // defined only by a user pack
+	// within is a fuel this one is a kind of, whose rows a pack without rows of its own
+	// lends it (propane within lpg: IPCC 2006 Table 1.2 has no propane row).
+	within string
+}
+
+// fuelRow is the pack's row of quantity q for fuel, or, when the pack has none, the row of
+// the fuel it is within (see Fuel.within); nil if neither.
+func (e *Engine) fuelRow(packName string, fuel *Fuel, q string) *Factor {
+	if f := e.packs.lookup(packName, fuel.ID, q); f != nil || fuel.within == "" {
+		return f
+	}
+	return e.packs.lookup(packName, fuel.within, q)
+}
+
+// lentNote says which rows of a plan came from the fuel that fuel is within; "" if none.
+func lentNote(packName string, fuel *Fuel, fs []*Factor) string {
+	var qs []string
+	for _, f := range fs {
+		if fuel.within != "" && f.ID == fuel.within && !slices.Contains(qs, f.Quantity) {
+			qs = append(qs, f.Quantity)
+		}
+	}
+	if len(qs) == 0 {
+		return ""
+	}
+	return "pack " + packName + " has no " + strings.Join(qs, ", ") + " for " + fuel.ID + ": the " + fuel.within +
+		" rows are used (" + fuel.ID + " is a kind of " + fuel.within + ")"
 }
 
 // builtinFuels lists the canonical fuel ids of the design with their aliases.
-// Aliases are matched case- and space-insensitively (see normalizeName).
+// Aliases are matched case- and space-insensitively (see fuelKey); more names are in
+// data/fuel_names.csv.
 func builtinFuels() []Fuel {
 	return []Fuel{
 		{ID: "crude_oil", Name: "crude oil", Family: "oil", Aliases: []string{"crude"}},
@@ -27,7 +55,7 @@ func builtinFuels() []Fuel {
 		{ID: "gas_diesel_oil", Name: "gas/diesel oil", Family: "oil", Aliases: []string{"diesel", "diesel oil", "gas oil", "gasoil", "gas/diesel oil", "red diesel", "heating oil", "distillate", "distillate fuel oil", "distillate fuel oil no. 2", "fuel oil no. 2", "no. 2 fuel oil", "diesel fuel"}},
 		{ID: "residual_fuel_oil", Name: "residual fuel oil", Family: "oil", Aliases: []string{"fuel oil", "heavy fuel oil", "hfo", "bunker fuel", "mazut", "residual fuel oil no. 6", "fuel oil no. 6", "no. 6 fuel oil", "residual oil"}},
 		{ID: "lpg", Name: "liquefied petroleum gases", Family: "oil", Aliases: []string{"liquefied petroleum gas", "liquefied petroleum gases", "autogas"}},
-		{ID: "propane", Name: "propane", Family: "oil"},
+		{ID: "propane", Name: "propane", Family: "oil", within: "lpg"},
 		{ID: "natural_gas", Name: "natural gas", Family: "gas", Aliases: []string{"gas", "nat gas", "natgas", "pipeline gas", "ng"}},
 		{ID: "anthracite", Name: "anthracite", Family: "coal"},
 		{ID: "coking_coal", Name: "coking coal", Family: "coal", Aliases: []string{"metallurgical coal", "met coal"}},
@@ -37,104 +65,38 @@ func builtinFuels() []Fuel {
 		{ID: "peat", Name: "peat"},
 		{ID: "wood", Name: "wood/wood waste", Biogenic: true, Aliases: []string{"wood waste", "wood/wood waste", "firewood", "wood chips", "wood pellets", "wood residues"}},
 		{ID: "petroleum_coke", Name: "petroleum coke", Family: "oil", Aliases: []string{"petcoke", "pet coke"}},
+		{ID: "aviation_gasoline", Name: "aviation gasoline", Family: "oil"},
+		{ID: "ethanol", Name: "ethanol (biogasoline)", Biogenic: true},
+		{ID: "biodiesel", Name: "biodiesel", Biogenic: true},
+		{ID: "renewable_diesel", Name: "renewable diesel (hydrotreated vegetable oil)", Biogenic: true},
 	}
 }
 
-// fuelIndex resolves fuel names. It is built once per Engine and never
-// written afterwards, so it is safe for concurrent use.
-type fuelIndex struct {
-	byID    map[string]*Fuel
-	exact   map[string]*Fuel // canonical ids and aliases exactly as listed
-	folded  map[string]*Fuel // normalizeName of ids and aliases
-	ordered []*Fuel
+// FuelMatch is how a fuel name resolved: see Engine.LookupFuel.
+type FuelMatch struct {
+	Fuel  Fuel // the fuel; for a blend, its fossil base fuel
+	Alias bool // the name is not the fuel id itself
+	// Kind is "id", "alias", "code" (a statistics code such as DFO) or "blend".
+	Kind string
+	// FossilShare is the share of an amount that is Fuel: 1, or a blend's nominal share by
+	// volume (E10: 0.9). BioFuel is the id of a blend's biogenic part ("ethanol").
+	FossilShare float64
+	BioFuel     string
+	Description string   // what the name means, from the vocabulary ("No. 2 fuel oil"); may be ""
+	Source      string   // the vocabulary row's source; "" for ids and built-in aliases
+	Dropped     []string // qualifier words and footnote marks that were ignored ("bulk", "(3)")
 }
 
-func newFuelIndex(fuels []Fuel) *fuelIndex {
-	ix := &fuelIndex{byID: map[string]*Fuel{}, exact: map[string]*Fuel{}, folded: map[string]*Fuel{}}
-	for i := range fuels {
-		f := &fuels[i]
-		ix.byID[f.ID] = f
-		ix.ordered = append(ix.ordered, f)
-		for _, s := range append([]string{f.ID}, f.Aliases...) {
-			ix.exact[s] = f
-			ix.folded[normalizeName(s)] = f
-		}
+// LookupFuel tells whether name resolves to a fuel, and how. It builds no error message and
+// computes no suggestion, so a miss is cheap: use it to classify cells. A name of something
+// that is not a fuel (electricity, the EIA code SUN) or of a fuel without an id (landfill gas)
+// is a miss; ResolveFuel explains it.
+func (e *Engine) LookupFuel(name string) (FuelMatch, bool) {
+	m, ok := e.fuels.lookup(name)
+	if !ok || m.entry.fuel == nil {
+		return FuelMatch{}, false
 	}
-	sort.Slice(ix.ordered, func(i, j int) bool { return ix.ordered[i].ID < ix.ordered[j].ID })
-	return ix
-}
-
-// resolve maps a user's fuel name to a canonical fuel. alias is true when the
-// name was not the canonical id itself.
-func (ix *fuelIndex) resolve(name string) (f *Fuel, alias bool, err error) {
-	if f, ok := ix.exact[name]; ok {
-		return f, name != f.ID, nil
-	}
-	if f, ok := ix.folded[normalizeName(name)]; ok {
-		return f, true, nil
-	}
-	if strings.TrimSpace(name) == "" {
-		return nil, false, &Error{Code: CodeBadArgument, Param: "fuel", Msg: "empty fuel: give a fuel id such as natural_gas or gas_diesel_oil (list: fluecell factors, or GET /v1/factors)"}
-	}
-	return nil, false, &Error{Code: CodeUnknownFuel, Param: "fuel", Msg: ix.unknownMessage(name)}
-}
-
-func (ix *fuelIndex) unknownMessage(name string) string {
-	if s := ix.suggest(name); s != "" {
-		return "unknown fuel " + quote(name) + ": did you mean " + s + "?"
-	}
-	ids := make([]string, 0, len(ix.ordered))
-	for _, f := range ix.ordered {
-		ids = append(ids, f.ID)
-	}
-	return "unknown fuel " + quote(name) + ": accepted fuel ids are " + strings.Join(ids, ", ") + " (aliases: fluecell factors, or GET /v1/factors)"
-}
-
-// suggest returns the canonical id whose id or alias is closest to name, or ""
-// when nothing is close enough to be a plausible typo.
-func (ix *fuelIndex) suggest(name string) string {
-	n := normalizeName(name)
-	best, bestD := "", 1<<30
-	for key, f := range ix.folded {
-		d := editDistance(n, key)
-		if d < bestD || (d == bestD && f.ID < best) {
-			best, bestD = f.ID, d
-		}
-	}
-	limit := len(n) / 3
-	if limit < 1 {
-		limit = 1
-	}
-	if limit > 4 {
-		limit = 4
-	}
-	if bestD <= limit {
-		return best
-	}
-	return ""
-}
-
-// normalizeName folds case, underscores, hyphens, dots and runs of spaces, so
-// that "Natural-Gas", "natural_gas" and " natural  gas " are one name.
-func normalizeName(s string) string {
-	var b strings.Builder
-	b.Grow(len(s))
-	space := false
-	for _, r := range strings.ToLower(strings.TrimSpace(s)) {
-		switch r {
-		case '_', '-', ' ', '\t', '\u00a0':
-			space = true
-			continue
-		case '.':
-			continue
-		}
-		if space && b.Len() > 0 {
-			b.WriteByte(' ')
-		}
-		space = false
-		b.WriteRune(r)
-	}
-	return b.String()
+	return m.public(), true
 }
 
 // editDistance is the Levenshtein distance between a and b, counted in runes.

@@ -55,6 +55,15 @@ type packSet struct {
 	hash  string   // of every row of every pack
 }
 
+// embeddedFuelNames reads the embedded fuel vocabulary.
+func embeddedFuelNames() ([]fuelName, error) {
+	b, err := embeddedData.ReadFile(path.Join("data", vocabularyFile))
+	if err != nil {
+		return nil, fmt.Errorf("embedded vocabulary: %w", err)
+	}
+	return parseFuelNames(b, "embedded:"+vocabularyFile)
+}
+
 // builtinPackTitle describes the embedded packs.
 func builtinPackTitle(name string) (string, units.Basis) {
 	switch name {
@@ -79,6 +88,9 @@ func loadPacks(userFiles []string, readFile func(string) ([]byte, error)) (*pack
 		return nil, fmt.Errorf("embedded packs: %w", err)
 	}
 	for _, e := range entries {
+		if e.Name() == vocabularyFile || e.Name() == techVocabularyFile {
+			continue // vocabularies, not factor packs
+		}
 		b, err := embeddedData.ReadFile(path.Join("data", e.Name()))
 		if err != nil {
 			return nil, fmt.Errorf("embedded packs: %w", err)
