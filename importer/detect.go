@@ -223,6 +223,17 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 	sc := d.sc
 	hdr := &rows[h]
 	t := &tableSpec{sheet: d.sheet, headerRow: hdr.num}
+	// A data row of a long table is not a header: its texts recur below
+	// (checked first on a few rows, because it prunes most candidates).
+	var peek []*row
+	for j := h + 1; j < len(rows) && len(peek) < 10; j++ {
+		if !rows[j].blank() {
+			peek = append(peek, &rows[j])
+		}
+	}
+	if len(peek) > 0 && !d.headerFits(hdr, peek) {
+		return nil
+	}
 	// Sample rows: up to sampleRows non-blank rows, stopping at a gap of
 	// three blank rows or at the next header-like row with role keywords.
 	var sample []*row

@@ -214,9 +214,7 @@ func (sc *scanCtx) headerWarnings(t *table) {
 			}
 			msg := "column " + quoteText(c.hdr.text) + " has a unit but names no known fuel"
 			if f := sc.fuel(c.hdr.base); f.err != nil {
-				if fe, ok := funcs.AsError(f.err); ok {
-					msg = fe.Msg
-				}
+				msg = sc.fuelMessage(c.hdr.base)
 			}
 			sc.warn.add(sheet, c.col, hr, SevWarning, CodeFuelUnknown, msg+"; the column is left out of the totals")
 		}

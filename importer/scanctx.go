@@ -94,16 +94,31 @@ func (sc *scanCtx) fuel(s string) fuelRes {
 		return r
 	}
 	var r fuelRes
-	if strings.TrimSpace(s) == "" {
-		r.err = &funcs.Error{Code: funcs.CodeBadArgument, Param: "fuel", Msg: "no fuel given"}
+	if m, ok := sc.e.LookupFuel(s); ok {
+		r = fuelRes{id: m.Fuel.ID, alias: m.Alias}
 	} else {
-		f, alias, err := sc.e.ResolveFuel(s)
-		r = fuelRes{id: f.ID, alias: alias, err: err}
+		r.err = errNotAFuel // the message is built only for a cell that reports it (fuelMessage)
 	}
 	if len(sc.fuels) < maxCache {
 		sc.fuels[s] = r
 	}
 	return r
+}
+
+// errNotAFuel marks a name that resolves to no fuel; fuelMessage explains it.
+var errNotAFuel = &funcs.Error{Code: funcs.CodeUnknownFuel, Param: "fuel", Msg: "not a fuel name"}
+
+// fuelMessage explains why s names no fuel (with a suggestion where one is
+// close), for a finding at the cell.
+func (sc *scanCtx) fuelMessage(s string) string {
+	if strings.TrimSpace(s) == "" {
+		return "no fuel given: write the fuel, e.g. natural_gas or diesel"
+	}
+	_, _, err := sc.e.ResolveFuel(s)
+	if fe, ok := funcs.AsError(err); ok {
+		return fe.Msg
+	}
+	return "unknown fuel " + quoteText(s)
 }
 
 // unit parses a unit string (any dimension), cached.

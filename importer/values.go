@@ -82,12 +82,7 @@ func (sc *scanCtx) fuelValue(t *table, c *column, v *cellVal, r int) (any, bool)
 		sc.warn.add(sheet, c.col, r, SevInfo, CodeNotComputed, quoteText(text)+" is "+fr.why+": row not computed"+notFuelHint(fr))
 		return nil, false
 	default:
-		f := sc.fuel(text)
-		msg := "unknown fuel " + quoteText(text)
-		if fe, ok := funcs.AsError(f.err); ok {
-			msg = fe.Msg
-		}
-		sc.warn.add(sheet, c.col, r, SevError, CodeFuelUnknown, notComputed(msg))
+		sc.warn.add(sheet, c.col, r, SevError, CodeFuelUnknown, notComputed(sc.fuelMessage(text)))
 		return nil, false
 	}
 	if fr.alias && !sameName(text, fr.id) {
