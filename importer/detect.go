@@ -1,8 +1,6 @@
 package importer
 
 import (
-	"fmt"
-	"os"
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs"
@@ -70,11 +68,11 @@ type tableSpec struct {
 	lastCol   int
 	headerErr *Warning // a header-level problem that stops every row (no unit anywhere)
 	score     int
-	sampled   int    // rows sampled under the header
-	ctxFuel   string // a fuel named by the title rows or the sheet name, for a table without a fuel column
-	ctxFrom   string // where ctxFuel was read, for the note
-	ctxUnit   string // a unit named by the title rows ("(MMcf)", "Quadrillion Btu")
-	partial   bool   // amounts in columns fluecell leaves out (electricity, steam): existing carbon figures cover more
+	sampled   int     // rows sampled under the header
+	ctxFuel   string  // a fuel named by the title rows or the sheet name, for a table without a fuel column
+	ctxFrom   string  // where ctxFuel was read, for the note
+	ctxUnit   string  // a unit named by the title rows ("(MMcf)", "Quadrillion Btu")
+	partial   bool    // amounts in columns fluecell leaves out (electricity, steam): existing carbon figures cover more
 	when      *column // the date or period of each row of a long table (YYYYMM, Date)
 
 	// The columns with a role (nil when absent).
@@ -363,13 +361,6 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 		}
 	}
 	d.assignRoles(t)
-	if os.Getenv("FLUECELL_DEBUG") != "" {
-		fmt.Fprintf(os.Stderr, "DEBUG %s!%d ctx=%q/%q:", t.sheet, t.headerRow, t.ctxFuel, t.ctxUnit)
-		for _, c := range t.cols {
-			fmt.Fprintf(os.Stderr, " [%s %q u=%q r=%s n=%d/%d f=%d nf=%d ul=%d h=%b]", colName(c.col), c.hdr.text, c.hdr.unitTxt, c.role, c.st.num, c.st.nonEmpty, c.st.fuel, c.st.notFuel, c.st.unitLike, c.st.hint)
-		}
-		fmt.Fprintln(os.Stderr)
-	}
 	if !d.decideKind(t) {
 		if _, seen := sc.skipWhy[d.sheet]; !seen {
 			sc.skipWhy[d.sheet] = whyNot(t)
