@@ -28,7 +28,7 @@ func (e *Engine) checkConstant(f *Function, p Param, s string) error {
 	case kindGWPSet:
 		_, err = e.resolveGWPSet(s)
 	case kindTech:
-		_, err = e.resolveTech(f.Name, s)
+		_, _, err = e.resolveTech(f.Name, s)
 	case kindStat:
 		switch strings.ToLower(strings.TrimSpace(s)) {
 		case "min", "median", "max":

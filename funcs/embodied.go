@@ -24,21 +24,11 @@ func (e *Engine) technologies() []string {
 	return out
 }
 
-// resolveTech folds case and separators ("Wind onshore", "wind-onshore").
-func (e *Engine) resolveTech(fn, s string) (string, error) {
-	id := strings.ToLower(strings.TrimSpace(s))
-	id = strings.NewReplacer("-", "_", " ", "_").Replace(id)
-	techs := e.technologies()
-	for _, t := range techs {
-		if t == id {
-			return id, nil
-		}
-	}
-	msg := "unknown technology " + quote(s) + ": accepted are " + strings.Join(techs, ", ")
-	if sug := suggestFrom(id, techs); sug != "" {
-		msg = "unknown technology " + quote(s) + ": did you mean " + sug + "? (accepted: " + strings.Join(techs, ", ") + ")"
-	}
-	return "", &Error{Code: CodeBadArgument, Func: fn, Param: "tech", Msg: msg}
+// resolveTech resolves a technology name through the technology vocabulary (see
+// technames.go): ids with case and separators folded ("Wind onshore"), names of statistics
+// and planning models ("NGCC", "upv_7"). note says how a name other than an id was read.
+func (e *Engine) resolveTech(fn, s string) (id, note string, err error) {
+	return e.techs.resolve(fn, s)
 }
 
 func callLifecycle(e *Engine, c *callCtx, a argList) (float64, string, error) {
@@ -46,9 +36,12 @@ func callLifecycle(e *Engine, c *callCtx, a argList) (float64, string, error) {
 	if err != nil {
 		return 0, "", err
 	}
-	tech, err := e.resolveTech(a.fn.Name, ts)
+	tech, note, err := e.resolveTech(a.fn.Name, ts)
 	if err != nil {
 		return 0, "", err
+	}
+	if note != "" {
+		c.note(note)
 	}
 	stat, err := a.optStr(1, "median")
 	if err != nil {
@@ -80,9 +73,12 @@ func (e *Engine) embodiedPerMW(c *callCtx, a argList, techI, cfI, lifeI int) (fl
 	if err != nil {
 		return 0, err
 	}
-	tech, err := e.resolveTech(a.fn.Name, ts)
+	tech, note, err := e.resolveTech(a.fn.Name, ts)
 	if err != nil {
 		return 0, err
+	}
+	if note != "" {
+		c.note(note)
 	}
 	lc := e.packs.lookup(CommonPack, tech, "lifecycle")
 	c.use(lc)

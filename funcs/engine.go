@@ -14,6 +14,7 @@ import (
 type Engine struct {
 	packs       *packSet
 	fuels       *fuelIndex
+	techs       *techIndex
 	catalog     *catalogIndex
 	defaultPack string
 
@@ -100,6 +101,9 @@ func New(opts ...Option) (*Engine, error) {
 		return nil, &Error{Code: CodeBadArgument, Param: "pack", Msg: "unknown pack " + quote(cfg.defaultPack) + ": accepted are " + strings.Join(ps.names, ", ")}
 	}
 	e.defaultPack = cfg.defaultPack
+	if e.techs, err = newTechIndex(e.technologies()); err != nil {
+		return nil, packError(err)
+	}
 	e.catalog = newCatalogIndex(buildCatalog(e))
 	return e, nil
 }
