@@ -160,11 +160,19 @@ func assertNoTemp(t *testing.T, dir string) {
 	}
 }
 
-// TestNoTable says what fluecell looks for.
+// TestNoTable: a workbook without a table is reported, not refused: the
+// sheet is listed as skipped with what fluecell looks for.
 func TestNoTable(t *testing.T) {
 	f := newBook(t, "Notes")
 	setRows(t, f, "Notes", 1, [][]any{{"Minutes of the site meeting"}, {"Agenda", "Owner"}, {"Budget", "Finance"}})
 	path := save(t, f, filepath.Join(t.TempDir(), "notes.xlsx"))
-	_, err := Scan(context.Background(), testEngine(t), path, Options{})
-	checkRefusal(t, err, ErrNoTable, "Fuel | Quantity | Unit")
+	res, err := Scan(context.Background(), testEngine(t), path, Options{})
+	must(t, err)
+	got := res.Report.Sheets
+	if len(got) != 1 || got[0].Name != "Notes" || got[0].Status != StatusSkipped || !strings.Contains(got[0].Reason, "Fuel | Quantity | Unit") {
+		t.Fatalf("sheets = %+v, want Notes skipped with what fluecell looks for", got)
+	}
+	if res.Report.Computed != 0 || len(res.Report.Tables) != 0 {
+		t.Errorf("computed %d rows in %d tables, want none", res.Report.Computed, len(res.Report.Tables))
+	}
 }

@@ -228,14 +228,23 @@ func (d *detector) quantityScore(t *tableSpec, c *column) (float64, bool) {
 		return 0, false
 	}
 	if c.st.nonEmpty > 0 && !c.numeric {
-		return 0, false
+		// Text where amounts belong ("n/a", "1200 GJ"): the column is still
+		// the amount when its header says so and its texts name nothing
+		// else, so that each such cell gets its finding.
+		if !h.Any(tables.HintQty) || c.st.fuel+c.st.unitLike+c.st.tech+c.st.notFuel > 0 || t.fuel == nil {
+			return 0, false
+		}
+		return 0.25, true
 	}
 	if c.st.num > 0 && (c.st.years*10 >= c.st.num*9 || c.st.flags == c.st.num && c.st.num >= 3) {
 		return 0, false // years, or a 0/1 flag
 	}
 	hasUnit := c.hdr.unitTxt != "" && (isQuantityDim(c.hdr.unit) || c.hdr.unitErr != nil)
 	if c.hdr.unitTxt != "" && !hasUnit {
-		return 0, false // a power, a time, a percentage
+		if c.hdr.unit.Dim == units.Power && h.Any(tables.HintQty) {
+			return 0.25, true // "Consumption (kW)": a power written for an energy, flagged at the header
+		}
+		return 0, false // a time, a percentage
 	}
 	score := 0.0
 	if h.Any(tables.HintQty) {
