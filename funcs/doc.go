@@ -10,6 +10,15 @@
 // Engine.Compile, which compiles an expression once so that a Runner can
 // evaluate it for many rows.
 //
+// Names as records write them are data: data/fuel_names.csv (retail grades, blends such
+// as E10 and B20, US EIA energy source codes, qualifier words such as "bulk") and
+// data/tech_names.csv (technology names of capacity statistics and planning models), each
+// row with its source. Engine.LookupFuel classifies a name without building a message.
+//
+// Energy in the Btu family (Btu, kBtu, MMBtu, therm, Dth, quad) without a stated basis is
+// read as HHV, the North American practice; other energy units without one are read on the
+// pack's basis. A note says so.
+//
 // Default factors are Tier 1 estimates; regulated reporting follows the
 // jurisdiction's rules and accredited verification.
 package funcs

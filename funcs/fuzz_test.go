@@ -40,6 +40,12 @@ func FuzzCall(f *testing.F) {
 	f.Add("fuel_co2", "diesel", "1000", "L", "")
 	f.Add("fuel_co2e", "gas", "1e3", "MMBtu HHV", "epa2025")
 	f.Add("embodied", "pv_utility", "-5", "kW", "")
+	f.Add("fuel_co2", "E85", "100", "gal", "epa2025")
+	f.Add("fuel_co2e", "Propane (bulk)¹", "1", "Thousand Gallons", "ar6")
+	f.Add("fuel_energy", "B20", "1", "Mbbl", "MMBtu")
+	f.Add("fuel_carbon", "Coal (3)", "1", "Thousand Short Tons", "")
+	f.Add("lifecycle_intensity", "Solar PV - Class 3", "max", "", "")
+	f.Add("embodied", "wind-ons_3", "100", "MW", "")
 	e := newTestEngine(f)
 	f.Fuzz(func(t *testing.T, name, a, b, c, d string) {
 		fn, ok := e.Function(name)
