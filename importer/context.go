@@ -35,6 +35,9 @@ func (d *detector) titleContext(t *tableSpec, above []row) {
 		if len(s) > 300 {
 			continue
 		}
+		if sc.vocab.Hints(words(s)).Any(tables.HintOutput) {
+			t.output = true
+		}
 		if u := titleUnit(s); u != "" && t.ctxUnit == "" {
 			t.ctxUnit = u
 		}

@@ -74,6 +74,7 @@ type tableSpec struct {
 	ctxUnit   string  // a unit named by the title rows ("(MMcf)", "Quadrillion Btu")
 	partial   bool    // amounts in columns fluecell leaves out (electricity, steam): existing carbon figures cover more
 	when      *column // the date or period of each row of a long table (YYYYMM, Date)
+	output    bool    // the title speaks of generation: amounts in Wh are electricity made, not fuel burned
 
 	// The columns with a role (nil when absent).
 	fuel, qty, unit, group   *column

@@ -32,6 +32,9 @@ func (d *detector) count(col *column, c cell) {
 	if c.isBlank() && !c.noCache {
 		return
 	}
+	if c.kind == kText && missingMarker(c.text) {
+		return // "Not Available", "NA", "--": no value, not text
+	}
 	st.nonEmpty++
 	switch c.kind {
 	case kNumber:
@@ -180,4 +183,15 @@ func (sc *scanCtx) readFuelName(s string) fuelRef {
 		return fuelRef{kind: nameNotFuel, why: "not a fuel burned on site"}
 	}
 	return fuelRef{}
+}
+
+// missingMarker reports a cell text that statistics write for a value they
+// do not give: "Not Available", "NA", "N/A", "--", "(D)" (withheld), "W",
+// "(NA)", "Not Applicable", "-".
+func missingMarker(s string) bool {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "not available", "not applicable", "na", "n/a", "(na)", "--", "-", "–", "—", "(d)", "w", "(w)", "(s)", "nm", "x", "..", "...", "*", "null", "none":
+		return true
+	}
+	return false
 }

@@ -78,9 +78,17 @@ func parseHeader(raw string) headerInfo {
 	if m := reMidUnit.FindStringSubmatch(h.text); m != nil && m[3] != "" && try(strings.TrimSpace(m[1]+" "+m[3]), m[2], true) {
 		return h
 	}
-	if i := strings.LastIndexByte(h.text, ' '); i > 0 && len(h.text)-i > 2 {
-		if try(h.text[:i], h.text[i+1:], false) {
-			return h
+	// The last two to four words: "... Consumption  Million Cubic Feet",
+	// "coal thousand megawatthours"; then the last word alone.
+	if fs := strings.Fields(h.text); len(fs) >= 2 {
+		for n := min(4, len(fs)-1); n >= 1; n-- {
+			u := strings.Join(fs[len(fs)-n:], " ")
+			if n == 1 && len(u) <= 2 {
+				continue
+			}
+			if try(strings.Join(fs[:len(fs)-n], " "), u, false) {
+				return h
+			}
 		}
 	}
 	// snake_case with the unit as its last part: "NaturalGasUse_therms".

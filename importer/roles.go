@@ -158,6 +158,9 @@ func (d *detector) assignRoles(t *tableSpec) {
 			if f.kind != nameFuel {
 				continue
 			}
+			if c.hdr.unit.Dim == units.Energy && electricOutput(c.hdr.unit.Symbol) && (c.st.hint.Any(tables.HintOutput) || t.output) {
+				continue // electricity generated from the fuel, not the fuel burned
+			}
 			if c.hdr.unitTxt == "" && c.hdr.unitErr == nil {
 				continue
 			}
@@ -262,7 +265,7 @@ func (d *detector) quantityScore(t *tableSpec, c *column) (float64, bool) {
 	if fuelHeader(ws) && hasUnit {
 		score += 1 // "Fuel (L)", "Fuel used, kWh"
 	}
-	if score == 0 && t.unit != nil && t.unit.st.hint.Any(tables.HintUnit) && c.numeric && c.st.nonEmpty > 0 && !h.Any(tables.HintTotal) {
+	if score == 0 && t.unit != nil && t.unit.st.hint.Any(tables.HintUnit) && c.numeric && c.st.nonEmpty > 0 && !h.Any(tables.HintTotal) && !periodHeader(c.hdr.text) {
 		score = 0.5 // the only numbers beside a unit column: "Value"
 	}
 	if score == 0 {
@@ -416,3 +419,7 @@ func whyNot(t *tableSpec) string {
 	}
 	return noTableHint
 }
+
+// electricOutput reports a watt-hour unit (Wh to TWh), the unit of
+// electricity generated or sold rather than of fuel burned.
+func electricOutput(sym string) bool { return strings.HasSuffix(sym, "Wh") }

@@ -231,6 +231,10 @@ func (sc *scanCtx) numberValue(t *table, c *column, v *cellVal, r int) (any, boo
 			if (c.role == roleWideFuel || c.role == rolePeriod) && isDash(v.text) {
 				return 0.0, true
 			}
+			if missingMarker(v.text) {
+				sc.warn.add(sheet, c.col, r, SevInfo, CodeNotComputed, quoteText(v.text)+": the source gives no value here; row not computed")
+				return nil, false
+			}
 			msg := quoteText(v.text) + " is not a number; row not computed"
 			if num, unit, ok := numberWithUnit(v.text); ok {
 				msg = quoteText(v.text) + " holds a number and a unit: write " + num + " here and " + unit + " in the unit column (or the header); row not computed"

@@ -25,11 +25,12 @@ const (
 	HintKey                       // id, code, number
 	HintGroup                     // site, building, region
 	HintNotFuel                   // an energy carrier not burned on site: electricity, steam
+	HintOutput                    // electricity generated, not fuel burned: generation, generated
 )
 
 var hintNames = map[string]Hint{"qty": HintQty, "rate": HintRate, "count": HintCount, "fuel": HintFuel,
 	"fuelweak": HintFuelWeak, "unit": HintUnit, "tech": HintTech, "capacity": HintCapacity, "total": HintTotal,
-	"period": HintPeriod, "key": HintKey, "group": HintGroup, "notfuel": HintNotFuel}
+	"period": HintPeriod, "key": HintKey, "group": HintGroup, "notfuel": HintNotFuel, "output": HintOutput}
 
 //go:embed vocab.csv
 var vocabCSV string
