@@ -90,7 +90,6 @@ func TestWarningCases(t *testing.T) {
 		{"unit unknown with suggestion", [][]any{{"Fuel", "Quantity", "Unit"}, {"natural_gas", 10, "GJJ"}}, "C2", CodeUnitUnknown, SevError},
 		{"empty unit", [][]any{{"Fuel", "Quantity", "Unit"}, {"natural_gas", 10, nil}}, "C2", CodeUnitUnknown, SevError},
 		{"text not a number", [][]any{{"Fuel", "Quantity", "Unit"}, {"natural_gas", "pending", "GJ"}}, "B2", CodeValueNotNumber, SevError},
-		{"value withheld", [][]any{{"Fuel", "Quantity", "Unit"}, {"natural_gas", 5, "GJ"}, {"natural_gas", "Not Available", "GJ"}}, "B3", CodeNotComputed, SevInfo},
 		{"number with its unit", [][]any{{"Fuel", "Quantity", "Unit"}, {"natural_gas", "1200 GJ", "GJ"}}, "B2", CodeValueNotNumber, SevError},
 		{"ambiguous decimal comma", [][]any{{"Fuel", "Quantity", "Unit"}, {"natural_gas", "1,250", "GJ"}}, "B2", CodeValueNotNumber, SevError},
 		{"decimal comma", [][]any{{"Fuel", "Quantity", "Unit"}, {"natural_gas", "12,5", "GJ"}}, "B2", CodeValueTextNumber, SevWarning},
