@@ -234,7 +234,7 @@ func (d *detector) quantityScore(t *tableSpec, c *column) (float64, bool) {
 		// Text where amounts belong ("n/a", "1200 GJ"): the column is still
 		// the amount when its header says so and its texts name nothing
 		// else, so that each such cell gets its finding.
-		if !h.Any(tables.HintQty) || c.st.fuel+c.st.unitLike+c.st.tech+c.st.notFuel > 0 || t.fuel == nil {
+		if !h.Any(tables.HintQty) || c.st.fuel+c.st.unitLike+c.st.tech+c.st.notFuel > 0 || t.fuel == nil || c.st.text > max(2, c.st.nonEmpty/5) {
 			return 0, false
 		}
 		return 0.25, true
