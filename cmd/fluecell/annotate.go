@@ -21,8 +21,8 @@ import (
 const exitFailOn = 3
 
 func cmdAnnotate(ctx context.Context, s stdio, args []string) int {
-	fs := newFlags("annotate", "annotate IN.xlsx|IN.csv [-o OUT] [--rule 'COLUMN = EXPR']... [--sheet S] [--report R.json] [--pack P] [--factors F]... [--fail-on warning|error]", s.err, true)
-	out := fs.String("o", "", "write the annotated workbook to `OUT` (default: IN with .carbon before the extension)")
+	fs := newFlags("annotate", "annotate IN.xlsx|IN.xlsm|IN.xls|IN.csv [-o OUT] [--rule 'COLUMN = EXPR']... [--sheet S] [--report R.json] [--pack P] [--factors F]... [--fail-on warning|error]", s.err, true)
+	out := fs.String("o", "", "write the annotated workbook to `OUT` (default: IN with .carbon before the extension; a legacy .xls, read through LibreOffice, gives .carbon.xlsx)")
 	report := fs.String("report", "", "also write the report as JSON to `R.json` (- for standard output)")
 	failOn := fs.String("fail-on", "", "exit with code 3 when a finding of this `severity` or worse exists: warning or error (the output is still written)")
 	var af annotateFlags

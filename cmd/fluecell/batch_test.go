@@ -86,7 +86,7 @@ func TestBatchCommand(t *testing.T) {
 	}
 	recs, _ := csv.NewReader(f).ReadAll()
 	f.Close()
-	if len(recs) != 11 || strings.Join(recs[0], ",") != "file,status,rows,tCO2,tCO2e,warnings,error,seconds" {
+	if len(recs) != 11 || strings.Join(recs[0], ",") != "file,status,rows,tCO2,tCO2e,warnings,error,seconds,output" {
 		t.Fatalf("summary: %v", recs)
 	}
 	for _, r := range recs[1:] {
@@ -99,7 +99,7 @@ func TestBatchCommand(t *testing.T) {
 		if r[1] != "ok" {
 			t.Errorf("row %v", r)
 		}
-		if _, err := excelize.OpenFile(filepath.Join(out, filepath.FromSlash(r[0]))); err != nil {
+		if _, err := excelize.OpenFile(filepath.Join(out, filepath.FromSlash(r[8]))); err != nil {
 			t.Errorf("%s: %v", r[0], err)
 		}
 	}

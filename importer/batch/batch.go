@@ -53,6 +53,7 @@ const (
 // FileResult is one row of the summary.
 type FileResult struct {
 	File    string // path relative to InDir, slash-separated
+	Output  string // path of its output relative to OutDir (see OutputName)
 	Status  string
 	Outcome Outcome
 	Error   string
@@ -69,14 +70,55 @@ type Summary struct {
 	Written  int
 }
 
-// workbookExt lists the extensions treated as workbooks. Legacy .xls files
-// count: they are refused with a clear error rather than silently skipped.
+// isWorkbook lists the extensions treated as workbooks. Legacy .xls files
+// count: the annotator converts them, or refuses them with a clear error.
 func isWorkbook(name string) bool {
 	switch strings.ToLower(filepath.Ext(name)) {
 	case ".xlsx", ".xlsm", ".xls", ".csv":
 		return true
 	}
 	return false
+}
+
+// OutputName is the output path, relative to OutDir, of the input at rel
+// (relative to InDir, slash-separated): the same path, except that a
+// legacy .xls is annotated into an .xlsx workbook of the same name.
+func OutputName(rel string) string {
+	switch ext := filepath.Ext(rel); ext {
+	case ".xls":
+		return rel + "x"
+	case ".XLS":
+		return rel + "X"
+	default:
+		if strings.EqualFold(ext, ".xls") {
+			return strings.TrimSuffix(rel, ext) + ".xlsx"
+		}
+	}
+	return rel
+}
+
+// collisions maps each input whose output would be another input's output
+// (north/gas.xls and north/gas.xlsx both give north/gas.xlsx) to the
+// other input.
+func collisions(files []string) map[string]string {
+	owner := map[string]string{}
+	out := map[string]string{}
+	for _, f := range files {
+		key := OutputName(f)
+		if prev, ok := owner[key]; ok {
+			// The one whose output keeps its own name wins; files are sorted,
+			// so the choice does not depend on the shard.
+			loser, winner := f, prev
+			if OutputName(f) == f && OutputName(prev) != prev {
+				loser, winner = prev, f
+				owner[key] = f
+			}
+			out[loser] = winner
+			continue
+		}
+		owner[key] = f
+	}
+	return out
 }
 
 // Run annotates every workbook below InDir of this shard into the same
@@ -113,6 +155,7 @@ func Run(ctx context.Context, cfg Config) (*Summary, error) {
 		return nil, err
 	}
 	sum := &Summary{Skipped: skipped}
+	clash := collisions(files)
 	var mine []string
 	for _, f := range files {
 		if cfg.Shard.Takes(f) {
@@ -121,7 +164,7 @@ func Run(ctx context.Context, cfg Config) (*Summary, error) {
 			sum.Others++
 		}
 	}
-	removeStaleTemps(out, cfg.Shard)
+	removeStaleTemps(out, cfg.Shard, files)
 	st := stamps{dir: filepath.Join(out, stampDir)}
 	jobs := cfg.Jobs
 	if jobs <= 0 {
@@ -136,7 +179,12 @@ func Run(ctx context.Context, cfg Config) (*Summary, error) {
 		go func() {
 			defer wg.Done()
 			for i := range work {
-				results[i] = one(ctx, cfg, st, in, out, mine[i])
+				if other, ok := clash[mine[i]]; ok {
+					results[i] = FileResult{File: mine[i], Output: OutputName(mine[i]), Status: StatusFailed,
+						Error: fmt.Sprintf("not annotated: its output %s would overwrite the output of %s; rename one of the two inputs", OutputName(mine[i]), other)}
+				} else {
+					results[i] = one(ctx, cfg, st, in, out, mine[i])
+				}
 				prog.done(results[i].Status == StatusFailed)
 			}
 		}()
@@ -175,9 +223,9 @@ dispatch:
 // one annotates a single file, or skips it when its output is up to date.
 func one(ctx context.Context, cfg Config, st stamps, in, out, rel string) FileResult {
 	start := time.Now()
-	res := FileResult{File: rel}
+	res := FileResult{File: rel, Output: OutputName(rel)}
 	src := filepath.Join(in, filepath.FromSlash(rel))
-	dst := filepath.Join(out, filepath.FromSlash(rel))
+	dst := filepath.Join(out, filepath.FromSlash(res.Output))
 	fail := func(err error) FileResult {
 		res.Status, res.Error = StatusFailed, oneLine(err.Error())
 		res.Seconds = time.Since(start).Seconds()
@@ -246,8 +294,14 @@ func listWorkbooks(in, out string) ([]string, int, error) {
 
 // removeStaleTemps deletes the temporary files a killed run left in the
 // output folder (".name.xlsx.123.tmp" beside name.xlsx), for this shard's
-// files only: other shards may be writing theirs into the same folder.
-func removeStaleTemps(out string, shard Shard) {
+// files only: other shards may be writing theirs into the same folder. A
+// temporary output belongs to the input that gives that output (one of
+// files), else to the input of the same name.
+func removeStaleTemps(out string, shard Shard, files []string) {
+	input := map[string]string{}
+	for _, f := range files {
+		input[OutputName(f)] = f
+	}
 	filepath.WalkDir(out, func(p string, d fs.DirEntry, err error) error {
 		if err != nil {
 			return nil
@@ -270,7 +324,14 @@ func removeStaleTemps(out string, shard Shard) {
 			return nil
 		}
 		rel, err := filepath.Rel(out, filepath.Join(filepath.Dir(p), base))
-		if err == nil && shard.Takes(filepath.ToSlash(rel)) {
+		if err != nil {
+			return nil
+		}
+		owner := filepath.ToSlash(rel)
+		if f, ok := input[owner]; ok {
+			owner = f
+		}
+		if shard.Takes(owner) {
 			os.Remove(p)
 		}
 		return nil

@@ -76,6 +76,13 @@ func TestRunMirrorsAndIsolatesFailures(t *testing.T) {
 	if s.Files[3].Error != "not a zip file: corrupt or truncated" {
 		t.Errorf("error %q", s.Files[3].Error)
 	}
+	// A legacy .xls is annotated into an .xlsx workbook of the same name.
+	if b, err := os.ReadFile(filepath.Join(out, "old", "legacy.xlsx")); err != nil || string(b) != "legacy" || s.Files[2].Output != "old/legacy.xlsx" {
+		t.Errorf("legacy output: %q %v %q", b, err, s.Files[2].Output)
+	}
+	if _, err := os.Stat(filepath.Join(out, "old", "legacy.xls")); !os.IsNotExist(err) {
+		t.Errorf("an .xls output was written: %v", err)
+	}
 	// Inputs untouched.
 	if b, _ := os.ReadFile(filepath.Join(in, "north", "site-a.xlsx")); string(b) != "aaaa" {
 		t.Error("input changed")
@@ -115,7 +122,7 @@ func TestRunMirrorsAndIsolatesFailures(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if strings.Join(recs[0], ",") != "file,status,rows,tCO2,tCO2e,warnings,error,seconds" || len(recs) != 6 {
+	if strings.Join(recs[0], ",") != "file,status,rows,tCO2,tCO2e,warnings,error,seconds,output" || len(recs) != 6 {
 		t.Errorf("summary %v", recs)
 	}
 	if got := strings.Join(recs[2][:6], ","); got != "north/site-a.xlsx,ok,4,1.5,1.6,2" {
@@ -123,6 +130,53 @@ func TestRunMirrorsAndIsolatesFailures(t *testing.T) {
 	}
 	if got := recs[4]; got[1] != "failed" || got[2] != "" || got[6] == "" {
 		t.Errorf("failed row %v", got)
+	}
+	if got := recs[3]; got[0] != "old/legacy.xls" || got[8] != "old/legacy.xlsx" {
+		t.Errorf("legacy row %v", got)
+	}
+}
+
+func TestOutputName(t *testing.T) {
+	for in, want := range map[string]string{
+		"a/gas.xls": "a/gas.xlsx", "GAS.XLS": "GAS.XLSX", "gas.Xls": "gas.xlsx", "gas.xlsx": "gas.xlsx",
+		"gas.xlsm": "gas.xlsm", "gas.csv": "gas.csv", "gas.xls.csv": "gas.xls.csv",
+	} {
+		if got := OutputName(in); got != want {
+			t.Errorf("OutputName(%q) = %q, want %q", in, got, want)
+		}
+	}
+}
+
+// TestOutputCollision: north/gas.xls and north/gas.xlsx would both write
+// north/gas.xlsx; the .xls fails with a message naming both, and the
+// .xlsx's output is its own.
+func TestOutputCollision(t *testing.T) {
+	in := tree(t, map[string]string{"north/gas.xls": "old", "north/gas.xlsx": "new", "south/gas.xls": "alone"})
+	out := filepath.Join(t.TempDir(), "out")
+	for _, shard := range []Shard{{}, {Index: 1, Count: 2}, {Index: 2, Count: 2}} {
+		var calls atomic.Int64
+		s, err := Run(context.Background(), Config{InDir: in, OutDir: out, Shard: shard, Annotate: copyAnnotate(&calls)})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, f := range s.Files {
+			switch f.File {
+			case "north/gas.xls":
+				if f.Status != StatusFailed || !strings.Contains(f.Error, "would overwrite the output of north/gas.xlsx") {
+					t.Errorf("shard %v: %+v", shard, f)
+				}
+			default:
+				if f.Status == StatusFailed {
+					t.Errorf("shard %v: %+v", shard, f)
+				}
+			}
+		}
+	}
+	if b, _ := os.ReadFile(filepath.Join(out, "north", "gas.xlsx")); string(b) != "new" {
+		t.Errorf("north/gas.xlsx holds %q, want the .xlsx input's output", b)
+	}
+	if b, _ := os.ReadFile(filepath.Join(out, "south", "gas.xlsx")); string(b) != "alone" {
+		t.Errorf("south/gas.xlsx holds %q", b)
 	}
 }
 
@@ -234,10 +288,12 @@ func TestRunCancelled(t *testing.T) {
 }
 
 func TestStaleTempsRemoved(t *testing.T) {
-	in := tree(t, map[string]string{"north/a.xlsx": "a", "b.xlsx": "b"})
+	in := tree(t, map[string]string{"north/a.xlsx": "a", "b.xlsx": "b", "c.xls": "c"})
 	out := t.TempDir()
 	os.MkdirAll(filepath.Join(out, "north"), 0o755)
 	stale := filepath.Join(out, "north", ".a.xlsx.123456.tmp")
+	staleLegacy := filepath.Join(out, ".c.xlsx.42.tmp")
+	os.WriteFile(staleLegacy, []byte("half a converted workbook"), 0o644)
 	keep := filepath.Join(out, ".notes.txt.1.tmp")
 	os.WriteFile(stale, []byte("half a workbook"), 0o644)
 	os.WriteFile(keep, []byte("not ours"), 0o644)
@@ -247,6 +303,9 @@ func TestStaleTempsRemoved(t *testing.T) {
 	}
 	if _, err := os.Stat(stale); !os.IsNotExist(err) {
 		t.Error("stale temporary output left in place")
+	}
+	if _, err := os.Stat(staleLegacy); !os.IsNotExist(err) {
+		t.Error("stale temporary output of an .xls left in place")
 	}
 	if _, err := os.Stat(keep); err != nil {
 		t.Error("removed a file that is not a temporary workbook")
