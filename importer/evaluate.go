@@ -332,6 +332,9 @@ func (sc *scanCtx) rowTotals(t *table, i, rowNum int, vars map[string]any, wideK
 			if !ok || !isNum || x == 0 {
 				continue
 			}
+			if c.hdr.scale != 0 {
+				x *= c.hdr.scale // "'000 L", "Million Cubic Feet": the rule scales it too
+			}
 			add(t.byFuel, &t.fuelOrd, c.fuelID, x*k[0], x*k[1])
 		}
 	default:
