@@ -112,7 +112,9 @@ func unitDefs() []unitDef {
 		{sym: "MMbbl", name: "million barrels", dim: v, factor: "1e6", of: "bbl", source: oilGas, spell: []string{"MMBbl", "MMBBL", "MMbbls", "million barrels"}},
 		// The standard cubic foot is the gas volume at 60 °F and 14.696 psia (40 CFR 98.6); its
 		// factor is the cubic foot, so the m3 it converts to is at the same standard conditions.
-		{sym: "scf", name: "standard cubic foot (60 °F, 14.696 psia)", dim: v, factor: "0.028316846592", source: scf, spell: []string{"standard cubic foot", "standard cubic feet", "cubic foot", "cubic feet", "cu ft", "ft3", "ft³"}},
+		// "Cubic feet" alone is not read as scf: only standard cubic feet, or the gas trade's
+		// Mcf, MMcf and their spelled forms ("Million cubic feet"), imply standard conditions.
+		{sym: "scf", name: "standard cubic foot (60 °F, 14.696 psia)", dim: v, factor: "0.028316846592", source: scf, spell: []string{"standard cubic foot", "standard cubic feet"}},
 		// C = 100 (Roman numeral), as on US gas bills (common practice).
 		{sym: "ccf", name: "hundred standard cubic feet", dim: v, factor: "100", of: "scf", source: scf + "; C = 100 (common practice)", spell: []string{"hundred cubic feet"}},
 		{sym: "Mcf", name: "thousand standard cubic feet", dim: v, factor: "1e3", of: "scf", source: scf + "; " + oilGas, spell: []string{"Mscf", "thousand cubic feet"}},
