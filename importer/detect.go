@@ -171,7 +171,7 @@ func (d *detector) pick(rows []row, look int, final bool) (*tableSpec, int) {
 		if best != nil && rows[i].num-firstNum > 3 {
 			break
 		}
-		if !headerLike(&rows[i]) {
+		if named, mapped := d.mappedHeader(&rows[i]); named && !mapped || !named && !headerLike(&rows[i]) {
 			continue
 		}
 		if !final && len(rows)-i-1 < sampleRows {
@@ -362,6 +362,7 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 		}
 	}
 	d.assignRoles(t)
+	d.applyMapping(t)
 	if !d.decideKind(t) {
 		if _, seen := sc.skipWhy[d.sheet]; !seen {
 			sc.skipWhy[d.sheet] = whyNot(t)

@@ -8,6 +8,11 @@ type Options struct {
 	Rules []string
 	// Sheet restricts detection to one sheet ("" = every sheet).
 	Sheet string
+	// Mapping, when not nil, says how tables are read (LoadMapping): on each
+	// sheet it names, only its header rows are headers, and their columns
+	// get the roles, units and fuels it gives; its names are read before
+	// the engine's. A workbook that no longer fits it is an error.
+	Mapping *Mapping
 	// Pack is the factor pack used by calls that name none ("" = the
 	// engine's default pack).
 	Pack string

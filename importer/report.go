@@ -26,6 +26,8 @@ type Report struct {
 	Sheets []SheetInfo `json:"sheets"`
 	// Packs are the factor packs of the engine used, with their versions.
 	Packs []PackVersion `json:"packs"`
+	// Mapping is the mapping file the tables were read with (Options.Mapping).
+	Mapping *MappingRef `json:"mapping,omitempty"`
 	// Output is the path written by Annotate ("" for Scan).
 	Output string `json:"output,omitempty"`
 }
@@ -79,7 +81,9 @@ type TableInfo struct {
 	Sheet     string       `json:"sheet"`
 	Range     string       `json:"range"` // header to last data row, e.g. "A4:H120"
 	HeaderRow int          `json:"header_row"`
-	Kind      string       `json:"kind"` // fuel-log, wide, build-plan, custom
+	Kind      string       `json:"kind"`           // fuel-log, wide, build-plan, custom
+	Fuel      string       `json:"fuel,omitempty"` // the fuel of every row (no fuel column), from the title or the mapping
+	Unit      string       `json:"unit,omitempty"` // the unit of amounts whose header states none, from the title or the mapping
 	Columns   []ColumnInfo `json:"columns"`
 	Rules     []string     `json:"rules"`
 	Rows      int          `json:"rows"`
@@ -99,6 +103,8 @@ type ColumnInfo struct {
 	Ident      string `json:"ident"`
 	HeaderUnit string `json:"header_unit,omitempty"` // unit written in the header; its variable is Ident+"_unit"
 	Role       string `json:"role,omitempty"`
+	Fuel       string `json:"fuel,omitempty"` // the fuel of a fuel-column
+	Why        string `json:"why,omitempty"`  // the evidence for the role, or the mapping entry that set it
 }
 
 // PackVersion names a factor pack and the hash of its rows.

@@ -299,6 +299,9 @@ func (res *ScanResult) finish() error {
 		rep.Warnings = []Warning{}
 	}
 	res.Report = rep
+	if err := res.checkMapping(); err != nil {
+		return err
+	}
 	if len(sc.tables) == 0 && len(sc.userRules) > 0 {
 		return res.noTableError()
 	}

@@ -28,6 +28,7 @@ type scanCtx struct {
 	sheetOrd  map[string]int
 	missed    []string // identifiers of a header that lacked a rule's variables
 	missedAt  string
+	mapRun    *mappingRun // what the scan did with opt.Mapping (mappingapply.go)
 	provenance
 
 	fuels map[string]fuelRes

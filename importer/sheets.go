@@ -267,6 +267,9 @@ func (res *ScanResult) writeSources(f *excelize.File, st *styles) error {
 		put(0, p.Name, p.Version, p.Basis, p.Rows, "", "", "", p.Title)
 	}
 	put(0, "engine version "+res.e.Version()+"; default pack "+res.e.DefaultPackName()+"; GWP set "+funcs.DefaultGWPSet+" unless a rule names another")
+	if m := res.Report.Mapping; m != nil {
+		put(0, "tables read with the mapping "+m.Path+" (sha256 "+m.SHA256+"): header rows, roles, units and fuel names as it says")
+	}
 	row++
 	put(st.head, "factor", "value", "unit", "low", "high", "basis", "rows using it", "source")
 	used := append([]*funcs.Factor(nil), res.sc.usedOrd...)

@@ -132,9 +132,11 @@ func writeReport(path string, out io.Writer, rep *importer.Report) error {
 }
 
 // annotateFlags are the flags of the commands that annotate workbooks:
-// factor packs, rules and the sheet to read.
+// factor packs, rules, the sheet to read and the mapping (whose engine
+// method, in mapping.go, also loads the mapping).
 type annotateFlags struct {
 	engineFlags
+	mappingFlag
 	rules listFlag
 	sheet string
 }
@@ -143,9 +145,10 @@ func (f *annotateFlags) register(fs *flag.FlagSet) {
 	f.engineFlags.register(fs)
 	fs.Var(&f.rules, "rule", "compute a column: `'COLUMN = EXPR'` over the header identifiers, e.g. 'tCO2e = fuel_co2e(fuel, quantity, unit)'; repeatable (default: rules proposed from each table's columns)")
 	fs.StringVar(&f.sheet, "sheet", "", "look for tables on sheet `S` only")
+	f.mappingFlag.register(fs)
 }
 
 // options are the importer options the flags give.
 func (f *annotateFlags) options() importer.Options {
-	return importer.Options{Rules: f.rules, Sheet: f.sheet, Pack: f.pack, FactorFiles: append([]string{}, f.factors...)}
+	return importer.Options{Rules: f.rules, Sheet: f.sheet, Pack: f.pack, FactorFiles: append([]string{}, f.factors...), Mapping: f.loaded}
 }

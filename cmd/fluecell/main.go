@@ -37,6 +37,7 @@ func commands() []command {
 		{"eval", "evaluate one expression, e.g. fuel_co2(\"diesel\", 1000, \"L\")", cmdEval},
 		{"annotate", "add tCO2/tCO2e columns and unit warnings to a workbook (.xlsx, .xlsm, .csv)", cmdAnnotate},
 		{"batch", "annotate every workbook below a folder into a mirror folder, in parallel", cmdBatch},
+		{"inspect", "show how a workbook's tables and columns are read; write that reading as a mapping to edit", cmdInspect},
 		{"functions", "list the carbon functions with parameters and examples", cmdFunctions},
 		{"factors", "list factor rows with their sources", cmdFactors},
 		{"units", "list the accepted units with their exact factors", cmdUnits},
