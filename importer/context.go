@@ -38,6 +38,10 @@ func (d *detector) titleContext(t *tableSpec, above []row) {
 		if sc.vocab.Hints(words(s)).Any(tables.HintOutput) {
 			t.output = true
 		}
+		if rateText(s) {
+			t.rateTitle = s // "(Dollars per Million Btu)": the numbers are prices
+			continue
+		}
 		if u := titleUnit(s); u != "" && t.ctxUnit == "" {
 			t.ctxUnit = u
 		}
@@ -59,8 +63,12 @@ func (d *detector) titleContext(t *tableSpec, above []row) {
 func titleUnit(s string) string {
 	s = cleanHeader(s)
 	for _, m := range reAnyParen.FindAllStringSubmatch(s, -1) {
-		if h := parseHeader("x (" + m[1] + ")"); h.unitTxt != "" && h.unitErr == nil && isQuantityDim(h.unit) {
-			return m[1]
+		// "(Subset of Table 8.4a; Billion Btu)": each part on its own.
+		for _, part := range strings.FieldsFunc(m[1], func(r rune) bool { return r == ';' || r == ',' }) {
+			part = strings.TrimSpace(part)
+			if h := parseHeader("x (" + part + ")"); h.unitTxt != "" && h.unitErr == nil && isQuantityDim(h.unit) {
+				return part
+			}
 		}
 	}
 	low := strings.ToLower(s)
@@ -95,54 +103,127 @@ func (sc *scanCtx) phraseFuel(s string) string {
 	return ""
 }
 
-// upperHeaderRows returns, for a header at rows[h], the text that header
-// rows right above it (two or more cells, mostly text: a grouped header
-// split over rows) give each column: "Natural Gas" over "Use | Cost". A
-// group label is carried right over the blank cells it spans.
-func (d *detector) upperHeaderRows(rows []row, h, first, last int) func(col int) string {
+// headerBlock is a header split over rows: the rows above the header row
+// that hold parts of its column names ("Natural" over "Gas 3"; "Fuel use"
+// over "Amount | Unit"), with up to two blank rows between them, as
+// statistics tables print them.
+type headerBlock struct {
+	texts       []map[int]string // per upper row, top first: column -> text
+	first, last int              // columns the block spans
+}
+
+// upperHeaderRows finds the header block above rows[h]: rows without
+// numbers, with text in at least one cell, that are not a one-cell title
+// and do not repeat the header's own texts (data rows of a long table).
+func (d *detector) upperHeaderRows(rows []row, h int) headerBlock {
 	var ups []*row
-	for k := h - 1; k >= 0 && len(ups) < 3; k-- {
+	next := rows[h].num
+	for k := h - 1; k >= 0 && len(ups) < 5; k-- {
 		r := &rows[k]
-		if r.num != rows[h].num-len(ups)-1 || !headerLike(r) || unitRowLike(r) || hasNumber(r) || sameTexts(r, &rows[h]) {
+		if next-r.num > 3 {
+			break // more than two blank rows: the block has ended
+		}
+		if r.blank() {
+			continue
+		}
+		if hasNumber(r) || unitRowLike(r) || sameTexts(r, &rows[h]) || titleRow(r) {
 			break
 		}
 		ups = append([]*row{r}, ups...)
+		next = r.num
 	}
-	if len(ups) == 0 {
-		return func(int) string { return "" }
-	}
-	texts := make([]map[int]string, len(ups))
-	for i, r := range ups {
+	blk := headerBlock{}
+	for _, r := range ups {
 		m := map[int]string{}
-		carry := ""
-		for c := first; c <= last; c++ {
-			x := r.at(c)
-			if x.kind == kText && strings.TrimSpace(x.text) != "" {
-				carry = strings.TrimSpace(x.text)
-			} else if x.kind == kNumber {
-				carry = ""
-			}
-			if carry != "" {
-				m[c] = carry
+		for i := range r.cells {
+			c := &r.cells[i]
+			if c.kind == kText && strings.TrimSpace(c.text) != "" {
+				m[c.col] = cleanHeader(c.text)
+				if blk.first == 0 || c.col < blk.first {
+					blk.first = c.col
+				}
+				blk.last = max(blk.last, c.col)
 			}
 		}
-		texts[i] = m
-	}
-	return func(col int) string {
-		var parts []string
-		for _, m := range texts {
-			if s := m[col]; s != "" {
-				parts = append(parts, s)
+		for _, mg := range d.merges {
+			if mg.r1 == r.num && mg.c2 > mg.c1 {
+				if tl := cleanHeader(d.headerText(rows, mg.c1, mg.r1)); tl != "" {
+					for c := mg.c1; c <= mg.c2; c++ {
+						m[c] = tl
+					}
+				}
 			}
 		}
-		return strings.Join(parts, " ")
+		blk.texts = append(blk.texts, m)
 	}
+	return blk
 }
 
+// text is the part of column col's name that the block gives. A label is
+// carried right over blank cells only into columns that have no label of
+// their own further down (a group label over its sub-columns).
+func (blk headerBlock) text(col int, own func(col int) bool) string {
+	var parts []string
+	for i, m := range blk.texts {
+		s, ok := m[col]
+		if !ok && !own(col) {
+			for c := col - 1; c >= blk.first && c >= col-12; c-- {
+				if blk.labelBelow(i, c) && c != col {
+					break
+				}
+				if x, ok := m[c]; ok {
+					s = x
+					break
+				}
+			}
+		}
+		if s != "" && !slicesContains(parts, s) {
+			parts = append(parts, s)
+		}
+	}
+	return strings.Join(parts, " ")
+}
+
+// labelBelow reports whether column c has a label in a block row under row i.
+func (blk headerBlock) labelBelow(i, c int) bool {
+	for _, m := range blk.texts[i+1:] {
+		if _, ok := m[c]; ok {
+			return true
+		}
+	}
+	return false
+}
+
+// titleRow reports a row of one text in the first column or of one long
+// text: a title or a note, not a part of a header (a group label sits
+// over the columns it names).
+func titleRow(r *row) bool {
+	n, long := 0, false
+	for i := range r.cells {
+		c := &r.cells[i]
+		if c.isBlank() {
+			continue
+		}
+		n++
+		if c.kind == kText && (c.col == 1 || len([]rune(strings.TrimSpace(c.text))) > 30) {
+			long = true
+		}
+	}
+	return n == 1 && long
+}
+
+// hasNumber reports a row with a number, or a number stored as text
+// ("1 250,5" in a CSV export).
 func hasNumber(r *row) bool {
 	for i := range r.cells {
-		if r.cells[i].kind == kNumber {
+		c := &r.cells[i]
+		if c.kind == kNumber {
 			return true
+		}
+		if c.kind == kText {
+			if _, ok, amb := textNumber(c.text); ok || amb {
+				return true
+			}
 		}
 	}
 	return false

@@ -49,6 +49,7 @@ type column struct {
 	role      role
 	fuelID    string  // roleWideFuel: the fuel of the column
 	partOf    *column // a per-fuel column left out because a total column of its fuel is used
+	biogenic  bool    // a per-fuel column of a biogenic fuel, left out of the fossil totals
 	fuelAlias bool
 	carbon    carbonCol
 	numeric   bool // values are mostly numbers
@@ -75,6 +76,7 @@ type tableSpec struct {
 	partial   bool    // amounts in columns fluecell leaves out (electricity, steam): existing carbon figures cover more
 	when      *column // the date or period of each row of a long table (YYYYMM, Date)
 	output    bool    // the title speaks of generation: amounts in Wh are electricity made, not fuel burned
+	rateTitle string  // a title stating prices or rates ("Dollars per Million Btu")
 
 	// The columns with a role (nil when absent).
 	fuel, qty, unit, group   *column
@@ -150,8 +152,8 @@ func (sc *scanCtx) keywordHits(r *row) int {
 		if len(ws) > 4 {
 			continue // a sentence, not a header
 		}
-		if hasWord(ws, "fuel", "unit", "units", "uom", "technology", "capacity", "month", "date") || hasWord(ws, qtyWords...) || hasWord(ws, groupWords...) ||
-			h.unitTxt != "" && h.base != h.text && sc.fuel(h.base).err == nil {
+		if hasWord(ws, "fuel", "unit", "units", "uom", "technology", "capacity", "month", "date", "year") || hasWord(ws, qtyWords...) || hasWord(ws, groupWords...) ||
+			h.unitTxt != "" && h.base != h.text && sc.fuel(h.base).err == nil || len(ws) <= 3 && sc.fuelName(h.base).kind == nameFuel && !sc.unitLike(c.text) {
 			n++
 		} else if _, ok := parseCarbonHeader(h.text); ok {
 			n++
@@ -168,7 +170,10 @@ func (d *detector) pick(rows []row, look int, final bool) (*tableSpec, int) {
 	var best *tableSpec
 	bestI, firstNum := -1, 0
 	for i := 0; i < look; i++ {
-		if best != nil && rows[i].num-firstNum > 3 {
+		// A better header up to three rows below the first that fits (the
+		// real header under a banner), or anywhere in a block of rows
+		// without numbers (a header printed over several rows).
+		if best != nil && rows[i].num-firstNum > 3 && (hasNumber(&rows[i-1]) || rows[i].num-rows[i-1].num > 3) {
 			break
 		}
 		if named, mapped := d.mappedHeader(&rows[i]); named && !mapped || !named && !headerLike(&rows[i]) {
@@ -233,6 +238,15 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 	if len(peek) > 0 && !d.headerFits(hdr, peek) {
 		return nil
 	}
+	// Rows of labels without numbers right under it, before the numbers
+	// start: the header goes on below (a header printed over several rows).
+	if len(peek) >= 2 && headerLike(peek[0]) && !hasNumber(peek[0]) && !unitRowLike(peek[0]) && !d.mostlyNames(peek[0]) {
+		for _, r := range peek[1:] {
+			if hasNumber(r) {
+				return nil
+			}
+		}
+	}
 	// Sample rows: up to sampleRows non-blank rows, stopping at a gap of
 	// three blank rows or at the next header-like row with role keywords.
 	var sample []*row
@@ -294,10 +308,14 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 	if len(sample) == 0 || !d.headerFits(hdr, sample) {
 		return nil
 	}
+	blk := d.upperHeaderRows(rows, h)
+	if blk.first > 0 {
+		first, last = min(first, blk.first), max(last, blk.last)
+	}
 	t.firstCol, t.lastCol = first, last
 	t.sampled = len(sample)
 	d.titleContext(t, rows[:h])
-	upper := d.upperHeaderRows(rows, h, first, last)
+	own := func(c int) bool { return d.headerText(rows, c, hdr.num) != "" }
 	t.dataStart = hdr.num + 1
 	if t.unitRow > 0 {
 		t.dataStart = t.unitRow + 1
@@ -305,7 +323,7 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 	used := map[string]bool{}
 	for c := first; c <= last; c++ {
 		text := d.headerText(rows, c, hdr.num)
-		if pre := upper(c); pre != "" && !strings.Contains(text, pre) {
+		if pre := blk.text(c, own); pre != "" && !strings.Contains(text, pre) {
 			text = strings.TrimSpace(pre + " " + text)
 		}
 		col := &column{col: c, hdr: parseHeader(text)}
@@ -426,4 +444,23 @@ func (d *detector) headerFits(hdr *row, sample []*row) bool {
 		}
 	}
 	return texts == 0 || 2*recur < texts
+}
+
+// mostlyNames reports a row whose texts are mostly fuel names or units: a
+// data row of a fuel log that happens to hold no number.
+func (d *detector) mostlyNames(r *row) bool {
+	n, names := 0, 0
+	for i := range r.cells {
+		c := &r.cells[i]
+		if c.kind != kText || strings.TrimSpace(c.text) == "" {
+			continue
+		}
+		n++
+		if d.sc.fuelName(c.text).kind == nameFuel {
+			names++
+		} else if u := d.sc.unit(c.text); u.err == nil {
+			names++
+		}
+	}
+	return n > 0 && 2*names >= n
 }

@@ -33,6 +33,12 @@ func (sc *scanCtx) evaluate(t *table) error {
 	t.src = make([]int32, n)
 	t.byFuel, t.byGroup = map[string]*sum{}, map[string]*sum{}
 	sc.headerWarnings(t)
+	for _, sl := range t.sections {
+		sc.warn.add(sheet, sl.col, sl.row, SevInfo, CodeNotComputed, "a section label inside the table: not a data row")
+	}
+	for _, r := range t.totalRows {
+		sc.warn.add(sheet, spec.firstCol, r, SevInfo, CodeNotComputed, "a total row: not computed, so its parts are not counted twice")
+	}
 
 	// The variables rows give, each once.
 	var binds []*binding
@@ -193,6 +199,12 @@ func (sc *scanCtx) headerWarnings(t *table) {
 		}
 		if c.role == roleWideFuel && c.fuelAlias && !sameName(c.hdr.base, c.fuelID) {
 			sc.warn.add(sheet, c.col, hr, SevInfo, CodeFuelAlias, quoteText(c.hdr.base)+" read as "+c.fuelID)
+		}
+		if c.biogenic {
+			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.text)+" is a biogenic fuel: its CO2 is a memo item, reported apart from fossil CO2, so the column is left out of the totals")
+		}
+		if c.partOf != nil {
+			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.text)+" is part of "+quoteText(c.partOf.hdr.text)+" ("+colName(c.partOf.col)+"), which is used: the parts are not added to their total")
 		}
 		if c.role == roleWideFuel && c.unitIdent == "" && c.hdr.unitErr == nil {
 			sc.warn.add(sheet, c.col, hr, SevError, CodeUnitUnknown, "no unit for "+quoteText(c.hdr.text)+": write it in the header, e.g. "+quoteText(c.hdr.base+" (L)")+"; the column is left out of the totals")

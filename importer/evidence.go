@@ -3,6 +3,7 @@ package importer
 import (
 	"math"
 	"strings"
+	"unicode"
 
 	"github.com/fluecell/fluecell/funcs/units"
 	"github.com/fluecell/fluecell/importer/tables"
@@ -167,7 +168,16 @@ func (sc *scanCtx) readFuelName(s string) fuelRef {
 	if h.Any(tables.HintTotal) {
 		return fuelRef{kind: nameAggregate, why: "a total or aggregate"}
 	}
-	// The longest run of words that names a fuel.
+	// A word broken over a line with a hyphen: "Gas-oline", "Elec-tricity".
+	if j := dehyphen(t); j != t {
+		if f := sc.fuel(j); f.err == nil {
+			return fuelRef{kind: nameFuel, name: j, id: f.id, alias: true}
+		}
+		ws = words(j)
+	}
+	// The longest run of words that names a fuel, unless another word of
+	// the phrase is a misspelling of that fuel's name ("Natral gas" is a
+	// typo to report, not gas).
 	for n := min(len(ws), 4); n >= 1; n-- {
 		for i := 0; i+n <= len(ws); i++ {
 			cand := strings.Join(ws[i:i+n], " ")
@@ -175,6 +185,9 @@ func (sc *scanCtx) readFuelName(s string) fuelRef {
 				continue // "no", "of": never a fuel on its own inside a phrase
 			}
 			if f := sc.fuel(cand); f.err == nil {
+				if misspells(ws[:i], f.id) || misspells(ws[i+n:], f.id) {
+					return fuelRef{}
+				}
 				return fuelRef{kind: nameFuel, name: cand, id: f.id, alias: true}
 			}
 		}
@@ -190,8 +203,60 @@ func (sc *scanCtx) readFuelName(s string) fuelRef {
 // "(NA)", "Not Applicable", "-".
 func missingMarker(s string) bool {
 	switch strings.ToLower(strings.TrimSpace(s)) {
-	case "not available", "not applicable", "na", "n/a", "(na)", "--", "-", "–", "—", "(d)", "w", "(w)", "(s)", "nm", "x", "..", "...", "*", "null", "none":
+	case "not available", "not applicable", "na", "n/a", "(na)", "--", "-", "–", "—", "(d)", "w", "(w)", "(s)", "nm", "x", "..", "...", "*", "null", "none",
+		"[]", "[r]", "[p]", "[e]", "(r)", "(p)", "(e)", "r", "p", "e", "– –", "— —", "\u0096", "\u0096 \u0096":
 		return true
 	}
 	return false
+}
+
+// dehyphen joins words broken with a hyphen before a lower-case letter, as
+// narrow statistics columns print them: "Gas-oline" gives "Gasoline".
+func dehyphen(s string) string {
+	var b strings.Builder
+	rs := []rune(s)
+	for i, r := range rs {
+		if r == '-' && i > 0 && i+1 < len(rs) && unicode.IsLetter(rs[i-1]) && unicode.IsLower(rs[i+1]) {
+			continue
+		}
+		b.WriteRune(r)
+	}
+	return b.String()
+}
+
+// misspells reports whether one of the words is a near miss (one or two
+// letters off) of a word of the fuel id: "natral" for natural_gas.
+func misspells(ws []string, id string) bool {
+	for _, w := range ws {
+		if len(w) < 4 {
+			continue
+		}
+		for _, x := range strings.Split(id, "_") {
+			if len(x) >= 4 && w != x && levenshtein(w, x) <= 2 {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+// levenshtein is the edit distance of two short words, in bytes.
+func levenshtein(a, b string) int {
+	prev := make([]int, len(b)+1)
+	cur := make([]int, len(b)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(a); i++ {
+		cur[0] = i
+		for j := 1; j <= len(b); j++ {
+			cost := 1
+			if a[i-1] == b[j-1] {
+				cost = 0
+			}
+			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+		}
+		prev, cur = cur, prev
+	}
+	return prev[len(b)]
 }

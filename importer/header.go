@@ -41,7 +41,18 @@ func parseHeader(raw string) headerInfo {
 	h := headerInfo{text: cleanHeader(raw), scale: 1}
 	h.base = h.text
 	try := func(base, u string, anyDim bool) bool {
-		u, scale := splitScale(strings.TrimSpace(u))
+		u = strings.TrimSpace(u)
+		// A magnitude is taken off as a scale ("'000 L" is L times 1000)
+		// where the rest is a unit; a unit that carries its magnitude
+		// ("Million Cubic Feet" = MMcf) is read whole.
+		u2, scale := splitScale(u)
+		if _, err := units.Parse(u2); err == nil || scale == 1 {
+			u = u2
+		} else if _, err := units.Parse(u); err == nil {
+			scale = 1
+		} else {
+			u = u2
+		}
 		if u == "" {
 			return false
 		}

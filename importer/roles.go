@@ -63,8 +63,8 @@ func (d *detector) assignRoles(t *tableSpec) {
 			best, bestScore = c, score
 		}
 	}
-	if best != nil && (bestScore >= 2 || best.st.hint.Any(tables.HintFuel)) &&
-		(best.st.text < 3 || frac(best.st.fuel+best.st.notFuel, best.st.text) >= 0.2 || best.st.hint.Any(tables.HintFuel) && best.st.hint.Any(tables.HintUnit|tables.HintFuelWeak)) {
+	if best != nil && (bestScore >= 2 || best.st.hint.Any(tables.HintFuel)) && best.st.fuel+best.st.notFuel > 0 &&
+		(best.st.text < 3 || frac(best.st.fuel+best.st.notFuel, best.st.text) >= 0.2) {
 		best.role, t.fuel = roleFuel, best
 	}
 	// Technology.
@@ -140,13 +140,13 @@ func (d *detector) assignRoles(t *tableSpec) {
 			best, bestScore = c, score
 		}
 	}
-	if best != nil && (t.fuel != nil || t.ctxFuel != "") {
+	if best != nil && (t.fuel != nil || t.ctxFuel != "") && t.rateTitle == "" {
 		best.role, t.qty = roleQuantity, best
 	}
 	// One column per fuel: the header names a fuel (around usage words:
 	// "Natural Gas Use (therms)", "FuelOil2_gal") and a unit, here or in a
 	// units row or title.
-	if t.qty == nil {
+	if t.qty == nil && t.rateTitle == "" {
 		for _, c := range t.cols {
 			if taken(c) || c.st.nonEmpty > 0 && !c.numeric {
 				continue
@@ -160,6 +160,13 @@ func (d *detector) assignRoles(t *tableSpec) {
 			}
 			if c.hdr.unit.Dim == units.Energy && electricOutput(c.hdr.unit.Symbol) && (c.st.hint.Any(tables.HintOutput) || t.output) {
 				continue // electricity generated from the fuel, not the fuel burned
+			}
+			if c.st.nonEmpty == 0 && t.sampled > 0 {
+				continue // an empty column beside a fuel's (footnote marks, spacing)
+			}
+			if sc.fuel(f.id).bio {
+				c.biogenic = true
+				continue // wood, biodiesel: biogenic CO2 is a memo item, never in the fossil totals
 			}
 			if c.hdr.unitTxt == "" && c.hdr.unitErr == nil {
 				continue
@@ -408,6 +415,8 @@ func whyNot(t *tableSpec) string {
 		}
 	}
 	switch {
+	case t.rateTitle != "":
+		return "a table of prices or rates at " + at + " (the title says " + quoteText(strings.TrimSpace(t.rateTitle)) + "): no amounts of fuel to compute"
 	case len(factors) > 0:
 		return "a table of emission factors at " + at + " (" + quoteText(factors[0]) + "): factors, not amounts of fuel; nothing to compute"
 	case len(numeric) > 0 && len(rates) == len(numeric):

@@ -51,6 +51,7 @@ type formulaCalc interface {
 type fuelRes struct {
 	id    string
 	alias bool
+	bio   bool // biogenic: its CO2 is a memo item, never in the fossil totals
 	err   error
 }
 
@@ -96,7 +97,7 @@ func (sc *scanCtx) fuel(s string) fuelRes {
 	}
 	var r fuelRes
 	if m, ok := sc.e.LookupFuel(s); ok {
-		r = fuelRes{id: m.Fuel.ID, alias: m.Alias}
+		r = fuelRes{id: m.Fuel.ID, alias: m.Alias, bio: m.Fuel.Biogenic}
 	} else {
 		r.err = errNotAFuel // the message is built only for a cell that reports it (fuelMessage)
 	}
@@ -189,4 +190,10 @@ func (sc *scanCtx) header(s string) headerInfo {
 		sc.hdrs[s] = h
 	}
 	return h
+}
+
+// unitLike reports a text that parses as a unit (or a known ambiguous one).
+func (sc *scanCtx) unitLike(s string) bool {
+	u := sc.unit(s)
+	return u.err == nil || u.err.Code != units.CodeUnknown
 }

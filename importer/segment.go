@@ -20,6 +20,7 @@ type table struct {
 	rowNums   []int32
 	vals      []cellVal // len(rowNums) x len(slots)
 	totalRows []int
+	sections  []sectionLabel // rows of one label inside the table ("Commercial Sector")
 	lastRow   int
 	maxUsed   int // rightmost used column in the table's rows
 	intern    map[string]string
@@ -118,6 +119,10 @@ func (t *table) add(r *row) {
 	}
 	if totalRow(r) {
 		t.totalRows = append(t.totalRows, r.num)
+		return
+	}
+	if t.sectionRow(r) {
+		t.sections = append(t.sections, sectionLabel{r.num, r.cells[0].col})
 		return
 	}
 	t.rowNums = append(t.rowNums, int32(r.num))
@@ -326,4 +331,31 @@ func (s *segmenter) finish() error {
 		}
 	}
 	return nil
+}
+
+// sectionLabel is a row of a table that holds only a label.
+type sectionLabel struct{ row, col int }
+
+// sectionRow reports a row with one text in the table and nothing else,
+// outside the columns of names (fuel, technology, unit): a label over the
+// rows that follow, as statistics tables print sectors.
+func (t *table) sectionRow(r *row) bool {
+	var one *cell
+	for i := range r.cells {
+		c := &r.cells[i]
+		if c.col < t.spec.firstCol || c.col > t.spec.lastCol || c.isBlank() {
+			continue
+		}
+		if one != nil || c.kind != kText || c.formula {
+			return false
+		}
+		one = c
+	}
+	if one == nil {
+		return false
+	}
+	if col := t.spec.colAt(one.col); col != nil && (col.role == roleFuel || col.role == roleTech || col.role == roleUnit) {
+		return false
+	}
+	return true
 }

@@ -165,9 +165,10 @@ func (sc *scanCtx) checkUnit(t *table, c *column, s string, col, r int, power bo
 				quoteText(s)+" declares "+u.Basis.String()+"; pack "+sc.packName+" is on an "+sc.packBasis.String()+
 					" basis, so the amounts are converted with the pack's NCV/GCV ratio (see Carbon sources)")
 		case u.Basis == units.NoBasis && u.Usual != units.NoBasis && u.Usual != sc.packBasis:
-			sc.warn.addOnce(key, sheet, col, r, SevWarning, CodeUnitBasis,
-				quoteText(s)+" states no basis and is read as "+sc.packBasis.String()+", the basis of pack "+sc.packName+
-					"; figures in "+u.Symbol+" are usually "+u.Usual.String()+": write \""+u.Symbol+" "+u.Usual.String()+"\" to have them converted")
+			sc.warn.addOnce(key, sheet, col, r, SevInfo, CodeUnitBasis,
+				quoteText(s)+" states no basis and is read as "+u.Usual.String()+" (gross), the North American convention for "+u.Symbol+
+					"; pack "+sc.packName+" is on an "+sc.packBasis.String()+" basis, so the amounts are converted with its NCV/GCV ratio (see Carbon sources); write \""+
+					u.Symbol+" NCV\" if the figures are net")
 		}
 	}
 	return u, true

@@ -37,7 +37,8 @@ func TestWarningsAtCells(t *testing.T) {
 		{"Monthly energy", "F2", CodeUnitAmbiguous, SevError, `(in the header "Coal (ton)"); the column is left out of the totals`},
 		{"Build plan", "E5", CodeValueNotNumber, SevInfo, "the technology's default is used"},
 		{"Build plan", "D6", CodeUnitMixed, SevWarning, "MW in 3 rows, kW in 1 row, GW in 1 row"},
-		{"Build plan", "B8", CodeTechUnknown, SevError, `unknown technology "battery"`},
+		{"Build plan", "B8", CodeTechUnknown, SevError, `no life-cycle row for technology "battery"`},
+		{"Fuel log", "A20", CodeNotComputed, SevInfo, "a total row: not computed"},
 	}
 	got := keysOf(rep.Warnings)
 	for _, w := range want {
@@ -98,7 +99,7 @@ func TestWarningCases(t *testing.T) {
 		{"header unit ambiguous", [][]any{{"Fuel", "Quantity (MT)"}, {"natural_gas", 10}}, "B1", CodeUnitAmbiguous, SevError},
 		{"header unit is a power", [][]any{{"Fuel", "Consumption (kW)"}, {"natural_gas", 10}}, "B1", CodeUnitDimension, SevError},
 		{"no unit anywhere", [][]any{{"Fuel", "Quantity"}, {"natural_gas", 10}}, "B1", CodeUnitUnknown, SevError},
-		{"MMBtu without basis", [][]any{{"Fuel", "Quantity", "Unit"}, {"natural_gas", 10, "MMBtu"}}, "C2", CodeUnitBasis, SevWarning},
+		{"MMBtu without basis (read as HHV, a note only)", [][]any{{"Fuel", "Quantity", "Unit"}, {"natural_gas", 10, "MMBtu"}}, "", "", ""},
 		{"missing density", [][]any{{"Fuel", "Quantity", "Unit"}, {"peat", 10, "L"}}, "C2", CodeFactorMissing, SevError},
 	}
 	dir := t.TempDir()
