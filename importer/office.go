@@ -90,7 +90,7 @@ func (o office) toXLSX(ctx context.Context, src string) (_ *converted, err error
 	base := filepath.Base(src)
 	ext := filepath.Ext(base)
 	stem := strings.TrimSuffix(base, ext)
-	if stem == "" || strings.HasPrefix(stem, "-") || !utf8Clean(stem) {
+	if stem == "" || strings.HasPrefix(stem, "-") || !plainName(stem) {
 		stem = "workbook"
 	}
 	in := filepath.Join(inDir, stem+ext)
@@ -171,9 +171,9 @@ func fileURL(abs string) string {
 	return (&url.URL{Scheme: "file", Path: filepath.ToSlash(abs)}).String()
 }
 
-// utf8Clean reports a file stem safe to pass to soffice: no control
+// plainName reports a file stem safe to pass to soffice: no control
 // characters.
-func utf8Clean(s string) bool {
+func plainName(s string) bool {
 	for _, r := range s {
 		if r < 32 || r == 0x7f || r == 0xfffd {
 			return false
