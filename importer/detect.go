@@ -153,7 +153,7 @@ func (sc *scanCtx) keywordHits(r *row) int {
 			continue // a sentence, not a header
 		}
 		if hasWord(ws, "fuel", "unit", "units", "uom", "technology", "capacity", "month", "date", "year") || hasWord(ws, qtyWords...) || hasWord(ws, groupWords...) ||
-			h.unitTxt != "" && h.base != h.text && sc.fuel(h.base).err == nil || len(ws) <= 3 && sc.fuelName(h.base).kind == nameFuel && !sc.unitLike(c.text) {
+			h.unitTxt != "" && h.base != h.text && sc.fuel(h.base).err == nil {
 			n++
 		} else if _, ok := parseCarbonHeader(h.text); ok {
 			n++

@@ -1,5 +1,7 @@
 package importer
 
+import "strings"
+
 // cellVal is a stored cell of a table row, for the columns rules and checks
 // read.
 type cellVal struct {
@@ -235,7 +237,7 @@ func (s *segmenter) feed(r row) error {
 			if err := s.closeTable(); err != nil {
 				return err
 			}
-		case !t.dataLike(&r) && !t.blankIn(&r) && headerLike(&r) && s.sc.keywordHits(&r) >= 2:
+		case !t.dataLike(&r) && !t.blankIn(&r) && headerLike(&r) && (s.sc.keywordHits(&r) >= 2 || t.repeatsHeader(&r)):
 			if len(t.rowNums) == 0 {
 				s.cur = nil // a header row straight after a header: the first was a banner
 				break
@@ -358,4 +360,25 @@ func (t *table) sectionRow(r *row) bool {
 		return false
 	}
 	return true
+}
+
+// repeatsHeader reports a row that names the table's columns again (a second
+// block under the same header, such as the shares after the amounts): it
+// starts a new table.
+func (t *table) repeatsHeader(r *row) bool {
+	n, same := 0, 0
+	for _, c := range t.spec.cols {
+		if c.hdr.text == "" {
+			continue
+		}
+		x := r.at(c.col)
+		if x.kind != kText {
+			continue
+		}
+		n++
+		if cleanHeader(x.text) == c.hdr.text || strings.Contains(c.hdr.text, cleanHeader(x.text)) {
+			same++
+		}
+	}
+	return n >= 2 && 2*same >= n
 }

@@ -146,7 +146,9 @@ func TestOpenAPIValidatesAnswers(t *testing.T) {
 		{name: "annotate multipart", base: wb.URL, method: http.MethodPost, target: "/v1/annotate?report=json&sheet=Fuel%20log", header: map[string]string{"Content-Type": formType}, body: form, status: 200, request: true},
 		{name: "annotate csv", base: wb.URL, method: http.MethodPost, target: "/v1/annotate?rule=" + url.QueryEscape("tCO2 = fuel_co2(fuel, quantity, unit)"), header: map[string]string{"Content-Type": "text/csv"}, body: csvBody, status: 200, request: true},
 		{name: "annotate corrupt", base: wb.URL, method: http.MethodPost, target: "/v1/annotate", header: typeX, body: "PK\x03\x04 truncated", status: 400, request: true},
-		{name: "annotate no table", base: wb.URL, method: http.MethodPost, target: "/v1/annotate?name=notes.csv", header: map[string]string{"Content-Type": "application/octet-stream"}, body: "a,b\n1,2\n", status: 400, request: true},
+		// A file without a table is annotated, not refused: the report lists the sheet as skipped, with why.
+		{name: "annotate no table", base: wb.URL, method: http.MethodPost, target: "/v1/annotate?name=notes.csv&report=json", header: map[string]string{"Content-Type": "application/octet-stream"}, body: "a,b\n1,2\n", status: 200, request: true},
+		{name: "annotate rules fit no table", base: wb.URL, method: http.MethodPost, target: "/v1/annotate?name=notes.csv&rule=" + url.QueryEscape("tCO2 = fuel_co2(fuel, quantity, unit)"), header: map[string]string{"Content-Type": "application/octet-stream"}, body: "a,b\n1,2\n", status: 400, request: true},
 		{name: "annotate bad rule", base: wb.URL, method: http.MethodPost, target: "/v1/annotate?rule=x%3D1%2F", header: map[string]string{"Content-Type": "text/csv"}, body: csvBody, status: 400, request: true},
 		{name: "annotate unknown parameter", base: wb.URL, method: http.MethodPost, target: "/v1/annotate?colour=red", header: typeX, body: xlsx, status: 400},
 		{name: "annotate 401", base: wbTok.URL, method: http.MethodPost, target: "/v1/annotate", header: typeX, body: xlsx, status: 401, request: true},
