@@ -118,53 +118,6 @@ func (b *book) factorSheetCSV(s sheetRef) ([]byte, error) {
 	return buf.Bytes(), nil
 }
 
-// lazyCalc opens the workbook with excelize on the first formula that
-// needs evaluating.
-type lazyCalc struct {
-	path   string
-	lim    limits
-	book   *book
-	f      *excelize.File
-	failed bool
-}
-
-// allowed limits evaluation to sheets whose part is at most about 30 bytes
-// per cell of Options.InlineMaxCells (at least the default): excelize loads
-// the whole sheet to evaluate one cell.
-func (l *lazyCalc) allowed(sheet string) bool {
-	if l.book == nil {
-		return true
-	}
-	s, ok := l.book.sheet(sheet)
-	if !ok {
-		return false
-	}
-	zf := l.book.file(s.Part)
-	return zf != nil && int64(zf.UncompressedSize64) <= int64(max(l.lim.inlineCells, DefaultInlineMaxCells))*30
-}
-
-func (l *lazyCalc) calc(sheet, ref string) (out string, ok bool) {
-	if l.failed || !l.allowed(sheet) {
-		return "", false
-	}
-	if l.f == nil {
-		f, err := openExcelize(l.path, l.lim)
-		if err != nil {
-			l.failed = true
-			return "", false
-		}
-		l.f = f
-	}
-	return calcCell(l.f, sheet, ref)
-}
-
-func (l *lazyCalc) close() {
-	if l.f != nil {
-		l.f.Close()
-		l.f = nil
-	}
-}
-
 // calcCell evaluates one formula cell; a panic inside the evaluator counts
 // as "cannot evaluate".
 func calcCell(f *excelize.File, sheet, ref string) (out string, ok bool) {

@@ -45,7 +45,7 @@ type ScanResult struct {
 // file without a table. It is safe for concurrent use and honours ctx.
 func Scan(ctx context.Context, e *funcs.Engine, path string, opt Options) (res *ScanResult, err error) {
 	defer recoverInternal(&err, path)
-	return scan(ctx, e, path, opt, nil)
+	return scanAnyFormat(ctx, e, path, opt, nil)
 }
 
 // recoverInternal turns a panic (in fluecell or a library, on a malformed
@@ -129,12 +129,10 @@ func scan(ctx context.Context, e *funcs.Engine, path string, opt Options, calc f
 	}
 	sc := newScanCtx(ctx, eng, path, opt)
 	sc.userRules, sc.calc = userRules, calc
-	if lc, ok := calc.(*lazyCalc); ok {
-		lc.book = b
-	} else if calc == nil {
-		lc := &lazyCalc{path: path, lim: lim, book: b}
-		sc.calc = lc
-		defer lc.close()
+	if calc == nil {
+		fe := newFormulaEval(ctx, path, lim)
+		sc.calc = fe
+		defer fe.close()
 	}
 	for i, name := range res.sheets {
 		sc.sheetOrd[name] = i

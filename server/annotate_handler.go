@@ -136,7 +136,7 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 		h.fail(w, apiErr)
 		return
 	}
-	out := filepath.Join(dir, "annotated"+ext)
+	out := importer.DefaultOutput(in) // a legacy .xls comes back as .xlsx
 	rep, err := importer.Annotate(ctx, h.e, in, out, opt)
 	if err != nil {
 		h.fail(w, importerError(err, ctx))
@@ -175,8 +175,9 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 
 // uploadedWorkbook finds the workbook in the request: the body itself, or the
 // part "file" of a multipart form. It returns the file name to answer with,
-// its extension (.xlsx, .xlsm or .csv; .xls so that the importer refuses it
-// by name) and the reader.
+// its extension (.xlsx, .xlsm, .csv, or .xls, which the importer converts
+// with LibreOffice where it is installed and refuses by name otherwise) and
+// the reader.
 func uploadedWorkbook(r *http.Request, nameParam string) (name, ext string, body io.Reader, err *apiError) {
 	ct := r.Header.Get("Content-Type")
 	mt, params, perr := mime.ParseMediaType(ct)
