@@ -42,19 +42,21 @@ const (
 
 // column is one column of a detected table.
 type column struct {
-	col       int
-	hdr       headerInfo
-	ident     string
-	unitIdent string // ident+"_unit" when the header carries a unit
-	role      role
-	fuelID    string  // roleWideFuel: the fuel of the column
-	partOf    *column // a per-fuel column left out because a total column of its fuel is used
-	biogenic  bool    // a per-fuel column of a biogenic fuel, left out of the fossil totals
-	fuelAlias bool
-	carbon    carbonCol
-	numeric   bool // values are mostly numbers
-	unitBad   bool // the header unit cannot be used for this column's role
-	st        colStats
+	col        int
+	hdr        headerInfo
+	ident      string
+	unitIdent  string // ident+"_unit" when the header carries a unit
+	role       role
+	fuelID     string   // roleWideFuel: the fuel of the column
+	partOf     *column  // a per-fuel column left out because a total column of its fuel is used
+	biogenic   bool     // a per-fuel column of a biogenic fuel, left out of the fossil totals
+	numStyle   numStyle // how its numbers stored as text are written (decimal point or comma)
+	styleGuess bool     // numStyle comes from values that only lean one way: said in a finding
+	fuelAlias  bool
+	carbon     carbonCol
+	numeric    bool // values are mostly numbers
+	unitBad    bool // the header unit cannot be used for this column's role
+	st         colStats
 }
 
 // tableSpec is a detected table: its header, columns and roles.
@@ -368,6 +370,7 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 			d.count(col, r.at(c))
 		}
 		col.numeric = col.st.nonEmpty > 0 && 2*col.st.num >= col.st.nonEmpty
+		col.decideStyle()
 		t.cols = append(t.cols, col)
 	}
 	for _, col := range t.cols {

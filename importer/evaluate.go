@@ -200,6 +200,10 @@ func (sc *scanCtx) headerWarnings(t *table) {
 		if c.role == roleWideFuel && c.fuelAlias && !sameName(c.hdr.base, c.fuelID) {
 			sc.warn.add(sheet, c.col, hr, SevInfo, CodeFuelAlias, quoteText(c.hdr.base)+" read as "+c.fuelID)
 		}
+		if c.styleGuess && (c.role == roleQuantity || c.role == roleWideFuel || c.role == rolePeriod || c.role == roleCapacity) {
+			sc.warn.add(sheet, c.col, hr, SevInfo, CodeValueTextNumber, "numbers stored as text in "+quoteText(c.hdr.text)+" read with "+c.numStyle.String()+
+				": every such value there reads that way (\"20,523\" as 20523); set the column's number style in a mapping if they are decimals")
+		}
 		if c.biogenic {
 			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.text)+" is a biogenic fuel: its CO2 is a memo item, reported apart from fossil CO2, so the column is left out of the totals")
 		}

@@ -18,6 +18,7 @@ type colStats struct {
 	unitLike, power, rate int
 	years, flags, neg     int
 	distinct              map[string]bool // distinct texts, up to a bound
+	numTexts              []string        // numbers stored as text, for the column's number style
 	hint                  tables.Hint     // the roles the header's words suggest
 }
 
@@ -54,6 +55,9 @@ func (d *detector) count(col *column, c cell) {
 	if f, ok, amb := textNumber(c.text); ok || amb {
 		st.num++
 		d.countNumber(st, f)
+		if len(st.numTexts) < 200 {
+			st.numTexts = append(st.numTexts, c.text)
+		}
 		return
 	}
 	st.text++
@@ -259,4 +263,18 @@ func levenshtein(a, b string) int {
 		prev, cur = cur, prev
 	}
 	return prev[len(b)]
+}
+
+// decideStyle sets the column's number style from its numbers stored as
+// text: the strict decision, or failing that the likely one (every
+// "20,523" read the same way), which is then said in a finding at the
+// header.
+func (c *column) decideStyle() {
+	v := countNumStyle(c.st.numTexts)
+	c.numStyle = v.decide()
+	if c.numStyle == styleUnknown {
+		if c.numStyle = v.likely(); c.numStyle != styleUnknown {
+			c.styleGuess = true
+		}
+	}
 }

@@ -211,6 +211,10 @@ func (sc *scanCtx) numberValue(t *table, c *column, v *cellVal, r int) (any, boo
 		x = v.num
 	case kText:
 		f, ok, amb := textNumber(v.text)
+		if !ok && c.numStyle != styleUnknown {
+			f, ok = textNumberIn(v.text, c.numStyle)
+			amb = amb && !ok
+		}
 		switch {
 		case ok:
 			sev := SevWarning
