@@ -38,7 +38,7 @@ func (d *detector) titleContext(t *tableSpec, above []row) {
 		if sc.vocab.Hints(words(s)).Any(tables.HintOutput) {
 			t.output = true
 		}
-		if rateText(s) {
+		if rateTitle(s) {
 			t.rateTitle = s // "(Dollars per Million Btu)": the numbers are prices
 			continue
 		}
@@ -47,7 +47,7 @@ func (d *detector) titleContext(t *tableSpec, above []row) {
 		}
 	}
 	for _, s := range append(texts, d.sheet, strings.TrimSuffix(filepath.Base(sc.path), filepath.Ext(sc.path))) {
-		if len(s) > 300 || rateText(s) {
+		if len(s) > 300 || rateTitle(s) {
 			continue
 		}
 		if id := sc.phraseFuel(s); id != "" {
@@ -244,4 +244,14 @@ func sameTexts(a, b *row) bool {
 		}
 	}
 	return n > 0 && 2*same >= n
+}
+
+// rateTitle reports a title that says its numbers are prices or rates:
+// "(Dollars per Million Btu)", "Retail prices, pence per litre". Unlike
+// rateText it ignores slashes, which titles hold in links and dates.
+func rateTitle(s string) bool {
+	if strings.ContainsAny(s, "$€£¥¢") {
+		return true
+	}
+	return tables.Has(words(s), "per", "price", "prices", "cost", "costs", "dollars", "cents", "pence", "tariff", "tariffs")
 }

@@ -249,6 +249,9 @@ func (d *detector) quantityScore(t *tableSpec, c *column) (float64, bool) {
 	if c.st.num > 0 && (c.st.years*10 >= c.st.num*9 || c.st.flags == c.st.num && c.st.num >= 3) {
 		return 0, false // years, or a 0/1 flag
 	}
+	if c.hdr.unit.Dim == units.Energy && electricOutput(c.hdr.unit.Symbol) && (h.Any(tables.HintOutput) || t.output) {
+		return 0, false // electricity generated ("2014 Power generation (MWh)"), not fuel burned
+	}
 	hasUnit := c.hdr.unitTxt != "" && (isQuantityDim(c.hdr.unit) || c.hdr.unitErr != nil)
 	if c.hdr.unitTxt != "" && !hasUnit {
 		if c.hdr.unit.Dim == units.Power && h.Any(tables.HintQty) {
