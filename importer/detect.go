@@ -50,6 +50,7 @@ type column struct {
 	fuelID     string   // roleWideFuel: the fuel of the column
 	partOf     *column  // a per-fuel column left out because a total column of its fuel is used
 	biogenic   bool     // a per-fuel column of a biogenic fuel, left out of the fossil totals
+	sameAs     *column  // a per-fuel column of a fuel already given in another unit, left out
 	numStyle   numStyle // how its numbers stored as text are written (decimal point or comma)
 	styleGuess bool     // numStyle comes from values that only lean one way: said in a finding
 	fuelAlias  bool

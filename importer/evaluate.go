@@ -207,6 +207,10 @@ func (sc *scanCtx) headerWarnings(t *table) {
 		if c.biogenic {
 			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.text)+" is a biogenic fuel: its CO2 is a memo item, reported apart from fossil CO2, so the column is left out of the totals")
 		}
+		if c.sameAs != nil {
+			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.text)+" gives "+c.sameAs.fuelID+" again, in "+c.hdr.unitTxt+
+				": counted once, from "+quoteText(c.sameAs.hdr.text)+" ("+colName(c.sameAs.col)+")")
+		}
 		if c.partOf != nil {
 			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.text)+" is part of "+quoteText(c.partOf.hdr.text)+" ("+colName(c.partOf.col)+"), which is used: the parts are not added to their total")
 		}

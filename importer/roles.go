@@ -290,7 +290,8 @@ func (d *detector) quantityScore(t *tableSpec, c *column) (float64, bool) {
 
 // dropParts keeps, of several per-fuel columns of one fuel, the one whose
 // header says total ("U.S. Natural Gas Total Consumption" beside its
-// parts): a total is never added to its parts.
+// parts): a total is never added to its parts. Of one fuel given in two
+// units it keeps the first.
 func dropParts(wide []*column) []*column {
 	byFuel := map[string][]*column{}
 	for _, c := range wide {
@@ -308,6 +309,12 @@ func dropParts(wide []*column) []*column {
 		}
 		if len(same) > 1 && total != nil && c != total {
 			c.role, c.partOf = roleNone, total
+			continue
+		}
+		// The same fuel again in another unit (Trillion Btu, then Billion
+		// gallons): counted once, from its first column.
+		if first := same[0]; total == nil && c != first && !strings.EqualFold(c.hdr.unitTxt, first.hdr.unitTxt) {
+			c.role, c.sameAs = roleNone, first
 			continue
 		}
 		out = append(out, c)

@@ -233,7 +233,8 @@ func (s *segmenter) feed(r row) error {
 	if s.cur != nil {
 		t := s.cur
 		switch {
-		case r.num-t.lastRow > 3:
+		case r.num-t.lastRow > 3 || footerRow(&r, t.spec.firstCol, t.spec.lastCol):
+			// A gap of rows, or the notes and sources under a table, end it.
 			if err := s.closeTable(); err != nil {
 				return err
 			}
@@ -381,4 +382,43 @@ func (t *table) repeatsHeader(r *row) bool {
 		}
 	}
 	return n >= 2 && 2*same >= n
+}
+
+// footerRow reports the notes under a table: a row whose text in the
+// table's columns (firstCol to lastCol), in its first filled cell, begins "Source", "Note" or a footnote number
+// glued to a word ("3Natural gas, plus..."), or reads as a sentence (six
+// words or more), and that holds no number.
+func footerRow(r *row, firstCol, lastCol int) bool {
+	var first *cell
+	for i := range r.cells {
+		c := &r.cells[i]
+		if c.isBlank() || c.col < firstCol || c.col > lastCol {
+			continue
+		}
+		if c.kind == kNumber {
+			return false
+		}
+		if c.kind == kText {
+			if _, ok, amb := textNumber(c.text); ok || amb {
+				return false
+			}
+		}
+		if first == nil {
+			first = c
+		}
+	}
+	if first == nil || first.kind != kText {
+		return false
+	}
+	text := strings.TrimSpace(cleanHeader(first.text))
+	low := strings.ToLower(text)
+	for _, p := range []string{"source:", "sources:", "source ", "note:", "notes:", "note ", "footnote", "* ", "data source"} {
+		if strings.HasPrefix(low, p) {
+			return true
+		}
+	}
+	if len(text) > 1 && text[0] >= '0' && text[0] <= '9' && (text[1] >= 'A' && text[1] <= 'Z' || len(text) > 2 && text[1] >= '0' && text[1] <= '9' && text[2] >= 'A' && text[2] <= 'Z') {
+		return true // "3Natural gas, plus...", "11Industrial combined-heat-and-power"
+	}
+	return len(strings.Fields(text)) >= 6
 }
