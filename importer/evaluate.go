@@ -355,6 +355,10 @@ func (sc *scanCtx) rowTotals(t *table, i, rowNum int, vars map[string]any, wideK
 			if c.hdr.scale != 0 {
 				x *= c.hdr.scale // "'000 L", "Million Cubic Feet": the rule scales it too
 			}
+			if c.hdr.flow && c.hdr.flowDay > 0 {
+				d, _ := vars[periodDaysIdent].(float64)
+				x *= d / c.hdr.flowDay
+			}
 			add(t.byFuel, &t.fuelOrd, c.fuelID, x*k[0], x*k[1])
 		}
 	default:

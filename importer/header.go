@@ -19,6 +19,8 @@ type headerInfo struct {
 	unit    units.Unit   // parsed unit (zero when unitErr is set)
 	unitErr *units.Error // an ambiguous or otherwise unusable unit in the header
 	percent bool         // the header says the values are percentages: "(%)"
+	flow    bool         // the unit is per day, week, month or year: an amount only over a dated row's period (flow.go)
+	flowDay float64      // days in the flow's time unit (1, 7, 365; 0 for a month)
 	scale   float64      // values in thousands ('000 L): 1000; else 1
 }
 
@@ -63,6 +65,12 @@ func parseHeader(raw string) headerInfo {
 		}
 		pu, err := units.Parse(u)
 		if err != nil {
+			if amount, days, ok := flowUnit(u); ok {
+				if fu, ferr := units.Parse(amount); ferr == nil && (fu.Dim == units.Energy || fu.Dim == units.Mass || fu.Dim == units.Volume) {
+					h.base, h.unitTxt, h.unit, h.flow, h.flowDay = base, amount, fu, true, days
+					return true
+				}
+			}
 			ue, ok := err.(*units.Error)
 			if ok && (ue.Code == units.CodeAmbiguous || ue.Code == units.CodeBasis) {
 				h.base, h.unitTxt, h.unitErr = base, u, ue

@@ -111,6 +111,13 @@ func (d *detector) assignRoles(t *tableSpec) {
 	if best != nil {
 		best.role, t.unit = roleUnit, best
 	}
+	// The date or period of each row of a long table.
+	for _, c := range t.cols {
+		if !taken(c) && c.st.hint.Any(tables.HintPeriod) && c.st.nonEmpty > 0 {
+			c.role, t.when = roleWhen, c
+			break
+		}
+	}
 	// Build-plan numbers.
 	for _, c := range t.cols {
 		if taken(c) || !c.numeric {
@@ -151,7 +158,10 @@ func (d *detector) assignRoles(t *tableSpec) {
 			if taken(c) || c.st.nonEmpty > 0 && !c.numeric {
 				continue
 			}
-			if c.st.hint.Any(tables.HintRate|tables.HintCount) || moneyHeader(c.hdr.text) {
+			if c.hdr.flow && t.when == nil {
+				continue // a flow per day with no dates: a rate
+			}
+			if c.st.hint.Any(tables.HintCount) || c.st.hint.Any(tables.HintRate) && !c.hdr.flow || moneyHeader(c.hdr.text) {
 				continue
 			}
 			f := sc.fuelName(c.hdr.base)
@@ -203,13 +213,6 @@ func (d *detector) assignRoles(t *tableSpec) {
 	if t.fuel != nil && t.fuel.st.notFuel > 0 {
 		t.partial = true
 	}
-	// The date or period of each row of a long table.
-	for _, c := range t.cols {
-		if !taken(c) && c.st.hint.Any(tables.HintPeriod) && c.st.nonEmpty > 0 {
-			c.role, t.when = roleWhen, c
-			break
-		}
-	}
 	// Grouping column: a site, region, department...
 	for _, c := range t.cols {
 		if taken(c) || !textual(c) {
@@ -227,10 +230,16 @@ func (d *detector) assignRoles(t *tableSpec) {
 func (d *detector) quantityScore(t *tableSpec, c *column) (float64, bool) {
 	h := c.st.hint
 	ws := words(c.hdr.base)
+	if c.hdr.flow {
+		if t.when == nil {
+			return 0, false // a flow per day with no dates: a rate
+		}
+		h &^= tables.HintRate // "per Day" over dated rows is an amount
+	}
 	if h.Any(tables.HintRate|tables.HintCount|tables.HintKey|tables.HintPeriod|tables.HintGroup) && !h.Any(tables.HintQty) {
 		return 0, false
 	}
-	if h.Any(tables.HintRate) || moneyHeader(c.hdr.text) || strings.Contains(c.hdr.text, "/") {
+	if h.Any(tables.HintRate) || moneyHeader(c.hdr.text) || strings.Contains(c.hdr.text, "/") && !c.hdr.flow {
 		return 0, false
 	}
 	// An engine size, a tank or a vehicle's capacity in litres is not fuel.

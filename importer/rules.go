@@ -98,6 +98,9 @@ func identList(t *tableSpec) []string {
 			out = append(out, c.unitIdent)
 		}
 	}
+	if hasFlow(t) && t.when != nil {
+		out = append(out, periodDaysIdent)
+	}
 	return out
 }
 
@@ -123,7 +126,8 @@ type binding struct {
 	col      *column // the column holding it
 	unitOf   *column // for <name>_unit: the column whose header unit it is
 	constant string
-	slot     int // index of col in the table's stored columns
+	slot     int  // index of col in the table's stored columns
+	days     bool // periodDaysIdent: the days of the row's period (flow.go)
 }
 
 // proposeRules writes rules for a table from its roles.
@@ -208,11 +212,31 @@ func proposeRules(t *tableSpec) []string {
 
 // scaled is a column's identifier, times its header's scale ("'000 L").
 func scaled(c *column) string {
+	s := c.ident
 	switch c.hdr.scale {
 	case 0, 1:
-		return c.ident
+	default:
+		s += " * " + strconv.FormatFloat(c.hdr.scale, 'f', -1, 64)
 	}
-	return c.ident + " * " + strconv.FormatFloat(c.hdr.scale, 'f', -1, 64)
+	if c.hdr.flow && c.hdr.flowDay > 0 {
+		// A flow per day, week or year over the days of the row's period.
+		s += " * " + periodDaysIdent
+		if c.hdr.flowDay != 1 {
+			s += " / " + strconv.FormatFloat(c.hdr.flowDay, 'f', -1, 64)
+		}
+	}
+	return s
+}
+
+// hasFlow reports a table with a flow column: its rules read the days of
+// each row's period.
+func hasFlow(t *tableSpec) bool {
+	for _, c := range t.cols {
+		if c.hdr.flow && c.role != roleNone {
+			return true
+		}
+	}
+	return false
 }
 
 // compileRules compiles the rules for t (the user's, or proposed ones).

@@ -26,6 +26,7 @@ type table struct {
 	lastRow   int
 	maxUsed   int // rightmost used column in the table's rows
 	intern    map[string]string
+	days      []float64 // per row, the days of its period, for flows (flow.go); nil without flows
 	rules     []*rule
 	merges    []rangeRef
 
@@ -92,6 +93,9 @@ func (t *table) bind(name string) *binding {
 		if c.unitIdent == name {
 			return &binding{name: name, unitOf: c, constant: c.hdr.unitTxt, slot: -1}
 		}
+	}
+	if name == periodDaysIdent && t.spec.when != nil {
+		return &binding{name: name, days: true, slot: -1}
 	}
 	return &binding{name: name, slot: -1} // not reached: rules compile against the table's identifiers
 }

@@ -1,6 +1,7 @@
 package importer
 
 import (
+	"math"
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs"
@@ -12,6 +13,18 @@ import (
 // the row cannot be computed from this cell (never a guess).
 
 func (sc *scanCtx) value(t *table, i int, b *binding) (any, bool) {
+	if b.days {
+		if t.days == nil {
+			t.days = t.periodDays()
+		}
+		if d := t.days[i]; !math.IsNaN(d) {
+			return d, true
+		}
+		w := t.spec.when
+		sc.warn.add(t.spec.sheet, w.col, int(t.rowNums[i]), SevError, CodeValueNotNumber,
+			"no date that gives this row's period, so its amounts per day cannot be added up; row not computed")
+		return nil, false
+	}
 	if b.col == nil {
 		if b.unitOf != nil && b.unitOf.hdr.unitErr == nil && !b.unitOf.unitBad {
 			return b.constant, true

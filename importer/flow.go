@@ -1,0 +1,95 @@
+package importer
+
+import (
+	"math"
+	"regexp"
+	"strings"
+	"time"
+)
+
+// A flow is an amount per unit of time: "(Thousand Barrels per Day)" in a
+// weekly or monthly statistics table. It is an amount only over a period,
+// so it is computed only in a table whose rows carry dates: each row's
+// amount is the flow times the days from its date to the next (the days of
+// its week or month). Without dates it stays a rate and is not computed.
+
+// periodDaysIdent is the variable the rules of a table with flows read: the
+// days each row covers.
+const periodDaysIdent = "period_days"
+
+var reFlow = regexp.MustCompile(`(?i)^(.+?)\s*(?:per|/)\s*(day|d|year|yr|annum|month|week)$`)
+
+// flowUnit splits "Thousand Barrels per Day" into the amount unit and the
+// days one unit of time holds (1, 7, 365; a month is 0: its own length).
+func flowUnit(u string) (amount string, days float64, ok bool) {
+	m := reFlow.FindStringSubmatch(strings.TrimSpace(u))
+	if m == nil {
+		return "", 0, false
+	}
+	switch strings.ToLower(m[2]) {
+	case "day", "d":
+		days = 1
+	case "week":
+		days = 7
+	case "year", "yr", "annum":
+		days = 365
+	case "month":
+		days = 0
+	}
+	return strings.TrimSpace(m[1]), days, true
+}
+
+// rowDate reads the date of a row from its date column: an Excel date
+// serial, YYYYMM, or a text such as "Jan 2023", "Nov 09, 1990", "2023-01".
+func rowDate(v *cellVal) (time.Time, bool) {
+	switch v.kind {
+	case kNumber:
+		x := v.num
+		switch {
+		case x >= 190001 && x <= 210012 && x == math.Trunc(x) && int(x)%100 >= 1 && int(x)%100 <= 12:
+			return time.Date(int(x)/100, time.Month(int(x)%100), 1, 0, 0, 0, 0, time.UTC), true
+		case x > 1 && x < 200000:
+			// Excel's 1900 date system (serial 1 = 1900-01-01, with its
+			// phantom 1900-02-29).
+			return time.Date(1899, 12, 30, 0, 0, 0, 0, time.UTC).Add(time.Duration(math.Round(x)) * 24 * time.Hour), true
+		}
+	case kText:
+		s := strings.TrimSpace(v.text)
+		for _, layout := range []string{"Jan 2006", "January 2006", "Jan 02, 2006", "Jan-2006", "Jan-06", "2006-01-02", "2006-01", "01/02/2006", "1/2/2006", "2006/01/02"} {
+			if t, err := time.Parse(layout, s); err == nil {
+				return t, true
+			}
+		}
+	}
+	return time.Time{}, false
+}
+
+// periodDays returns, per row, the days from its date to the next date of
+// the table (rows may run either way in time); the last row takes the
+// spacing before it. NaN where a row has no date.
+func (t *table) periodDays() []float64 {
+	c := t.spec.when
+	n := len(t.rowNums)
+	out := make([]float64, n)
+	dates := make([]time.Time, n)
+	has := make([]bool, n)
+	for i := 0; i < n; i++ {
+		dates[i], has[i] = rowDate(t.val(i, t.slotOf[c.col]))
+		out[i] = math.NaN()
+	}
+	for i := 0; i < n; i++ {
+		if !has[i] {
+			continue
+		}
+		var d float64
+		if i+1 < n && has[i+1] {
+			d = math.Abs(dates[i+1].Sub(dates[i]).Hours() / 24)
+		} else if i > 0 && has[i-1] {
+			d = math.Abs(dates[i].Sub(dates[i-1]).Hours() / 24)
+		}
+		if d >= 1 && d <= 366 {
+			out[i] = math.Round(d)
+		}
+	}
+	return out
+}
