@@ -253,5 +253,12 @@ func rateTitle(s string) bool {
 	if strings.ContainsAny(s, "$€£¥¢") {
 		return true
 	}
-	return tables.Has(words(s), "per", "price", "prices", "cost", "costs", "dollars", "cents", "pence", "tariff", "tariffs")
+	ws := words(s)
+	for i, w := range ws {
+		// "per month", "per year": the period of amounts, not a rate.
+		if w == "per" && (i+1 >= len(ws) || !tables.Has(ws[i+1:i+2], "day", "week", "month", "quarter", "year", "annum")) {
+			return true
+		}
+	}
+	return tables.Has(ws, "price", "prices", "cost", "costs", "dollars", "cents", "pence", "tariff", "tariffs")
 }

@@ -52,8 +52,8 @@ func cmdBatch(ctx context.Context, s stdio, args []string) int {
 			if err != nil {
 				return batch.Outcome{}, err
 			}
-			return batch.Outcome{Rows: rep.Rows, TCO2: rep.Totals.TCO2, TCO2e: rep.Totals.TCO2e,
-				Warnings: rep.Count(importer.SevError) + rep.Count(importer.SevWarning)}, nil
+			return batch.Outcome{Rows: rep.Rows, Computed: rep.Computed, TCO2: rep.Totals.TCO2, TCO2e: rep.Totals.TCO2e,
+				Warnings: rep.Count(importer.SevError) + rep.Count(importer.SevWarning), Sheets: sheetsLine(rep)}, nil
 		},
 	}
 	if f, isFile := s.err.(*os.File); isFile && term.IsTerminal(int(f.Fd())) {
@@ -77,7 +77,19 @@ func cmdBatch(ctx context.Context, s stdio, args []string) int {
 			fmt.Fprintf(s.err, "fluecell batch: %s: %s\n", f.File, f.Error)
 		}
 	}
+	var partial, none int
+	for _, f := range sum.Files {
+		switch f.Status {
+		case batch.StatusPartial:
+			partial++
+		case batch.StatusNone:
+			none++
+		}
+	}
 	line := fmt.Sprintf("%d workbooks: %d written, %d up to date, %d failed", len(sum.Files), sum.Written, sum.UpToDate, sum.Failed)
+	if partial+none > 0 {
+		line += fmt.Sprintf("; %d partial (rows not computed, each with its finding), %d with nothing computed (see the summary's sheets column)", partial, none)
+	}
 	if sum.Skipped > 0 {
 		line += fmt.Sprintf("; %d other files skipped", sum.Skipped)
 	}
@@ -99,3 +111,12 @@ func cmdBatch(ctx context.Context, s stdio, args []string) int {
 }
 
 func fmtTonnes(v float64) string { return fmt.Sprintf("%.3f", round3(v)) }
+
+// sheetsLine says in one line what happened to each sheet of a workbook.
+func sheetsLine(rep *importer.Report) string {
+	parts := make([]string, 0, len(rep.Sheets))
+	for _, sh := range rep.Sheets {
+		parts = append(parts, sh.Name+": "+sh.Status+" ("+sh.Reason+")")
+	}
+	return strings.Join(parts, "; ")
+}

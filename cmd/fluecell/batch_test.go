@@ -74,7 +74,7 @@ func TestBatchCommand(t *testing.T) {
 	if code != 1 {
 		t.Fatalf("exit %d (want 1: one broken file)\n%s\n%s", code, stdout, stderr)
 	}
-	if !strings.Contains(stdout, "10 workbooks: 9 written, 0 up to date, 1 failed; 1 other files skipped") {
+	if !strings.Contains(stdout, "10 workbooks: 9 written, 0 up to date, 1 failed; 2 partial (rows not computed, each with its finding), 0 with nothing computed (see the summary's sheets column); 1 other files skipped") {
 		t.Errorf("stdout:\n%s", stdout)
 	}
 	if !strings.Contains(stderr, "broken.xlsx") {
@@ -86,20 +86,26 @@ func TestBatchCommand(t *testing.T) {
 	}
 	recs, _ := csv.NewReader(f).ReadAll()
 	f.Close()
-	if len(recs) != 11 || strings.Join(recs[0], ",") != "file,status,rows,tCO2,tCO2e,warnings,error,seconds,output" {
+	if len(recs) != 11 || strings.Join(recs[0], ",") != "file,status,rows,computed,tCO2,tCO2e,warnings,error,seconds,output,sheets" {
 		t.Fatalf("summary: %v", recs)
 	}
 	for _, r := range recs[1:] {
 		if r[0] == "broken.xlsx" {
-			if r[1] != "failed" || r[6] == "" {
+			if r[1] != "failed" || r[7] == "" {
 				t.Errorf("broken row %v", r)
 			}
 			continue
 		}
-		if r[1] != "ok" {
-			t.Errorf("row %v", r)
+		// The demo's fuel log and build plan hold rows that cannot be
+		// computed (each with its finding): they are partial, and say so.
+		want := "ok"
+		if strings.Contains(r[0], "fuel-log") || strings.Contains(r[0], "build-plan") {
+			want = "partial"
 		}
-		if _, err := excelize.OpenFile(filepath.Join(out, filepath.FromSlash(r[8]))); err != nil {
+		if r[1] != want || r[10] == "" || (want == "partial") != strings.Contains(r[10], "partial (computed") {
+			t.Errorf("row %v: want status %s and the sheets said", r, want)
+		}
+		if _, err := excelize.OpenFile(filepath.Join(out, filepath.FromSlash(r[9]))); err != nil {
 			t.Errorf("%s: %v", r[0], err)
 		}
 	}

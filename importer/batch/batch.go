@@ -18,9 +18,13 @@ import (
 // Outcome is what one annotation reports back.
 type Outcome struct {
 	Rows     int     `json:"rows"`
+	Computed int     `json:"computed"` // rows with a number from every rule
 	TCO2     float64 `json:"tCO2"`
 	TCO2e    float64 `json:"tCO2e"`
 	Warnings int     `json:"warnings"`
+	// Sheets says what happened to each sheet: "Fuel log: computed 6,504 of
+	// 6,570 rows; Prices: skipped: a table of prices...".
+	Sheets string `json:"sheets,omitempty"`
 }
 
 // AnnotateFunc annotates the workbook at in into out. It must write out
@@ -45,10 +49,23 @@ type Config struct {
 
 // Status of one file.
 const (
-	StatusOK       = "ok"
-	StatusFailed   = "failed"
-	StatusUpToDate = "up-to-date"
+	StatusOK       = "ok"               // every data row computed
+	StatusPartial  = "partial"          // some rows computed; the others have findings at their rows
+	StatusNone     = "nothing computed" // the file was read, but no row could be computed (see its sheets)
+	StatusFailed   = "failed"           // the file could not be annotated (Error says why)
+	StatusUpToDate = "up-to-date"       // its output is newer than the input and the settings: not redone
 )
+
+// statusOf names the status of an annotated file from its rows.
+func statusOf(o Outcome) string {
+	switch {
+	case o.Rows > 0 && o.Computed == o.Rows:
+		return StatusOK
+	case o.Computed > 0:
+		return StatusPartial
+	}
+	return StatusNone
+}
 
 // FileResult is one row of the summary.
 type FileResult struct {
@@ -248,7 +265,7 @@ func one(ctx context.Context, cfg Config, st stamps, in, out, rel string) FileRe
 	if err != nil {
 		return fail(err)
 	}
-	res.Status, res.Outcome = StatusOK, o
+	res.Status, res.Outcome = statusOf(o), o
 	res.Seconds = time.Since(start).Seconds()
 	if err := st.write(rel, dst, sum, cfg.Fingerprint, o); err != nil {
 		// The output is complete; only the next run's skip check is lost.

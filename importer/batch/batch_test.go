@@ -122,16 +122,17 @@ func TestRunMirrorsAndIsolatesFailures(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if strings.Join(recs[0], ",") != "file,status,rows,tCO2,tCO2e,warnings,error,seconds,output" || len(recs) != 6 {
+	if strings.Join(recs[0], ",") != "file,status,rows,computed,tCO2,tCO2e,warnings,error,seconds,output,sheets" || len(recs) != 6 {
 		t.Errorf("summary %v", recs)
 	}
-	if got := strings.Join(recs[2][:6], ","); got != "north/site-a.xlsx,ok,4,1.5,1.6,2" {
+	// The fake annotator computes no row of the 4 it finds: nothing computed.
+	if got := strings.Join(recs[2][:7], ","); got != "north/site-a.xlsx,nothing computed,4,0,1.5,1.6,2" {
 		t.Errorf("row %s", got)
 	}
-	if got := recs[4]; got[1] != "failed" || got[2] != "" || got[6] == "" {
+	if got := recs[4]; got[1] != "failed" || got[2] != "" || got[7] == "" {
 		t.Errorf("failed row %v", got)
 	}
-	if got := recs[3]; got[0] != "old/legacy.xls" || got[8] != "old/legacy.xlsx" {
+	if got := recs[3]; got[0] != "old/legacy.xls" || got[9] != "old/legacy.xlsx" {
 		t.Errorf("legacy row %v", got)
 	}
 }
@@ -309,5 +310,21 @@ func TestStaleTempsRemoved(t *testing.T) {
 	}
 	if _, err := os.Stat(keep); err != nil {
 		t.Error("removed a file that is not a temporary workbook")
+	}
+}
+
+func TestStatusOf(t *testing.T) {
+	for _, c := range []struct {
+		o    Outcome
+		want string
+	}{
+		{Outcome{Rows: 6570, Computed: 6570}, StatusOK},
+		{Outcome{Rows: 6570, Computed: 6504}, StatusPartial},
+		{Outcome{Rows: 12, Computed: 0}, StatusNone},
+		{Outcome{}, StatusNone},
+	} {
+		if got := statusOf(c.o); got != c.want {
+			t.Errorf("statusOf(%+v) = %q, want %q", c.o, got, c.want)
+		}
 	}
 }
