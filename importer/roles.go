@@ -64,7 +64,10 @@ func (d *detector) assignRoles(t *tableSpec) {
 		}
 	}
 	if best != nil && (bestScore >= 2 || best.st.hint.Any(tables.HintFuel)) && best.st.fuel+best.st.notFuel > 0 &&
-		(best.st.text < 3 || frac(best.st.fuel+best.st.notFuel, best.st.text) >= 0.2) {
+		(best.st.text < 3 || frac(best.st.fuel+best.st.notFuel, best.st.text) >= 0.2) &&
+		(len(best.st.distinct) < 20 || frac(best.st.fuel+best.st.notFuel, best.st.text) >= 0.5) {
+		// (Fuel types repeat; a column of mostly different names, a few of
+		// which hold a fuel word, is names of sites or firms.)
 		best.role, t.fuel = roleFuel, best
 	}
 	// Technology.
@@ -100,6 +103,9 @@ func (d *detector) assignRoles(t *tableSpec) {
 		}
 		score := 2*frac(c.st.unitLike, c.st.text) + 0.5*frac(c.st.rate, c.st.text)
 		if h.Any(tables.HintUnit) && !h.Any(tables.HintGroup) {
+			if c.st.text > 0 && frac(c.st.unitLike+c.st.rate, c.st.text) < 0.3 {
+				continue // "Boiler/Generator/Committed Unit": headed unit, holding no units
+			}
 			score += 3
 		} else if frac(c.st.unitLike, c.st.text) < 0.6 {
 			continue
@@ -250,7 +256,8 @@ func (d *detector) quantityScore(t *tableSpec, c *column) (float64, bool) {
 		// Text where amounts belong ("n/a", "1200 GJ"): the column is still
 		// the amount when its header says so and its texts name nothing
 		// else, so that each such cell gets its finding.
-		if !h.Any(tables.HintQty) || c.st.fuel+c.st.unitLike+c.st.tech+c.st.notFuel > 0 || t.fuel == nil || c.st.text > max(2, c.st.nonEmpty/5) {
+		if !h.Any(tables.HintQty) || c.st.fuel+c.st.unitLike+c.st.tech+c.st.notFuel > 0 || t.fuel == nil || c.st.text > max(2, c.st.nonEmpty/5) ||
+			c.st.text == 0 || c.st.text+c.st.num < c.st.nonEmpty {
 			return 0, false
 		}
 		return 0.25, true
@@ -284,7 +291,8 @@ func (d *detector) quantityScore(t *tableSpec, c *column) (float64, bool) {
 	if fuelHeader(ws) && hasUnit {
 		score += 1 // "Fuel (L)", "Fuel used, kWh"
 	}
-	if score == 0 && t.unit != nil && t.unit.st.hint.Any(tables.HintUnit) && c.numeric && c.st.nonEmpty > 0 && !h.Any(tables.HintTotal) && !periodHeader(c.hdr.text) {
+	if score == 0 && t.unit != nil && t.unit.st.hint.Any(tables.HintUnit) && frac(t.unit.st.unitLike+t.unit.st.rate, t.unit.st.text) >= 0.5 &&
+		c.numeric && c.st.nonEmpty > 0 && !h.Any(tables.HintTotal) && !periodHeader(c.hdr.text) {
 		score = 0.5 // the only numbers beside a unit column: "Value"
 	}
 	if score == 0 {
