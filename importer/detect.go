@@ -263,7 +263,7 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 		if r.blank() || totalRow(r) {
 			continue
 		}
-		if headerLike(r) && sc.keywordHits(r) >= 2 && len(sample) > 0 {
+		if headerLike(r) && !hasNumber(r) && sc.keywordHits(r) >= 2 && len(sample) > 0 {
 			break
 		}
 		sample = append(sample, r)

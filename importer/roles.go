@@ -103,7 +103,7 @@ func (d *detector) assignRoles(t *tableSpec) {
 		}
 		score := 2*frac(c.st.unitLike, c.st.text) + 0.5*frac(c.st.rate, c.st.text)
 		if h.Any(tables.HintUnit) && !h.Any(tables.HintGroup) {
-			if c.st.text > 0 && frac(c.st.unitLike+c.st.rate, c.st.text) < 0.3 {
+			if c.st.text >= 3 && frac(c.st.unitLike+c.st.rate, c.st.text) < 0.3 {
 				continue // "Boiler/Generator/Committed Unit": headed unit, holding no units
 			}
 			score += 3
