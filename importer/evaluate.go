@@ -2,6 +2,7 @@ package importer
 
 import (
 	"math"
+	"path/filepath"
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs"
@@ -33,6 +34,20 @@ func (sc *scanCtx) evaluate(t *table) error {
 	t.src = make([]int32, n)
 	t.byFuel, t.byGroup = map[string]*sum{}, map[string]*sum{}
 	sc.headerWarnings(t)
+	if spec.ctxFuel != "" && spec.fuel == nil && spec.qty != nil {
+		// No fuel column: every row is the fuel the title, sheet or file
+		// name gives. A title is the table's own word; a sheet or file
+		// name is weaker, so it is a warning to check.
+		sev, from := SevInfo, "the title "+quoteText(spec.ctxFrom)
+		switch {
+		case spec.ctxFrom == spec.sheet:
+			sev, from = SevWarning, "the sheet name "+quoteText(spec.ctxFrom)
+		case strings.HasPrefix(filepath.Base(sc.path), spec.ctxFrom):
+			sev, from = SevWarning, "the file name "+quoteText(spec.ctxFrom)
+		}
+		sc.warn.add(sheet, spec.qty.col, spec.headerRow, sev, CodeFuelAlias, "no fuel column: every row of "+quoteText(spec.qty.hdr.text)+
+			" is read as "+spec.ctxFuel+", named by "+from+"; if that is not the fuel, name it in a mapping (fluecell inspect --write-mapping)")
+	}
 	for _, sl := range t.sections {
 		sc.warn.add(sheet, sl.col, sl.row, SevInfo, CodeNotComputed, "a section label inside the table: not a data row")
 	}
