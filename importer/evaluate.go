@@ -438,10 +438,9 @@ func (sc *scanCtx) variantFor(t *table, r *rule, i int, good map[string]bool) *r
 	return r
 }
 
-// annualRows marks the rows whose period is a whole year in a table that
-// also has monthly rows: YYYYMM with month 13 (the statistics' annual
-// code), or a bare year beside YYYYMM or dated rows. nil when there are
-// none.
+// annualRows marks the rows whose period is a whole year (YYYYMM with
+// month 13, the statistics' annual code) in a year that also has monthly
+// rows. nil when there are none.
 func (t *table) annualRows() []bool {
 	c := t.spec.when
 	if c == nil {
@@ -450,6 +449,8 @@ func (t *table) annualRows() []bool {
 	s := t.slotOf[c.col]
 	n := len(t.rowNums)
 	kind := make([]uint8, n) // 1 monthly, 2 annual
+	year := make([]int, n)
+	monthsOf := map[int]bool{} // years with monthly rows
 	monthly, yearly := false, false
 	for i := 0; i < n; i++ {
 		v := t.val(i, s)
@@ -466,19 +467,23 @@ func (t *table) annualRows() []bool {
 		if x != math.Trunc(x) {
 			continue
 		}
+		year[i] = int(x) / 100
 		switch {
 		case x >= 190001 && x <= 210013 && int(x)%100 == 13:
 			kind[i], yearly = 2, true
 		case x >= 190001 && x <= 210012 && int(x)%100 >= 1:
 			kind[i], monthly = 1, true
+			monthsOf[year[i]] = true
 		}
 	}
 	if !monthly || !yearly {
 		return nil
 	}
+	// An annual row stands for its year where no monthly rows do (the
+	// early years of a series often have annual figures only).
 	out := make([]bool, n)
 	for i, k := range kind {
-		out[i] = k == 2
+		out[i] = k == 2 && monthsOf[year[i]]
 	}
 	return out
 }

@@ -149,6 +149,7 @@ func scan(ctx context.Context, e *funcs.Engine, path string, opt Options, calc f
 		}
 		res.sheetCells[s.Name] = n
 	}
+	sc.dropCopies()
 	res.sc, res.e = sc, eng
 	return res, res.finish()
 }
@@ -282,6 +283,9 @@ func (res *ScanResult) finish() error {
 		rep.Computed += t.computed
 		info.Status = statusOf(t.dataRows, t.computed)
 		info.Reason = "computed " + countOf(t.computed) + " of " + plural(t.dataRows, "row")
+		if t.copyOf != nil {
+			info.Reason = "its rows repeat the table at " + t.copyOf.spec.sheet + "!" + cellRef(t.copyOf.spec.firstCol, t.copyOf.spec.headerRow) + ": not counted twice"
+		}
 		if t.computed == 0 && t.spec.headerErr != nil {
 			info.Reason += ": " + t.spec.headerErr.Message
 		}

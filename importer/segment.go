@@ -27,6 +27,7 @@ type table struct {
 	maxUsed   int // rightmost used column in the table's rows
 	intern    map[string]string
 	days      []float64 // per row, the days of its period, for flows (flow.go); nil without flows
+	copyOf    *table    // the table whose rows this one repeats (duplicate.go); its results are dropped
 	rules     []*rule
 	merges    []rangeRef
 

@@ -1,0 +1,99 @@
+package importer
+
+import (
+	"hash/fnv"
+	"math"
+	"strings"
+)
+
+// Workbooks often hold the same data twice: a sheet copied to try
+// something ("Data (2)"), an annual extract beside the full monthly table.
+// A table whose rows (fuel, unit, amounts, date) all appear in a larger
+// table of the workbook is a copy: it is not computed, so nothing is
+// counted twice, and a finding at its header names the table it repeats.
+
+// rowSigs returns a signature per data row of t from the columns that make
+// its emissions: fuel, unit, amounts, technology, capacity, date. Rows of
+// two tables with equal signatures say the same thing.
+func (t *table) rowSigs() []uint64 {
+	var cols []int
+	for s, c := range t.slots {
+		switch c.role {
+		case roleFuel, roleUnit, roleQuantity, roleWideFuel, rolePeriod, roleTech, roleCapacity, roleWhen:
+			cols = append(cols, s)
+		}
+	}
+	out := make([]uint64, len(t.rowNums))
+	var b [8]byte
+	for i := range t.rowNums {
+		h := fnv.New64a()
+		for _, s := range cols {
+			v := t.val(i, s)
+			switch v.kind {
+			case kNumber:
+				u := math.Float64bits(v.num)
+				for k := range b {
+					b[k] = byte(u >> (8 * k))
+				}
+				h.Write(b[:])
+			case kText:
+				h.Write([]byte(strings.ToLower(strings.TrimSpace(v.text))))
+			}
+			h.Write([]byte{0})
+		}
+		out[i] = h.Sum64()
+	}
+	return out
+}
+
+// dropCopies finds tables whose rows all repeat a larger (or, when as
+// large, earlier) table's rows and takes their results out of the totals.
+func (sc *scanCtx) dropCopies() {
+	if len(sc.tables) < 2 {
+		return
+	}
+	sigs := make([]map[uint64]bool, len(sc.tables))
+	lists := make([][]uint64, len(sc.tables))
+	for i, t := range sc.tables {
+		lists[i] = t.rowSigs()
+		sigs[i] = make(map[uint64]bool, len(lists[i]))
+		for _, s := range lists[i] {
+			sigs[i][s] = true
+		}
+	}
+	for i, t := range sc.tables {
+		if t.computed == 0 || len(lists[i]) < 3 {
+			continue
+		}
+		for j, u := range sc.tables {
+			if i == j || u.copyOf != nil || len(lists[j]) < len(lists[i]) || len(lists[j]) == len(lists[i]) && j > i {
+				continue
+			}
+			in := 0
+			for _, s := range lists[i] {
+				if sigs[j][s] {
+					in++
+				}
+			}
+			if in == len(lists[i]) {
+				t.dropAsCopy(sc, u)
+				break
+			}
+		}
+	}
+}
+
+// dropAsCopy takes t's results out: its rows repeat u's.
+func (t *table) dropAsCopy(sc *scanCtx, u *table) {
+	t.copyOf = u
+	for ri := range t.res {
+		for k := range t.res[ri] {
+			t.res[ri][k] = math.NaN()
+		}
+	}
+	t.computed = 0
+	t.byFuel, t.byGroup, t.fuelOrd, t.groupOrd = map[string]*sum{}, map[string]*sum{}, nil, nil
+	sc.warn.add(t.spec.sheet, t.spec.firstCol, t.spec.headerRow, SevInfo, CodeNotComputed,
+		"every row of this table repeats the table at "+u.spec.sheet+"!"+cellRef(u.spec.firstCol, u.spec.headerRow)+
+			" (a copy or an extract of it): not computed, so nothing is counted twice")
+}
