@@ -3,6 +3,7 @@ package importer
 import (
 	"path/filepath"
 	"strings"
+	"unicode"
 
 	"github.com/fluecell/fluecell/importer/tables"
 )
@@ -126,7 +127,7 @@ func (d *detector) upperHeaderRows(rows []row, h int) headerBlock {
 		if r.blank() {
 			continue
 		}
-		if hasNumber(r) || unitRowLike(r) || sameTexts(r, &rows[h]) || titleRow(r) {
+		if hasNumber(r) || unitRowLike(r) || sameTexts(r, &rows[h]) || titleRow(r) || codeRow(r) {
 			break
 		}
 		ups = append([]*row{r}, ups...)
@@ -261,4 +262,23 @@ func rateTitle(s string) bool {
 		}
 	}
 	return tables.Has(ws, "price", "prices", "cost", "costs", "dollars", "cents", "pence", "tariff", "tariffs")
+}
+
+// codeRow reports a row of series codes ("Sourcekey | N9140US2 | N9160US2"):
+// most texts are one word mixing letters and digits. Codes are not part of
+// the column names.
+func codeRow(r *row) bool {
+	n, codes := 0, 0
+	for i := range r.cells {
+		c := &r.cells[i]
+		if c.kind != kText || strings.TrimSpace(c.text) == "" {
+			continue
+		}
+		n++
+		t := strings.TrimSpace(c.text)
+		if !strings.ContainsAny(t, " ") && strings.ContainsAny(t, "0123456789") && strings.IndexFunc(t, unicode.IsLetter) >= 0 {
+			codes++
+		}
+	}
+	return n >= 2 && 5*codes >= 4*(n-1)
 }

@@ -72,6 +72,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 	samples := map[string][]sample{}
 	wideK := sc.wideFactors(t)
 	annual := t.annualRows()
+	forest := sc.sumForest(t)
 	var rowNotes []string
 
 	for i := 0; i < n; i++ {
@@ -103,6 +104,9 @@ func (sc *scanCtx) evaluate(t *table) error {
 			}
 			v, ok := sc.value(t, i, b)
 			vars[b.name], good[b.name] = v, ok
+		}
+		if forest != nil {
+			t.maskRow(i, forest, vars)
 		}
 		all := len(t.rules) > 0
 		var key srcKey
@@ -226,9 +230,7 @@ func (sc *scanCtx) headerWarnings(t *table) {
 			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.text)+" gives "+c.sameAs.fuelID+" again, in "+c.hdr.unitTxt+
 				": counted once, from "+quoteText(c.sameAs.hdr.text)+" ("+colName(c.sameAs.col)+")")
 		}
-		if c.partOf != nil {
-			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.text)+" is part of "+quoteText(c.partOf.hdr.text)+" ("+colName(c.partOf.col)+"), which is used: the parts are not added to their total")
-		}
+
 		if c.role == roleWideFuel && c.unitIdent == "" && c.hdr.unitErr == nil {
 			sc.warn.add(sheet, c.col, hr, SevError, CodeUnitUnknown, "no unit for "+quoteText(c.hdr.text)+": write it in the header, e.g. "+quoteText(c.hdr.base+" (L)")+"; the column is left out of the totals")
 		}

@@ -278,3 +278,17 @@ func (c *column) decideStyle() {
 		}
 	}
 }
+
+// headerFuel reads the fuel a column header names. Unlike a cell, a header
+// may say total and still be one fuel's column ("U.S. Natural Gas Total
+// Consumption"): the fuel is then looked for in the phrase.
+func (sc *scanCtx) headerFuel(s string) fuelRef {
+	fr := sc.fuelName(s)
+	if fr.kind != nameAggregate {
+		return fr
+	}
+	if id := sc.phraseFuel(s); id != "" {
+		return fuelRef{kind: nameFuel, name: id, id: id, alias: true}
+	}
+	return fr
+}

@@ -153,7 +153,9 @@ func (d *detector) assignRoles(t *tableSpec) {
 			best, bestScore = c, score
 		}
 	}
-	if best != nil && (t.fuel != nil || t.ctxFuel != "") && t.rateTitle == "" {
+	// Without a fuel column, per-fuel columns (a fuel named in each header)
+	// win over one amount column read with the title's fuel.
+	if best != nil && (t.fuel != nil || t.ctxFuel != "" && !d.hasWideCandidate(t)) && t.rateTitle == "" {
 		best.role, t.qty = roleQuantity, best
 	}
 	// One column per fuel: the header names a fuel (around usage words:
@@ -167,18 +169,18 @@ func (d *detector) assignRoles(t *tableSpec) {
 			if c.hdr.flow && t.when == nil {
 				continue // a flow per day with no dates: a rate
 			}
-			if c.st.hint.Any(tables.HintCount) || c.st.hint.Any(tables.HintRate) && !c.hdr.flow || moneyHeader(c.hdr.text) {
+			if c.st.hint.Any(tables.HintCount) && !c.st.hint.Any(tables.HintQty) || c.st.hint.Any(tables.HintRate) && !c.hdr.flow || moneyHeader(c.hdr.text) {
 				continue
 			}
-			f := sc.fuelName(c.hdr.base)
+			f := sc.headerFuel(c.hdr.base)
 			if f.kind != nameFuel {
 				continue
 			}
 			if c.hdr.unit.Dim == units.Energy && electricOutput(c.hdr.unit.Symbol) && (c.st.hint.Any(tables.HintOutput) || t.output) {
 				continue // electricity generated from the fuel, not the fuel burned
 			}
-			if c.st.nonEmpty == 0 && t.sampled > 0 {
-				continue // an empty column beside a fuel's (footnote marks, spacing)
+			if c.st.nonEmpty == 0 && t.sampled > 0 && len(t.wide) > 0 && t.wide[len(t.wide)-1].hdr.text == c.hdr.text {
+				continue // an empty column under the same name as the one before it (footnote marks, spacing)
 			}
 			if sc.fuel(f.id).bio {
 				c.biogenic = true
@@ -291,7 +293,10 @@ func (d *detector) quantityScore(t *tableSpec, c *column) (float64, bool) {
 	if fuelHeader(ws) && hasUnit {
 		score += 1 // "Fuel (L)", "Fuel used, kWh"
 	}
-	if score == 0 && t.unit != nil && t.unit.st.hint.Any(tables.HintUnit) && frac(t.unit.st.unitLike+t.unit.st.rate, t.unit.st.text) >= 0.5 &&
+	if h.Any(tables.HintUnit) && t.unit != nil && t.unit != c && c.numeric && c.st.nonEmpty > 0 && !c.st.hint.Any(tables.HintRate) {
+		score += 2.5 // "Units" holding numbers beside "Unit of Measure": how many units
+	}
+	if score == 0 && t.unit != nil && t.unit.st.hint.Any(tables.HintUnit) && frac(t.unit.st.unitLike, t.unit.st.text) >= 0.5 &&
 		c.numeric && c.st.nonEmpty > 0 && !h.Any(tables.HintTotal) && !periodHeader(c.hdr.text) {
 		score = 0.5 // the only numbers beside a unit column: "Value"
 	}
@@ -305,9 +310,10 @@ func (d *detector) quantityScore(t *tableSpec, c *column) (float64, bool) {
 	return score, score > 0
 }
 
-// dropParts keeps, of several per-fuel columns of one fuel, the one whose
-// header says total ("U.S. Natural Gas Total Consumption" beside its
-// parts): a total is never added to its parts. Of one fuel given in two
+// dropParts marks, of several per-fuel columns of one fuel, the parts of
+// the one whose header says total ("U.S. Natural Gas Total Consumption"
+// beside its parts): a total is never added to its parts (subtotals.go
+// uses the parts only where the total is empty). Of one fuel given in two
 // units it keeps the first.
 func dropParts(wide []*column) []*column {
 	byFuel := map[string][]*column{}
@@ -324,8 +330,9 @@ func dropParts(wide []*column) []*column {
 				break
 			}
 		}
-		if len(same) > 1 && total != nil && c != total {
-			c.role, c.partOf = roleNone, total
+		if len(same) > 1 && total != nil && c != total && strings.EqualFold(c.hdr.unitTxt, total.hdr.unitTxt) {
+			c.partOf = total // kept: used in the rows where the total is empty (subtotals.go)
+			out = append(out, c)
 			continue
 		}
 		// The same fuel again in another unit (Trillion Btu, then Billion
@@ -459,3 +466,17 @@ func whyNot(t *tableSpec) string {
 // electricOutput reports a watt-hour unit (Wh to TWh), the unit of
 // electricity generated or sold rather than of fuel burned.
 func electricOutput(sym string) bool { return strings.HasSuffix(sym, "Wh") }
+
+// hasWideCandidate reports a numeric column, not taken, whose header names
+// a fuel and a unit of energy, mass or volume.
+func (d *detector) hasWideCandidate(t *tableSpec) bool {
+	for _, c := range t.cols {
+		if c.role != roleNone || c.st.nonEmpty > 0 && !c.numeric || c.hdr.unitTxt == "" || !isQuantityDim(c.hdr.unit) {
+			continue
+		}
+		if d.sc.headerFuel(c.hdr.base).kind == nameFuel {
+			return true
+		}
+	}
+	return false
+}

@@ -139,6 +139,10 @@ func (sc *scanCtx) unitValue(t *table, c *column, v *cellVal, r int) (any, bool)
 		sc.warn.add(sheet, c.col, r, SevError, CodeUnitUnknown, quoteText(cell{kind: v.kind, num: v.num, text: v.text}.display())+" is not a unit: write one such as L, kWh, t or GJ; row not computed")
 		return nil, false
 	}
+	if why := notAmountUnit(s); why != "" {
+		sc.warn.add(sheet, c.col, r, SevInfo, CodeNotComputed, quoteText(s)+" is "+why+", not an amount of fuel: row not computed")
+		return nil, false
+	}
 	u, ok := sc.checkUnit(t, c, s, c.col, r, t.spec.kind == kindBuildPlan)
 	if !ok {
 		return nil, false
@@ -250,6 +254,11 @@ func (sc *scanCtx) numberValue(t *table, c *column, v *cellVal, r int) (any, boo
 				return 0.0, true
 			}
 			if missingMarker(v.text) {
+				if c.role == roleWideFuel || c.role == rolePeriod {
+					// One fuel of the row not given: the row's other fuels still count.
+					sc.warn.add(sheet, c.col, r, SevInfo, CodeNotComputed, quoteText(v.text)+": the source gives no value here; counted as none of this fuel, the row's other amounts still count")
+					return 0.0, true
+				}
 				sc.warn.add(sheet, c.col, r, SevInfo, CodeNotComputed, quoteText(v.text)+": the source gives no value here; row not computed")
 				return nil, false
 			}
@@ -373,4 +382,18 @@ func numberWithUnit(s string) (num, unit string, ok bool) {
 		return "", "", false
 	}
 	return num, unit, true
+}
+
+// notAmountUnit says why a unit cell names no amount of fuel: a price or
+// rate ("$/kWh", "$/month") or a count ("EA", "each": a service or part on
+// the same fuel-card export). "" for anything else.
+func notAmountUnit(s string) string {
+	if rateText(s) {
+		return "a price or a rate"
+	}
+	switch strings.ToLower(strings.Trim(strings.TrimSpace(s), ".")) {
+	case "ea", "each", "pc", "pcs", "piece", "pieces", "unit", "units", "item", "items", "ct", "count", "no", "nos", "qty", "job", "hr", "hrs", "hour", "hours", "service":
+		return "a count"
+	}
+	return ""
 }

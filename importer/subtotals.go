@@ -1,0 +1,187 @@
+package importer
+
+import (
+	"math"
+	"sort"
+	"strings"
+)
+
+// Statistics tables put totals and subtotals beside their parts: "Total
+// Consumption" = "Lease and Plant Fuel" + "Pipeline" + "Delivered to
+// Consumers", which is itself "Residential" + ... + "Electric Power". A sum
+// column is found from the values (on the rows where it and its parts are
+// all given, it equals the sum of the columns right after it, within
+// rounding) or from its header ("Total"). Each row then counts the highest
+// column it gives and none of its parts: the total where the row has it,
+// else the parts, down the tree. Nothing is added twice, and early years
+// that give only the parts still count.
+
+// sumNode is a per-fuel column with the columns it is the sum of.
+type sumNode struct {
+	col  *column
+	slot int
+	kids []*sumNode
+	out  bool // a total whose parts are not known: never counted
+}
+
+// sumForest builds the sum trees of a wide table's per-fuel columns; nil
+// when no column is a sum of others. Each relation found is said once at
+// the sum's header.
+func (sc *scanCtx) sumForest(t *table) []*sumNode {
+	spec := t.spec
+	if spec.kind != kindWide || len(spec.wide) < 2 {
+		return nil
+	}
+	byFuel := map[string][]*column{}
+	for _, c := range spec.wide {
+		byFuel[c.fuelID] = append(byFuel[c.fuelID], c)
+	}
+	var roots []*sumNode
+	found := false
+	fuels := make([]string, 0, len(byFuel))
+	for f := range byFuel {
+		fuels = append(fuels, f)
+	}
+	sort.Strings(fuels)
+	for _, f := range fuels {
+		cols := byFuel[f]
+		if len(cols) < 2 {
+			continue
+		}
+		nodes := make([]*sumNode, len(cols))
+		for i, c := range cols {
+			nodes[i] = &sumNode{col: c, slot: t.slotOf[c.col]}
+		}
+		child := make([]bool, len(cols))
+		// Value-based: the shortest run of columns right after a column
+		// that adds up to it.
+		for a := range cols {
+			for k := a + 2; k <= len(cols); k++ {
+				if !sameUnits(cols[a:k]) {
+					break
+				}
+				if t.sumsTo(nodes[a], nodes[a+1:k]) {
+					for _, n := range nodes[a+1 : k] {
+						if !child[indexOf(nodes, n)] {
+							nodes[a].kids = append(nodes[a].kids, n)
+						}
+					}
+					for j := a + 1; j < k; j++ {
+						child[j] = true
+					}
+					break
+				}
+			}
+		}
+		// A column headed "Total" whose parts the values do not show is left
+		// out (a whole building beside a share of it, a total of other
+		// things): the other columns of its fuel are counted.
+		for a, n := range nodes {
+			if len(n.kids) > 0 || child[a] || !hasWord(words(n.col.hdr.base), "total", "all") {
+				continue
+			}
+			n.out, child[a], found = true, true, true
+			roots = append(roots, n)
+			sc.warn.add(spec.sheet, n.col.col, spec.headerRow, SevInfo, CodeNotComputed, quoteText(n.col.hdr.text)+
+				" says total, and its values are not the sum of the other "+n.col.fuelID+" columns: it is left out and they are counted, so nothing is counted twice")
+		}
+		for a, n := range nodes {
+			if len(n.kids) > 0 {
+				found = true
+				names := make([]string, len(n.kids))
+				for j, k := range n.kids {
+					names[j] = colName(k.col.col)
+				}
+				sc.warn.add(spec.sheet, n.col.col, spec.headerRow, SevInfo, CodeNotComputed, quoteText(n.col.hdr.text)+" is the sum of "+
+					strings.Join(names, ", ")+": each row counts it where it is given, else its parts, never both")
+			}
+			if !child[a] {
+				roots = append(roots, n)
+			}
+		}
+	}
+	if !found {
+		return nil
+	}
+	return roots
+}
+
+func indexOf(nodes []*sumNode, n *sumNode) int {
+	for i, m := range nodes {
+		if m == n {
+			return i
+		}
+	}
+	return -1
+}
+
+func sameUnits(cols []*column) bool {
+	for _, c := range cols[1:] {
+		if !strings.EqualFold(c.hdr.unitTxt, cols[0].hdr.unitTxt) || c.hdr.scale != cols[0].hdr.scale {
+			return false
+		}
+	}
+	return true
+}
+
+// sumsTo reports whether, on every row (at least three) where the column
+// and all the parts are given, the column equals their sum within
+// rounding (0.5 % or one unit of the last digit shown).
+func (t *table) sumsTo(total *sumNode, parts []*sumNode) bool {
+	checked := 0
+	for i := range t.rowNums {
+		x, ok := t.number(i, total.slot)
+		if !ok {
+			continue
+		}
+		sum, all := 0.0, true
+		for _, p := range parts {
+			v, ok := t.number(i, p.slot)
+			if !ok {
+				all = false
+				break
+			}
+			sum += v
+		}
+		if !all {
+			continue
+		}
+		if math.Abs(x-sum) > max(0.005*math.Abs(x), float64(len(parts))) {
+			return false
+		}
+		checked++
+	}
+	return checked >= 3
+}
+
+// number is the stored number of row i in slot s (a number, or a number
+// stored as text); ok is false for an empty or other cell.
+func (t *table) number(i, s int) (float64, bool) {
+	v := t.val(i, s)
+	switch v.kind {
+	case kNumber:
+		return v.num, true
+	case kText:
+		f, ok, _ := textNumber(v.text)
+		return f, ok
+	}
+	return 0, false
+}
+
+// maskRow sets to zero, in a row's variables, every column below the
+// highest column of its tree that the row gives.
+func (t *table) maskRow(i int, roots []*sumNode, vars map[string]any) {
+	var walk func(n *sumNode, covered bool)
+	walk = func(n *sumNode, covered bool) {
+		if covered || n.out {
+			vars[n.col.ident] = 0.0
+		}
+		_, given := t.number(i, n.slot)
+		for _, k := range n.kids {
+			walk(k, covered || given)
+		}
+	}
+	for _, r := range roots {
+		walk(r, false)
+	}
+}
