@@ -33,6 +33,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 	}
 	t.src = make([]int32, n)
 	t.byFuel, t.byGroup = map[string]*sum{}, map[string]*sum{}
+	t.decideStyles()
 	sc.headerWarnings(t)
 	if spec.ctxFuel != "" && spec.fuel == nil && spec.qty != nil {
 		// No fuel column: every row is the fuel the title, sheet or file
@@ -488,4 +489,29 @@ func (t *table) annualRows() []bool {
 		out[i] = k == 2 && monthsOf[year[i]]
 	}
 	return out
+}
+
+// decideStyles decides each amount column's number style from all its
+// stored values (the sample that found the table may have held none
+// written as text).
+func (t *table) decideStyles() {
+	for s, c := range t.slots {
+		switch c.role {
+		case roleQuantity, roleWideFuel, rolePeriod, roleCapacity, roleCF, roleLifetime, roleExisting:
+		default:
+			continue
+		}
+		var texts []string
+		for i := range t.rowNums {
+			if v := t.val(i, s); v.kind == kText {
+				if _, ok, amb := textNumber(v.text); ok || amb {
+					texts = append(texts, v.text)
+				}
+			}
+		}
+		if len(texts) > len(c.st.numTexts) {
+			c.st.numTexts = texts
+			c.decideStyle()
+		}
+	}
 }
