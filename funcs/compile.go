@@ -26,8 +26,31 @@ const runVar = "__run"
 type CompileOption func(*compileConfig)
 
 type compileConfig struct {
-	vars map[string]bool // nil: any variable name is accepted
-	list []string
+	vars     map[string]bool // nil: any variable name is accepted
+	list     []string
+	maxLen   int // 0: MaxExprLength
+	maxNodes int // 0: MaxExprNodes
+}
+
+// WithSizeLimit raises the length and syntax-tree limits for an expression a
+// program writes itself (the importer's rule for a table with one column per
+// period sums a call per column); user expressions keep MaxExprLength and
+// MaxExprNodes. Values below the defaults are ignored.
+func WithSizeLimit(chars, nodes int) CompileOption {
+	return func(c *compileConfig) {
+		c.maxLen, c.maxNodes = max(chars, MaxExprLength), max(nodes, MaxExprNodes)
+	}
+}
+
+func (c *compileConfig) limits() (chars, nodes int) {
+	chars, nodes = MaxExprLength, MaxExprNodes
+	if c.maxLen > 0 {
+		chars = c.maxLen
+	}
+	if c.maxNodes > 0 {
+		nodes = c.maxNodes
+	}
+	return chars, nodes
 }
 
 // WithVariables declares the variables rows will provide; Compile then
@@ -57,8 +80,9 @@ func (e *Engine) Compile(src string, opts ...CompileOption) (*Program, error) {
 	for _, o := range opts {
 		o(&cfg)
 	}
-	if n := len([]rune(src)); n > MaxExprLength {
-		return nil, &Error{Code: CodeLimit, Param: "expr", Msg: "expression is " + strconv.Itoa(n) + " characters long; the limit is " + strconv.Itoa(MaxExprLength)}
+	maxLen, maxNodes := cfg.limits()
+	if n := len([]rune(src)); n > maxLen {
+		return nil, &Error{Code: CodeLimit, Param: "expr", Msg: "expression is " + strconv.Itoa(n) + " characters long; the limit is " + strconv.Itoa(maxLen)}
 	}
 	if strings.TrimSpace(src) == "" {
 		return nil, &Error{Code: CodeCompile, Param: "expr", Msg: "empty expression: write one such as fuel_co2(\"natural_gas\", 1000, \"GJ\")"}
@@ -77,7 +101,7 @@ func (e *Engine) Compile(src string, opts ...CompileOption) (*Program, error) {
 		expr.Env(map[string]any{runVar: (*runState)(nil)}),
 		expr.AllowUndefinedVariables(),
 		expr.DisableAllBuiltins(),
-		expr.MaxNodes(4 * MaxExprNodes),
+		expr.MaxNodes(uint(4 * maxNodes)),
 		expr.Patch(runPatcher{e: e}),
 		expr.Function(divFunc, checkedDiv),
 		expr.Function(modFunc, checkedMod),
@@ -123,8 +147,8 @@ func (c *checker) fail(n ast.Node, msg string) error {
 
 func (c *checker) check(n ast.Node) error {
 	c.nodes++
-	if c.nodes > MaxExprNodes {
-		return &Error{Code: CodeLimit, Param: "expr", Msg: "expression has more than " + strconv.Itoa(MaxExprNodes) + " parts; split it into several rules", Column: n.Location().From + 1, Source: c.src}
+	if _, maxNodes := c.cfg.limits(); c.nodes > maxNodes {
+		return &Error{Code: CodeLimit, Param: "expr", Msg: "expression has more than " + strconv.Itoa(maxNodes) + " parts; split it into several rules", Column: n.Location().From + 1, Source: c.src}
 	}
 	switch n := n.(type) {
 	case *ast.IntegerNode, *ast.FloatNode, *ast.StringNode, *ast.BoolNode:

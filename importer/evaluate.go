@@ -73,6 +73,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 	samples := map[string][]sample{}
 	wideK := sc.wideFactors(t)
 	annual := t.annualRows()
+	again, againPart := t.sameAgain()
 	forest := sc.sumForest(t)
 	var rowNotes []string
 
@@ -91,6 +92,15 @@ func (sc *scanCtx) evaluate(t *table) error {
 		}
 		t.dataRows++
 		rowNum := int(t.rowNums[i])
+		if again != nil && again[i] > 0 {
+			c := t.spec.fuel
+			msg := "the same " + quoteText(t.val(i, t.slotOf[c.col]).text) + " again, in another unit: counted once, from row " + itoa(again[i])
+			if againPart[i] {
+				msg = quoteText(t.val(i, t.slotOf[c.col]).text) + " is a part of row " + itoa(again[i]) + ", which is counted: not added twice"
+			}
+			sc.warn.add(sheet, c.col, rowNum, SevInfo, CodeNotComputed, msg)
+			continue
+		}
 		if annual != nil && annual[i] {
 			c := t.spec.when
 			v := t.val(i, t.slotOf[c.col])
@@ -514,4 +524,74 @@ func (t *table) decideStyles() {
 			c.decideStyle()
 		}
 	}
+}
+
+// sameAgain marks the rows of a long table that repeat an earlier row's
+// fuel in another unit (statistics print "Distillate fuel oil consumed by
+// the industrial sector" once in billion Btu and once in thousand
+// barrels), or that are a part of another row ("... industrial sector
+// excluding refinery fuel"): the value is that other row's number, 0
+// elsewhere; part is set for the second kind. Rows agree when their fuel
+// text, group and date agree. nil when there are none.
+func (t *table) sameAgain() (rows []int, part []bool) {
+	spec := t.spec
+	// Only a table of series (one per period column, or rows dated by a
+	// period) repeats a series; a log repeats fuels on purpose.
+	if spec.fuel == nil || spec.unit == nil || spec.kind != kindPeriods && (spec.kind != kindFuelLog || spec.when == nil) {
+		return nil, nil
+	}
+	type first struct {
+		unit string
+		row  int
+	}
+	n := len(t.rowNums)
+	keys := make([]string, n)
+	isPart := make([]bool, n)
+	units := make([]string, n)
+	fs, us := t.slotOf[spec.fuel.col], t.slotOf[spec.unit.col]
+	whole := map[string]first{} // rows that are no part: key -> first such row
+	for i := 0; i < n; i++ {
+		f, u := t.val(i, fs), t.val(i, us)
+		if f.kind != kText || u.kind != kText {
+			continue
+		}
+		text := strings.ToLower(strings.Join(strings.Fields(f.text), " "))
+		for _, w := range []string{" excluding ", " except ", " excl. "} {
+			if j := strings.Index(text, w); j > 0 {
+				text, isPart[i] = text[:j], true
+				break
+			}
+		}
+		if spec.group != nil {
+			g := t.val(i, t.slotOf[spec.group.col])
+			text += "\x00" + strings.ToLower(strings.TrimSpace(cell{kind: g.kind, num: g.num, text: g.text}.display()))
+		}
+		if spec.when != nil {
+			w := t.val(i, t.slotOf[spec.when.col])
+			text += "\x00" + cell{kind: w.kind, num: w.num, text: w.text}.display()
+		}
+		keys[i], units[i] = text, strings.ToLower(strings.TrimSpace(u.text))
+		if _, ok := whole[text]; !ok && !isPart[i] {
+			whole[text] = first{units[i], int(t.rowNums[i])}
+		}
+	}
+	for i := 0; i < n; i++ {
+		if keys[i] == "" {
+			continue
+		}
+		w, ok := whole[keys[i]]
+		switch {
+		case !ok:
+			continue
+		case isPart[i]:
+		case w.row != int(t.rowNums[i]) && w.unit != units[i]:
+		default:
+			continue
+		}
+		if rows == nil {
+			rows, part = make([]int, n), make([]bool, n)
+		}
+		rows[i], part[i] = w.row, isPart[i]
+	}
+	return rows, part
 }

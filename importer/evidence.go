@@ -154,12 +154,14 @@ func (sc *scanCtx) readFuelName(s string) fuelRef {
 	if f := sc.fuel(t); f.err == nil {
 		return fuelRef{kind: nameFuel, name: t, id: f.id, alias: f.alias}
 	}
-	// Brackets hold qualifiers: "(Excluding Supplemental Gaseous Fuels)", "(bulk)".
+	// Brackets hold qualifiers: "(Excluding Supplemental Gaseous Fuels)",
+	// "(bulk)"; the words after them still count ("... (other than
+	// propane) price").
 	if i := strings.IndexAny(t, "(["); i > 0 {
 		if f := sc.fuel(strings.TrimSpace(t[:i])); f.err == nil {
 			return fuelRef{kind: nameFuel, name: strings.TrimSpace(t[:i]), id: f.id, alias: true}
 		}
-		t = strings.TrimSpace(t[:i])
+		t = strings.TrimSpace(reAnyParen.ReplaceAllString(t, " "))
 	}
 	ws := words(t)
 	if len(ws) == 0 {
@@ -171,6 +173,9 @@ func (sc *scanCtx) readFuelName(s string) fuelRef {
 	}
 	if h.Any(tables.HintTotal) {
 		return fuelRef{kind: nameAggregate, why: "a total or aggregate"}
+	}
+	if h.Any(tables.HintSupply) {
+		return fuelRef{kind: nameNotFuel, why: "production, trade or stocks, not fuel burned"}
 	}
 	// A word broken over a line with a hyphen: "Gas-oline", "Elec-tricity".
 	if j := dehyphen(t); j != t {
@@ -191,6 +196,12 @@ func (sc *scanCtx) readFuelName(s string) fuelRef {
 			if f := sc.fuel(cand); f.err == nil {
 				if misspells(ws[:i], f.id) || misspells(ws[i+n:], f.id) {
 					return fuelRef{}
+				}
+				if n == 1 && genericFuelWord[cand] && (sc.unknownWord(ws, i-1) || sc.unknownWord(ws, i+1)) {
+					continue // "still gas", "hydrocarbon gas liquids": another product named with gas
+				}
+				if other := sc.otherFuelIn(ws, i, n, f.id); other != "" {
+					return fuelRef{kind: nameAggregate, why: "several fuels together (" + cand + ", " + other + ")"}
 				}
 				return fuelRef{kind: nameFuel, name: cand, id: f.id, alias: true}
 			}
@@ -228,15 +239,20 @@ func dehyphen(s string) string {
 	return b.String()
 }
 
-// misspells reports whether one of the words is a near miss (one or two
-// letters off) of a word of the fuel id: "natral" for natural_gas.
+// misspells reports whether one of the words is a near miss of a word of
+// the fuel id (one letter off for words of five or six letters, two for
+// longer ones): "natral" for natural_gas.
 func misspells(ws []string, id string) bool {
 	for _, w := range ws {
-		if len(w) < 4 {
-			continue
+		if len(w) < 5 {
+			continue // "coke" beside coal is another word, not a typo
+		}
+		limit := 1
+		if len(w) >= 7 {
+			limit = 2
 		}
 		for _, x := range strings.Split(id, "_") {
-			if len(x) >= 4 && w != x && levenshtein(w, x) <= 2 {
+			if len(x) >= 5 && w != x && levenshtein(w, x) <= limit {
 				return true
 			}
 		}
@@ -291,4 +307,44 @@ func (sc *scanCtx) headerFuel(s string) fuelRef {
 		return fuelRef{kind: nameFuel, name: id, id: id, alias: true}
 	}
 	return fr
+}
+
+// genericFuelWord lists words that name a fuel alone but also belong to
+// other products' names (still gas, gas liquids, road oil, lubricating oil).
+var genericFuelWord = map[string]bool{"gas": true, "gases": true, "oil": true, "oils": true, "fuel": true}
+
+// unknownWord reports whether ws[i] is a word that is neither in the
+// header vocabulary, nor a number, nor a small joining word: the word that
+// turns "gas" into another product ("still gas").
+func (sc *scanCtx) unknownWord(ws []string, i int) bool {
+	if i < 0 || i >= len(ws) {
+		return false
+	}
+	w := ws[i]
+	if allDigits(w) || sc.vocab.Hints(ws[i:i+1]) != 0 {
+		return false
+	}
+	switch w {
+	case "by", "the", "of", "to", "in", "for", "and", "at", "as", "from", "on", "a", "an", "use", "used":
+		return false
+	}
+	if f := sc.fuel(w); f.err == nil {
+		return false
+	}
+	return true
+}
+
+// otherFuelIn returns another fuel named by the words outside ws[i:i+n]
+// (a list of products: "asphalt and road oil, kerosene, petroleum coke"),
+// or "".
+func (sc *scanCtx) otherFuelIn(ws []string, i, n int, id string) string {
+	for k, w := range ws {
+		if k >= i && k < i+n || len(w) < 4 || genericFuelWord[w] {
+			continue
+		}
+		if f := sc.fuel(w); f.err == nil && f.id != id {
+			return w
+		}
+	}
+	return ""
 }

@@ -411,7 +411,8 @@ func periodHeader(text string) bool {
 		case hasWord([]string{w}, months...):
 		case len(w) == 2 && (w[0] == 'q' && w[1] >= '1' && w[1] <= '4' || w[0] == 'h' && (w[1] == '1' || w[1] == '2')):
 		case strings.HasPrefix(w, "fy") && allDigits(w[2:]) && (len(w) == 4 || len(w) == 6):
-		case allDigits(w) && (len(w) == 2 || len(w) == 4 && w >= "1990" && w <= "2100"):
+		case allDigits(w) && (len(w) == 2 && len(ws) > 1 || len(w) == 4 && w >= "1900" && w <= "2100"):
+			// "Jan 24", "2024"; "24" alone is a number, not a period
 		case allDigits(w) && len(w) == 5 && w >= "20000" && w <= "80000" && len(ws) == 1:
 		default:
 			return false

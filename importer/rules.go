@@ -252,7 +252,13 @@ func (sc *scanCtx) compileRules(t *table) error {
 	idents := identList(t.spec)
 	for _, src := range srcs {
 		col, ex, _ := splitRule(src)
-		p, err := sc.e.Compile(ex, funcs.WithVariables(idents...))
+		opts := []funcs.CompileOption{funcs.WithVariables(idents...)}
+		if len(sc.userRules) == 0 {
+			// A proposed rule sums one call per column: its size follows the
+			// table's width, not a person's typing.
+			opts = append(opts, funcs.WithSizeLimit(len(ex)+1, 12*len(idents)+funcs.MaxExprNodes))
+		}
+		p, err := sc.e.Compile(ex, opts...)
 		if err != nil {
 			return &Error{Code: ErrRule, Path: sc.path, Err: err,
 				Msg: "rule " + quoteText(src) + " for the table at " + t.spec.sheet + "!" + cellRef(t.spec.firstCol, t.spec.headerRow) + ": " + err.Error()}

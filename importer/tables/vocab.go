@@ -26,11 +26,12 @@ const (
 	HintGroup                     // site, building, region
 	HintNotFuel                   // an energy carrier not burned on site: electricity, steam
 	HintOutput                    // electricity generated, not fuel burned: generation, generated
+	HintSupply                    // production, trade or stocks of a fuel, not fuel burned: production, imports
 )
 
 var hintNames = map[string]Hint{"qty": HintQty, "rate": HintRate, "count": HintCount, "fuel": HintFuel,
 	"fuelweak": HintFuelWeak, "unit": HintUnit, "tech": HintTech, "capacity": HintCapacity, "total": HintTotal,
-	"period": HintPeriod, "key": HintKey, "group": HintGroup, "notfuel": HintNotFuel, "output": HintOutput}
+	"period": HintPeriod, "key": HintKey, "group": HintGroup, "notfuel": HintNotFuel, "output": HintOutput, "supply": HintSupply}
 
 //go:embed vocab.csv
 var vocabCSV string
