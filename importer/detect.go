@@ -1,6 +1,7 @@
 package importer
 
 import (
+	"math"
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs"
@@ -109,20 +110,29 @@ type detector struct {
 // headerLike reports whether r could be a header row: at least two cells,
 // mostly text, not a total row.
 func headerLike(r *row) bool {
-	n, txt := 0, 0
+	n, txt, periods := 0, 0, 0
 	for i := range r.cells {
 		c := &r.cells[i]
 		if c.isBlank() {
 			continue
 		}
 		n++
-		if c.kind == kText {
+		switch c.kind {
+		case kText:
 			if _, ok, amb := textNumber(c.text); !ok && !amb {
 				txt++
+			} else if periodHeader(c.text) {
+				periods++
+			}
+		case kNumber:
+			if c.num == math.Trunc(c.num) && periodHeader(funcs.FormatNumber(c.num)) {
+				periods++
 			}
 		}
 	}
-	return n >= 2 && 3*txt >= 2*n && !totalRow(r)
+	// Names, or a few names then a run of periods (State | Unit | 1960 |
+	// 1961 ...: one column per year).
+	return n >= 2 && !totalRow(r) && (3*txt >= 2*n || txt >= 1 && periods >= 2 && txt+periods == n)
 }
 
 // totalRow reports a "Total" / "Subtotal" / "Sum" row.

@@ -248,7 +248,7 @@ func (sc *scanCtx) headerWarnings(t *table) {
 	}
 	if spec.kind == kindWide {
 		for _, c := range spec.cols {
-			if c.role != roleNone || !c.numeric || c.hdr.unitTxt == "" || !isQuantityDim(c.hdr.unit) {
+			if c.role != roleNone || !c.numeric || c.hdr.unitTxt == "" || !isQuantityDim(c.hdr.unit) || c.sameAs != nil || c.biogenic || c.partOf != nil {
 				continue
 			}
 			ws := words(c.hdr.base)

@@ -87,7 +87,14 @@ func (t *table) periodDays() []float64 {
 		} else if i > 0 && has[i-1] {
 			d = math.Abs(dates[i].Sub(dates[i-1]).Hours() / 24)
 		}
-		if d >= 1 && d <= 366 {
+		switch {
+		case d >= 28 && d <= 31:
+			// Monthly rows: the row's own month, whatever the spacing to
+			// its neighbour.
+			out[i] = float64(time.Date(dates[i].Year(), dates[i].Month()+1, 0, 0, 0, 0, 0, time.UTC).Day())
+		case d >= 365 && d <= 366:
+			out[i] = float64(time.Date(dates[i].Year(), 12, 31, 0, 0, 0, 0, time.UTC).YearDay())
+		case d >= 1 && d <= 366:
 			out[i] = math.Round(d)
 		}
 	}

@@ -73,8 +73,8 @@ func (d *detector) assignRoles(t *tableSpec) {
 	// Technology.
 	best, bestScore = nil, 0
 	for _, c := range t.cols {
-		if taken(c) || !textual(c) {
-			continue
+		if taken(c) || !textual(c) || c.st.hint.Any(tables.HintFuel) || c.st.fill(rows) < 0.5 && !c.st.hint.Any(tables.HintTech) {
+			continue // a fuel column, or a column mostly blank, is no technology
 		}
 		ws := words(c.hdr.base)
 		score := 2*frac(c.st.tech, c.st.text) + c.st.fill(rows)

@@ -117,7 +117,19 @@ func (sc *scanCtx) fuelMessage(s string) string {
 		return "no fuel given: write the fuel, e.g. natural_gas or diesel"
 	}
 	_, _, err := sc.e.ResolveFuel(s)
-	if fe, ok := funcs.AsError(err); ok {
+	fe, ok := funcs.AsError(err)
+	if ok && !strings.Contains(fe.Msg, "did you mean") {
+		// "Natral Gas Deliveries": a suggestion for the name without its
+		// usage words.
+		if core := strings.Join(sc.vocab.Strip(words(s), tables.HintQty|tables.HintTotal), " "); core != "" && core != strings.ToLower(s) {
+			if _, _, err2 := sc.e.ResolveFuel(core); err2 != nil {
+				if fe2, ok2 := funcs.AsError(err2); ok2 && strings.Contains(fe2.Msg, "did you mean") {
+					return strings.Replace(fe2.Msg, quoteText(core), quoteText(s), 1)
+				}
+			}
+		}
+	}
+	if ok {
 		return fe.Msg
 	}
 	return "unknown fuel " + quoteText(s)

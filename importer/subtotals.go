@@ -60,7 +60,7 @@ func (sc *scanCtx) sumForest(t *table) []*sumNode {
 				if !sameUnits(cols[a:k]) {
 					break
 				}
-				if t.sumsTo(nodes[a], nodes[a+1:k]) {
+				if ok, _ := t.sumsTo(nodes[a], nodes[a+1:k]); ok {
 					for _, n := range nodes[a+1 : k] {
 						if !child[indexOf(nodes, n)] {
 							nodes[a].kids = append(nodes[a].kids, n)
@@ -73,11 +73,44 @@ func (sc *scanCtx) sumForest(t *table) []*sumNode {
 				}
 			}
 		}
-		// A column headed "Total" whose parts the values do not show is left
-		// out (a whole building beside a share of it, a total of other
-		// things): the other columns of its fuel are counted.
+		// A column headed "Total" after its parts: the run right before it.
+		for a, n := range nodes {
+			if len(n.kids) > 0 || child[a] || a < 2 || !hasWord(words(n.col.hdr.base), "total", "all") {
+				continue
+			}
+			for k := a - 2; k >= 0; k-- {
+				if !sameUnits(cols[k : a+1]) {
+					break
+				}
+				if ok, _ := t.sumsTo(n, nodes[k:a]); ok {
+					n.kids = append(n.kids, nodes[k:a]...)
+					for j := k; j < a; j++ {
+						child[j] = true
+					}
+					break
+				}
+			}
+		}
+		// A column headed "Total" whose parts the values cannot show (too
+		// few rows give them all) is taken at its word: the other columns
+		// of its fuel are its parts. One whose values show it is not their
+		// sum (a whole building beside a share of it) is left out, and the
+		// other columns are counted.
 		for a, n := range nodes {
 			if len(n.kids) > 0 || child[a] || !hasWord(words(n.col.hdr.base), "total", "all") {
+				continue
+			}
+			var others []*sumNode
+			for j, m := range nodes {
+				if j != a && !child[j] && strings.EqualFold(m.col.hdr.unitTxt, n.col.hdr.unitTxt) {
+					others = append(others, m)
+				}
+			}
+			if _, checked := t.sumsTo(n, others); checked < 3 && len(others) > 0 {
+				n.kids = others
+				for _, m := range others {
+					child[indexOf(nodes, m)] = true
+				}
 				continue
 			}
 			n.out, child[a], found = true, true, true
@@ -126,9 +159,9 @@ func sameUnits(cols []*column) bool {
 
 // sumsTo reports whether, on every row (at least three) where the column
 // and all the parts are given, the column equals their sum within
-// rounding (0.5 % or one unit of the last digit shown).
-func (t *table) sumsTo(total *sumNode, parts []*sumNode) bool {
-	checked := 0
+// rounding (0.5 % or one unit per part); checked counts the rows looked at
+// (a mismatch stops at the first).
+func (t *table) sumsTo(total *sumNode, parts []*sumNode) (ok bool, checked int) {
 	for i := range t.rowNums {
 		x, ok := t.number(i, total.slot)
 		if !ok {
@@ -147,11 +180,11 @@ func (t *table) sumsTo(total *sumNode, parts []*sumNode) bool {
 			continue
 		}
 		if math.Abs(x-sum) > max(0.005*math.Abs(x), float64(len(parts))) {
-			return false
+			return false, checked + 1
 		}
 		checked++
 	}
-	return checked >= 3
+	return checked >= 3, checked
 }
 
 // number is the stored number of row i in slot s (a number, or a number

@@ -28,7 +28,7 @@ func copyAnnotate(calls *atomic.Int64) AnnotateFunc {
 		if err := os.WriteFile(tmp, b, 0o644); err != nil {
 			return Outcome{}, err
 		}
-		return Outcome{Rows: len(b), TCO2: 1.5, TCO2e: 1.6, Warnings: 2}, os.Rename(tmp, out)
+		return Outcome{Rows: len(b), Computed: len(b), TCO2: 1.5, TCO2e: 1.6, Warnings: 2}, os.Rename(tmp, out)
 	}
 }
 
@@ -125,8 +125,8 @@ func TestRunMirrorsAndIsolatesFailures(t *testing.T) {
 	if strings.Join(recs[0], ",") != "file,status,rows,computed,tCO2,tCO2e,warnings,error,seconds,output,sheets" || len(recs) != 6 {
 		t.Errorf("summary %v", recs)
 	}
-	// The fake annotator computes no row of the 4 it finds: nothing computed.
-	if got := strings.Join(recs[2][:7], ","); got != "north/site-a.xlsx,nothing computed,4,0,1.5,1.6,2" {
+	// The fake annotator computes every row it finds: ok.
+	if got := strings.Join(recs[2][:7], ","); got != "north/site-a.xlsx,ok,4,4,1.5,1.6,2" {
 		t.Errorf("row %s", got)
 	}
 	if got := recs[4]; got[1] != "failed" || got[2] != "" || got[7] == "" {

@@ -28,8 +28,10 @@ func Clean(s string) string {
 		}
 	}
 	out := strings.Join(strings.Fields(b.String()), " ")
-	out = strings.ReplaceAll(out, "(s)", "")
-	out = strings.ReplaceAll(out, "(S)", "")
+	for prev := ""; prev != out; {
+		prev = out
+		out = strings.ReplaceAll(strings.ReplaceAll(out, "(s)", ""), "(S)", "")
+	}
 	out = strings.TrimRight(out, ": ")
 	return strings.Join(strings.Fields(out), " ")
 }
