@@ -92,10 +92,11 @@ func (sc *scanCtx) sumForest(t *table) []*sumNode {
 			}
 		}
 		// A column headed "Total" whose parts the values cannot show (too
-		// few rows give them all) is taken at its word: the other columns
-		// of its fuel are its parts. One whose values show it is not their
-		// sum (a whole building beside a share of it) is left out, and the
-		// other columns are counted.
+		// few rows give them all), or that covers more than the other
+		// columns of its fuel (sectors not shown), counts, and they are its
+		// parts. Beside a share allocated to the reporting entity ("Computed
+		// Proportional ... Use"), or when its values are below their sum, it
+		// is left out and the other columns count.
 		for a, n := range nodes {
 			if len(n.kids) > 0 || child[a] || !hasWord(words(n.col.hdr.base), "total", "all") {
 				continue
@@ -106,7 +107,10 @@ func (sc *scanCtx) sumForest(t *table) []*sumNode {
 					others = append(others, m)
 				}
 			}
-			if _, checked := t.sumsTo(n, others); checked < 3 && len(others) > 0 {
+			_, checked := t.sumsTo(n, others)
+			if len(others) > 0 && !allocation(others) && (checked < 3 || t.covers(n, others)) {
+				// Too few rows to check, or the parts are a subset of what
+				// the total covers (sectors not shown): the total counts.
 				n.kids = others
 				for _, m := range others {
 					child[indexOf(nodes, m)] = true
@@ -217,4 +221,44 @@ func (t *table) maskRow(i int, roots []*sumNode, vars map[string]any) {
 	for _, r := range roots {
 		walk(r, false)
 	}
+}
+
+// covers reports whether, on every row where the total and all the parts
+// are given, the total is at least their sum: the parts are a subset.
+func (t *table) covers(total *sumNode, parts []*sumNode) bool {
+	n := 0
+	for i := range t.rowNums {
+		x, ok := t.number(i, total.slot)
+		if !ok {
+			continue
+		}
+		sum := 0.0
+		for _, p := range parts {
+			v, ok := t.number(i, p.slot)
+			if !ok {
+				sum = math.NaN()
+				break
+			}
+			sum += v
+		}
+		if math.IsNaN(sum) {
+			continue
+		}
+		if x < sum*0.995 {
+			return false
+		}
+		n++
+	}
+	return n > 0
+}
+
+// allocation reports a column that is an entity's share of a total:
+// "Computed Proportional ... Use", "Allocated", "Share of".
+func allocation(cols []*sumNode) bool {
+	for _, c := range cols {
+		if hasWord(words(c.col.hdr.text), "proportional", "prop", "allocated", "apportioned", "attributed", "share", "allocation") {
+			return true
+		}
+	}
+	return false
 }
