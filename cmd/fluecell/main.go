@@ -35,7 +35,7 @@ func commands() []command {
 	return []command{
 		{"serve", "serve the carbon functions over HTTP for sheets and notebooks", cmdServe},
 		{"eval", "evaluate one expression, e.g. fuel_co2(\"diesel\", 1000, \"L\")", cmdEval},
-		{"annotate", "add tCO2/tCO2e columns and unit warnings to a workbook (.xlsx, .xlsm, .csv)", cmdAnnotate},
+		{"annotate", "add tCO2/tCO2e columns and unit warnings to a workbook (.xlsx, .xlsm, .xls, .csv)", cmdAnnotate},
 		{"batch", "annotate every workbook below a folder into a mirror folder, in parallel", cmdBatch},
 		{"inspect", "show how a workbook's tables and columns are read; write that reading as a mapping to edit", cmdInspect},
 		{"functions", "list the carbon functions with parameters and examples", cmdFunctions},
