@@ -1,20 +1,29 @@
-// Package importer reads workbooks (.xlsx, .xlsm) and CSV files, finds their
-// tables, runs carbon rules over their rows and writes annotated copies.
+// Package importer reads workbooks (.xlsx, .xlsm, legacy .xls through a
+// headless LibreOffice conversion) and CSV files, finds their tables, runs
+// carbon rules over their rows and writes annotated copies.
 //
 // Reading (Scan) streams each worksheet part with a small tokenizer of its
 // own, because excelize's Rows iterator does not tell a number from a number
-// stored as text, nor a formula without a cached value. Legacy .xls files,
-// encrypted workbooks, corrupt or truncated zips and zip bombs (limits on
-// the declared uncompressed size, the number of parts and the packing ratio)
-// are refused with an *Error that says what to do; a panic anywhere inside
-// becomes an *Error of code ErrInternal.
+// stored as text, nor a formula without a cached value. Encrypted
+// workbooks, corrupt or truncated zips and zip bombs (limits on the
+// declared uncompressed size, the number of parts and the packing ratio),
+// and .xls files where LibreOffice is not installed, are refused with an
+// *Error that says what to do; a panic anywhere inside becomes an *Error of
+// code ErrInternal.
 //
-// A table is found by its header row, which need not be row 1: title rows,
-// banners merged over the header, a row of units under it and total rows
-// are recognised. Columns get roles from their headers and values (fuel,
-// quantity, unit, one column per fuel, build-plan technology, capacity,
-// capacity factor, lifetime, existing carbon figures, a grouping column),
-// and identifiers (snake_case; a unit in the header gives <ident>_unit).
+// Tables are read from evidence, because real workbooks are written by
+// others: a header row anywhere (title rows above it may give the unit or
+// the fuel; it may be printed over several rows; notes and sources under a
+// table end it), and column roles from header words (importer/tables) and
+// the values together (evidence.go, roles.go): fuel, quantity, unit, one
+// column per fuel, one column per period, build-plan technology and
+// capacity, existing carbon figures, a date, a grouping column. Totals,
+// annual rows among monthly ones, a fuel given in two units and copied
+// sheets are never added to their parts (subtotals.go, duplicate.go);
+// flows per day are computed over dated periods (flow.go). Every sheet is
+// reported with its status and reason (Report.Sheets); a workbook without a
+// table is not an error. A mapping file (mappingfile.go) records a reading
+// that a person can check, edit and reuse.
 //
 // Rules are "COLUMN = EXPR" over the identifiers, given in Options.Rules or
 // proposed from the roles; each is compiled once with funcs and run per row.
