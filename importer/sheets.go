@@ -140,6 +140,33 @@ func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
 		groups = append(groups, g)
 		row++
 	}
+	// Every sheet and table, with what happened to it: nothing is skipped
+	// without a word.
+	set(cellRef(1, row), "Sheets and tables: what was computed, and why not", st.head)
+	row++
+	for i, h := range []string{"sheet or table", "status", "rows", "computed", "reason"} {
+		set(cellRef(1+i, row), h, st.head)
+	}
+	row++
+	for _, sh := range rep.Sheets {
+		set(cellRef(1, row), sh.Name, 0)
+		set(cellRef(2, row), sh.Status, 0)
+		set(cellRef(3, row), sh.Rows, st.int)
+		set(cellRef(4, row), sh.Computed, st.int)
+		set(cellRef(5, row), sh.Reason, 0)
+		row++
+		for _, tb := range rep.Tables {
+			if tb.Sheet != sh.Name {
+				continue
+			}
+			set(cellRef(1, row), "  table "+tb.Range+" ("+tb.Kind+")", 0)
+			set(cellRef(2, row), tb.Status, 0)
+			set(cellRef(3, row), tb.Rows, st.int)
+			set(cellRef(4, row), tb.Computed, st.int)
+			set(cellRef(5, row), tb.Reason, 0)
+			row++
+		}
+	}
 	if werr != nil {
 		return excelErr(res.Path, "sheet "+name, werr)
 	}
