@@ -41,6 +41,7 @@ func (sc *scanCtx) collectSamples(t *table, i, rowNum int, vars map[string]any, 
 		}
 		k := spec.sheet + "|" + colName(spec.qty.col) + "|" + f.id + "|" + u.u.String()
 		samples[k] = append(samples[k], sample{rowNum, spec.qty.col, q})
+		sc.gasKWh(spec.sheet, spec.qty.col, rowNum, f.id, u.u)
 	case kindPeriods:
 		fs, ok1 := vars[spec.fuel.ident].(string)
 		us, ok2 := spec.ctxUnit, true
@@ -238,4 +239,17 @@ func roundSig(x float64) float64 {
 	}
 	p := math.Pow(10, 5-math.Floor(math.Log10(math.Abs(x))))
 	return math.Round(x*p) / p
+}
+
+// gasKWh notes, once per column, natural gas in watt-hours without a basis:
+// gas bills state kWh gross (GCV), while the amount is read on the pack's
+// basis. (Gas suppliers in the UK and EU bill kWh computed with the gross
+// calorific value: common practice.)
+func (sc *scanCtx) gasKWh(sheet string, col, row int, fuelID string, u units.Unit) {
+	if fuelID != "natural_gas" || u.Dim != units.Energy || u.Basis != units.NoBasis || !strings.HasSuffix(u.Symbol, "Wh") || sc.packBasis != units.NCV {
+		return
+	}
+	sc.warn.addOnce("gaskwh|"+sheet+"|"+colName(col), sheet, col, row, SevWarning, CodeUnitBasis,
+		"natural gas in "+u.Symbol+" without a basis is read as NCV (net), the basis of pack "+sc.packName+
+			"; gas bills usually give kWh gross (GCV): write \""+u.Symbol+" GCV\" if these are billed amounts (about 10 % less CO2)")
 }

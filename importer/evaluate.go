@@ -92,6 +92,17 @@ func (sc *scanCtx) evaluate(t *table) error {
 		}
 		t.dataRows++
 		rowNum := int(t.rowNums[i])
+		if len(t.rules) == 0 && spec.headerErr != nil {
+			// No rule could be written (no unit anywhere): each row says so
+			// at its own cell, pointing at the header finding.
+			c := t.slots[0]
+			if spec.qty != nil {
+				c = spec.qty
+			}
+			sc.warn.add(sheet, c.col, rowNum, SevInfo, CodeNotComputed, "not computed: "+spec.headerErr.Message[:strings.IndexByte(spec.headerErr.Message+";", ';')]+
+				" (the error at "+spec.headerErr.Cell+")")
+			continue
+		}
 		if again != nil && again[i] > 0 {
 			c := t.spec.fuel
 			msg := "the same " + quoteText(t.val(i, t.slotOf[c.col]).text) + " again, in another unit: counted once, from row " + itoa(again[i])
@@ -229,6 +240,9 @@ func (sc *scanCtx) headerWarnings(t *table) {
 		}
 		if c.role == roleWideFuel && c.fuelAlias && !sameName(c.hdr.base, c.fuelID) {
 			sc.warn.add(sheet, c.col, hr, SevInfo, CodeFuelAlias, quoteText(c.hdr.base)+" read as "+c.fuelID)
+		}
+		if c.role == roleWideFuel && c.hdr.unitErr == nil && c.unitIdent != "" {
+			sc.gasKWh(sheet, c.col, hr, c.fuelID, c.hdr.unit)
 		}
 		if c.styleGuess && (c.role == roleQuantity || c.role == roleWideFuel || c.role == rolePeriod || c.role == roleCapacity) {
 			sc.warn.add(sheet, c.col, hr, SevInfo, CodeValueTextNumber, "numbers stored as text in "+quoteText(c.hdr.text)+" read with "+c.numStyle.String()+

@@ -39,6 +39,9 @@ func TestWarningsAtCells(t *testing.T) {
 		{"Build plan", "D6", CodeUnitMixed, SevWarning, "MW in 3 rows, kW in 1 row, GW in 1 row"},
 		{"Build plan", "B8", CodeTechUnknown, SevError, `no life-cycle row for technology "battery"`},
 		{"Fuel log", "A20", CodeNotComputed, SevInfo, "a total row: not computed"},
+		// Gas in watt-hours without a basis: bills give kWh gross (common practice).
+		{"Fuel log", "D7", CodeUnitBasis, SevWarning, "natural gas in MWh without a basis is read as NCV"},
+		{"Monthly energy", "B2", CodeUnitBasis, SevWarning, "natural gas in kWh without a basis is read as NCV"},
 	}
 	got := keysOf(rep.Warnings)
 	for _, w := range want {
