@@ -26,7 +26,7 @@ func (sc *scanCtx) collectSamples(t *table, i, rowNum int, vars map[string]any, 
 		if spec.fuel != nil {
 			fs, ok1 = vars[spec.fuel.ident].(string)
 		}
-		unit := spec.qty.hdr.unitTxt
+		unit := spec.qty.hdr.UnitText
 		if spec.unit != nil {
 			us, ok2 := vars[spec.unit.ident].(string)
 			if !ok2 {
@@ -148,7 +148,7 @@ func (sc *scanCtx) checkMixed(t *table) {
 		}
 	}
 	c := t.spec.unit
-	sc.warn.add(t.spec.sheet, c.col, second.first, SevWarning, CodeUnitMixed, "column "+colName(c.col)+" ("+quoteText(c.hdr.text)+") mixes units: "+
+	sc.warn.add(t.spec.sheet, c.col, second.first, SevWarning, CodeUnitMixed, "column "+colName(c.col)+" ("+quoteText(c.hdr.Text)+") mixes units: "+
 		strings.Join(parts, ", ")+"; each row is converted from its own unit (first "+second.sym+" here)")
 }
 

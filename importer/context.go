@@ -39,7 +39,7 @@ func (d *detector) titleContext(t *tableSpec, above []row) {
 		if sc.vocab.Hints(words(s)).Any(tables.HintOutput) {
 			t.output = true
 		}
-		if rateTitle(s) {
+		if tables.RateTitle(s) {
 			t.rateTitle = s // "(Dollars per Million Btu)": the numbers are prices
 			continue
 		}
@@ -48,7 +48,7 @@ func (d *detector) titleContext(t *tableSpec, above []row) {
 		}
 	}
 	for _, s := range append(texts, d.sheet, strings.TrimSuffix(filepath.Base(sc.path), filepath.Ext(sc.path))) {
-		if len(s) > 300 || rateTitle(s) {
+		if len(s) > 300 || tables.RateTitle(s) {
 			continue
 		}
 		if id := sc.phraseFuel(s); id != "" {
@@ -67,7 +67,7 @@ func titleUnit(s string) string {
 		// "(Subset of Table 8.4a; Billion Btu)": each part on its own.
 		for _, part := range strings.FieldsFunc(m[1], func(r rune) bool { return r == ';' || r == ',' }) {
 			part = strings.TrimSpace(part)
-			if h := parseHeader("x (" + part + ")"); h.unitTxt != "" && h.unitErr == nil && isQuantityDim(h.unit) {
+			if h := parseHeader("x (" + part + ")"); h.UnitText != "" && h.UnitErr == nil && isQuantityDim(h.Unit) {
 				return part
 			}
 		}
@@ -76,7 +76,7 @@ func titleUnit(s string) string {
 	for _, lead := range []string{" in ", "unit: ", "units: "} {
 		if i := strings.LastIndex(low, lead); i >= 0 {
 			u := strings.TrimRight(strings.TrimSpace(s[i+len(lead):]), ".")
-			if h := parseHeader("x (" + u + ")"); h.unitTxt != "" && h.unitErr == nil && isQuantityDim(h.unit) {
+			if h := parseHeader("x (" + u + ")"); h.UnitText != "" && h.UnitErr == nil && isQuantityDim(h.Unit) {
 				return u
 			}
 		}
@@ -245,23 +245,6 @@ func sameTexts(a, b *row) bool {
 		}
 	}
 	return n > 0 && 2*same >= n
-}
-
-// rateTitle reports a title that says its numbers are prices or rates:
-// "(Dollars per Million Btu)", "Retail prices, pence per litre". Unlike
-// rateText it ignores slashes, which titles hold in links and dates.
-func rateTitle(s string) bool {
-	if strings.ContainsAny(s, "$€£¥¢") {
-		return true
-	}
-	ws := words(s)
-	for i, w := range ws {
-		// "per month", "per year": the period of amounts, not a rate.
-		if w == "per" && (i+1 >= len(ws) || !tables.Has(ws[i+1:i+2], "day", "week", "month", "quarter", "year", "annum")) {
-			return true
-		}
-	}
-	return tables.Has(ws, "price", "prices", "cost", "costs", "dollars", "cents", "pence", "tariff", "tariffs")
 }
 
 // codeRow reports a row of series codes ("Sourcekey | N9140US2 | N9160US2"):

@@ -1,6 +1,7 @@
 package importer
 
 import (
+	"github.com/fluecell/fluecell/importer/tables"
 	"math"
 	"strings"
 
@@ -121,11 +122,11 @@ func headerLike(r *row) bool {
 		case kText:
 			if _, ok, amb := textNumber(c.text); !ok && !amb {
 				txt++
-			} else if periodHeader(c.text) {
+			} else if tables.PeriodHeader(c.text) {
 				periods++
 			}
 		case kNumber:
-			if c.num == math.Trunc(c.num) && periodHeader(funcs.FormatNumber(c.num)) {
+			if c.num == math.Trunc(c.num) && tables.PeriodHeader(funcs.FormatNumber(c.num)) {
 				periods++
 			}
 		}
@@ -161,14 +162,14 @@ func (sc *scanCtx) keywordHits(r *row) int {
 			continue
 		}
 		h := sc.header(c.text)
-		ws := words(h.base)
+		ws := words(h.Base)
 		if len(ws) > 4 {
 			continue // a sentence, not a header
 		}
 		if hasWord(ws, "fuel", "unit", "units", "uom", "technology", "capacity", "month", "date", "year") || hasWord(ws, qtyWords...) || hasWord(ws, groupWords...) ||
-			h.unitTxt != "" && h.base != h.text && sc.fuel(h.base).err == nil {
+			h.UnitText != "" && h.Base != h.Text && sc.fuel(h.Base).err == nil {
 			n++
-		} else if _, ok := parseCarbonHeader(h.text); ok {
+		} else if _, ok := parseCarbonHeader(h.Text); ok {
 			n++
 		}
 	}
@@ -340,29 +341,29 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 			text = strings.TrimSpace(pre + " " + text)
 		}
 		col := &column{col: c, hdr: parseHeader(text)}
-		if col.hdr.unitTxt == "" && t.ctxUnit != "" {
-			if uh := parseHeader(col.hdr.text + " (" + t.ctxUnit + ")"); uh.unitTxt != "" {
-				uh.text = col.hdr.text
+		if col.hdr.UnitText == "" && t.ctxUnit != "" {
+			if uh := parseHeader(col.hdr.Text + " (" + t.ctxUnit + ")"); uh.UnitText != "" {
+				uh.Text = col.hdr.Text
 				col.hdr = uh
 			}
 		}
-		col.st.hint = sc.vocab.Hints(words(col.hdr.text))
-		if t.unitRow > 0 && col.hdr.unitTxt == "" {
+		col.st.hint = sc.vocab.Hints(words(col.hdr.Text))
+		if t.unitRow > 0 && col.hdr.UnitText == "" {
 			if u := cellAt(rows, c, t.unitRow); u.kind == kText && strings.TrimSpace(u.text) != "" {
 				uh := parseHeader("x (" + u.text + ")")
-				col.hdr.unitTxt, col.hdr.unit, col.hdr.unitErr, col.hdr.percent, col.hdr.scale = uh.unitTxt, uh.unit, uh.unitErr, uh.percent, uh.scale
-				if uh.unitTxt == "" {
+				col.hdr.UnitText, col.hdr.Unit, col.hdr.UnitErr, col.hdr.Percent, col.hdr.Scale = uh.UnitText, uh.Unit, uh.UnitErr, uh.Percent, uh.Scale
+				if uh.UnitText == "" {
 					if _, err := units.Parse(u.text); err != nil {
 						if ue, ok := err.(*units.Error); ok {
-							col.hdr.unitTxt, col.hdr.unitErr = strings.TrimSpace(u.text), ue
+							col.hdr.UnitText, col.hdr.UnitErr = strings.TrimSpace(u.text), ue
 						}
 					}
 				}
 			}
 		}
-		name := col.hdr.base
+		name := col.hdr.Base
 		if name == "" {
-			name = col.hdr.text
+			name = col.hdr.Text
 		}
 		id := identFor(name, c)
 		if sc.isFunction(id) {
@@ -374,7 +375,7 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 		}
 		used[id] = true
 		col.ident = id
-		if col.hdr.unitTxt != "" {
+		if col.hdr.UnitText != "" {
 			col.unitIdent = id + "_unit"
 		}
 		for _, r := range sample {
@@ -444,7 +445,7 @@ func (d *detector) headerFits(hdr *row, sample []*row) bool {
 		c := &hdr.cells[i]
 		switch {
 		case c.kind == kNumber:
-			if !periodHeader(funcs.FormatNumber(c.num)) {
+			if !tables.PeriodHeader(funcs.FormatNumber(c.num)) {
 				return false
 			}
 		case c.kind == kText && strings.TrimSpace(c.text) != "":

@@ -46,7 +46,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 		case strings.HasPrefix(filepath.Base(sc.path), spec.ctxFrom):
 			sev, from = SevWarning, "the file name "+quoteText(spec.ctxFrom)
 		}
-		sc.warn.add(sheet, spec.qty.col, spec.headerRow, sev, CodeFuelAlias, "no fuel column: every row of "+quoteText(spec.qty.hdr.text)+
+		sc.warn.add(sheet, spec.qty.col, spec.headerRow, sev, CodeFuelAlias, "no fuel column: every row of "+quoteText(spec.qty.hdr.Text)+
 			" is read as "+spec.ctxFuel+", named by "+from+"; if that is not the fuel, name it in a mapping (fluecell inspect --write-mapping)")
 	}
 	for _, sl := range t.sections {
@@ -222,61 +222,61 @@ func (sc *scanCtx) headerWarnings(t *table) {
 		}
 	}
 	for _, c := range spec.cols {
-		if c.hdr.unitErr != nil && (used[c] || c.role == roleWideFuel || c.role == roleQuantity || c.role == roleCapacity) {
-			msg := c.hdr.unitErr.Msg + " (in the header " + quoteText(c.hdr.text) + ")"
+		if c.hdr.UnitErr != nil && (used[c] || c.role == roleWideFuel || c.role == roleQuantity || c.role == roleCapacity) {
+			msg := c.hdr.UnitErr.Msg + " (in the header " + quoteText(c.hdr.Text) + ")"
 			if c.role == roleWideFuel {
 				msg += "; the column is left out of the totals"
 			} else {
 				msg += "; no row is computed from it"
 			}
-			sc.warn.add(sheet, c.col, hr, SevError, c.hdr.unitErr.Code, msg)
+			sc.warn.add(sheet, c.col, hr, SevError, c.hdr.UnitErr.Code, msg)
 			continue
 		}
-		if used[c] && c.hdr.unitTxt != "" {
+		if used[c] && c.hdr.UnitText != "" {
 			power := c.role == roleCapacity
-			if _, ok := sc.checkUnit(t, c, c.hdr.unitTxt, c.col, hr, power); !ok {
+			if _, ok := sc.checkUnit(t, c, c.hdr.UnitText, c.col, hr, power); !ok {
 				c.unitBad = true
 			}
 		}
-		if c.role == roleWideFuel && c.fuelAlias && !sameName(c.hdr.base, c.fuelID) {
-			sc.warn.add(sheet, c.col, hr, SevInfo, CodeFuelAlias, quoteText(c.hdr.base)+" read as "+c.fuelID)
+		if c.role == roleWideFuel && c.fuelAlias && !sameName(c.hdr.Base, c.fuelID) {
+			sc.warn.add(sheet, c.col, hr, SevInfo, CodeFuelAlias, quoteText(c.hdr.Base)+" read as "+c.fuelID)
 		}
-		if c.role == roleWideFuel && c.hdr.unitErr == nil && c.unitIdent != "" {
-			sc.gasKWh(sheet, c.col, hr, c.fuelID, c.hdr.unit)
+		if c.role == roleWideFuel && c.hdr.UnitErr == nil && c.unitIdent != "" {
+			sc.gasKWh(sheet, c.col, hr, c.fuelID, c.hdr.Unit)
 		}
 		if c.styleGuess && (c.role == roleQuantity || c.role == roleWideFuel || c.role == rolePeriod || c.role == roleCapacity) {
-			sc.warn.add(sheet, c.col, hr, SevInfo, CodeValueTextNumber, "numbers stored as text in "+quoteText(c.hdr.text)+" read with "+c.numStyle.String()+
+			sc.warn.add(sheet, c.col, hr, SevInfo, CodeValueTextNumber, "numbers stored as text in "+quoteText(c.hdr.Text)+" read with "+c.numStyle.String()+
 				": every such value there reads that way (\"20,523\" as 20523); set the column's number style in a mapping if they are decimals")
 		}
 		if c.biogenic {
-			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.text)+" is a biogenic fuel: its CO2 is a memo item, reported apart from fossil CO2, so the column is left out of the totals")
+			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.Text)+" is a biogenic fuel: its CO2 is a memo item, reported apart from fossil CO2, so the column is left out of the totals")
 		}
 		if c.sameAs != nil {
-			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.text)+" gives "+c.sameAs.fuelID+" again, in "+c.hdr.unitTxt+
-				": counted once, from "+quoteText(c.sameAs.hdr.text)+" ("+colName(c.sameAs.col)+")")
+			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.Text)+" gives "+c.sameAs.fuelID+" again, in "+c.hdr.UnitText+
+				": counted once, from "+quoteText(c.sameAs.hdr.Text)+" ("+colName(c.sameAs.col)+")")
 		}
 
-		if c.role == roleWideFuel && c.unitIdent == "" && c.hdr.unitErr == nil {
-			sc.warn.add(sheet, c.col, hr, SevError, CodeUnitUnknown, "no unit for "+quoteText(c.hdr.text)+": write it in the header, e.g. "+quoteText(c.hdr.base+" (L)")+"; the column is left out of the totals")
+		if c.role == roleWideFuel && c.unitIdent == "" && c.hdr.UnitErr == nil {
+			sc.warn.add(sheet, c.col, hr, SevError, CodeUnitUnknown, "no unit for "+quoteText(c.hdr.Text)+": write it in the header, e.g. "+quoteText(c.hdr.Base+" (L)")+"; the column is left out of the totals")
 		}
 	}
 	if spec.kind == kindWide {
 		for _, c := range spec.cols {
-			if c.role != roleNone || !c.numeric || c.hdr.unitTxt == "" || !isQuantityDim(c.hdr.unit) || c.sameAs != nil || c.biogenic || c.partOf != nil {
+			if c.role != roleNone || !c.numeric || c.hdr.UnitText == "" || !isQuantityDim(c.hdr.Unit) || c.sameAs != nil || c.biogenic || c.partOf != nil {
 				continue
 			}
-			ws := words(c.hdr.base)
+			ws := words(c.hdr.Base)
 			if hasWord(ws, "total", "totals", "sum", "all", "month", "year", "period") {
 				continue
 			}
 			if hasWord(ws, "electricity", "electric", "grid", "power", "heat", "steam", "cooling") {
-				sc.warn.add(sheet, c.col, hr, SevInfo, CodeFuelUnknown, quoteText(c.hdr.text)+
+				sc.warn.add(sheet, c.col, hr, SevInfo, CodeFuelUnknown, quoteText(c.hdr.Text)+
 					" is purchased energy, not a fuel burned on site (Scope 2, which needs the supplier's or the grid's factor): the column is left out of the totals")
 				continue
 			}
-			msg := "column " + quoteText(c.hdr.text) + " has a unit but names no known fuel"
-			if f := sc.fuel(c.hdr.base); f.err != nil {
-				msg = sc.fuelMessage(c.hdr.base)
+			msg := "column " + quoteText(c.hdr.Text) + " has a unit but names no known fuel"
+			if f := sc.fuel(c.hdr.Base); f.err != nil {
+				msg = sc.fuelMessage(c.hdr.Base)
 			}
 			sc.warn.add(sheet, c.col, hr, SevWarning, CodeFuelUnknown, msg+"; the column is left out of the totals")
 		}
@@ -339,11 +339,11 @@ func (sc *scanCtx) wideFactors(t *table) map[*column][2]float64 {
 	}
 	out := map[*column][2]float64{}
 	for _, c := range t.spec.wide {
-		if c.unitIdent == "" || c.hdr.unitErr != nil || c.unitBad {
+		if c.unitIdent == "" || c.hdr.UnitErr != nil || c.unitBad {
 			continue
 		}
-		a, err1 := sc.e.CallValues("fuel_co2", c.fuelID, 1.0, c.hdr.unitTxt)
-		b, err2 := sc.e.CallValues("fuel_co2e", c.fuelID, 1.0, c.hdr.unitTxt)
+		a, err1 := sc.e.CallValues("fuel_co2", c.fuelID, 1.0, c.hdr.UnitText)
+		b, err2 := sc.e.CallValues("fuel_co2e", c.fuelID, 1.0, c.hdr.UnitText)
 		if err1 == nil && err2 == nil {
 			out[c] = [2]float64{a.Value, b.Value}
 		}
@@ -394,12 +394,12 @@ func (sc *scanCtx) rowTotals(t *table, i, rowNum int, vars map[string]any, wideK
 			if !ok || !isNum || x == 0 {
 				continue
 			}
-			if c.hdr.scale != 0 {
-				x *= c.hdr.scale // "'000 L", "Million Cubic Feet": the rule scales it too
+			if c.hdr.Scale != 0 {
+				x *= c.hdr.Scale // "'000 L", "Million Cubic Feet": the rule scales it too
 			}
-			if c.hdr.flow && c.hdr.flowDay > 0 {
+			if c.hdr.Flow && c.hdr.FlowDays > 0 {
 				d, _ := vars[periodDaysIdent].(float64)
-				x *= d / c.hdr.flowDay
+				x *= d / c.hdr.FlowDays
 			}
 			add(t.byFuel, &t.fuelOrd, c.fuelID, x*k[0], x*k[1])
 		}
@@ -453,10 +453,10 @@ func (sc *scanCtx) variantFor(t *table, r *rule, i int, good map[string]bool) *r
 			continue
 		}
 		rowNum := int(t.rowNums[i])
-		msg := "empty " + strings.ToLower(c.hdr.base) + ": the technology's default is used (see " + SheetSources + ")"
+		msg := "empty " + strings.ToLower(c.hdr.Base) + ": the technology's default is used (see " + SheetSources + ")"
 		if k+1 < len(r.optional) {
 			if next := r.optional[k+1]; good[next.ident] {
-				msg = "empty " + strings.ToLower(c.hdr.base) + ": the technology's default capacity factor and lifetime are used, not the lifetime given in " + cellRef(next.col, rowNum)
+				msg = "empty " + strings.ToLower(c.hdr.Base) + ": the technology's default capacity factor and lifetime are used, not the lifetime given in " + cellRef(next.col, rowNum)
 			}
 		}
 		sc.warn.addOnce("optional|"+t.spec.sheet+"|"+colName(c.col)+"|"+itoa(rowNum), t.spec.sheet, c.col, rowNum, SevInfo, CodeValueNotNumber, msg)

@@ -3,7 +3,6 @@ package importer
 import (
 	"math"
 	"strings"
-	"unicode"
 
 	"github.com/fluecell/fluecell/funcs/units"
 	"github.com/fluecell/fluecell/importer/tables"
@@ -34,7 +33,7 @@ func (d *detector) count(col *column, c cell) {
 	if c.isBlank() && !c.noCache {
 		return
 	}
-	if c.kind == kText && missingMarker(c.text) {
+	if c.kind == kText && tables.Missing(c.text) {
 		return // "Not Available", "NA", "--": no value, not text
 	}
 	st.nonEmpty++
@@ -79,7 +78,7 @@ func (d *detector) count(col *column, c cell) {
 		if u.err == nil && u.u.Dim == units.Power {
 			st.power++
 		}
-	} else if rateText(c.text) || sc.vocab.Hints(words(c.text)).Any(tables.HintCount) {
+	} else if tables.RateText(c.text) || sc.vocab.Hints(words(c.text)).Any(tables.HintCount) {
 		st.rate++ // "$ per Gallon", "Consumers": a unit column's other values
 	}
 	if sc.tech(c.text).err == nil {
@@ -97,16 +96,6 @@ func (d *detector) countNumber(st *colStats, x float64) {
 	if x == math.Trunc(x) && (x >= 1900 && x <= 2100 || x >= 190001 && x <= 210013) {
 		st.years++
 	}
-}
-
-// rateText reports a text that states a rate or a price: "$ per Gallon",
-// "Cents/kWh", "kg CO2 per unit", "pence per litre".
-func rateText(s string) bool {
-	if strings.ContainsAny(s, "/$€£¥¢") {
-		return true
-	}
-	ws := words(s)
-	return tables.Has(ws, "per", "cents", "pence", "dollars", "price", "cost")
 }
 
 // nameKind says what a cell's text names.
@@ -168,7 +157,7 @@ func (sc *scanCtx) readFuelName(s string) fuelRef {
 		return fuelRef{}
 	}
 	h := sc.vocab.Hints(ws)
-	if h.Any(tables.HintRate) || rateText(t) {
+	if h.Any(tables.HintRate) || tables.RateText(t) {
 		return fuelRef{kind: nameRate, why: "a price or rate"}
 	}
 	if h.Any(tables.HintTotal) {
@@ -178,7 +167,7 @@ func (sc *scanCtx) readFuelName(s string) fuelRef {
 		return fuelRef{kind: nameNotFuel, why: "production, trade or stocks, not fuel burned"}
 	}
 	// A word broken over a line with a hyphen: "Gas-oline", "Elec-tricity".
-	if j := dehyphen(t); j != t {
+	if j := tables.Dehyphen(t); j != t {
 		if f := sc.fuel(j); f.err == nil {
 			return fuelRef{kind: nameFuel, name: j, id: f.id, alias: true}
 		}
@@ -194,7 +183,7 @@ func (sc *scanCtx) readFuelName(s string) fuelRef {
 				continue // "no", "of": never a fuel on its own inside a phrase
 			}
 			if f := sc.fuel(cand); f.err == nil {
-				if misspells(ws[:i], f.id) || misspells(ws[i+n:], f.id) {
+				if tables.Misspells(ws[:i], f.id) || tables.Misspells(ws[i+n:], f.id) {
 					return fuelRef{}
 				}
 				if n == 1 && genericFuelWord[cand] && (sc.unknownWord(ws, i-1) || sc.unknownWord(ws, i+1)) {
@@ -211,74 +200,6 @@ func (sc *scanCtx) readFuelName(s string) fuelRef {
 		return fuelRef{kind: nameNotFuel, why: "not a fuel burned on site"}
 	}
 	return fuelRef{}
-}
-
-// missingMarker reports a cell text that statistics write for a value they
-// do not give: "Not Available", "NA", "N/A", "--", "(D)" (withheld), "W",
-// "(NA)", "Not Applicable", "-".
-func missingMarker(s string) bool {
-	switch strings.ToLower(strings.TrimSpace(s)) {
-	case "not available", "not applicable", "na", "n/a", "(na)", "--", "-", "–", "—", "(d)", "w", "(w)", "(s)", "nm", "x", "..", "...", "*", "null", "none",
-		"[]", "[r]", "[p]", "[e]", "(r)", "(p)", "(e)", "r", "p", "e", "– –", "— —", "\u0096", "\u0096 \u0096":
-		return true
-	}
-	return false
-}
-
-// dehyphen joins words broken with a hyphen before a lower-case letter, as
-// narrow statistics columns print them: "Gas-oline" gives "Gasoline".
-func dehyphen(s string) string {
-	var b strings.Builder
-	rs := []rune(s)
-	for i, r := range rs {
-		if r == '-' && i > 0 && i+1 < len(rs) && unicode.IsLetter(rs[i-1]) && unicode.IsLower(rs[i+1]) {
-			continue
-		}
-		b.WriteRune(r)
-	}
-	return b.String()
-}
-
-// misspells reports whether one of the words is a near miss of a word of
-// the fuel id (one letter off for words of five or six letters, two for
-// longer ones): "natral" for natural_gas.
-func misspells(ws []string, id string) bool {
-	for _, w := range ws {
-		if len(w) < 5 {
-			continue // "coke" beside coal is another word, not a typo
-		}
-		limit := 1
-		if len(w) >= 7 {
-			limit = 2
-		}
-		for _, x := range strings.Split(id, "_") {
-			if len(x) >= 5 && w != x && levenshtein(w, x) <= limit {
-				return true
-			}
-		}
-	}
-	return false
-}
-
-// levenshtein is the edit distance of two short words, in bytes.
-func levenshtein(a, b string) int {
-	prev := make([]int, len(b)+1)
-	cur := make([]int, len(b)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(a); i++ {
-		cur[0] = i
-		for j := 1; j <= len(b); j++ {
-			cost := 1
-			if a[i-1] == b[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(b)]
 }
 
 // decideStyle sets the column's number style from its numbers stored as
@@ -321,7 +242,7 @@ func (sc *scanCtx) unknownWord(ws []string, i int) bool {
 		return false
 	}
 	w := ws[i]
-	if allDigits(w) || sc.vocab.Hints(ws[i:i+1]) != 0 {
+	if tables.AllDigits(w) || sc.vocab.Hints(ws[i:i+1]) != 0 {
 		return false
 	}
 	switch w {

@@ -1,6 +1,7 @@
 package importer
 
 import (
+	"github.com/fluecell/fluecell/importer/tables"
 	"path/filepath"
 	"testing"
 )
@@ -28,13 +29,13 @@ func TestWithheldValue(t *testing.T) {
 
 func TestMissingMarker(t *testing.T) {
 	for _, s := range []string{"Not Available", "NA", "n/a", "--", "(D)", "W"} {
-		if !missingMarker(s) {
-			t.Errorf("missingMarker(%q) = false", s)
+		if !tables.Missing(s) {
+			t.Errorf("tables.Missing(%q) = false", s)
 		}
 	}
 	for _, s := range []string{"Natural gas", "12", "pending"} {
-		if missingMarker(s) {
-			t.Errorf("missingMarker(%q) = true", s)
+		if tables.Missing(s) {
+			t.Errorf("tables.Missing(%q) = true", s)
 		}
 	}
 }

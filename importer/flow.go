@@ -2,7 +2,6 @@ package importer
 
 import (
 	"math"
-	"regexp"
 	"strings"
 	"time"
 )
@@ -16,28 +15,6 @@ import (
 // periodDaysIdent is the variable the rules of a table with flows read: the
 // days each row covers.
 const periodDaysIdent = "period_days"
-
-var reFlow = regexp.MustCompile(`(?i)^(.+?)\s*(?:per|/)\s*(day|d|year|yr|annum|month|week)$`)
-
-// flowUnit splits "Thousand Barrels per Day" into the amount unit and the
-// days one unit of time holds (1, 7, 365; a month is 0: its own length).
-func flowUnit(u string) (amount string, days float64, ok bool) {
-	m := reFlow.FindStringSubmatch(strings.TrimSpace(u))
-	if m == nil {
-		return "", 0, false
-	}
-	switch strings.ToLower(m[2]) {
-	case "day", "d":
-		days = 1
-	case "week":
-		days = 7
-	case "year", "yr", "annum":
-		days = 365
-	case "month":
-		days = 0
-	}
-	return strings.TrimSpace(m[1]), days, true
-}
 
 // rowDate reads the date of a row from its date column: an Excel date
 // serial, YYYYMM, or a text such as "Jan 2023", "Nov 09, 1990", "2023-01".

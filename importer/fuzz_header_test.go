@@ -28,25 +28,25 @@ func FuzzParseHeader(f *testing.F) {
 	}
 	f.Fuzz(func(t *testing.T, raw string) {
 		h := parseHeader(raw)
-		if h.text != cleanHeader(raw) {
-			t.Fatalf("parseHeader(%q).text = %q, want the cleaned %q", raw, h.text, cleanHeader(raw))
+		if h.Text != cleanHeader(raw) {
+			t.Fatalf("parseHeader(%q).text = %q, want the cleaned %q", raw, h.Text, cleanHeader(raw))
 		}
-		if h.scale != 1 && h.scale != 1e3 && h.scale != 1e6 {
-			t.Fatalf("parseHeader(%q).scale = %v, want 1, 1e3 or 1e6", raw, h.scale)
+		if h.Scale != 1 && h.Scale != 1e3 && h.Scale != 1e6 {
+			t.Fatalf("parseHeader(%q).scale = %v, want 1, 1e3 or 1e6", raw, h.Scale)
 		}
-		if h.unitTxt != "" && !strings.Contains(h.text, h.unitTxt) {
-			t.Fatalf("parseHeader(%q): unit %q is not in %q", raw, h.unitTxt, h.text)
+		if h.UnitText != "" && !strings.Contains(h.Text, h.UnitText) {
+			t.Fatalf("parseHeader(%q): unit %q is not in %q", raw, h.UnitText, h.Text)
 		}
-		if h.unitTxt != "" && h.base != h.text && !madeOf(h.text, h.base, h.unitTxt) {
-			t.Fatalf("parseHeader(%q): %q is not its name %q and its unit %q", raw, h.text, h.base, h.unitTxt)
+		if h.UnitText != "" && h.Base != h.Text && !madeOf(h.Text, h.Base, h.UnitText) {
+			t.Fatalf("parseHeader(%q): %q is not its name %q and its unit %q", raw, h.Text, h.Base, h.UnitText)
 		}
-		if h.unitErr != nil && (h.unitTxt == "" || h.unit.Symbol != "") {
-			t.Fatalf("parseHeader(%q): unusable unit %q read as %q", raw, h.unitTxt, h.unit.Symbol)
+		if h.UnitErr != nil && (h.UnitText == "" || h.Unit.Symbol != "") {
+			t.Fatalf("parseHeader(%q): unusable unit %q read as %q", raw, h.UnitText, h.Unit.Symbol)
 		}
-		if h.percent && h.unitTxt != "" || h.flow && h.unitTxt == "" || h.flowDay < 0 {
+		if h.Percent && h.UnitText != "" || h.Flow && h.UnitText == "" || h.FlowDays < 0 {
 			t.Fatalf("parseHeader(%q) = %+v: percent, flow and unit disagree", raw, h)
 		}
-		if again := parseHeader(h.text); !reflect.DeepEqual(again, h) {
+		if again := parseHeader(h.Text); !reflect.DeepEqual(again, h) {
 			t.Fatalf("parseHeader(%q) = %+v, but parseHeader of its text = %+v", raw, h, again)
 		}
 	})

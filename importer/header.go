@@ -10,139 +10,18 @@ import (
 	"github.com/fluecell/fluecell/importer/tables"
 )
 
-// headerInfo is what a header cell says: the name, the identifier rules use
-// and a unit written in it ("Quantity (MWh)", "Diesel [L]", "Gas, MMBtu HHV").
-type headerInfo struct {
-	text    string       // cleaned header text
-	base    string       // the header without its unit
-	unitTxt string       // the unit as written, "" when none
-	unit    units.Unit   // parsed unit (zero when unitErr is set)
-	unitErr *units.Error // an ambiguous or otherwise unusable unit in the header
-	percent bool         // the header says the values are percentages: "(%)"
-	flow    bool         // the unit is per day, week, month or year: an amount only over a dated row's period (flow.go)
-	flowDay float64      // days in the flow's time unit (1, 7, 365; 0 for a month)
-	scale   float64      // values in thousands ('000 L): 1000; else 1
-}
+// headerInfo is a header as the tables stage reads it (tables.Header).
+type headerInfo = tables.Header
 
-// cleanHeader folds white space (line breaks are common in headers),
-// footnote marks, plural markers and the subscript two of "CO₂"
-// (tables.Clean).
+// parseHeader splits a header into name and unit (tables.ParseHeader).
+func parseHeader(raw string) headerInfo { return tables.ParseHeader(raw) }
+
+// cleanHeader folds white space, footnote marks, plural markers and the
+// subscript two of "CO₂" (tables.Clean).
 func cleanHeader(s string) string { return tables.Clean(s) }
 
-var (
-	reParenUnit = regexp.MustCompile(`^(.*?)\s*[(\[]\s*([^()\[\]]+?)\s*[)\]]\s*$`)
-	reAnyParen  = regexp.MustCompile(`[(\[]\s*([^()\[\]]+?)\s*[)\]]`)
-	reMidUnit   = regexp.MustCompile(`^(.*?)\s*[(\[]\s*([^()\[\]]+?)\s*[)\]]\s*(.*)$`)
-	reSepUnit   = regexp.MustCompile(`^(.+?)\s*(?:,|\s[-–—]|\sin|:)\s+(\S.*)$`)
-)
-
-// parseHeader splits a header into name and unit. A unit counts only where
-// it parses, or where it is a known ambiguous spelling ("ton", "MT",
-// "MBtu"): then unitErr says so and the rows are not computed from it.
-func parseHeader(raw string) headerInfo {
-	h := headerInfo{text: cleanHeader(raw), scale: 1}
-	h.base = h.text
-	try := func(base, u string, anyDim bool) bool {
-		u = strings.TrimSpace(u)
-		// A magnitude is taken off as a scale ("'000 L" is L times 1000)
-		// where the rest is a unit; a unit that carries its magnitude
-		// ("Million Cubic Feet" = MMcf) is read whole.
-		u2, scale := splitScale(u)
-		if _, err := units.Parse(u2); err == nil || scale == 1 {
-			u = u2
-		} else if _, err := units.Parse(u); err == nil {
-			scale = 1
-		} else {
-			u = u2
-		}
-		if u == "" {
-			return false
-		}
-		h.scale = scale
-		if u == "%" || strings.EqualFold(u, "percent") {
-			h.base, h.percent = base, true
-			return true
-		}
-		pu, err := units.Parse(u)
-		if err != nil {
-			if amount, days, ok := flowUnit(u); ok {
-				if fu, ferr := units.Parse(amount); ferr == nil && (fu.Dim == units.Energy || fu.Dim == units.Mass || fu.Dim == units.Volume) {
-					h.base, h.unitTxt, h.unit, h.flow, h.flowDay = base, amount, fu, true, days
-					return true
-				}
-			}
-			ue, ok := err.(*units.Error)
-			if ok && (ue.Code == units.CodeAmbiguous || ue.Code == units.CodeBasis) {
-				h.base, h.unitTxt, h.unitErr = base, u, ue
-				return true
-			}
-			h.scale = 1
-			return false
-		}
-		if !anyDim && pu.Dim != units.Energy && pu.Dim != units.Mass && pu.Dim != units.Volume && pu.Dim != units.Power {
-			h.scale = 1
-			return false
-		}
-		h.base, h.unitTxt, h.unit = base, u, pu
-		return true
-	}
-	if m := reParenUnit.FindStringSubmatch(h.text); m != nil && try(m[1], m[2], true) {
-		return h
-	}
-	if m := reSepUnit.FindStringSubmatch(h.text); m != nil && try(m[1], m[2], true) {
-		return h
-	}
-	// A unit in brackets inside the header, words after it:
-	// "Total consumption (GWh): Domestic".
-	if m := reMidUnit.FindStringSubmatch(h.text); m != nil && m[3] != "" && try(strings.TrimSpace(m[1]+" "+m[3]), m[2], true) {
-		return h
-	}
-	// The last two to four words: "... Consumption  Million Cubic Feet",
-	// "coal thousand megawatthours"; then the last word alone.
-	if fs := strings.Fields(h.text); len(fs) >= 2 {
-		for n := min(4, len(fs)-1); n >= 1; n-- {
-			u := strings.Join(fs[len(fs)-n:], " ")
-			if n == 1 && len(u) <= 2 {
-				continue
-			}
-			if try(strings.Join(fs[:len(fs)-n], " "), u, false) {
-				return h
-			}
-		}
-	}
-	// snake_case with the unit as its last part: "NaturalGasUse_therms".
-	if i := strings.LastIndexByte(h.text, '_'); i > 0 && i < len(h.text)-1 {
-		if try(h.text[:i], h.text[i+1:], false) {
-			return h
-		}
-	}
-	// The whole header is a unit: "Litres", "kWh", "MMBtu".
-	if u, err := units.Parse(h.text); err == nil && (u.Dim == units.Energy || u.Dim == units.Mass || u.Dim == units.Volume) && len(h.text) > 1 {
-		h.unitTxt, h.unit = h.text, u
-	}
-	return h
-}
-
-// splitScale takes a thousands or millions marker off a header unit:
-// "'000 L", "000s litres", "thousand m3", "m3 '000", "x1000 kWh", "million
-// kWh". The scale is 1 when there is none.
-func splitScale(u string) (string, float64) {
-	low := strings.ToLower(u)
-	marks := []struct {
-		mark  string
-		scale float64
-	}{{"'000s", 1e3}, {"'000", 1e3}, {"’000", 1e3}, {"000s", 1e3}, {"000", 1e3}, {"thousands of", 1e3}, {"thousand", 1e3},
-		{"x1000", 1e3}, {"×1000", 1e3}, {"x 1000", 1e3}, {"millions of", 1e6}, {"million", 1e6}, {"mln", 1e6}, {"x1e6", 1e6}}
-	for _, m := range marks {
-		if strings.HasPrefix(low, m.mark+" ") {
-			return strings.TrimSpace(u[len(m.mark):]), m.scale
-		}
-		if strings.HasSuffix(low, " "+m.mark) {
-			return strings.TrimSpace(u[:len(u)-len(m.mark)]), m.scale
-		}
-	}
-	return u, 1
-}
+// reAnyParen finds each bracketed part of a text (tables.AnyParen).
+var reAnyParen = tables.AnyParen
 
 // exprWords may not be identifiers of an expression.
 var exprWords = map[string]bool{"in": true, "not": true, "and": true, "or": true, "true": true, "false": true,
@@ -297,7 +176,7 @@ func parseCarbonHeader(text string) (carbonCol, bool) {
 			return carbonCol{}, false
 		}
 		h := parseHeader(text)
-		if h.unitTxt == "" {
+		if h.UnitText == "" {
 			// Look for a unit word anywhere: "CO2 emissions tonnes".
 			for _, w := range ws {
 				if u, err := units.ParseAs(w, units.Mass); err == nil {
@@ -309,7 +188,7 @@ func parseCarbonHeader(text string) (carbonCol, bool) {
 				}
 			}
 		} else {
-			c.unitTxt, c.scale = h.unitTxt, h.scale
+			c.unitTxt, c.scale = h.UnitText, h.Scale
 		}
 	} else {
 		return carbonCol{}, false

@@ -77,8 +77,8 @@ func TestParseHeader(t *testing.T) {
 		if c.scale == 0 {
 			c.scale = 1
 		}
-		if h.base != c.base || h.unitTxt != c.unit || (h.unitErr != nil) != c.bad || h.percent != c.pct || h.scale != c.scale {
-			t.Errorf("parseHeader(%q) = base %q unit %q err %v pct %v", c.in, h.base, h.unitTxt, h.unitErr, h.percent)
+		if h.Base != c.base || h.UnitText != c.unit || (h.UnitErr != nil) != c.bad || h.Percent != c.pct || h.Scale != c.scale {
+			t.Errorf("parseHeader(%q) = base %q unit %q err %v pct %v", c.in, h.Base, h.UnitText, h.UnitErr, h.Percent)
 		}
 	}
 }

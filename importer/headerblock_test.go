@@ -30,9 +30,9 @@ func TestParseHeaderSpellings(t *testing.T) {
 	}
 	for _, c := range cases {
 		h := parseHeader(c.in)
-		if h.base != c.base || h.unitTxt != c.unit || h.scale != c.scale || h.unitErr != nil {
+		if h.Base != c.base || h.UnitText != c.unit || h.Scale != c.scale || h.UnitErr != nil {
 			t.Errorf("parseHeader(%q) = base %q unit %q scale %v err %v, want base %q unit %q scale %v",
-				c.in, h.base, h.unitTxt, h.scale, h.unitErr, c.base, c.unit, c.scale)
+				c.in, h.Base, h.UnitText, h.Scale, h.UnitErr, c.base, c.unit, c.scale)
 		}
 	}
 }

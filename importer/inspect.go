@@ -203,8 +203,8 @@ func whyRole(c *column) string {
 		return also(fmt.Sprintf("%d of %d sampled texts name fuels", st.fuel, st.text), h.Any(tables.HintFuel), "the header says fuel")
 	case roleQuantity:
 		s := "numbers"
-		if c.hdr.unitTxt != "" {
-			s += " in " + c.hdr.unitTxt
+		if c.hdr.UnitText != "" {
+			s += " in " + c.hdr.UnitText
 		}
 		return also(s, h.Any(tables.HintQty), "the header names an amount")
 	case roleUnit:
@@ -216,7 +216,7 @@ func whyRole(c *column) string {
 	case roleTech:
 		return fmt.Sprintf("%d of %d sampled texts name technologies", st.tech, st.text)
 	case roleCapacity:
-		return also("numbers", c.hdr.unitTxt != "", "a unit of power in the header")
+		return also("numbers", c.hdr.UnitText != "", "a unit of power in the header")
 	case roleCF:
 		return "the header names a capacity factor"
 	case roleLifetime:
@@ -231,7 +231,7 @@ func whyRole(c *column) string {
 	switch {
 	case c.partOf != nil:
 		return "a part of " + colName(c.partOf.col) + ", the total of its fuel"
-	case h.Any(tables.HintRate) || moneyHeader(c.hdr.text):
+	case h.Any(tables.HintRate) || moneyHeader(c.hdr.Text):
 		return "a price or rate"
 	case h.Any(tables.HintTotal):
 		return "a total"

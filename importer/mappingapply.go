@@ -101,7 +101,7 @@ func (run *mappingRun) apply(d *detector, t *tableSpec, mt *mapTable) error {
 	for _, mc := range mt.cols {
 		found := ""
 		if c := t.colAt(mc.col); c != nil {
-			found = c.hdr.text
+			found = c.hdr.Text
 		}
 		if !strings.EqualFold(cleanHeader(found), cleanHeader(mc.header)) {
 			want, what := "header "+quoteText(mc.header), "an empty cell"
@@ -167,7 +167,7 @@ func (run *mappingRun) setRole(path string, t *tableSpec, c *column, mt *mapTabl
 	case roleLifetime:
 		t.life = c
 	case roleExisting:
-		cc, ok := parseCarbonHeader(c.hdr.text)
+		cc, ok := parseCarbonHeader(c.hdr.Text)
 		if !ok {
 			return run.errorf(path, "%s (%s): role existing-carbon needs a header naming a carbon figure and its unit, e.g. \"CO2 (kg)\" or \"tCO2e\"",
 				where(t, c.col), mc.at)
@@ -189,19 +189,19 @@ func (run *mappingRun) setRole(path string, t *tableSpec, c *column, mt *mapTabl
 	switch {
 	case mc.unit != "":
 		setHeaderUnit(c, mc.unit)
-	case mt.unit != "" && c.hdr.unitTxt == "" && c.hdr.unitErr == nil:
+	case mt.unit != "" && c.hdr.UnitText == "" && c.hdr.UnitErr == nil:
 		setHeaderUnit(c, mt.unit)
 	}
 	if mc.basis != units.NoBasis {
-		if c.hdr.unitTxt == "" || c.hdr.unitErr != nil || c.hdr.unit.Dim != units.Energy || c.hdr.unit.Basis != units.NoBasis {
+		if c.hdr.UnitText == "" || c.hdr.UnitErr != nil || c.hdr.Unit.Dim != units.Energy || c.hdr.Unit.Basis != units.NoBasis {
 			return run.errorf(path, "%s (%s): basis %s applies to an energy unit without a basis, and the column's unit is %s; give the unit with its basis in \"unit\" instead",
 				where(t, c.col), mc.at, mc.basis, unitDesc(c))
 		}
-		scale := c.hdr.scale
-		setHeaderUnit(c, c.hdr.unitTxt+" "+mc.basis.String())
-		c.hdr.scale = scale
+		scale := c.hdr.Scale
+		setHeaderUnit(c, c.hdr.UnitText+" "+mc.basis.String())
+		c.hdr.Scale = scale
 	}
-	if c.hdr.unitTxt != "" && c.unitIdent == "" {
+	if c.hdr.UnitText != "" && c.unitIdent == "" {
 		id := c.ident + "_unit"
 		if tableIdents(t)[id] {
 			return run.errorf(path, "%s (%s): the unit cannot be named %s, a column of that name exists: map that column to role none or give the table's unit",
@@ -213,16 +213,16 @@ func (run *mappingRun) setRole(path string, t *tableSpec, c *column, mt *mapTabl
 }
 
 func unitDesc(c *column) string {
-	if c.hdr.unitTxt == "" {
+	if c.hdr.UnitText == "" {
 		return "not given"
 	}
-	return quoteText(c.hdr.unitTxt)
+	return quoteText(c.hdr.UnitText)
 }
 
 // setHeaderUnit replaces the unit a column's header states.
 func setHeaderUnit(c *column, unit string) {
 	h := parseHeader("x (" + unit + ")")
-	c.hdr.unitTxt, c.hdr.unit, c.hdr.unitErr, c.hdr.percent, c.hdr.scale = h.unitTxt, h.unit, h.unitErr, h.percent, h.scale
+	c.hdr.UnitText, c.hdr.Unit, c.hdr.UnitErr, c.hdr.Percent, c.hdr.Scale = h.UnitText, h.Unit, h.UnitErr, h.Percent, h.Scale
 	c.unitBad = false
 }
 

@@ -188,9 +188,9 @@ func (p *mapParser) unit(s, at string) error {
 	}
 	h := parseHeader("x (" + s + ")")
 	switch {
-	case h.unitErr != nil:
-		return p.fail(at, "%s", h.unitErr.Msg)
-	case h.unitTxt == "" || h.percent:
+	case h.UnitErr != nil:
+		return p.fail(at, "%s", h.UnitErr.Msg)
+	case h.UnitText == "" || h.Percent:
 		msg := "not a unit"
 		if _, err := units.Parse(s); err != nil {
 			msg = err.Error()

@@ -30,7 +30,7 @@ func (d *detector) assignRoles(t *tableSpec) {
 	rows := t.sampled
 	// Existing carbon columns first: "CO2 (kg)" must not read as a quantity.
 	for _, c := range t.cols {
-		if cc, ok := parseCarbonHeader(c.hdr.text); ok && (c.numeric || c.st.nonEmpty == 0) {
+		if cc, ok := parseCarbonHeader(c.hdr.Text); ok && (c.numeric || c.st.nonEmpty == 0) {
 			c.role, c.carbon = roleExisting, cc
 			t.existing = append(t.existing, c)
 		}
@@ -76,7 +76,7 @@ func (d *detector) assignRoles(t *tableSpec) {
 		if taken(c) || !textual(c) || c.st.hint.Any(tables.HintFuel) || c.st.fill(rows) < 0.5 && !c.st.hint.Any(tables.HintTech) {
 			continue // a fuel column, or a column mostly blank, is no technology
 		}
-		ws := words(c.hdr.base)
+		ws := words(c.hdr.Base)
 		score := 2*frac(c.st.tech, c.st.text) + c.st.fill(rows)
 		if c.st.hint.Any(tables.HintTech) || len(ws) == 1 && ws[0] == "type" {
 			if frac(c.st.tech, c.st.text) < 0.5 {
@@ -129,13 +129,13 @@ func (d *detector) assignRoles(t *tableSpec) {
 		if taken(c) || !c.numeric {
 			continue
 		}
-		ws := words(c.hdr.base)
+		ws := words(c.hdr.Base)
 		switch {
 		case t.cf == nil && (hasPhrase(ws, "capacity factor", "load factor", "utilisation factor", "utilization factor") || hasWord(ws, "cf", "utilisation", "utilization")):
 			c.role, t.cf = roleCF, c
-		case t.life == nil && (hasWord(ws, "lifetime", "life", "lifespan") || hasPhrase(ws, "operating years") || c.hdr.unit.Dim == units.Time && !hasWord(ws, "hours", "date", "year", "month")):
+		case t.life == nil && (hasWord(ws, "lifetime", "life", "lifespan") || hasPhrase(ws, "operating years") || c.hdr.Unit.Dim == units.Time && !hasWord(ws, "hours", "date", "year", "month")):
 			c.role, t.life = roleLifetime, c
-		case t.capacity == nil && t.tech != nil && c.st.hint.Any(tables.HintCapacity|tables.HintQty) && c.hdr.unitTxt == "" || t.capacity == nil && t.tech != nil && c.hdr.unit.Dim == units.Power:
+		case t.capacity == nil && t.tech != nil && c.st.hint.Any(tables.HintCapacity|tables.HintQty) && c.hdr.UnitText == "" || t.capacity == nil && t.tech != nil && c.hdr.Unit.Dim == units.Power:
 			if !c.st.hint.Any(tables.HintRate) {
 				c.role, t.capacity = roleCapacity, c
 			}
@@ -166,33 +166,33 @@ func (d *detector) assignRoles(t *tableSpec) {
 			if taken(c) || c.st.nonEmpty > 0 && !c.numeric {
 				continue
 			}
-			if c.hdr.flow && t.when == nil {
+			if c.hdr.Flow && t.when == nil {
 				continue // a flow per day with no dates: a rate
 			}
-			if c.st.hint.Any(tables.HintCount) && !c.st.hint.Any(tables.HintQty) || c.st.hint.Any(tables.HintRate) && !c.hdr.flow || moneyHeader(c.hdr.text) {
+			if c.st.hint.Any(tables.HintCount) && !c.st.hint.Any(tables.HintQty) || c.st.hint.Any(tables.HintRate) && !c.hdr.Flow || moneyHeader(c.hdr.Text) {
 				continue
 			}
-			f := sc.headerFuel(c.hdr.base)
+			f := sc.headerFuel(c.hdr.Base)
 			if f.kind != nameFuel {
 				continue
 			}
-			if c.hdr.unit.Dim == units.Energy && electricOutput(c.hdr.unit.Symbol) && (c.st.hint.Any(tables.HintOutput) || t.output) {
+			if c.hdr.Unit.Dim == units.Energy && electricOutput(c.hdr.Unit.Symbol) && (c.st.hint.Any(tables.HintOutput) || t.output) {
 				continue // electricity generated from the fuel, not the fuel burned
 			}
-			if c.st.nonEmpty == 0 && t.sampled > 0 && len(t.wide) > 0 && t.wide[len(t.wide)-1].hdr.text == c.hdr.text {
+			if c.st.nonEmpty == 0 && t.sampled > 0 && len(t.wide) > 0 && t.wide[len(t.wide)-1].hdr.Text == c.hdr.Text {
 				continue // an empty column under the same name as the one before it (footnote marks, spacing)
 			}
 			if sc.fuel(f.id).bio {
 				c.biogenic = true
 				continue // wood, biodiesel: biogenic CO2 is a memo item, never in the fossil totals
 			}
-			if c.hdr.unitTxt == "" && c.hdr.unitErr == nil {
+			if c.hdr.UnitText == "" && c.hdr.UnitErr == nil {
 				continue
 			}
-			if c.hdr.unitErr == nil && !isQuantityDim(c.hdr.unit) {
+			if c.hdr.UnitErr == nil && !isQuantityDim(c.hdr.Unit) {
 				continue
 			}
-			c.role, c.fuelID, c.fuelAlias = roleWideFuel, f.id, f.alias || f.name != c.hdr.base
+			c.role, c.fuelID, c.fuelAlias = roleWideFuel, f.id, f.alias || f.name != c.hdr.Base
 			t.wide = append(t.wide, c)
 		}
 		t.wide = dropParts(t.wide)
@@ -201,7 +201,7 @@ func (d *detector) assignRoles(t *tableSpec) {
 	if t.qty == nil && len(t.wide) == 0 && t.fuel != nil {
 		var ps []*column
 		for _, c := range t.cols {
-			if !taken(c) && (c.numeric || c.st.nonEmpty == 0) && periodHeader(c.hdr.text) {
+			if !taken(c) && (c.numeric || c.st.nonEmpty == 0) && tables.PeriodHeader(c.hdr.Text) {
 				ps = append(ps, c)
 			}
 		}
@@ -214,7 +214,7 @@ func (d *detector) assignRoles(t *tableSpec) {
 	}
 	// Amount columns left out (electricity, steam, unknown names with a unit).
 	for _, c := range t.cols {
-		if !taken(c) && c.numeric && c.hdr.unitTxt != "" && isQuantityDim(c.hdr.unit) && !c.st.hint.Any(tables.HintRate|tables.HintCount) {
+		if !taken(c) && c.numeric && c.hdr.UnitText != "" && isQuantityDim(c.hdr.Unit) && !c.st.hint.Any(tables.HintRate|tables.HintCount) {
 			t.partial = true
 		}
 	}
@@ -237,8 +237,8 @@ func (d *detector) assignRoles(t *tableSpec) {
 // when its header or values rule it out.
 func (d *detector) quantityScore(t *tableSpec, c *column) (float64, bool) {
 	h := c.st.hint
-	ws := words(c.hdr.base)
-	if c.hdr.flow {
+	ws := words(c.hdr.Base)
+	if c.hdr.Flow {
 		if t.when == nil {
 			return 0, false // a flow per day with no dates: a rate
 		}
@@ -247,7 +247,7 @@ func (d *detector) quantityScore(t *tableSpec, c *column) (float64, bool) {
 	if h.Any(tables.HintRate|tables.HintCount|tables.HintKey|tables.HintPeriod|tables.HintGroup) && !h.Any(tables.HintQty) {
 		return 0, false
 	}
-	if h.Any(tables.HintRate) || moneyHeader(c.hdr.text) || strings.Contains(c.hdr.text, "/") && !c.hdr.flow {
+	if h.Any(tables.HintRate) || moneyHeader(c.hdr.Text) || strings.Contains(c.hdr.Text, "/") && !c.hdr.Flow {
 		return 0, false
 	}
 	// An engine size, a tank or a vehicle's capacity in litres is not fuel.
@@ -267,12 +267,12 @@ func (d *detector) quantityScore(t *tableSpec, c *column) (float64, bool) {
 	if c.st.num > 0 && (c.st.years*10 >= c.st.num*9 || c.st.flags == c.st.num && c.st.num >= 3) {
 		return 0, false // years, or a 0/1 flag
 	}
-	if c.hdr.unit.Dim == units.Energy && electricOutput(c.hdr.unit.Symbol) && (h.Any(tables.HintOutput) || t.output) {
+	if c.hdr.Unit.Dim == units.Energy && electricOutput(c.hdr.Unit.Symbol) && (h.Any(tables.HintOutput) || t.output) {
 		return 0, false // electricity generated ("2014 Power generation (MWh)"), not fuel burned
 	}
-	hasUnit := c.hdr.unitTxt != "" && (isQuantityDim(c.hdr.unit) || c.hdr.unitErr != nil)
-	if c.hdr.unitTxt != "" && !hasUnit {
-		if c.hdr.unit.Dim == units.Power && h.Any(tables.HintQty) {
+	hasUnit := c.hdr.UnitText != "" && (isQuantityDim(c.hdr.Unit) || c.hdr.UnitErr != nil)
+	if c.hdr.UnitText != "" && !hasUnit {
+		if c.hdr.Unit.Dim == units.Power && h.Any(tables.HintQty) {
 			return 0.25, true // "Consumption (kW)": a power written for an energy, flagged at the header
 		}
 		return 0, false // a time, a percentage
@@ -283,11 +283,11 @@ func (d *detector) quantityScore(t *tableSpec, c *column) (float64, bool) {
 	}
 	if hasUnit {
 		score += 2
-		if c.hdr.base == "" || c.hdr.base == c.hdr.text {
+		if c.hdr.Base == "" || c.hdr.Base == c.hdr.Text {
 			score += 0.5 // the header is the unit itself: "Gallons", "mmbtu"
 		}
 	}
-	if t.fuel == nil && c.hdr.unitTxt != "" && d.sc.fuelName(c.hdr.base).kind == nameFuel && !h.Any(tables.HintFuel) {
+	if t.fuel == nil && c.hdr.UnitText != "" && d.sc.fuelName(c.hdr.Base).kind == nameFuel && !h.Any(tables.HintFuel) {
 		return 0, false // "Diesel (L)": a column per fuel
 	}
 	if fuelHeader(ws) && hasUnit {
@@ -297,13 +297,13 @@ func (d *detector) quantityScore(t *tableSpec, c *column) (float64, bool) {
 		score += 2.5 // "Units" holding numbers beside "Unit of Measure": how many units
 	}
 	if score == 0 && t.unit != nil && t.unit.st.hint.Any(tables.HintUnit) && frac(t.unit.st.unitLike, t.unit.st.text) >= 0.5 &&
-		c.numeric && c.st.nonEmpty > 0 && !h.Any(tables.HintTotal) && !periodHeader(c.hdr.text) {
+		c.numeric && c.st.nonEmpty > 0 && !h.Any(tables.HintTotal) && !tables.PeriodHeader(c.hdr.Text) {
 		score = 0.5 // the only numbers beside a unit column: "Value"
 	}
 	if score == 0 {
 		return 0, false
 	}
-	if !hasUnit && c.hdr.unitErr == nil && t.unit == nil && t.ctxUnit == "" {
+	if !hasUnit && c.hdr.UnitErr == nil && t.unit == nil && t.ctxUnit == "" {
 		score -= 2.5 // no unit anywhere: a column with one is better
 	}
 	score += c.st.fill(t.sampled) - 0.1*float64(c.col-t.firstCol)/float64(max(1, t.lastCol-t.firstCol))
@@ -325,19 +325,19 @@ func dropParts(wide []*column) []*column {
 		same := byFuel[c.fuelID]
 		var total *column
 		for _, x := range same {
-			if hasWord(words(x.hdr.base), "total", "all") {
+			if hasWord(words(x.hdr.Base), "total", "all") {
 				total = x
 				break
 			}
 		}
-		if len(same) > 1 && total != nil && c != total && strings.EqualFold(c.hdr.unitTxt, total.hdr.unitTxt) {
+		if len(same) > 1 && total != nil && c != total && strings.EqualFold(c.hdr.UnitText, total.hdr.UnitText) {
 			c.partOf = total // kept: used in the rows where the total is empty (subtotals.go)
 			out = append(out, c)
 			continue
 		}
 		// The same fuel again in another unit (Trillion Btu, then Billion
 		// gallons): counted once, from its first column.
-		if first := same[0]; total == nil && c != first && !strings.EqualFold(c.hdr.unitTxt, first.hdr.unitTxt) {
+		if first := same[0]; total == nil && c != first && !strings.EqualFold(c.hdr.UnitText, first.hdr.UnitText) {
 			c.role, c.sameAs = roleNone, first
 			continue
 		}
@@ -360,23 +360,23 @@ func (d *detector) decideKind(t *tableSpec) bool {
 	switch {
 	case (t.fuel != nil || t.ctxFuel != "") && t.qty != nil:
 		t.kind = kindFuelLog
-		if t.unit == nil && t.qty.hdr.unitTxt == "" {
+		if t.unit == nil && t.qty.hdr.UnitText == "" {
 			t.headerErr = &Warning{Sheet: t.sheet, Cell: cellRef(t.qty.col, t.headerRow), Severity: SevError, Code: CodeUnitUnknown,
-				Message: "no unit for " + quoteText(t.qty.hdr.text) + ": add a unit column or write the unit in the header, e.g. " + quoteText(t.qty.hdr.base+" (L)") + "; no row is computed"}
+				Message: "no unit for " + quoteText(t.qty.hdr.Text) + ": add a unit column or write the unit in the header, e.g. " + quoteText(t.qty.hdr.Base+" (L)") + "; no row is computed"}
 		}
 	case len(t.periods) > 0:
 		t.kind = kindPeriods
 		if t.unit == nil && t.ctxUnit == "" {
 			t.headerErr = &Warning{Sheet: t.sheet, Cell: cellRef(t.periods[0].col, t.headerRow), Severity: SevError, Code: CodeUnitUnknown,
-				Message: "no unit for the amounts by period: add a unit column (L, kWh, t...) beside " + quoteText(t.fuel.hdr.text) + "; no row is computed"}
+				Message: "no unit for the amounts by period: add a unit column (L, kWh, t...) beside " + quoteText(t.fuel.hdr.Text) + "; no row is computed"}
 		}
 	case len(t.wide) > 0:
 		t.kind = kindWide
 	case t.tech != nil && t.capacity != nil:
 		t.kind = kindBuildPlan
-		if t.unit == nil && t.capacity.hdr.unitTxt == "" {
+		if t.unit == nil && t.capacity.hdr.UnitText == "" {
 			t.headerErr = &Warning{Sheet: t.sheet, Cell: cellRef(t.capacity.col, t.headerRow), Severity: SevError, Code: CodeUnitUnknown,
-				Message: "no unit for " + quoteText(t.capacity.hdr.text) + ": add a unit column or write it in the header, e.g. " + quoteText(t.capacity.hdr.base+" (MW)") + "; no row is computed"}
+				Message: "no unit for " + quoteText(t.capacity.hdr.Text) + ": add a unit column or write it in the header, e.g. " + quoteText(t.capacity.hdr.Base+" (MW)") + "; no row is computed"}
 		}
 	default:
 		t.kind = kindCustom
@@ -396,40 +396,6 @@ func quoteText(s string) string {
 	return "\"" + s + "\""
 }
 
-// periodHeader recognises a column per period: month names (Jan, January,
-// Jan-25, 2025-01), quarters and halves (Q1, H2 2025), years (2024, FY2025)
-// and dates stored as numbers (Excel serials of 1955 to 2118).
-func periodHeader(text string) bool {
-	ws := words(text)
-	if len(ws) == 0 || len(ws) > 3 {
-		return false
-	}
-	months := []string{"jan", "feb", "mar", "apr", "may", "jun", "jul", "aug", "sep", "sept", "oct", "nov", "dec",
-		"january", "february", "march", "april", "june", "july", "august", "september", "october", "november", "december"}
-	for _, w := range ws {
-		switch {
-		case hasWord([]string{w}, months...):
-		case len(w) == 2 && (w[0] == 'q' && w[1] >= '1' && w[1] <= '4' || w[0] == 'h' && (w[1] == '1' || w[1] == '2')):
-		case strings.HasPrefix(w, "fy") && allDigits(w[2:]) && (len(w) == 4 || len(w) == 6):
-		case allDigits(w) && (len(w) == 2 && len(ws) > 1 || len(w) == 4 && w >= "1900" && w <= "2100"):
-			// "Jan 24", "2024"; "24" alone is a number, not a period
-		case allDigits(w) && len(w) == 5 && w >= "20000" && w <= "80000" && len(ws) == 1:
-		default:
-			return false
-		}
-	}
-	return true
-}
-
-func allDigits(s string) bool {
-	for i := 0; i < len(s); i++ {
-		if s[i] < '0' || s[i] > '9' {
-			return false
-		}
-	}
-	return s != ""
-}
-
 // whyNot says why a header with columns but no usable roles is not a table
 // fluecell computes: prices or rates, emission factors, carbon figures
 // already computed, no fuel, no amount.
@@ -440,13 +406,13 @@ func whyNot(t *tableSpec) string {
 		if !c.numeric {
 			continue
 		}
-		numeric = append(numeric, c.hdr.text)
-		low := strings.ToLower(c.hdr.text)
+		numeric = append(numeric, c.hdr.Text)
+		low := strings.ToLower(c.hdr.Text)
 		switch {
-		case reSpecies.MatchString(c.hdr.text) && (strings.Contains(low, "/") || c.st.hint.Any(tables.HintRate)):
-			factors = append(factors, c.hdr.text)
-		case c.st.hint.Any(tables.HintRate|tables.HintCount) || moneyHeader(c.hdr.text) || rateText(c.hdr.text):
-			rates = append(rates, c.hdr.text)
+		case reSpecies.MatchString(c.hdr.Text) && (strings.Contains(low, "/") || c.st.hint.Any(tables.HintRate)):
+			factors = append(factors, c.hdr.Text)
+		case c.st.hint.Any(tables.HintRate|tables.HintCount) || moneyHeader(c.hdr.Text) || tables.RateText(c.hdr.Text):
+			rates = append(rates, c.hdr.Text)
 		}
 	}
 	switch {
@@ -457,7 +423,7 @@ func whyNot(t *tableSpec) string {
 	case len(numeric) > 0 && len(rates) == len(numeric):
 		return "a table of prices, rates or counts at " + at + " (" + quoteText(rates[0]) + "): no amounts of fuel to compute"
 	case len(t.existing) > 0 && t.qty == nil && len(t.wide) == 0:
-		return "carbon figures already computed at " + at + " (" + quoteText(t.existing[0].hdr.text) + ") and no amounts of fuel beside them"
+		return "carbon figures already computed at " + at + " (" + quoteText(t.existing[0].hdr.Text) + ") and no amounts of fuel beside them"
 	case t.fuel == nil && t.ctxFuel == "" && len(t.wide) == 0 && len(numeric) > 0:
 		return "no fuel named for the amounts at " + at + ": no column of fuel names, and no fuel in the headers, title rows, sheet or file name (name it in a mapping: fluecell inspect --write-mapping)"
 	}
@@ -472,10 +438,10 @@ func electricOutput(sym string) bool { return strings.HasSuffix(sym, "Wh") }
 // a fuel and a unit of energy, mass or volume.
 func (d *detector) hasWideCandidate(t *tableSpec) bool {
 	for _, c := range t.cols {
-		if c.role != roleNone || c.st.nonEmpty > 0 && !c.numeric || c.hdr.unitTxt == "" || !isQuantityDim(c.hdr.unit) {
+		if c.role != roleNone || c.st.nonEmpty > 0 && !c.numeric || c.hdr.UnitText == "" || !isQuantityDim(c.hdr.Unit) {
 			continue
 		}
-		if d.sc.headerFuel(c.hdr.base).kind == nameFuel {
+		if d.sc.headerFuel(c.hdr.Base).kind == nameFuel {
 			return true
 		}
 	}

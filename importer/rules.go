@@ -155,7 +155,7 @@ func proposeRules(t *tableSpec) []string {
 	case kindWide:
 		var co2, co2e []string
 		for _, c := range t.wide {
-			if c.hdr.unitErr != nil || c.unitIdent == "" {
+			if c.hdr.UnitErr != nil || c.unitIdent == "" {
 				continue
 			}
 			args := "\"" + c.fuelID + "\", " + scaled(c) + ", " + c.unitIdent
@@ -197,7 +197,7 @@ func proposeRules(t *tableSpec) []string {
 		args := t.tech.ident + ", " + scaled(t.capacity) + ", " + unit
 		if t.cf != nil {
 			cf := t.cf.ident
-			if t.cf.hdr.percent {
+			if t.cf.hdr.Percent {
 				cf += " / 100"
 			}
 			args += ", " + cf
@@ -213,16 +213,16 @@ func proposeRules(t *tableSpec) []string {
 // scaled is a column's identifier, times its header's scale ("'000 L").
 func scaled(c *column) string {
 	s := c.ident
-	switch c.hdr.scale {
+	switch c.hdr.Scale {
 	case 0, 1:
 	default:
-		s += " * " + strconv.FormatFloat(c.hdr.scale, 'f', -1, 64)
+		s += " * " + strconv.FormatFloat(c.hdr.Scale, 'f', -1, 64)
 	}
-	if c.hdr.flow && c.hdr.flowDay > 0 {
+	if c.hdr.Flow && c.hdr.FlowDays > 0 {
 		// A flow per day, week or year over the days of the row's period.
 		s += " * " + periodDaysIdent
-		if c.hdr.flowDay != 1 {
-			s += " / " + strconv.FormatFloat(c.hdr.flowDay, 'f', -1, 64)
+		if c.hdr.FlowDays != 1 {
+			s += " / " + strconv.FormatFloat(c.hdr.FlowDays, 'f', -1, 64)
 		}
 	}
 	return s
@@ -232,7 +232,7 @@ func scaled(c *column) string {
 // each row's period.
 func hasFlow(t *tableSpec) bool {
 	for _, c := range t.cols {
-		if c.hdr.flow && c.role != roleNone {
+		if c.hdr.Flow && c.role != roleNone {
 			return true
 		}
 	}
@@ -300,7 +300,7 @@ func (sc *scanCtx) buildPlanVariants(t *table, r *rule) error {
 	}
 	base := "embodied(" + spec.tech.ident + ", " + scaled(spec.capacity) + ", " + unit
 	cf := spec.cf.ident
-	if spec.cf.hdr.percent {
+	if spec.cf.hdr.Percent {
 		cf += " / 100"
 	}
 	srcs := []string{base + ")", base + ", " + cf + ")"}

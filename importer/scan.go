@@ -255,8 +255,8 @@ func (res *ScanResult) finish() error {
 			Rows:  t.dataRows, Computed: t.computed, Layout: res.layoutFor(t)}
 		t.layout = info.Layout
 		for _, c := range spec.cols {
-			info.Columns = append(info.Columns, ColumnInfo{Cell: cellRef(c.col, spec.headerRow), Header: c.hdr.text, Ident: c.ident,
-				HeaderUnit: c.hdr.unitTxt, Role: c.role.String()})
+			info.Columns = append(info.Columns, ColumnInfo{Cell: cellRef(c.col, spec.headerRow), Header: c.hdr.Text, Ident: c.ident,
+				HeaderUnit: c.hdr.UnitText, Role: c.role.String()})
 		}
 		for _, r := range t.rules {
 			info.Rules = append(info.Rules, r.src)

@@ -92,7 +92,7 @@ func (t *table) bind(name string) *binding {
 	}
 	for _, c := range t.spec.cols {
 		if c.unitIdent == name {
-			return &binding{name: name, unitOf: c, constant: c.hdr.unitTxt, slot: -1}
+			return &binding{name: name, unitOf: c, constant: c.hdr.UnitText, slot: -1}
 		}
 	}
 	if name == periodDaysIdent && t.spec.when != nil {
@@ -374,7 +374,7 @@ func (t *table) sectionRow(r *row) bool {
 func (t *table) repeatsHeader(r *row) bool {
 	n, same := 0, 0
 	for _, c := range t.spec.cols {
-		if c.hdr.text == "" {
+		if c.hdr.Text == "" {
 			continue
 		}
 		x := r.at(c.col)
@@ -382,7 +382,7 @@ func (t *table) repeatsHeader(r *row) bool {
 			continue
 		}
 		n++
-		if cleanHeader(x.text) == c.hdr.text || strings.Contains(c.hdr.text, cleanHeader(x.text)) {
+		if cleanHeader(x.text) == c.hdr.Text || strings.Contains(c.hdr.Text, cleanHeader(x.text)) {
 			same++
 		}
 	}

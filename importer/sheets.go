@@ -125,9 +125,9 @@ func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
 		if t.spec.group == nil || len(t.byGroup) == 0 {
 			continue
 		}
-		set(cellRef(1, row), "By "+t.spec.group.hdr.text+" ("+t.spec.sheet+"!"+cellRef(t.spec.firstCol, t.spec.headerRow)+")", st.head)
+		set(cellRef(1, row), "By "+t.spec.group.hdr.Text+" ("+t.spec.sheet+"!"+cellRef(t.spec.firstCol, t.spec.headerRow)+")", st.head)
 		row++
-		header(strings.ToLower(t.spec.group.hdr.text))
+		header(strings.ToLower(t.spec.group.hdr.Text))
 		g := groupBlock{first: row}
 		for _, s := range sortedSums(t.byGroup) {
 			set(cellRef(1, row), s.key, 0)

@@ -75,7 +75,7 @@ func (sc *scanCtx) sumForest(t *table) []*sumNode {
 		}
 		// A column headed "Total" after its parts: the run right before it.
 		for a, n := range nodes {
-			if len(n.kids) > 0 || child[a] || a < 2 || !hasWord(words(n.col.hdr.base), "total", "all") {
+			if len(n.kids) > 0 || child[a] || a < 2 || !hasWord(words(n.col.hdr.Base), "total", "all") {
 				continue
 			}
 			for k := a - 2; k >= 0; k-- {
@@ -98,12 +98,12 @@ func (sc *scanCtx) sumForest(t *table) []*sumNode {
 		// Proportional ... Use"), or when its values are below their sum, it
 		// is left out and the other columns count.
 		for a, n := range nodes {
-			if len(n.kids) > 0 || child[a] || !hasWord(words(n.col.hdr.base), "total", "all") {
+			if len(n.kids) > 0 || child[a] || !hasWord(words(n.col.hdr.Base), "total", "all") {
 				continue
 			}
 			var others []*sumNode
 			for j, m := range nodes {
-				if j != a && !child[j] && strings.EqualFold(m.col.hdr.unitTxt, n.col.hdr.unitTxt) {
+				if j != a && !child[j] && strings.EqualFold(m.col.hdr.UnitText, n.col.hdr.UnitText) {
 					others = append(others, m)
 				}
 			}
@@ -119,7 +119,7 @@ func (sc *scanCtx) sumForest(t *table) []*sumNode {
 			}
 			n.out, child[a], found = true, true, true
 			roots = append(roots, n)
-			sc.warn.add(spec.sheet, n.col.col, spec.headerRow, SevInfo, CodeNotComputed, quoteText(n.col.hdr.text)+
+			sc.warn.add(spec.sheet, n.col.col, spec.headerRow, SevInfo, CodeNotComputed, quoteText(n.col.hdr.Text)+
 				" says total, and its values are not the sum of the other "+n.col.fuelID+" columns: it is left out and they are counted, so nothing is counted twice")
 		}
 		for a, n := range nodes {
@@ -129,7 +129,7 @@ func (sc *scanCtx) sumForest(t *table) []*sumNode {
 				for j, k := range n.kids {
 					names[j] = colName(k.col.col)
 				}
-				sc.warn.add(spec.sheet, n.col.col, spec.headerRow, SevInfo, CodeNotComputed, quoteText(n.col.hdr.text)+" is the sum of "+
+				sc.warn.add(spec.sheet, n.col.col, spec.headerRow, SevInfo, CodeNotComputed, quoteText(n.col.hdr.Text)+" is the sum of "+
 					strings.Join(names, ", ")+": each row counts it where it is given, else its parts, never both")
 			}
 			if !child[a] {
@@ -154,7 +154,7 @@ func indexOf(nodes []*sumNode, n *sumNode) int {
 
 func sameUnits(cols []*column) bool {
 	for _, c := range cols[1:] {
-		if !strings.EqualFold(c.hdr.unitTxt, cols[0].hdr.unitTxt) || c.hdr.scale != cols[0].hdr.scale {
+		if !strings.EqualFold(c.hdr.UnitText, cols[0].hdr.UnitText) || c.hdr.Scale != cols[0].hdr.Scale {
 			return false
 		}
 	}
@@ -256,7 +256,7 @@ func (t *table) covers(total *sumNode, parts []*sumNode) bool {
 // "Computed Proportional ... Use", "Allocated", "Share of".
 func allocation(cols []*sumNode) bool {
 	for _, c := range cols {
-		if hasWord(words(c.col.hdr.text), "proportional", "prop", "allocated", "apportioned", "attributed", "share", "allocation") {
+		if hasWord(words(c.col.hdr.Text), "proportional", "prop", "allocated", "apportioned", "attributed", "share", "allocation") {
 			return true
 		}
 	}

@@ -1,6 +1,7 @@
 package importer
 
 import (
+	"github.com/fluecell/fluecell/importer/tables"
 	"math"
 	"strings"
 
@@ -26,7 +27,7 @@ func (sc *scanCtx) value(t *table, i int, b *binding) (any, bool) {
 		return nil, false
 	}
 	if b.col == nil {
-		if b.unitOf != nil && b.unitOf.hdr.unitErr == nil && !b.unitOf.unitBad {
+		if b.unitOf != nil && b.unitOf.hdr.UnitErr == nil && !b.unitOf.unitBad {
 			return b.constant, true
 		}
 		return nil, false
@@ -130,8 +131,8 @@ func (sc *scanCtx) unitValue(t *table, c *column, v *cellVal, r int) (any, bool)
 			s = strings.TrimSpace(x)
 			break
 		}
-		if q := t.amountCol(); q != nil && q.hdr.unitTxt != "" && q.hdr.unitErr == nil {
-			return q.hdr.unitTxt, true
+		if q := t.amountCol(); q != nil && q.hdr.UnitText != "" && q.hdr.UnitErr == nil {
+			return q.hdr.UnitText, true
 		}
 		sc.warn.add(sheet, c.col, r, SevError, CodeUnitUnknown, "no unit: write one such as L, kWh, t, GJ or MMBtu HHV; row not computed")
 		return nil, false
@@ -139,7 +140,7 @@ func (sc *scanCtx) unitValue(t *table, c *column, v *cellVal, r int) (any, bool)
 		sc.warn.add(sheet, c.col, r, SevError, CodeUnitUnknown, quoteText(cell{kind: v.kind, num: v.num, text: v.text}.display())+" is not a unit: write one such as L, kWh, t or GJ; row not computed")
 		return nil, false
 	}
-	if why := notAmountUnit(s); why != "" {
+	if why := tables.NotAmountUnit(s); why != "" {
 		sc.warn.add(sheet, c.col, r, SevInfo, CodeNotComputed, quoteText(s)+" is "+why+", not an amount of fuel: row not computed")
 		return nil, false
 	}
@@ -253,7 +254,7 @@ func (sc *scanCtx) numberValue(t *table, c *column, v *cellVal, r int) (any, boo
 			if (c.role == roleWideFuel || c.role == rolePeriod) && isDash(v.text) {
 				return 0.0, true
 			}
-			if missingMarker(v.text) {
+			if tables.Missing(v.text) {
 				if c.role == roleWideFuel || c.role == rolePeriod {
 					// One fuel of the row not given: the row's other fuels still count.
 					sc.warn.add(sheet, c.col, r, SevInfo, CodeNotComputed, quoteText(v.text)+": the source gives no value here; counted as none of this fuel, the row's other amounts still count")
@@ -282,7 +283,7 @@ func (sc *scanCtx) numberValue(t *table, c *column, v *cellVal, r int) (any, boo
 		case roleWideFuel, rolePeriod:
 			return 0.0, true
 		case roleQuantity, roleCapacity:
-			sc.warn.add(sheet, c.col, r, SevWarning, CodeValueNotNumber, "no "+strings.ToLower(c.hdr.base)+" given: row not computed")
+			sc.warn.add(sheet, c.col, r, SevWarning, CodeValueNotNumber, "no "+strings.ToLower(c.hdr.Base)+" given: row not computed")
 		default:
 			sc.warn.add(sheet, c.col, r, SevError, CodeValueNotNumber, "empty: no value for "+c.ident+"; row not computed")
 		}
@@ -294,11 +295,11 @@ func (sc *scanCtx) numberValue(t *table, c *column, v *cellVal, r int) (any, boo
 		sc.warn.add(sheet, c.col, r, SevError, CodeValueNotNumber, "the cell holds the error "+v.text+"; row not computed")
 		return nil, false
 	}
-	if c.hdr.percent && c.role != roleCF {
+	if c.hdr.Percent && c.role != roleCF {
 		x /= 100
 	}
 	if x < 0 && (c.role == roleQuantity || c.role == roleWideFuel || c.role == rolePeriod || c.role == roleCapacity) {
-		sc.warn.add(sheet, c.col, r, SevWarning, CodeValueNegative, "negative "+strings.ToLower(c.hdr.base)+" "+funcs.FormatNumber(x)+
+		sc.warn.add(sheet, c.col, r, SevWarning, CodeValueNegative, "negative "+strings.ToLower(c.hdr.Base)+" "+funcs.FormatNumber(x)+
 			" (a return or a correction?): computed, giving negative emissions")
 	}
 	return x, true
@@ -382,18 +383,4 @@ func numberWithUnit(s string) (num, unit string, ok bool) {
 		return "", "", false
 	}
 	return num, unit, true
-}
-
-// notAmountUnit says why a unit cell names no amount of fuel: a price or
-// rate ("$/kWh", "$/month") or a count ("EA", "each": a service or part on
-// the same fuel-card export). "" for anything else.
-func notAmountUnit(s string) string {
-	if rateText(s) {
-		return "a price or a rate"
-	}
-	switch strings.ToLower(strings.Trim(strings.TrimSpace(s), ".")) {
-	case "ea", "each", "pc", "pcs", "piece", "pieces", "unit", "units", "item", "items", "ct", "count", "no", "nos", "qty", "job", "hr", "hrs", "hour", "hours", "service":
-		return "a count"
-	}
-	return ""
 }
