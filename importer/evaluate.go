@@ -564,18 +564,29 @@ func (t *table) sameAgain() (rows []int, part []bool) {
 	units := make([]string, n)
 	fs, us := t.slotOf[spec.fuel.col], t.slotOf[spec.unit.col]
 	whole := map[string]first{} // rows that are no part: key -> first such row
+	type normText struct {
+		text string
+		part bool
+	}
+	norm := map[string]normText{} // fuel texts repeat: each is normalised once
 	for i := 0; i < n; i++ {
 		f, u := t.val(i, fs), t.val(i, us)
 		if f.kind != kText || u.kind != kText {
 			continue
 		}
-		text := strings.ToLower(strings.Join(strings.Fields(f.text), " "))
-		for _, w := range []string{" excluding ", " except ", " excl. "} {
-			if j := strings.Index(text, w); j > 0 {
-				text, isPart[i] = text[:j], true
-				break
+		nt, ok := norm[f.text]
+		if !ok {
+			nt.text = strings.ToLower(strings.Join(strings.Fields(f.text), " "))
+			for _, w := range []string{" excluding ", " except ", " excl. "} {
+				if j := strings.Index(nt.text, w); j > 0 {
+					nt.text, nt.part = nt.text[:j], true
+					break
+				}
 			}
+			norm[f.text] = nt
 		}
+		text := nt.text
+		isPart[i] = nt.part
 		if spec.group != nil {
 			g := t.val(i, t.slotOf[spec.group.col])
 			text += "\x00" + strings.ToLower(strings.TrimSpace(cell{kind: g.kind, num: g.num, text: g.text}.display()))

@@ -116,6 +116,7 @@ type fuelRef struct {
 	name  string // what the rules get
 	id    string
 	alias bool
+	same  bool   // the text is the fuel id itself, written otherwise ("Natural Gas"): no alias note
 	why   string // for nameNotFuel, nameAggregate, nameRate: the word that decided
 }
 
@@ -129,6 +130,7 @@ func (sc *scanCtx) fuelName(s string) fuelRef {
 		return r
 	}
 	r := sc.readFuelName(s)
+	r.same = r.kind == nameFuel && sameName(s, r.id)
 	if len(sc.names) < maxCache {
 		sc.names[s] = r
 	}

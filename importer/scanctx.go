@@ -56,8 +56,9 @@ type fuelRes struct {
 }
 
 type unitRes struct {
-	u   units.Unit
-	err *units.Error
+	u         units.Unit
+	err       *units.Error
+	notAmount string // why the text names no amount of fuel (a price, a count); "" otherwise
 }
 
 type techRes struct {
@@ -151,11 +152,16 @@ func (sc *scanCtx) unit(s string) unitRes {
 	} else {
 		r.u = u
 	}
+	r.notAmount = tables.NotAmountUnit(s)
 	if len(sc.units) < maxCache {
 		sc.units[s] = r
 	}
 	return r
 }
+
+// notAmount says why a unit cell names no amount of fuel (a price or rate,
+// a count), cached with the unit.
+func (sc *scanCtx) notAmount(s string) string { return sc.unit(s).notAmount }
 
 // tech resolves a technology name through lifecycle_intensity, cached.
 func (sc *scanCtx) tech(s string) techRes {

@@ -99,7 +99,7 @@ func (sc *scanCtx) fuelValue(t *table, c *column, v *cellVal, r int) (any, bool)
 		sc.warn.add(sheet, c.col, r, SevError, CodeFuelUnknown, notComputed(sc.fuelMessage(text)))
 		return nil, false
 	}
-	if fr.alias && !sameName(text, fr.id) {
+	if fr.alias && !fr.same {
 		sc.warn.addOnce("alias|"+sheet+"|"+colName(c.col)+"|"+strings.ToLower(strings.TrimSpace(text)), sheet, c.col, r, SevInfo, CodeFuelAlias,
 			quoteText(text)+" read as "+fr.id+" (here and in every cell of column "+colName(c.col)+" that says so)")
 	}
@@ -140,7 +140,7 @@ func (sc *scanCtx) unitValue(t *table, c *column, v *cellVal, r int) (any, bool)
 		sc.warn.add(sheet, c.col, r, SevError, CodeUnitUnknown, quoteText(cell{kind: v.kind, num: v.num, text: v.text}.display())+" is not a unit: write one such as L, kWh, t or GJ; row not computed")
 		return nil, false
 	}
-	if why := tables.NotAmountUnit(s); why != "" {
+	if why := sc.notAmount(s); why != "" {
 		sc.warn.add(sheet, c.col, r, SevInfo, CodeNotComputed, quoteText(s)+" is "+why+", not an amount of fuel: row not computed")
 		return nil, false
 	}
