@@ -142,7 +142,7 @@ func (sc *scanCtx) unit(s string) unitRes {
 		return r
 	}
 	var r unitRes
-	u, err := units.Parse(s)
+	u, err := units.Lookup(s) // most texts counted are no units: no suggestion work here (see unitMessage)
 	if err != nil {
 		ue, ok := err.(*units.Error)
 		if !ok {
@@ -214,4 +214,17 @@ func (sc *scanCtx) header(s string) headerInfo {
 func (sc *scanCtx) unitLike(s string) bool {
 	u := sc.unit(s)
 	return u.err == nil || u.err.Code != units.CodeUnknown
+}
+
+// unitMessage is the message for a unit that cannot be used, with the
+// spelling suggestion that the cached lookup leaves out.
+func (sc *scanCtx) unitMessage(s string, e *units.Error) string {
+	if e.Code == units.CodeUnknown {
+		if _, err := units.Parse(s); err != nil {
+			if ue, ok := err.(*units.Error); ok {
+				return ue.Msg
+			}
+		}
+	}
+	return e.Msg
 }

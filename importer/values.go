@@ -159,7 +159,7 @@ func (sc *scanCtx) checkUnit(t *table, c *column, s string, col, r int, power bo
 	sheet := t.spec.sheet
 	res := sc.unit(s)
 	if res.err != nil {
-		sc.warn.add(sheet, col, r, SevError, res.err.Code, notComputed(res.err.Msg))
+		sc.warn.add(sheet, col, r, SevError, res.err.Code, notComputed(sc.unitMessage(s, res.err)))
 		return units.Unit{}, false
 	}
 	u := res.u

@@ -39,8 +39,11 @@ func errEmpty(input string) *Error {
 
 // errUnknown reports an unknown unit; name is the (normalised) part that was not found and
 // want the dimensions a suggestion may have (any when empty).
-func errUnknown(input, name string, want []Dimension) *Error {
-	e := &Error{Input: input, Code: CodeUnknown, Suggestion: table.suggestFor(name, want)}
+func errUnknown(input, name string, want []Dimension, suggest bool) *Error {
+	e := &Error{Input: input, Code: CodeUnknown}
+	if suggest {
+		e.Suggestion = table.suggestFor(name, want)
+	}
 	if e.Suggestion != "" {
 		e.Msg = "unknown unit " + quote(name) + " (did you mean " + e.Suggestion + "?)"
 	} else {

@@ -22,7 +22,13 @@ import (
 // Errors are *Error with Code "unit-unknown" (with a Suggestion when a spelling is close),
 // "unit-ambiguous" (with the Alternatives) or "unit-basis" (a basis on a unit that is not an
 // energy unit, or two bases).
-func Parse(s string) (Unit, error) { return parse(s, nil) }
+func Parse(s string) (Unit, error) { return parse(s, nil, true) }
+
+// Lookup is Parse without the spelling suggestion of an unknown unit: its
+// errors have the same codes, and it costs a map lookup, not an edit
+// distance over the table, so it suits classifying many texts (cells,
+// header words) that are mostly not units.
+func Lookup(s string) (Unit, error) { return parse(s, nil, false) }
 
 // ParseAs is Parse plus a dimension check: the unit must have one of the dimensions in want
 // (with no want, any dimension). A unit of another dimension fails with Code "unit-dimension"
@@ -32,7 +38,7 @@ func Parse(s string) (Unit, error) { return parse(s, nil) }
 //
 // An unknown unit is suggested only units of the dimensions in want.
 func ParseAs(s string, want ...Dimension) (Unit, error) {
-	u, err := parse(s, want)
+	u, err := parse(s, want, true)
 	if err != nil || len(want) == 0 {
 		return u, err
 	}
@@ -44,8 +50,9 @@ func ParseAs(s string, want ...Dimension) (Unit, error) {
 	return Unit{}, errDimension(s, normalize(s), u, want)
 }
 
-// parse is Parse; want restricts the suggestions of an unknown unit to those dimensions.
-func parse(s string, want []Dimension) (Unit, error) {
+// parse is Parse; want restricts the suggestions of an unknown unit to those dimensions, and
+// suggest=false leaves them out.
+func parse(s string, want []Dimension, suggest bool) (Unit, error) {
 	n := normalize(s)
 	if n == "" {
 		return Unit{}, errEmpty(s)
@@ -67,7 +74,7 @@ func parse(s string, want []Dimension) (Unit, error) {
 	}
 	part, tok, b, ok := splitBasis(n)
 	if !ok {
-		return Unit{}, errUnknown(s, n, want)
+		return Unit{}, errUnknown(s, n, want, suggest)
 	}
 	var u Unit
 	if id, amb = table.resolve(part); id != 0 {
@@ -82,7 +89,7 @@ func parse(s string, want []Dimension) (Unit, error) {
 		if _, _, _, two := splitBasis(part); two {
 			return Unit{}, errTwoBases(s, n)
 		}
-		return Unit{}, errUnknown(s, part, want)
+		return Unit{}, errUnknown(s, part, want, suggest)
 	}
 	if u.Dim != Energy {
 		return Unit{}, errBasisNotEnergy(s, tok, part)

@@ -41,9 +41,9 @@ func ParseHeader(raw string) Header {
 		// where the rest is a unit; a unit that carries its magnitude
 		// ("Million Cubic Feet" = MMcf) is read whole.
 		u2, scale := SplitScale(u)
-		if _, err := units.Parse(u2); err == nil || scale == 1 {
+		if _, err := units.Lookup(u2); err == nil || scale == 1 {
 			u = u2
-		} else if _, err := units.Parse(u); err == nil {
+		} else if _, err := units.Lookup(u); err == nil {
 			scale = 1
 		} else {
 			u = u2
@@ -56,10 +56,10 @@ func ParseHeader(raw string) Header {
 			h.Base, h.Percent = base, true
 			return true
 		}
-		pu, err := units.Parse(u)
+		pu, err := units.Lookup(u)
 		if err != nil {
 			if amount, days, ok := FlowUnit(u); ok {
-				if fu, ferr := units.Parse(amount); ferr == nil && (fu.Dim == units.Energy || fu.Dim == units.Mass || fu.Dim == units.Volume) {
+				if fu, ferr := units.Lookup(amount); ferr == nil && (fu.Dim == units.Energy || fu.Dim == units.Mass || fu.Dim == units.Volume) {
 					h.Base, h.UnitText, h.Unit, h.Flow, h.FlowDays = base, amount, fu, true, days
 					return true
 				}
@@ -110,7 +110,7 @@ func ParseHeader(raw string) Header {
 		}
 	}
 	// The whole header is a unit: "Litres", "kWh", "MMBtu".
-	if u, err := units.Parse(h.Text); err == nil && (u.Dim == units.Energy || u.Dim == units.Mass || u.Dim == units.Volume) && len(h.Text) > 1 {
+	if u, err := units.Lookup(h.Text); err == nil && (u.Dim == units.Energy || u.Dim == units.Mass || u.Dim == units.Volume) && len(h.Text) > 1 {
 		h.UnitText, h.Unit = h.Text, u
 	}
 	return h
