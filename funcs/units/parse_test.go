@@ -324,3 +324,27 @@ func TestParseAllocs(t *testing.T) {
 		}
 	}
 }
+
+// Lookup reads what Parse reads and fails with the same codes, but builds
+// no spelling suggestion: the importer classifies thousands of cell texts
+// with it and asks Parse only for the one it reports.
+func TestLookupLikeParse(t *testing.T) {
+	for _, s := range []string{"GJ", "MMBtu HHV", "Thousand Barrels", "kgal", "ton", "kwhh", "Consumers", ""} {
+		u1, err1 := Parse(s)
+		u2, err2 := Lookup(s)
+		if u1 != u2 || (err1 == nil) != (err2 == nil) {
+			t.Errorf("%q: Parse = %v, %v; Lookup = %v, %v", s, u1, err1, u2, err2)
+			continue
+		}
+		if err1 == nil {
+			continue
+		}
+		e1, e2 := err1.(*Error), err2.(*Error)
+		if e1.Code != e2.Code || e2.Suggestion != "" {
+			t.Errorf("%q: Parse code %s, Lookup code %s suggestion %q", s, e1.Code, e2.Code, e2.Suggestion)
+		}
+	}
+	if _, err := Parse("kwhh"); err == nil || err.(*Error).Suggestion == "" {
+		t.Errorf("Parse(kwhh) = %v, want a suggestion", err)
+	}
+}
