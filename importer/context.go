@@ -36,7 +36,7 @@ func (d *detector) titleContext(t *tableSpec, above []row) {
 		if len(s) > 300 {
 			continue
 		}
-		if sc.vocab.Hints(words(s)).Any(tables.HintOutput) {
+		if d.lx.vocab.Hints(words(s)).Any(tables.HintOutput) {
 			t.output = true
 		}
 		if tables.RateTitle(s) {
@@ -51,7 +51,7 @@ func (d *detector) titleContext(t *tableSpec, above []row) {
 		if len(s) > 300 || tables.RateTitle(s) {
 			continue
 		}
-		if id := sc.phraseFuel(s); id != "" {
+		if id := d.lx.phraseFuel(s); id != "" {
 			t.ctxFuel, t.ctxFrom = id, s
 			return
 		}
@@ -78,26 +78,6 @@ func titleUnit(s string) string {
 			u := strings.TrimRight(strings.TrimSpace(s[i+len(lead):]), ".")
 			if h := parseHeader("x (" + u + ")"); h.UnitText != "" && h.UnitErr == nil && isQuantityDim(h.Unit) {
 				return u
-			}
-		}
-	}
-	return ""
-}
-
-// phraseFuel finds a fuel named anywhere in a phrase (longest run of words
-// first), without the total and rate vetoes of fuelName: a title
-// "Combined diesel purchases" still names diesel. "" when none.
-func (sc *scanCtx) phraseFuel(s string) string {
-	ws := words(s)
-	ws = sc.vocab.Strip(ws, tables.HintQty|tables.HintTotal)
-	for n := min(len(ws), 4); n >= 1; n-- {
-		for i := 0; i+n <= len(ws); i++ {
-			cand := strings.Join(ws[i:i+n], " ")
-			if n == 1 && len(cand) < 3 {
-				continue
-			}
-			if f := sc.fuel(cand); f.err == nil {
-				return f.id
 			}
 		}
 	}

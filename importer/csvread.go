@@ -101,7 +101,7 @@ func csvSheetName(path string) string { return filepath.Base(path) }
 func (sc *scanCtx) scanCSV(in *csvInput, sheet string) error {
 	r := csv.NewReader(bytes.NewReader(in.data))
 	r.Comma, r.LazyQuotes, r.FieldsPerRecord, r.ReuseRecord = in.comma, true, -1, true
-	seg := &segmenter{sc: sc, det: &detector{sc: sc, sheet: sheet}, sheet: sheet}
+	seg := &segmenter{sc: sc, det: &detector{sc: sc, lx: sc.lexicon, sheet: sheet}, sheet: sheet}
 	var cells []cell
 	for num := 1; ; num++ {
 		rec, err := r.Read()

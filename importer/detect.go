@@ -104,6 +104,7 @@ const sampleRows = 50
 // detector finds tables in buffered rows.
 type detector struct {
 	sc     *scanCtx
+	lx     *lexicon // how texts read: all detection asks of the names
 	sheet  string
 	merges []rangeRef
 }
@@ -154,20 +155,20 @@ func totalRow(r *row) bool {
 
 // keywordHits counts cells that name a role (a unit alone does not: data
 // rows have units), for telling a header from a data row.
-func (sc *scanCtx) keywordHits(r *row) int {
+func (lx *lexicon) keywordHits(r *row) int {
 	n := 0
 	for i := range r.cells {
 		c := &r.cells[i]
 		if c.kind != kText {
 			continue
 		}
-		h := sc.header(c.text)
+		h := lx.header(c.text)
 		ws := words(h.Base)
 		if len(ws) > 4 {
 			continue // a sentence, not a header
 		}
 		if hasWord(ws, "fuel", "unit", "units", "uom", "technology", "capacity", "month", "date", "year") || hasWord(ws, qtyWords...) || hasWord(ws, groupWords...) ||
-			h.UnitText != "" && h.Base != h.Text && sc.fuel(h.Base).err == nil {
+			h.UnitText != "" && h.Base != h.Text && lx.fuel(h.Base).err == nil {
 			n++
 		} else if _, ok := parseCarbonHeader(h.Text); ok {
 			n++
@@ -274,7 +275,7 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 		if r.blank() || totalRow(r) {
 			continue
 		}
-		if headerLike(r) && !hasNumber(r) && sc.keywordHits(r) >= 2 && len(sample) > 0 {
+		if headerLike(r) && !hasNumber(r) && d.lx.keywordHits(r) >= 2 && len(sample) > 0 {
 			break
 		}
 		sample = append(sample, r)
@@ -311,7 +312,7 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 	}
 	// A banner over the real header ("Fuel use" merged over "Amount | Unit")
 	// is not the header.
-	if len(sample) > 0 && headerLike(sample[0]) && sc.keywordHits(sample[0]) >= 2 {
+	if len(sample) > 0 && headerLike(sample[0]) && d.lx.keywordHits(sample[0]) >= 2 {
 		return nil
 	}
 	// A row of units right under the header ("L", "kWh", "t").
@@ -347,7 +348,7 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 				col.hdr = uh
 			}
 		}
-		col.st.hint = sc.vocab.Hints(words(col.hdr.Text))
+		col.st.hint = d.lx.vocab.Hints(words(col.hdr.Text))
 		if t.unitRow > 0 && col.hdr.UnitText == "" {
 			if u := cellAt(rows, c, t.unitRow); u.kind == kText && strings.TrimSpace(u.text) != "" {
 				uh := parseHeader("x (" + u.text + ")")
@@ -471,9 +472,9 @@ func (d *detector) mostlyNames(r *row) bool {
 			continue
 		}
 		n++
-		if d.sc.fuelName(c.text).kind == nameFuel {
+		if d.lx.fuelName(c.text).kind == nameFuel {
 			names++
-		} else if u := d.sc.unit(c.text); u.err == nil {
+		} else if u := d.lx.unit(c.text); u.err == nil {
 			names++
 		}
 	}

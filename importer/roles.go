@@ -25,7 +25,6 @@ func isQuantityDim(u units.Unit) bool {
 // numbers, a unit column units; rates, prices, counts, years and 0/1 flags
 // are never quantities, whatever their header says.
 func (d *detector) assignRoles(t *tableSpec) {
-	sc := d.sc
 	taken := func(c *column) bool { return c.role != roleNone }
 	rows := t.sampled
 	// Existing carbon columns first: "CO2 (kg)" must not read as a quantity.
@@ -172,7 +171,7 @@ func (d *detector) assignRoles(t *tableSpec) {
 			if c.st.hint.Any(tables.HintCount) && !c.st.hint.Any(tables.HintQty) || c.st.hint.Any(tables.HintRate) && !c.hdr.Flow || moneyHeader(c.hdr.Text) {
 				continue
 			}
-			f := sc.headerFuel(c.hdr.Base)
+			f := d.lx.headerFuel(c.hdr.Base)
 			if f.kind != nameFuel {
 				continue
 			}
@@ -182,7 +181,7 @@ func (d *detector) assignRoles(t *tableSpec) {
 			if c.st.nonEmpty == 0 && t.sampled > 0 && len(t.wide) > 0 && t.wide[len(t.wide)-1].hdr.Text == c.hdr.Text {
 				continue // an empty column under the same name as the one before it (footnote marks, spacing)
 			}
-			if sc.fuel(f.id).bio {
+			if d.lx.fuel(f.id).bio {
 				c.biogenic = true
 				continue // wood, biodiesel: biogenic CO2 is a memo item, never in the fossil totals
 			}
@@ -287,7 +286,7 @@ func (d *detector) quantityScore(t *tableSpec, c *column) (float64, bool) {
 			score += 0.5 // the header is the unit itself: "Gallons", "mmbtu"
 		}
 	}
-	if t.fuel == nil && c.hdr.UnitText != "" && d.sc.fuelName(c.hdr.Base).kind == nameFuel && !h.Any(tables.HintFuel) {
+	if t.fuel == nil && c.hdr.UnitText != "" && d.lx.fuelName(c.hdr.Base).kind == nameFuel && !h.Any(tables.HintFuel) {
 		return 0, false // "Diesel (L)": a column per fuel
 	}
 	if fuelHeader(ws) && hasUnit {
@@ -441,7 +440,7 @@ func (d *detector) hasWideCandidate(t *tableSpec) bool {
 		if c.role != roleNone || c.st.nonEmpty > 0 && !c.numeric || c.hdr.UnitText == "" || !isQuantityDim(c.hdr.Unit) {
 			continue
 		}
-		if d.sc.headerFuel(c.hdr.Base).kind == nameFuel {
+		if d.lx.headerFuel(c.hdr.Base).kind == nameFuel {
 			return true
 		}
 	}

@@ -220,7 +220,7 @@ func (sc *scanCtx) scanSheet(b *book, s sheetRef) (int, error) {
 		return 0, err
 	}
 	defer rd.close()
-	seg := &segmenter{sc: sc, det: &detector{sc: sc, sheet: s.Name, merges: merges}, sheet: s.Name, merges: merges}
+	seg := &segmenter{sc: sc, det: &detector{sc: sc, lx: sc.lexicon, sheet: s.Name, merges: merges}, sheet: s.Name, merges: merges}
 	cells := 0
 	for n := 0; ; n++ {
 		if n&4095 == 0 {
