@@ -1,6 +1,7 @@
 package importer
 
 import (
+	"sort"
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs/units"
@@ -156,6 +157,9 @@ func (d *detector) assignRoles(t *tableSpec) {
 	// win over one amount column read with the title's fuel.
 	if best != nil && (t.fuel != nil || t.ctxFuel != "" && !d.hasWideCandidate(t)) && t.rateTitle == "" {
 		best.role, t.qty = roleQuantity, best
+		if t.fuel == nil {
+			d.splitByColumns(t)
+		}
 	}
 	// One column per fuel: the header names a fuel (around usage words:
 	// "Natural Gas Use (therms)", "FuelOil2_gal") and a unit, here or in a
@@ -445,4 +449,38 @@ func (d *detector) hasWideCandidate(t *tableSpec) bool {
 		}
 	}
 	return false
+}
+
+// splitByColumns turns the amount of a table without a fuel column into
+// one column per part when the header gives the title's fuel by parts
+// under one name ("Total consumption (GWh): Domestic | Non-Domestic | All
+// meters"): each is a column of the title's fuel, and subtotals.go counts
+// each row's total, never its parts as well.
+func (d *detector) splitByColumns(t *tableSpec) {
+	q := t.qty
+	lead := func(c *column) string {
+		ws := words(c.hdr.Base)
+		if len(ws) > 2 {
+			ws = ws[:2]
+		}
+		return strings.Join(ws, " ")
+	}
+	var same []*column
+	for _, c := range t.cols {
+		if c == q || c.role != roleNone || !strings.EqualFold(c.hdr.UnitText, q.hdr.UnitText) || c.hdr.Scale != q.hdr.Scale || lead(c) != lead(q) {
+			continue
+		}
+		if _, ok := d.quantityScore(t, c); ok {
+			same = append(same, c)
+		}
+	}
+	if len(same) == 0 {
+		return
+	}
+	t.qty = nil
+	for _, c := range append([]*column{q}, same...) {
+		c.role, c.fuelID, c.fuelAlias = roleWideFuel, t.ctxFuel, true
+		t.wide = append(t.wide, c)
+	}
+	sort.Slice(t.wide, func(i, j int) bool { return t.wide[i].col < t.wide[j].col })
 }

@@ -124,7 +124,7 @@ func (t *table) add(r *row) {
 	if t.blankIn(r) {
 		return
 	}
-	if totalRow(r) {
+	if totalRow(r) || t.aggregateRow(r) {
 		t.totalRows = append(t.totalRows, r.num)
 		return
 	}
@@ -426,4 +426,24 @@ func footerRow(r *row, firstCol, lastCol int) bool {
 		return true // "3Natural gas, plus...", "11Industrial combined-heat-and-power"
 	}
 	return len(strings.Fields(text)) >= 6
+}
+
+// aggregateRow reports a row that a label elsewhere in it marks as the
+// sum of other rows: "All local authorities", "All sectors", "Total" in a
+// column other than the fuel's (a region's row above its authorities).
+func (t *table) aggregateRow(r *row) bool {
+	for i := range r.cells {
+		c := &r.cells[i]
+		if c.kind != kText || c.col < t.spec.firstCol || c.col > t.spec.lastCol {
+			continue
+		}
+		if x := t.spec.colAt(c.col); x != nil && (x.role == roleFuel || x.role == roleUnit || x.role == roleTech) {
+			continue
+		}
+		w := words(c.text)
+		if len(w) >= 2 && len(w) <= 4 && (w[0] == "all" || w[0] == "total" || w[0] == "totals") {
+			return true
+		}
+	}
+	return false
 }
