@@ -99,6 +99,17 @@ func (e *Engine) LookupFuel(name string) (FuelMatch, bool) {
 	return m.public(), true
 }
 
+// NotFuelName reports whether name is listed as something that is not a
+// fuel burned (electricity, the EIA codes SUN, WND, WAT), with what it is;
+// cheap, like LookupFuel.
+func (e *Engine) NotFuelName(name string) (desc string, ok bool) {
+	m, found := e.fuels.lookup(name)
+	if !found || m.entry.kind != nameNotFuel || m.entry.row == nil {
+		return "", false
+	}
+	return m.entry.row.desc, true
+}
+
 // editDistance is the Levenshtein distance between a and b, counted in runes.
 func editDistance(a, b string) int {
 	ra, rb := []rune(a), []rune(b)

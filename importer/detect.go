@@ -342,7 +342,9 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 			text = strings.TrimSpace(pre + " " + text)
 		}
 		col := &column{col: c, hdr: parseHeader(text)}
-		if col.hdr.UnitText == "" && t.ctxUnit != "" {
+		if col.hdr.UnitText == "" && t.ctxUnit != "" && t.unitRow == 0 {
+			// A title's unit stands for columns that name none, unless a
+			// row of units under the header gives each its own.
 			if uh := parseHeader(col.hdr.Text + " (" + t.ctxUnit + ")"); uh.UnitText != "" {
 				uh.Text = col.hdr.Text
 				col.hdr = uh

@@ -72,7 +72,7 @@ func (d *detector) count(col *column, c cell) {
 	case nameNotFuel, nameAggregate:
 		st.notFuel++
 	}
-	if u := d.lx.unit(c.text); u.err == nil || u.err.Code != units.CodeUnknown {
+	if u := d.lx.unit(c.text); unitSymbolish(c.text) && (u.err == nil || u.err.Code != units.CodeUnknown) {
 		st.unitLike++
 		if u.err == nil && u.u.Dim == units.Power {
 			st.power++
@@ -136,3 +136,14 @@ func (c *column) decideStyle() {
 // genericFuelWord lists words that name a fuel alone but also belong to
 // other products' names (still gas, gas liquids, road oil, lubricating oil).
 var genericFuelWord = map[string]bool{"gas": true, "gases": true, "oil": true, "oils": true, "fuel": true}
+
+// unitSymbolish reports a text that may be a unit: one letter only when it
+// is written as the symbol (L, t, g, J), since a lone capital is more
+// often a code ("G" for generator, "B" for boiler) than grams.
+func unitSymbolish(s string) bool {
+	s = strings.TrimSpace(s)
+	if len(s) != 1 {
+		return true
+	}
+	return strings.Contains("LltgJ", s)
+}

@@ -181,6 +181,10 @@ func (lx *lexicon) readFuelName(s string) fuelRef {
 	if f := lx.fuel(t); f.err == nil {
 		return fuelRef{kind: nameFuel, name: t, id: f.id, alias: f.alias}
 	}
+	if desc, ok := lx.e.NotFuelName(t); ok {
+		// "SUN", "WND", "Electricity": listed as no fuel burned.
+		return fuelRef{kind: nameNotFuel, why: desc + ", not a fuel burned on site"}
+	}
 	// Brackets hold qualifiers: "(Excluding Supplemental Gaseous Fuels)",
 	// "(bulk)"; the words after them still count ("... (other than
 	// propane) price").
@@ -210,6 +214,17 @@ func (lx *lexicon) readFuelName(s string) fuelRef {
 			return fuelRef{kind: nameFuel, name: j, id: f.id, alias: true}
 		}
 		ws = words(j)
+	}
+	// A footnote letter glued to a word ("Oila", "Coalc": superscripts
+	// flattened): the word without it, where that names a fuel.
+	for i, w := range ws {
+		if len(w) >= 4 && w[len(w)-1] >= 'a' && w[len(w)-1] <= 'f' {
+			if _, ok := lx.e.LookupFuel(w); !ok {
+				if _, ok := lx.e.LookupFuel(w[:len(w)-1]); ok {
+					ws = append(append([]string(nil), ws[:i]...), append([]string{w[:len(w)-1]}, ws[i+1:]...)...)
+				}
+			}
+		}
 	}
 	// The longest run of words that names a fuel, unless another word of
 	// the phrase is a misspelling of that fuel's name ("Natral gas" is a

@@ -102,7 +102,7 @@ func (d *detector) assignRoles(t *tableSpec) {
 			continue
 		}
 		score := 2*frac(c.st.unitLike, c.st.text) + 0.5*frac(c.st.rate, c.st.text)
-		if h.Any(tables.HintUnit) && !h.Any(tables.HintGroup) {
+		if h.Any(tables.HintUnit) && !h.Any(tables.HintGroup|tables.HintKey) {
 			if c.st.text >= 3 && frac(c.st.unitLike+c.st.rate, c.st.text) < 0.3 {
 				continue // "Boiler/Generator/Committed Unit": headed unit, holding no units
 			}
@@ -308,6 +308,12 @@ func (d *detector) quantityScore(t *tableSpec, c *column) (float64, bool) {
 	}
 	if !hasUnit && c.hdr.UnitErr == nil && t.unit == nil && t.ctxUnit == "" {
 		score -= 2.5 // no unit anywhere: a column with one is better
+	}
+	if t.unit != nil && !hasUnit && h.Any(tables.HintQty) {
+		score += 1 // "Fuel Use" beside "Fuel Unit": the amount the unit column is for
+	}
+	if h.Any(tables.HintTotal) {
+		score -= 1 // "Total Fuel MMBtu": a sum beside the amounts
 	}
 	score += c.st.fill(t.sampled) - 0.1*float64(c.col-t.firstCol)/float64(max(1, t.lastCol-t.firstCol))
 	return score, score > 0

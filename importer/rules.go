@@ -7,6 +7,7 @@ import (
 	"github.com/expr-lang/expr/ast"
 	"github.com/expr-lang/expr/parser"
 	"github.com/fluecell/fluecell/funcs"
+	"github.com/fluecell/fluecell/funcs/units"
 )
 
 // userRule is a rule given in Options.Rules, parsed and compiled once
@@ -139,6 +140,11 @@ func proposeRules(t *tableSpec) []string {
 		}
 		unit := ""
 		switch {
+		case t.qty.unitIdent != "" && t.qty.hdr.UnitErr == nil && t.unit != nil && !unitColumnFor(t.unit, t.qty):
+			// The amount's own header unit ("Total Fuel MMBtu") wins over a
+			// unit column whose units are never it (gallons, Mcf: another
+			// column's).
+			unit = t.qty.unitIdent
 		case t.unit != nil:
 			unit = t.unit.ident
 		case t.qty.unitIdent != "":
@@ -356,3 +362,15 @@ func paramVars(e *funcs.Engine, src string) map[string]string {
 type visitor func(ast.Node)
 
 func (v visitor) Visit(n *ast.Node) { v(*n) }
+
+// unitColumnFor reports whether a unit column's sampled values include the
+// unit written in the amount's header: the column then gives that amount's
+// unit row by row.
+func unitColumnFor(u, qty *column) bool {
+	for text := range u.st.distinct {
+		if pu, err := units.Lookup(text); err == nil && pu.Symbol == qty.hdr.Unit.Symbol {
+			return true
+		}
+	}
+	return len(u.st.distinct) == 0
+}
