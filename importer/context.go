@@ -33,8 +33,8 @@ func (d *detector) titleContext(t *tableSpec, above []row) {
 		texts = append(texts, cells...)
 	}
 	for _, s := range texts {
-		if len(s) > 300 {
-			continue
+		if len(s) > 300 || len(strings.Fields(s)) > 14 {
+			continue // a note, not a title: its units speak of something else
 		}
 		if d.lx.vocab.Hints(words(s)).Any(tables.HintOutput) {
 			t.output = true
@@ -73,6 +73,9 @@ func titleUnit(s string) string {
 		}
 	}
 	low := strings.ToLower(s)
+	if len(strings.Fields(s)) > 8 {
+		return "" // "... reported in short tons" in a sentence is a note's, not the table's
+	}
 	for _, lead := range []string{" in ", "unit: ", "units: "} {
 		if i := strings.LastIndex(low, lead); i >= 0 {
 			u := strings.TrimRight(strings.TrimSpace(s[i+len(lead):]), ".")

@@ -275,6 +275,9 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 		if r.blank() || totalRow(r) {
 			continue
 		}
+		if footerRow(r, 1, 1<<14) {
+			break // "Source: ...", notes: the table above has ended
+		}
 		if headerLike(r) && !hasNumber(r) && d.lx.keywordHits(r) >= 2 && len(sample) > 0 {
 			break
 		}

@@ -1,16 +1,18 @@
 package importer
 
 import (
+	"fmt"
 	"hash/fnv"
 	"math"
 	"strings"
 )
 
 // Workbooks often hold the same data twice: a sheet copied to try
-// something ("Data (2)"), an annual extract beside the full monthly table.
-// A table whose rows (fuel, unit, amounts, date) all appear in a larger
-// table of the workbook is a copy: it is not computed, so nothing is
-// counted twice, and a finding at its header names the table it repeats.
+// something ("Data (2)"), an annual extract beside the full monthly table,
+// a summary beside the detail it sums. A table whose rows (fuel, unit,
+// amounts, date) all appear in a larger table, or whose totals by fuel all
+// equal a larger table's, is not computed, so nothing is counted twice,
+// and a finding at its header names the table it repeats.
 
 // rowSigs returns a signature per data row of t from the columns that make
 // its emissions: fuel, unit, amounts, technology, capacity, date. Rows of
@@ -76,7 +78,35 @@ func (sc *scanCtx) dropCopies() {
 				}
 			}
 			if in == len(lists[i]) {
-				t.dropAsCopy(sc, u)
+				t.dropAsCopy(sc, u, "every row of this table repeats the table at %s (a copy or an extract of it)")
+				break
+			}
+		}
+	}
+}
+
+// dropSummaries finds tables whose totals by fuel all equal a larger
+// table's (a regional summary beside the per-plant table it sums, within
+// 1 %) and takes their results out: the same fuel is not counted twice.
+func (sc *scanCtx) dropSummaries() {
+	for _, t := range sc.tables {
+		if t.copyOf != nil || t.computed == 0 || len(t.byFuel) == 0 {
+			continue
+		}
+		for _, u := range sc.tables {
+			if u == t || u.copyOf != nil || u.computed == 0 || len(u.rowNums) <= len(t.rowNums) || len(u.byFuel) != len(t.byFuel) {
+				continue
+			}
+			same := true
+			for k, a := range t.byFuel {
+				b, ok := u.byFuel[k]
+				if !ok || math.Abs(a.TCO2-b.TCO2) > 0.01*math.Max(math.Abs(a.TCO2), math.Abs(b.TCO2)) {
+					same = false
+					break
+				}
+			}
+			if same {
+				t.dropAsCopy(sc, u, "its totals by fuel equal those of the table at %s (a summary of it)")
 				break
 			}
 		}
@@ -84,7 +114,7 @@ func (sc *scanCtx) dropCopies() {
 }
 
 // dropAsCopy takes t's results out: its rows repeat u's.
-func (t *table) dropAsCopy(sc *scanCtx, u *table) {
+func (t *table) dropAsCopy(sc *scanCtx, u *table, why string) {
 	t.copyOf = u
 	for ri := range t.res {
 		for k := range t.res[ri] {
@@ -94,6 +124,5 @@ func (t *table) dropAsCopy(sc *scanCtx, u *table) {
 	t.computed = 0
 	t.byFuel, t.byGroup, t.fuelOrd, t.groupOrd = map[string]*sum{}, map[string]*sum{}, nil, nil
 	sc.warn.add(t.spec.sheet, t.spec.firstCol, t.spec.headerRow, SevInfo, CodeNotComputed,
-		"every row of this table repeats the table at "+u.spec.sheet+"!"+cellRef(u.spec.firstCol, u.spec.headerRow)+
-			" (a copy or an extract of it): not computed, so nothing is counted twice")
+		fmt.Sprintf(why, u.spec.sheet+"!"+cellRef(u.spec.firstCol, u.spec.headerRow))+": not computed, so nothing is counted twice")
 }

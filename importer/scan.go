@@ -150,6 +150,7 @@ func scan(ctx context.Context, e *funcs.Engine, path string, opt Options, calc f
 		res.sheetCells[s.Name] = n
 	}
 	sc.dropCopies()
+	sc.dropSummaries()
 	res.sc, res.e = sc, eng
 	return res, res.finish()
 }
@@ -284,7 +285,7 @@ func (res *ScanResult) finish() error {
 		info.Status = statusOf(t.dataRows, t.computed)
 		info.Reason = "computed " + countOf(t.computed) + " of " + plural(t.dataRows, "row")
 		if t.copyOf != nil {
-			info.Reason = "its rows repeat the table at " + t.copyOf.spec.sheet + "!" + cellRef(t.copyOf.spec.firstCol, t.copyOf.spec.headerRow) + ": not counted twice"
+			info.Reason = "repeats the table at " + t.copyOf.spec.sheet + "!" + cellRef(t.copyOf.spec.firstCol, t.copyOf.spec.headerRow) + " (a copy, an extract or a summary of it): not counted twice"
 		}
 		if t.computed == 0 && t.spec.headerErr != nil {
 			info.Reason += ": " + t.spec.headerErr.Message
