@@ -319,12 +319,14 @@ func removeStaleTemps(out string, shard Shard, files []string) {
 	for _, f := range files {
 		input[OutputName(f)] = f
 	}
+	stamps := filepath.Join(out, stampDir)
 	filepath.WalkDir(out, func(p string, d fs.DirEntry, err error) error {
 		if err != nil {
 			return nil
 		}
 		if d.IsDir() {
-			if d.Name() == stampDir {
+			if p == stamps {
+				removeStaleStampTemps(stamps, shard)
 				return filepath.SkipDir
 			}
 			return nil
@@ -349,6 +351,33 @@ func removeStaleTemps(out string, shard Shard, files []string) {
 			owner = f
 		}
 		if shard.Takes(owner) {
+			os.Remove(p)
+		}
+		return nil
+	})
+}
+
+// removeStaleStampTemps deletes the temporary stamps a killed run left
+// (".rel.json.123.tmp" beside rel.json below the stamp folder), for this
+// shard's inputs only.
+func removeStaleStampTemps(dir string, shard Shard) {
+	filepath.WalkDir(dir, func(p string, d fs.DirEntry, err error) error {
+		if err != nil || d.IsDir() {
+			return nil
+		}
+		name := d.Name()
+		if !strings.HasPrefix(name, ".") || !strings.HasSuffix(name, ".tmp") {
+			return nil
+		}
+		base := strings.TrimSuffix(strings.TrimPrefix(name, "."), ".tmp")
+		if i := strings.LastIndexByte(base, '.'); i > 0 {
+			base = base[:i] // the random part of the temporary name
+		}
+		if !strings.HasSuffix(base, ".json") {
+			return nil
+		}
+		rel, err := filepath.Rel(dir, filepath.Join(filepath.Dir(p), strings.TrimSuffix(base, ".json")))
+		if err == nil && shard.Takes(filepath.ToSlash(rel)) {
 			os.Remove(p)
 		}
 		return nil

@@ -296,6 +296,9 @@ func TestStaleTempsRemoved(t *testing.T) {
 	staleLegacy := filepath.Join(out, ".c.xlsx.42.tmp")
 	os.WriteFile(staleLegacy, []byte("half a converted workbook"), 0o644)
 	keep := filepath.Join(out, ".notes.txt.1.tmp")
+	os.MkdirAll(filepath.Join(out, stampDir, "north"), 0o755)
+	staleStamp := filepath.Join(out, stampDir, "north", ".a.xlsx.json.99.tmp")
+	os.WriteFile(staleStamp, []byte("{"), 0o644)
 	os.WriteFile(stale, []byte("half a workbook"), 0o644)
 	os.WriteFile(keep, []byte("not ours"), 0o644)
 	var calls atomic.Int64
@@ -307,6 +310,9 @@ func TestStaleTempsRemoved(t *testing.T) {
 	}
 	if _, err := os.Stat(staleLegacy); !os.IsNotExist(err) {
 		t.Error("stale temporary output of an .xls left in place")
+	}
+	if _, err := os.Stat(staleStamp); !os.IsNotExist(err) {
+		t.Error("stale temporary stamp (a run killed while writing it) left in place")
 	}
 	if _, err := os.Stat(keep); err != nil {
 		t.Error("removed a file that is not a temporary workbook")
