@@ -249,7 +249,7 @@ func (lx *lexicon) readFuelName(s string) fuelRef {
 			}
 		}
 	}
-	if h.Any(tables.HintNotFuel) {
+	if h.Any(tables.HintNotFuel) && lx.fewUnknown(ws) {
 		return fuelRef{kind: nameNotFuel, why: "not a fuel burned on site"}
 	}
 	return fuelRef{}
@@ -323,4 +323,17 @@ func (lx *lexicon) phraseFuel(s string) string {
 		}
 	}
 	return ""
+}
+
+// fewUnknown reports a phrase with at most one word outside the
+// vocabulary ("Chilled Water", "Electric"): an energy carrier, not the name
+// of a firm that has "Power" in it ("Alaska Power & Telephone").
+func (lx *lexicon) fewUnknown(ws []string) bool {
+	n := 0
+	for i := range ws {
+		if lx.unknownWord(ws, i) {
+			n++
+		}
+	}
+	return n <= 1
 }
