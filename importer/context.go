@@ -248,3 +248,23 @@ func codeRow(r *row) bool {
 	}
 	return n >= 2 && 5*codes >= 4*(n-1)
 }
+
+// headerContext takes the fuel of a table without one from its headers when
+// exactly one fuel is named among them, in a column that is no amount of
+// that fuel itself ("Diesel kWh Generated" beside "Fuel Used Gallons").
+func (d *detector) headerContext(t *tableSpec) {
+	found, from, col := "", "", 0
+	for _, c := range t.cols {
+		id := d.lx.phraseFuel(c.hdr.Base)
+		if id == "" {
+			continue
+		}
+		if found != "" && id != found {
+			return // several fuels: no one fuel for the table
+		}
+		found, from, col = id, c.hdr.Text, c.col
+	}
+	if found != "" {
+		t.ctxFuel, t.ctxFrom, t.ctxCol = found, from, col
+	}
+}

@@ -77,6 +77,7 @@ type tableSpec struct {
 	sampled   int     // rows sampled under the header
 	ctxFuel   string  // a fuel named by the title rows or the sheet name, for a table without a fuel column
 	ctxFrom   string  // where ctxFuel was read, for the note
+	ctxCol    int     // the column whose header gave ctxFuel (0: a title, sheet or file name)
 	ctxUnit   string  // a unit named by the title rows ("(MMcf)", "Quadrillion Btu")
 	partial   bool    // amounts in columns fluecell leaves out (electricity, steam): existing carbon figures cover more
 	when      *column // the date or period of each row of a long table (YYYYMM, Date)
@@ -399,6 +400,9 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 				used[col.unitIdent] = true
 			}
 		}
+	}
+	if t.ctxFuel == "" {
+		d.headerContext(t)
 	}
 	d.assignRoles(t)
 	d.applyMapping(t)

@@ -41,6 +41,8 @@ func (sc *scanCtx) evaluate(t *table) error {
 		// name is weaker, so it is a warning to check.
 		sev, from := SevInfo, "the title "+quoteText(spec.ctxFrom)
 		switch {
+		case spec.ctxCol > 0:
+			sev, from = SevWarning, "the header "+quoteText(spec.ctxFrom)+" ("+cellRef(spec.ctxCol, spec.headerRow)+")"
 		case spec.ctxFrom == spec.sheet:
 			sev, from = SevWarning, "the sheet name "+quoteText(spec.ctxFrom)
 		case strings.HasPrefix(filepath.Base(sc.path), spec.ctxFrom):
