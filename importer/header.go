@@ -111,14 +111,9 @@ var (
 		"throughput", "energy", "mass", "weight", "litres", "liters", "gallons", "input", "reading", "fuel_use", "volumes", "quantities"}
 	moneyWords = []string{"cost", "costs", "price", "spend", "spent", "invoice", "invoiced", "usd", "eur", "gbp", "chf",
 		"jpy", "aud", "cad", "paid", "charge", "charges", "tax", "vat"}
-	notQtyWords = []string{"date", "month", "year", "period", "id", "no", "number", "ref", "reference", "code", "rate",
-		"factor", "ef", "intensity", "percent", "share", "ratio", "hours", "distance", "km", "miles", "mileage", "odometer"}
-	unitWords  = []string{"unit", "units", "uom", "measure", "unidad", "einheit", "unité"}
 	groupWords = []string{"site", "facility", "plant", "location", "region", "department", "entity", "country", "depot",
 		"branch", "office", "building", "subsidiary", "division", "asset", "vehicle", "fleet", "project", "store",
 		"warehouse", "operation", "station", "company", "segment", "area", "business", "premises", "installation", "mine", "farm"}
-	techWords     = []string{"technology", "tech"}
-	capacityWords = []string{"capacity", "nameplate", "installed", "size", "rating", "power"}
 )
 
 // moneyHeader reports a header about money ("Cost (USD)", "Invoice €").
