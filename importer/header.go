@@ -83,27 +83,12 @@ func foldAccent(r rune) rune {
 // snake_case and CamelCase boundaries, footnote digits dropped).
 func words(s string) []string { return tables.Words(s) }
 
-func hasWord(ws []string, any ...string) bool {
-	for _, w := range ws {
-		for _, a := range any {
-			if w == a {
-				return true
-			}
-		}
-	}
-	return false
-}
+// hasWord reports whether ws contains any of the words (tables.Has).
+func hasWord(ws []string, any ...string) bool { return tables.Has(ws, any...) }
 
-// hasPhrase reports whether the words contain the phrase (space-separated).
-func hasPhrase(ws []string, phrases ...string) bool {
-	joined := " " + strings.Join(ws, " ") + " "
-	for _, p := range phrases {
-		if strings.Contains(joined, " "+p+" ") {
-			return true
-		}
-	}
-	return false
-}
+// hasPhrase reports whether the words contain one of the phrases
+// (tables.HasPhrase).
+func hasPhrase(ws []string, phrases ...string) bool { return tables.HasPhrase(ws, phrases...) }
 
 var (
 	qtyWords = []string{"quantity", "qty", "amount", "volume", "consumption", "consumed", "usage", "use", "used",

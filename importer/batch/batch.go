@@ -331,15 +331,8 @@ func removeStaleTemps(out string, shard Shard, files []string) {
 			}
 			return nil
 		}
-		name := d.Name()
-		if !strings.HasPrefix(name, ".") || !strings.HasSuffix(name, ".tmp") {
-			return nil
-		}
-		base := strings.TrimSuffix(strings.TrimPrefix(name, "."), ".tmp")
-		if i := strings.LastIndexByte(base, '.'); i > 0 {
-			base = base[:i] // the random part of the temporary name
-		}
-		if !isWorkbook(base) {
+		base, ok := tempOwner(d.Name())
+		if !ok || !isWorkbook(base) {
 			return nil
 		}
 		rel, err := filepath.Rel(out, filepath.Join(filepath.Dir(p), base))
@@ -365,15 +358,8 @@ func removeStaleStampTemps(dir string, shard Shard) {
 		if err != nil || d.IsDir() {
 			return nil
 		}
-		name := d.Name()
-		if !strings.HasPrefix(name, ".") || !strings.HasSuffix(name, ".tmp") {
-			return nil
-		}
-		base := strings.TrimSuffix(strings.TrimPrefix(name, "."), ".tmp")
-		if i := strings.LastIndexByte(base, '.'); i > 0 {
-			base = base[:i] // the random part of the temporary name
-		}
-		if !strings.HasSuffix(base, ".json") {
+		base, ok := tempOwner(d.Name())
+		if !ok || !strings.HasSuffix(base, ".json") {
 			return nil
 		}
 		rel, err := filepath.Rel(dir, filepath.Join(filepath.Dir(p), strings.TrimSuffix(base, ".json")))
@@ -382,4 +368,18 @@ func removeStaleStampTemps(dir string, shard Shard) {
 		}
 		return nil
 	})
+}
+
+// tempOwner returns the name of the file a temporary file of
+// atomicfile.Write stands for (".name.xlsx.123.tmp" gives name.xlsx); ok
+// is false for any other name.
+func tempOwner(name string) (string, bool) {
+	if !strings.HasPrefix(name, ".") || !strings.HasSuffix(name, ".tmp") {
+		return "", false
+	}
+	base := strings.TrimSuffix(strings.TrimPrefix(name, "."), ".tmp")
+	if i := strings.LastIndexByte(base, '.'); i > 0 {
+		base = base[:i] // the random part of the temporary name
+	}
+	return base, true
 }
