@@ -14,7 +14,8 @@ type Param struct {
 	Default  string   `json:"default,omitempty"` // the value used when an optional parameter is left out
 	Allowed  []string `json:"allowed,omitempty"` // the accepted values of an enumerated string
 
-	kind paramKind // what a string argument names, for checks at compile time
+	kind  paramKind                       // what a string argument names, for checks at compile time
+	check func(e *Engine, s string) error // a check of a literal string argument, for kinds declared outside this file
 }
 
 type paramKind uint8
@@ -35,6 +36,10 @@ const (
 )
 
 func (p Param) with(k paramKind) Param { p.kind = k; return p }
+
+// checked returns p with a compile-time check of literal string arguments; a
+// family of functions in its own file declares its parameter kinds this way.
+func (p Param) checked(check func(e *Engine, s string) error) Param { p.check = check; return p }
 
 // Function is the one declaration of a carbon function. The expression
 // environment, the HTTP routes, the CLI listing and the OpenAPI contract are
@@ -85,9 +90,27 @@ func paramStr(name, doc string, allowed ...string) Param {
 }
 func optional(p Param, def string) Param { p.Optional, p.Default = true, def; return p }
 
+// catalogFamilies are the groups of functions, each declared in its own file,
+// in the order the catalog lists them.
+func catalogFamilies() []func(e *Engine) []*Function {
+	return []func(e *Engine) []*Function{
+		coreFunctions,
+	}
+}
+
 // buildCatalog declares every function. Allowed values that depend on the
 // loaded packs (fuels, packs, technologies) are filled from the engine.
 func buildCatalog(e *Engine) []*Function {
+	var fs []*Function
+	for _, family := range catalogFamilies() {
+		fs = append(fs, family(e)...)
+	}
+	return fs
+}
+
+// coreFunctions declares the fuel, atmosphere, build-out, GWP and unit
+// functions of the first release.
+func coreFunctions(e *Engine) []*Function {
 	packNames := e.PackNames()
 	pack := optional(paramStr("pack", "factor pack", packNames...), e.defaultPack).with(kindPack)
 	fuel := paramStr("fuel", "fuel id or alias, e.g. natural_gas, diesel (case- and space-insensitive)").with(kindFuel)

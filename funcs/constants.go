@@ -10,6 +10,9 @@ import (
 // will at run time, so that Compile can report it at its column.
 func (e *Engine) checkConstant(f *Function, p Param, s string) error {
 	var err error
+	if p.check != nil {
+		err = p.check(e, s)
+	}
 	switch p.kind {
 	case kindFuel:
 		_, _, err = e.resolveFuel(s)

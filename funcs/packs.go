@@ -77,6 +77,13 @@ func builtinPackTitle(name string) (string, units.Basis) {
 	return "", units.NoBasis
 }
 
+// isPackFile reports whether an embedded data file holds factor rows. Files
+// named *_names.csv are vocabularies and *_table.csv other lookup tables (blend
+// compositions and the like), each read by its own loader.
+func isPackFile(name string) bool {
+	return strings.HasSuffix(name, ".csv") && !strings.HasSuffix(name, "_names.csv") && !strings.HasSuffix(name, "_table.csv")
+}
+
 // loadPacks reads the embedded packs, then each user file in order; a later
 // row replaces an earlier one with the same pack, id and quantity. A row with
 // an empty pack column applies to every pack. Nothing is half-loaded: any
@@ -88,8 +95,8 @@ func loadPacks(userFiles []string, readFile func(string) ([]byte, error)) (*pack
 		return nil, fmt.Errorf("embedded packs: %w", err)
 	}
 	for _, e := range entries {
-		if e.Name() == vocabularyFile || e.Name() == techVocabularyFile {
-			continue // vocabularies, not factor packs
+		if !isPackFile(e.Name()) {
+			continue // vocabularies and lookup tables, not factor packs
 		}
 		b, err := embeddedData.ReadFile(path.Join("data", e.Name()))
 		if err != nil {
