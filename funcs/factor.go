@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/big"
+	"sort"
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs/units"
@@ -84,9 +85,27 @@ type quantitySpec struct {
 
 func anyAmount() []units.Dimension { return []units.Dimension{units.Energy, units.Mass, units.Volume} }
 
-// specFor returns the spec of a quantity name. gwp100_<set> is open-ended so
-// that a user pack can add a set.
+// quantityFamilies are the quantities declared beside the functions that use
+// them (each in its own file), after the core ones of coreQuantity.
+func quantityFamilies() []map[string]quantitySpec {
+	return []map[string]quantitySpec{}
+}
+
+// specFor returns the spec of a quantity name: a core quantity, then one of
+// a family. gwp100_<set> is open-ended so that a user pack can add a set.
 func specFor(q string) (quantitySpec, bool) {
+	if s, ok := coreQuantity(q); ok {
+		return s, true
+	}
+	for _, fam := range quantityFamilies() {
+		if s, ok := fam[q]; ok {
+			return s, true
+		}
+	}
+	return quantitySpec{}, false
+}
+
+func coreQuantity(q string) (quantitySpec, bool) {
 	switch q {
 	case "ncv":
 		return quantitySpec{numDim: units.Energy, den: []units.Dimension{units.Mass, units.Volume}, basis: units.NCV, doc: "net calorific value, e.g. TJ/Gg"}, true
@@ -124,8 +143,19 @@ func specFor(q string) (quantitySpec, bool) {
 }
 
 func quantityNames() string {
-	return "ncv, gcv, density, co2_ef, ch4_ef, n2o_ef, carbon_content, ncv_per_gcv, biogenic_fraction, " +
+	var extra []string
+	for _, fam := range quantityFamilies() {
+		for name := range fam {
+			extra = append(extra, name)
+		}
+	}
+	sort.Strings(extra)
+	s := "ncv, gcv, density, co2_ef, ch4_ef, n2o_ef, carbon_content, ncv_per_gcv, biogenic_fraction, " +
 		"capacity_factor, lifecycle, direct, lifetime, gtc_per_ppm, molar_mass, gwp100_<set>"
+	if len(extra) > 0 {
+		s += ", " + strings.Join(extra, ", ")
+	}
+	return s
 }
 
 // speciesOf maps a species token of a factor unit to its canonical spelling.
