@@ -21,6 +21,7 @@ func buildoutQuantities() map[string]quantitySpec {
 		"battery_production": part("emissions of producing a battery per kWh of capacity, e.g. kg CO2e/kWh"),
 		"vehicle_production": {numDim: units.Mass, species: "CO2e", doc: "emissions of producing one vehicle without its traction battery, e.g. t CO2e"},
 		"battery_capacity":   {numDim: units.Energy, doc: "usual traction battery capacity of a vehicle class, e.g. kWh"},
+		"building_embodied":  {numDim: units.Mass, species: "CO2e", den: []units.Dimension{units.Area}, doc: "embodied emissions of a building per floor area, e.g. kg CO2e/m2"},
 	}
 }
 
@@ -36,6 +37,7 @@ func buildoutFunctions(e *Engine) []*Function {
 	life := optional(paramNum("lifetime_years", "yr", "economic lifetime in 365-day years"), "technology default")
 	part := paramStr("part", "part of the life-cycle intensity (IPCC AR5 WG3 Annex III Table A.III.2 columns)", lifecycleParts()...).checked(checkPart)
 	vehicle := paramStr("vehicle", "vehicle class: car_<small|medium|large>_<ice|hev|phev|bev> (internal combustion, hybrid, plug-in hybrid, battery-electric)", e.vehicles()...).checked(checkVehicle)
+	building := paramStr("building_type", "building type", e.buildingTypes()...).checked(checkBuilding)
 	lifecycle := []string{"IPCC AR5 WG3 Annex III Table A.III.2"}
 	cars := []string{"ICCT 2021 (Bieker), A global comparison of the life-cycle GHG emissions of combustion engine and electric passenger cars (from memory)",
 		"Argonne GREET vehicle-cycle summaries (from memory)", "IVL report C444 (Emilsson and Dahllof 2019), Lithium-Ion Vehicle Battery Production (from memory)"}
@@ -61,5 +63,9 @@ func buildoutFunctions(e *Engine) []*Function {
 			ResultUnit: "t CO2e", Params: []Param{paramNum("capacity", "the unit given in unit", "storage capacity"),
 				Param{Name: "unit", Type: typeString, Unit: "unit string", Doc: "energy unit of capacity (kWh, MWh...)", kind: kindEnergyUnit}, stat},
 			Example: `battery_embodied(100, "MWh")`, ExampleResult: 100 * 1000 * 83.5 / 1000, Sources: cars[2:], call: callBatteryEmbodied},
+		{Name: "building_embodied", Doc: "Embodied emissions of new buildings: floor area x emissions per m2 of the building type, whole life without operational energy (EN 15978 modules A1-A5, B1-B5, C1-C4). median is business as usual for new build; min is the publication's 2030 target." + screening,
+			ResultUnit: "t CO2e", Params: []Param{paramNum("area", "the unit given in unit", "gross internal floor area"),
+				Param{Name: "unit", Type: typeString, Unit: "unit string", Doc: "area unit of area (m2, ft2, ha)"}.checked(checkAreaUnit), building, stat},
+			Example: `building_embodied(5000, "m2", "office")`, ExampleResult: 5000 * 1400 / 1000.0, Sources: []string{"RIBA 2030 Climate Challenge version 2 (2021) (from memory)"}, call: callBuildingEmbodied},
 	}
 }

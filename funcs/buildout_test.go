@@ -197,3 +197,46 @@ func TestBuildoutBadInputs(t *testing.T) {
 		}
 	}
 }
+
+// TestBuildingEmbodied: floor area x kg CO2e per m2, by hand from RIBA 2030
+// Climate Challenge version 2 (2021), embodied carbon targets (business as
+// usual domestic 1200, office 1400, school 1000; 2030 targets 625, 750, 540
+// kg CO2e/m2; from memory).
+func TestBuildingEmbodied(t *testing.T) {
+	e := newTestEngine(t)
+	for _, tt := range []struct {
+		expr string
+		want float64
+	}{
+		{`building_embodied(5000, "m2", "office")`, 7000},              // 5000 m2 x 1400 kg/m2
+		{`building_embodied(5000, "m2", "office", "min")`, 3750},       // 5000 m2 x 750 kg/m2
+		{`building_embodied(120, "m2", "residential")`, 144},           // one 120 m2 home x 1200 kg/m2
+		{`building_embodied(1, "ha", "School")`, 10000},                // 10 000 m2 x 1000 kg/m2
+		{`building_embodied(10000, "ft2", "residential")`, 1114.83648}, // 929.0304 m2 x 1200 kg/m2
+	} {
+		r, err := evalExpr(e, tt.expr)
+		if err != nil {
+			t.Errorf("%s: %v", tt.expr, err)
+			continue
+		}
+		if !near(r.Value, tt.want, 1e-12) {
+			t.Errorf("%s = %v, want %v", tt.expr, r.Value, tt.want)
+		}
+	}
+	r := call(t, e, `building_embodied(100, "m2", "school", "min")`)
+	if !hasNote(r, "2030 target") {
+		t.Errorf("notes %q", r.Notes)
+	}
+	for _, tt := range []struct{ expr, code, want string }{
+		{`building_embodied(100, "m2", "warehouse")`, CodeBadArgument, `building_embodied: building_type: unknown building type "warehouse": accepted are office, residential, school (column 30)`},
+		{`building_embodied(100, "m3", "office")`, CodeUnit, `building_embodied: unit "m3" is a volume, but an area is needed here (column 24)`},
+		{`building_embodied(-5, "m2", "office")`, CodeBadArgument, `building_embodied: area: must not be negative, got -5 (column 1)`},
+		{`building_embodied(100, "m2", "office", "max")`, CodeMissingFactor, `building_embodied: stat: no published maximum for office (column 1)`},
+	} {
+		_, err := evalExpr(e, tt.expr)
+		fe, ok := AsError(err)
+		if !ok || fe.Code != tt.code || fe.Headline() != tt.want {
+			t.Errorf("%s:\n got: %v\nwant: %s %s", tt.expr, err, tt.code, tt.want)
+		}
+	}
+}
