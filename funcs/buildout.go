@@ -25,6 +25,12 @@ func buildoutQuantities() map[string]quantitySpec {
 	}
 }
 
+// ObservedAirborneFraction is the long-run mean share of emitted CO2 that has
+// stayed in the atmosphere, about 44 % (Global Carbon Budget, Friedlingstein et
+// al.; from memory). Atmosphere functions default to 1 (mass to concentration);
+// a planner may pass this value to see what stays.
+const ObservedAirborneFraction = 0.44
+
 // Screening is the caution every build-out function states.
 const screening = " Screening estimate from published life-cycle studies: real projects differ with materials, supply chains and grids."
 
