@@ -71,6 +71,14 @@ func TestSummaryBuildPlanInAtmosphere(t *testing.T) {
 			}
 		}
 	}
+	// shown with three significant figures, not as 0.000
+	shown, err := g.GetRows(SheetSummary)
+	must(t, err)
+	for _, r := range shown {
+		if len(r) > 1 && strings.HasPrefix(r[0], "GtC") && r[1] != "1.527E-04" {
+			t.Errorf("GtC shown as %q, want 1.527E-04", r[1])
+		}
+	}
 	for key, want := range map[string][3]float64{
 		"tCO2e":                            {total, low, high},
 		"GtC":                              {gtc, gtc * low / total, gtc * high / total},

@@ -93,7 +93,13 @@ func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
 	}
 	row++
 	if bp := rep.BuildPlan; bp != nil {
-		row = writeBuildPlanBlock(set, st, row, bp)
+		// GtC and ppm of a plan are small numbers: three significant figures
+		sciFmt := "0.000E+00"
+		sci, err := f.NewStyle(&excelize.Style{CustomNumFmt: &sciFmt})
+		if err != nil {
+			return excelErr(res.Path, "sheet "+name, err)
+		}
+		row = writeBuildPlanBlock(set, st, sci, row, bp)
 	}
 
 	fuels := map[string]*sum{}
@@ -433,26 +439,26 @@ func (res *ScanResult) embodiedRange(tech string) (lo, hi float64, ok bool) {
 // writeBuildPlanBlock writes the build plan's total with its range, as GtC and
 // as ppm at the stated airborne fractions, from row on; it returns the next
 // free row.
-func writeBuildPlanBlock(set func(string, any, int), st *styles, row int, bp *BuildPlanTotal) int {
+func writeBuildPlanBlock(set func(string, any, int), st *styles, sci, row int, bp *BuildPlanTotal) int {
 	set(cellRef(1, row), "Build plan in the atmosphere (embodied emissions of what the plan builds)", st.head)
 	row++
 	for i, h := range []string{"", "median", "low", "high"} {
 		set(cellRef(1+i, row), h, st.head)
 	}
 	row++
-	line := func(label string, v float64) {
+	line := func(label string, v float64, style int) {
 		set(cellRef(1, row), label, 0)
-		set(cellRef(2, row), v, st.num)
+		set(cellRef(2, row), v, style)
 		if bp.Low != nil && bp.High != nil && bp.TCO2e != 0 {
-			set(cellRef(3, row), v*(*bp.Low)/bp.TCO2e, st.num)
-			set(cellRef(4, row), v*(*bp.High)/bp.TCO2e, st.num)
+			set(cellRef(3, row), v*(*bp.Low)/bp.TCO2e, style)
+			set(cellRef(4, row), v*(*bp.High)/bp.TCO2e, style)
 		}
 		row++
 	}
-	line("tCO2e", bp.TCO2e)
-	line("GtC (CO2e counted as CO2, x 12/44)", bp.GtC)
-	line("ppm CO2, airborne fraction "+funcs.FormatNumber(bp.AirborneFraction)+" (all of it stays: mass to concentration, 2.124 GtC per ppm)", bp.PPM)
-	line("ppm CO2, airborne fraction "+funcs.FormatNumber(bp.ObservedAirborneFraction)+" (long-run observed share that stays, Global Carbon Budget)", bp.PPMObserved)
+	line("tCO2e", bp.TCO2e, st.num)
+	line("GtC (CO2e counted as CO2, x 12/44)", bp.GtC, sci)
+	line("ppm CO2, airborne fraction "+funcs.FormatNumber(bp.AirborneFraction)+" (all of it stays: mass to concentration, 2.124 GtC per ppm)", bp.PPM, sci)
+	line("ppm CO2, airborne fraction "+funcs.FormatNumber(bp.ObservedAirborneFraction)+" (long-run observed share that stays, Global Carbon Budget)", bp.PPMObserved, sci)
 	note := "low and high: every row at its technology's published minimum and maximum (IPCC AR5 WG3 Annex III Table A.III.2). Screening estimates."
 	if bp.RangeNote != "" {
 		note = bp.RangeNote + ". Screening estimates."
