@@ -97,6 +97,11 @@ func (e *Engine) buildPlan(key planKey) (*plan, error) {
 		return e.blendPlan(key, m)
 	}
 	p := &plan{}
+	if fuel.Family == "gas" {
+		if n := units.GasVolumeNote(u); n != "" {
+			p.notes = append(p.notes, n)
+		}
+	}
 	if m.alias {
 		note := "fuel " + quote(key.fuel) + " read as " + fuel.ID
 		if len(m.dropped) > 0 {
@@ -128,10 +133,14 @@ func (e *Engine) buildPlan(key planKey) (*plan, error) {
 		if err != nil {
 			return nil, err
 		}
-		if err := e.co2ePlan(p, packName, fuel, u, set, ch4, n2o); err != nil {
+		if err := e.co2ePlan(p, packName, fuel, u, set, "co2_ef", ch4, n2o); err != nil {
 			return nil, err
 		}
 		p.notes = append(p.notes, note)
+	case kindMobileCO2, kindMobileCO2e:
+		if err := e.mobilePlan(p, key, packName, fuel, u); err != nil {
+			return nil, err
+		}
 	case kindCarbon:
 		if err := e.carbonPlan(p, packName, fuel, u); err != nil {
 			return nil, err
@@ -227,11 +236,11 @@ func biogenicNote(fuel *Fuel, bio *big.Rat) string {
 	return "CO2 from " + fuel.ID + " is biogenic (" + share + "): report it separately as a memo item, outside the Scope 1 total"
 }
 
-// co2ePlan fills p with the CO2e of fuel: CO2 from co2_ef, CH4 and N2O from the quantities
-// ch4 and n2o (a sector's or a mode's rows).
-func (e *Engine) co2ePlan(p *plan, packName string, fuel *Fuel, u units.Unit, set, ch4, n2o string) error {
+// co2ePlan fills p with the CO2e of fuel: CO2, CH4 and N2O from the quantities co2, ch4 and
+// n2o (co2_ef and a sector's or a mode's rows).
+func (e *Engine) co2ePlan(p *plan, packName string, fuel *Fuel, u units.Unit, set, co2, ch4, n2o string) error {
 	bio := e.biogenicFraction(packName, fuel)
-	kCO2, fs, notes, err := e.emission(packName, fuel, u, "co2_ef")
+	kCO2, fs, notes, err := e.emission(packName, fuel, u, co2)
 	if err != nil {
 		return err
 	}
