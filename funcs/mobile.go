@@ -26,7 +26,7 @@ func mobileModes() []mobileMode {
 	const ch3 = "IPCC 2006 Guidelines Vol 2 Ch 3 "
 	road, offroad := ch3+"Table 3.2.1", ch3+"Table 3.3.1"
 	return []mobileMode{
-		{name: "road", title: "road vehicles (diesel, natural gas, LPG: one default per fuel)", ipcc: road},
+		{name: "road", title: "road vehicles, one default per fuel", ipcc: road},
 		{name: "road_uncontrolled", title: "road vehicles without emission controls", ipcc: road},
 		{name: "road_oxidation_catalyst", title: "road vehicles with an oxidation catalyst", ipcc: road},
 		{name: "road_low_mileage_1995", title: "low-mileage light-duty road vehicles of 1995 or later", ipcc: road},
