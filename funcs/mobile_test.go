@@ -120,10 +120,10 @@ func TestMobileHub(t *testing.T) {
 func TestMobileErrors(t *testing.T) {
 	e := newTestEngine(t)
 	for expr, want := range map[string]string{
-		`mobile_co2e("diesel", 1, "TJ", "aviaton")`: `mobile_co2e: mode: unknown mode "aviaton": accepted are road, road_uncontrolled, road_oxidation_catalyst, road_low_mileage_1995, offroad_agriculture, offroad_forestry, offroad_industry, offroad_household, offroad_agriculture_4stroke, offroad_industry_4stroke, offroad_household_4stroke, offroad_agriculture_2stroke, offroad_forestry_2stroke, offroad_industry_2stroke, offroad_household_2stroke, rail, navigation, aviation (did you mean aviation?)`,
-		`mobile_co2e("gasoline", 1, "TJ", "road")`: `mobile_co2e: mode: pack ipcc2006 has no CH4 and N2O factors for motor_gasoline in mode road (road vehicles, one default per fuel); its modes for motor_gasoline: road_uncontrolled, road_oxidation_catalyst, road_low_mileage_1995,`,
+		`mobile_co2e("diesel", 1, "TJ", "aviaton")`:                 `mobile_co2e: mode: unknown mode "aviaton": accepted are road, road_uncontrolled, road_oxidation_catalyst, road_low_mileage_1995, offroad_agriculture, offroad_forestry, offroad_industry, offroad_household, offroad_agriculture_4stroke, offroad_industry_4stroke, offroad_household_4stroke, offroad_agriculture_2stroke, offroad_forestry_2stroke, offroad_industry_2stroke, offroad_household_2stroke, rail, navigation, aviation (did you mean aviation?)`,
+		`mobile_co2e("gasoline", 1, "TJ", "road")`:                  `mobile_co2e: mode: pack ipcc2006 has no CH4 and N2O factors for motor_gasoline in mode road (road vehicles, one default per fuel); its modes for motor_gasoline: road_uncontrolled, road_oxidation_catalyst, road_low_mileage_1995,`,
 		`mobile_co2e("diesel", 1, "gal", "road", "ar5", "epa2025")`: `mobile_co2e: mode: pack epa2025 has no CH4 and N2O factors for gas_diesel_oil in mode road (road vehicles, one default per fuel); its modes for gas_diesel_oil: rail; pack ipcc2006 has this mode (pass it as pack); the US EPA Hub gives on-road CH4 and N2O per vehicle-mile, not per gallon`,
-		`mobile_co2e("wood", 1, "t", "rail")`: `mobile_co2e: mode: pack ipcc2006 has no CH4 and N2O factors for wood in mode rail (railway locomotives); it has no mobile CH4 and N2O for wood`,
+		`mobile_co2e("wood", 1, "t", "rail")`:                       `mobile_co2e: mode: pack ipcc2006 has no CH4 and N2O factors for wood in mode rail (railway locomotives); it has no mobile CH4 and N2O for wood`,
 	} {
 		_, err := evalExpr(e, expr)
 		if err == nil || !strings.HasPrefix(err.Error(), want) {

@@ -130,8 +130,8 @@ func TestSectorOnePerFuel(t *testing.T) {
 func TestSectorErrors(t *testing.T) {
 	e := newTestEngine(t)
 	for expr, want := range map[string]string{
-		`fuel_co2e("coal", 1, "TJ", "ar5", "ipcc2006", "households")`: `fuel_co2e: sector: unknown sector "households": accepted are energy, manufacturing, commercial, residential, agriculture`,
-		`fuel_co2e("coal", 1, "TJ", "ar5", "ipcc2006", "comercial")`:  `fuel_co2e: sector: unknown sector "comercial": accepted are energy, manufacturing, commercial, residential, agriculture (did you mean commercial?)`,
+		`fuel_co2e("coal", 1, "TJ", "ar5", "ipcc2006", "households")`:               `fuel_co2e: sector: unknown sector "households": accepted are energy, manufacturing, commercial, residential, agriculture`,
+		`fuel_co2e("coal", 1, "TJ", "ar5", "ipcc2006", "comercial")`:                `fuel_co2e: sector: unknown sector "comercial": accepted are energy, manufacturing, commercial, residential, agriculture (did you mean commercial?)`,
 		`fuel_co2e("blast_furnace_gas", 1, "TJ", "ar5", "ipcc2006", "residential")`: `fuel_co2e: sector: pack ipcc2006 has no CH4 and N2O factors for blast_furnace_gas in sector residential (residential): pass sector energy, or a pack that has them`,
 	} {
 		_, err := evalExpr(e, expr)
