@@ -44,7 +44,11 @@ func (e *Engine) blendPlan(key planKey, m fuelMatch) (*plan, error) {
 	case kindCO2, kindMobileCO2:
 		memo := quote(key.fuel) + ": " + pct(share) + " % fossil by volume; " + pct(rest) + " % " + row.bioID + " is biogenic, its CO2 "
 		if bio, err := e.fuelPlan(bioKey); err == nil {
-			p.memoK = ratFloat(new(big.Rat).Mul(rest, bio.exact))
+			k := new(big.Rat).Mul(rest, bio.exact)
+			p.memoK, p.memoDen = ratFloat(k), 1
+			if n, d, ok := smallFraction(k); ok {
+				p.memoK, p.memoDen = n, d
+			}
 			p.memoPrefix, p.memoSuffix = memo+"(", " t) is a memo item, not in this result"
 			p.factors = append(p.factors, bio.factors...)
 		} else {
@@ -72,7 +76,7 @@ func (p *plan) memoNote(amount float64) string {
 	if p.memoPrefix == "" {
 		return ""
 	}
-	return p.memoPrefix + FormatNumber(amount*p.memoK) + p.memoSuffix
+	return p.memoPrefix + FormatNumber(amount*p.memoK/p.memoDen) + p.memoSuffix
 }
 
 // errHeadline is an error's message without the function prefix or caret snippet.

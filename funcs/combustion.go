@@ -39,9 +39,10 @@ type plan struct {
 	unit    string
 	factors []*Factor
 	notes   []string
-	// memoK is a blend's biogenic CO2 in t per unit amount, stated in a note built per call
-	// from memoPrefix and memoSuffix (see blendPlan); memoPrefix is "" for other plans.
-	memoK                  float64
+	// memoK/memoDen is a blend's biogenic CO2 in t per unit amount (a fraction like num/den),
+	// stated in a note built per call from memoPrefix and memoSuffix (see blendPlan);
+	// memoPrefix is "" for other plans.
+	memoK, memoDen         float64
 	memoPrefix, memoSuffix string
 }
 

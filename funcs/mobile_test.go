@@ -110,6 +110,11 @@ func TestMobileHub(t *testing.T) {
 			t.Errorf("%s = %v, want %v (US EPA GHG Emission Factors Hub 2025 %s)", c.expr, r.Value, c.want, c.table)
 		}
 	}
+	// E10: 90 gal gasoline x 8.78 kg = 790.2 kg fossil CO2; 10 gal ethanol x 5.75 kg = 57.5 kg
+	// biogenic, a memo item (Hub Table 2).
+	if r := call(t, e, `mobile_co2("E10", 100, "gal", "road", "epa2025")`); !near(r.Value, 0.7902, 1e-12) || !hasNote(r, "its CO2 (0.0575 t) is a memo item") {
+		t.Errorf("E10: %v %q", r.Value, r.Notes)
+	}
 	// Ethanol's CO2 is biogenic: mobile_co2 returns it with the memo note.
 	r := call(t, e, `mobile_co2("ethanol", 1000, "gal", "road", "epa2025")`)
 	if !near(r.Value, 5.75, 1e-12) || !hasNote(r, "CO2 from ethanol is biogenic") {
