@@ -25,8 +25,10 @@ type catalog struct {
 	ambig    map[string]*ambiguity // lower-cased ambiguous spellings
 	suggest  []candidate           // spellings offered as "did you mean"
 
-	prefixes []prefix             // written magnitude words ("thousand", "'000")
-	scaled   map[scaledKey]uint16 // declared units equal to a magnitude times another unit (kgal)
+	prefixes   []prefix             // written magnitude words ("thousand", "'000")
+	siPrefixes []siPrefix           // SI prefixes, for readSI
+	siBases    []prefixBase         // SI symbols, for readSI
+	scaled     map[scaledKey]uint16 // declared units equal to a magnitude times another unit (kgal)
 }
 
 // candidate is a lower-cased spelling considered for suggestions.
@@ -43,18 +45,20 @@ var table = build(unitDefs(), ambiguities())
 // programming error, caught by the tests.
 func build(defs []unitDef, ambs []ambiguity) *catalog {
 	c := &catalog{
-		units:    []Unit{{}},
-		si:       []*big.Rat{nil},
-		siFloat:  make([]float64, numScales),
-		exact:    []string{""},
-		ref:      []string{""},
-		spell:    [][]string{nil},
-		pos:      []int{0},
-		exactMap: map[string]uint16{},
-		foldMap:  map[string]uint16{},
-		ambig:    map[string]*ambiguity{},
-		prefixes: magnitudePrefixes(),
-		scaled:   map[scaledKey]uint16{},
+		units:      []Unit{{}},
+		si:         []*big.Rat{nil},
+		siFloat:    make([]float64, numScales),
+		exact:      []string{""},
+		ref:        []string{""},
+		spell:      [][]string{nil},
+		pos:        []int{0},
+		exactMap:   map[string]uint16{},
+		foldMap:    map[string]uint16{},
+		ambig:      map[string]*ambiguity{},
+		prefixes:   magnitudePrefixes(),
+		siPrefixes: siPrefixes(),
+		siBases:    prefixBases(),
+		scaled:     map[scaledKey]uint16{},
 	}
 	foldIDs := map[string][]uint16{}
 	addSpelling := func(s string, id uint16, fold, symbol bool) {

@@ -26,6 +26,9 @@ type ambiguity struct {
 	spell []string
 	note  string // why it is ambiguous, when the alternatives do not say it
 	alts  []alt
+	// refused is the SI reading of a spelling refused because folding its case would change
+	// it ("milliwatt hour" for "mWh"); see prefixTrap.
+	refused string
 }
 
 // alt is one unit the user could have meant, with a short description.
