@@ -96,7 +96,7 @@ func TestFoldStillAccepted(t *testing.T) {
 	for in, want := range map[string]string{
 		"mwh": "MWh", "MWH": "MWh", "mj": "MJ", "Gj": "GJ", "gJ": "GJ", "mw": "MW", "mwp": "MW",
 		"KWH": "kWh", "KJ": "kJ", "gwh": "GWh", "kwyr": "kWyr",
-		"kl": "kL",   // kilolitre as written: the SI reading is kL
+		"kl":   "kL", // kilolitre as written: the SI reading is kL
 		"MTOE": "Mtoe", "NM3": "Nm3", "msm3": "MSm3", "KM": "km", "HA": "ha", "Kg": "kg", "KG": "kg",
 		"mbbl": "Mbbl", "mcf": "Mcf", // bbl and cf take no SI prefix: M is a thousand in oil and gas usage
 		"tg": "Mt", "MIN": "min", "D": "d",
