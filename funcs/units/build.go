@@ -28,6 +28,7 @@ type catalog struct {
 	prefixes   []prefix             // written magnitude words ("thousand", "'000")
 	siPrefixes []siPrefix           // SI prefixes, for readSI
 	siBases    []prefixBase         // SI symbols, for readSI
+	notes      map[string]string    // lower-cased spellings read by convention: their note
 	scaled     map[scaledKey]uint16 // declared units equal to a magnitude times another unit (kgal)
 }
 
@@ -58,6 +59,7 @@ func build(defs []unitDef, ambs []ambiguity) *catalog {
 		prefixes:   magnitudePrefixes(),
 		siPrefixes: siPrefixes(),
 		siBases:    prefixBases(),
+		notes:      map[string]string{},
 		scaled:     map[scaledKey]uint16{},
 	}
 	foldIDs := map[string][]uint16{}
@@ -143,6 +145,14 @@ func build(defs []unitDef, ambs []ambiguity) *catalog {
 			if u, _, ok := c.resolveScaled(al.sym); !ok || u.Symbol != al.sym {
 				panic("units: ambiguity names unknown symbol " + al.sym)
 			}
+		}
+	}
+	for _, sn := range spellingNotes() {
+		for _, sp := range sn.spell {
+			if _, ok := c.exactMap[sp]; !ok || strings.ToLower(sp) != strings.Map(asciiLower, sp) {
+				panic("units: note for unknown or non-ASCII spelling " + sp)
+			}
+			c.notes[strings.ToLower(sp)] = sn.note
 		}
 	}
 	c.buildRatios()
