@@ -48,7 +48,6 @@ type gasEntry struct {
 // gasName is how a folded name maps to a gas, and the source of the mapping.
 type gasName struct {
 	gas    *gasEntry
-	name   string // as written in the table
 	source string // "" for the gas's own id and name
 }
 
@@ -234,9 +233,9 @@ func (ix *gasIndex) addName(name string, g *gasEntry, source string) error {
 		if prev.gas == g && source == "" {
 			return nil
 		}
-		return fmt.Errorf("name %q is already a name of %s (%q)", name, prev.gas.info.ID, prev.name)
+		return fmt.Errorf("name %q is already a name of %s (id %s)", name, prev.gas.info.Name, prev.gas.info.ID)
 	}
-	ix.byKey[k] = &gasName{gas: g, name: name, source: source}
+	ix.byKey[k] = &gasName{gas: g, source: source}
 	return nil
 }
 
