@@ -95,6 +95,7 @@ func catalogFamilies() []func(e *Engine) []*Function {
 	return []func(e *Engine) []*Function{
 		coreFunctions,
 		refrigerantFunctions,
+		fugitiveFunctions,
 	}
 }
 
