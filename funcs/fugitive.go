@@ -34,7 +34,7 @@ func fugitiveFunctions(e *Engine) []*Function {
 				{Name: "unit", Type: typeString, Unit: "unit string", Doc: "mass unit of charge (kg, lb, t...)", kind: kindMassUnit},
 				paramNum("leak_rate", "fraction per yr", "share of the charge lost per year, in [0, 1]; refrigerant_leak_rate gives published defaults"),
 				gwpSetParam(e, "IPCC assessment whose GWP-100 values weight the gas")},
-			Example:       `fugitive_co2e("R-404A", 200, "kg", refrigerant_leak_rate("commercial_refrigeration"))`,
+			Example:       `fugitive_co2e("R-404A", 200, "kg", 0.35)`,
 			ExampleResult: 0.2 * 0.35 * (0.44*3170 + 0.52*4800 + 0.04*1300),
 			Sources:       []string{table79, "IPCC AR5 WG1 Ch 8 Table 8.A.1", "ANSI/ASHRAE Standard 34 (blend compositions)"}, call: callFugitive},
 		{Name: "refrigerant_leak_rate", Doc: "Published annual leak rate of a kind of refrigeration or air-conditioning equipment, as a fraction of its charge; " +
