@@ -153,7 +153,6 @@ func newGasIndex(ps *packSet, t gasTables) (*gasIndex, error) {
 	if err := ix.addBlends(t.blends, t.blendFile); err != nil {
 		return nil, err
 	}
-	ix.addCustom(ps)
 	for _, g := range ix.ordered {
 		for _, n := range []string{g.info.ID, g.info.Name} {
 			if err := ix.addName(n, g, ""); err != nil {
@@ -184,6 +183,19 @@ func newGasIndex(ps *packSet, t gasTables) (*gasIndex, error) {
 			return nil, bad("name", "%s", err.Error())
 		}
 	}
+	// custom gases last, so that an id reading as a known name is refused at its factor row
+	custom := ix.addCustom(ps)
+	for _, g := range ix.ordered {
+		f := custom[g.info.ID]
+		if f == nil {
+			continue
+		}
+		id := g.info.ID
+		if err := ix.addName(id, g, ""); err != nil {
+			return nil, &PackFileError{File: f.File, Line: f.Line, Column: "id", Reason: "GWP-100 row for " + quote(id) + ": " + err.Error() +
+				"; give that gas's id to replace its value, or choose another id"}
+		}
+	}
 	for k := range ix.byKey {
 		ix.keys = append(ix.keys, k)
 	}
@@ -204,14 +216,14 @@ func (ix *gasIndex) add(g *gasEntry) {
 	ix.byID[g.info.ID] = g
 }
 
-// addCustom adds the ids of GWP-100 rows that no table lists, sorted.
-func (ix *gasIndex) addCustom(ps *packSet) {
+// addCustom adds the ids of GWP-100 rows that no table lists, sorted; it returns a row of each.
+func (ix *gasIndex) addCustom(ps *packSet) map[string]*Factor {
 	var ids []string
-	seen := map[string]bool{}
+	rows := map[string]*Factor{}
 	for _, p := range ps.packs {
-		for k := range p.rows {
-			if strings.HasPrefix(k.quantity, "gwp100_") && ix.byID[k.id] == nil && !seen[k.id] {
-				seen[k.id] = true
+		for k, f := range p.rows {
+			if strings.HasPrefix(k.quantity, "gwp100_") && ix.byID[k.id] == nil && rows[k.id] == nil {
+				rows[k.id] = f
 				ids = append(ids, k.id)
 			}
 		}
@@ -220,6 +232,7 @@ func (ix *gasIndex) addCustom(ps *packSet) {
 	for _, id := range ids {
 		ix.add(&gasEntry{info: GasInfo{ID: id, Name: id, Kind: "custom"}})
 	}
+	return rows
 }
 
 // addName maps the folded name to g. The same key for another gas is an error; for the same gas

@@ -170,6 +170,12 @@ func TestUserPackGases(t *testing.T) {
 	if r, err := evalExpr(e, `gwp("R-410A", "ar4")`); err != nil || r.Value != 2087.5 {
 		t.Errorf("blend in another set: %v %v", r.Value, err)
 	}
+	// an id that reads as another gas's name would be unreachable: refused, naming the row
+	_, err = New(WithFactorData("mine.csv", []byte("pack,id,quantity,value,unit,source\ncommon,r_1234ze,gwp100_ar5,1,1,a lab report\n")))
+	want := `factors: mine.csv:2: column id: GWP-100 row for "r_1234ze": name "r_1234ze" is already a name of HFO-1234ze(E) (id hfo_1234ze_e); give that gas's id to replace its value, or choose another id`
+	if err == nil || err.Error() != want {
+		t.Errorf("got %v\nwant %s", err, want)
+	}
 }
 
 // TestGWPRowsCited: every GWP row of the gas pack names an IPCC table and agrees with its
