@@ -150,27 +150,16 @@ func callFugitive(e *Engine, c *callCtx, a argList) (float64, string, error) {
 	if err != nil {
 		return 0, "", err
 	}
-	set, err := e.resolveGWPSet(setArg)
+	g, err := e.gwpPlan(gasArg, setArg)
 	if err != nil {
 		return 0, "", withFunc(err, a.fn.Name)
 	}
-	g, note, err := e.gases.resolve(gasArg)
-	if err != nil {
-		return 0, "", withFunc(err, a.fn.Name)
-	}
-	gwp, fs, notes, err := e.gasGWP(g, set)
-	if err != nil {
-		return 0, "", withFunc(err, a.fn.Name)
-	}
-	if note != "" {
-		c.note(note)
-	}
-	c.use(fs...)
-	c.note(notes...)
+	c.use(g.factors...)
+	c.note(g.notes...)
 	c.note("screening estimate: " + FormatNumber(charge) + " " + us + " charge x " + FormatNumber(rate) + " lost per year x GWP-100 " +
-		strings.ToUpper(set) + " " + FormatNumber(ratFloat(gwp)) + "; operating leaks only")
+		strings.ToUpper(g.set) + " " + FormatNumber(g.value) + "; operating leaks only")
 	// charge and rate as the decimals they print as, so that the product is rounded once
-	v := new(big.Rat).Mul(u.SI(), gwp)
+	v := new(big.Rat).Mul(u.SI(), g.exact)
 	v.Mul(v, decimalRat(charge))
 	v.Mul(v, decimalRat(rate))
 	v.Quo(v, big.NewRat(1000, 1))

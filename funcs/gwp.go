@@ -134,6 +134,56 @@ func checkGas(e *Engine, s string) error {
 	return err
 }
 
+// gwpKey identifies a GWP look-up by its arguments exactly as given, so that a repeated call
+// skips resolving and summing.
+type gwpKey struct{ gas, set string }
+
+// gwpPlan is a cached GWP look-up: the gas, the set, the value and how it was formed.
+type gwpPlan struct {
+	gas     *gasEntry
+	set     string
+	exact   *big.Rat
+	value   float64
+	factors []*Factor
+	notes   []string // how the name was read, a blend's composition and sum
+}
+
+// gwpPlan resolves the set, then the gas, and returns their GWP-100, cached. Errors are those of
+// resolveGWPSet, gasIndex.resolve and gasGWP.
+func (e *Engine) gwpPlan(gasArg, setArg string) (*gwpPlan, error) {
+	key := gwpKey{gasArg, setArg}
+	if p, ok := e.plans.Load(key); ok {
+		return p.(*gwpPlan), nil
+	}
+	set, err := e.resolveGWPSet(setArg)
+	if err != nil {
+		return nil, err
+	}
+	g, note, err := e.gases.resolve(gasArg)
+	if err != nil {
+		return nil, err
+	}
+	v, fs, notes, err := e.gasGWP(g, set)
+	if err != nil {
+		return nil, err
+	}
+	if note != "" {
+		notes = append([]string{note}, notes...)
+	}
+	p := &gwpPlan{gas: g, set: set, exact: v, value: ratFloat(v), factors: fs, notes: notes}
+	e.cachePlan(key, p)
+	return p, nil
+}
+
+// cachePlan stores a computed plan under key while the cache is below its bound.
+func (e *Engine) cachePlan(key, p any) {
+	if e.planCount.Load() < maxCachedPlans {
+		if _, loaded := e.plans.LoadOrStore(key, p); !loaded {
+			e.planCount.Add(1)
+		}
+	}
+}
+
 func callGWP(e *Engine, c *callCtx, a argList) (float64, string, error) {
 	gasArg, err := a.str(0)
 	if err != nil {
@@ -143,22 +193,11 @@ func callGWP(e *Engine, c *callCtx, a argList) (float64, string, error) {
 	if err != nil {
 		return 0, "", err
 	}
-	set, err := e.resolveGWPSet(setArg)
+	p, err := e.gwpPlan(gasArg, setArg)
 	if err != nil {
 		return 0, "", withFunc(err, a.fn.Name)
 	}
-	g, note, err := e.gases.resolve(gasArg)
-	if err != nil {
-		return 0, "", withFunc(err, a.fn.Name)
-	}
-	v, fs, notes, err := e.gasGWP(g, set)
-	if err != nil {
-		return 0, "", withFunc(err, a.fn.Name)
-	}
-	if note != "" {
-		c.note(note)
-	}
-	c.use(fs...)
-	c.note(notes...)
-	return ratFloat(v), "", nil
+	c.use(p.factors...)
+	c.note(p.notes...)
+	return p.value, "", nil
 }

@@ -47,6 +47,45 @@ func gwpSetParam(e *Engine, doc string) Param {
 	return optional(paramStr("gwp_set", doc, e.gwpSets()...), DefaultGWPSet).with(kindGWPSet)
 }
 
+// refrigerantKey identifies a refrigerant_co2e computation by its string arguments as given.
+type refrigerantKey struct{ gas, unit, set string }
+
+// refrigerantPlan is a cached refrigerant_co2e computation: result = mass x num / den t CO2e.
+type refrigerantPlan struct {
+	gwp      *gwpPlan
+	num, den float64 // num/den exactly when both are integers below 2^53; else num = k, den = 1
+	notes    []string
+}
+
+func (e *Engine) refrigerantPlan(gasArg, unitArg, setArg string) (*refrigerantPlan, error) {
+	key := refrigerantKey{gasArg, unitArg, setArg}
+	if p, ok := e.plans.Load(key); ok {
+		return p.(*refrigerantPlan), nil
+	}
+	u, err := units.ParseAs(unitArg, units.Mass)
+	if err != nil {
+		return nil, unitError("unit", err)
+	}
+	g, err := e.gwpPlan(gasArg, setArg)
+	if err != nil {
+		return nil, err
+	}
+	// t CO2e per unit of mass = (kg per unit / 1000) x GWP, exactly; rounded once with the mass
+	k := new(big.Rat).Mul(u.SI(), g.exact)
+	k.Quo(k, big.NewRat(1000, 1))
+	p := &refrigerantPlan{gwp: g, notes: g.notes}
+	if num, den, ok := smallFraction(k); ok {
+		p.num, p.den = num, den
+	} else {
+		p.num, p.den = ratFloat(k), 1
+	}
+	if g.gas.parts == nil {
+		p.notes = append(append([]string(nil), g.notes...), "CO2e with GWP-100 "+strings.ToUpper(g.set)+" of "+g.gas.info.Name+": "+FormatNumber(g.value))
+	}
+	e.cachePlan(key, p)
+	return p, nil
+}
+
 func callRefrigerant(e *Engine, c *callCtx, a argList) (float64, string, error) {
 	gasArg, err := a.str(0)
 	if err != nil {
@@ -60,42 +99,18 @@ func callRefrigerant(e *Engine, c *callCtx, a argList) (float64, string, error) 
 	if err != nil {
 		return 0, "", err
 	}
-	u, err := units.ParseAs(us, units.Mass)
-	if err != nil {
-		return 0, "", withFunc(unitError("unit", err), a.fn.Name)
-	}
 	setArg, err := a.optStr(3, "")
 	if err != nil {
 		return 0, "", err
 	}
-	set, err := e.resolveGWPSet(setArg)
+	p, err := e.refrigerantPlan(gasArg, us, setArg)
 	if err != nil {
 		return 0, "", withFunc(err, a.fn.Name)
 	}
-	g, note, err := e.gases.resolve(gasArg)
-	if err != nil {
-		return 0, "", withFunc(err, a.fn.Name)
-	}
-	gwp, fs, notes, err := e.gasGWP(g, set)
-	if err != nil {
-		return 0, "", withFunc(err, a.fn.Name)
-	}
-	if note != "" {
-		c.note(note)
-	}
-	c.use(fs...)
-	c.note(notes...)
-	if g.parts == nil {
-		c.note("CO2e with GWP-100 " + strings.ToUpper(set) + " of " + g.info.Name + ": " + FormatNumber(ratFloat(gwp)))
-	}
+	c.use(p.gwp.factors...)
+	c.note(p.notes...)
 	if mass < 0 {
 		c.note("negative mass: the result is negative, as for a correction or recovered gas")
 	}
-	// t CO2e per unit of mass = (kg per unit / 1000) x GWP, exactly; then rounded once with mass
-	k := new(big.Rat).Mul(u.SI(), gwp)
-	k.Quo(k, big.NewRat(1000, 1))
-	if num, den, ok := smallFraction(k); ok {
-		return mass * num / den, "", nil
-	}
-	return mass * ratFloat(k), "", nil
+	return mass * p.num / p.den, "", nil
 }
