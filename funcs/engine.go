@@ -15,6 +15,7 @@ type Engine struct {
 	packs       *packSet
 	fuels       *fuelIndex
 	techs       *techIndex
+	gases       *gasIndex
 	catalog     *catalogIndex
 	defaultPack string
 
@@ -102,6 +103,13 @@ func New(opts ...Option) (*Engine, error) {
 	}
 	e.defaultPack = cfg.defaultPack
 	if e.techs, err = newTechIndex(e.technologies()); err != nil {
+		return nil, packError(err)
+	}
+	tables, err := embeddedGasTables()
+	if err != nil {
+		return nil, packError(err)
+	}
+	if e.gases, err = newGasIndex(ps, tables); err != nil {
 		return nil, packError(err)
 	}
 	e.catalog = newCatalogIndex(buildCatalog(e))
