@@ -411,3 +411,30 @@ func buildGridIndex(ps *packSet) (*gridIndex, error) {
 	}
 	return newGridIndex(ps, vocab)
 }
+
+// GridFactors resolves a grid as ResolveGrid does and lists the rows of every
+// set that has it, newest data year first, with the GWP rows of sets that
+// state gases as CO2e.
+func (e *Engine) GridFactors(name string) (GridInfo, []*Factor, error) {
+	gi, err := e.ResolveGrid(name)
+	if err != nil {
+		return GridInfo{}, nil, err
+	}
+	var out []*Factor
+	for _, ed := range e.grids.grids[gi.ID].editions {
+		qs := make([]string, 0, len(ed.rows))
+		for q := range ed.rows {
+			qs = append(qs, q)
+		}
+		sort.Strings(qs)
+		for _, q := range qs {
+			out = append(out, ed.rows[q])
+		}
+		for _, gas := range []string{"ch4", "n2o"} {
+			if g := ed.gwp[gas]; g != nil && !slices.Contains(out, g) {
+				out = append(out, g)
+			}
+		}
+	}
+	return gi, out, nil
+}
