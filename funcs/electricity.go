@@ -39,7 +39,7 @@ func gridFunctions(e *Engine) []*Function {
 			Example: `electricity_co2(1000, "MWh", "gb")`, ExampleResult: 174.89, Sources: scope2, call: callElectricity(false)},
 		{Name: "electricity_losses_co2e", Doc: "CO2e of the transmission and distribution losses attributable to electricity consumed (reported apart from Scope 2, as Scope 3 category 3): the source's T&D factor, or consumption x loss/(1 - loss) x the grid's rate.",
 			ResultUnit: "t CO2e", Params: []Param{amount, unit, grid, year, gwpSet},
-			Example: `electricity_losses_co2e(1000, "MWh", "gb")`, ExampleResult: 18.53, Sources: scope2, call: callLosses},
+			Example: `electricity_losses_co2e(1000, "MWh", "gb", 2025)`, ExampleResult: 18.53, Sources: scope2, call: callLosses},
 		{Name: "heat_co2e", Doc: "Scope 2 CO2e of purchased steam, hot water or cooling from a published default, whose assumption (boiler fuel and efficiency) is named in the notes.",
 			ResultUnit: "t CO2e", Params: []Param{amount, unit, carrier, set, gwpSet},
 			Example: `heat_co2e(1000, "MMBtu")`, ExampleResult: 66.33 + 1.25*28/1000 + 0.125*265/1000,
@@ -106,6 +106,10 @@ func (e *Engine) pickEdition(fn string, g *gridEntry, year int, ok func(*gridEdi
 		return nil, nil, &Error{Code: CodeMissingFactor, Func: fn, Param: "grid", Msg: "grid " + g.id + " (" + g.name + ") has no " + what + e.gridsWith(ok)}
 	}
 	if year == 0 {
+		if newest := g.editions[0]; newest.year > cands[0].year {
+			return cands[0], []string{"the " + newest.yearText() + " set (" + newest.set + ") gives no " + what + " for " + g.id +
+				"; the latest that does is " + cands[0].yearText()}, nil
+		}
 		return cands[0], nil, nil
 	}
 	for _, ed := range cands {

@@ -31,7 +31,8 @@ func TestElectricityReference(t *testing.T) {
 			(1239.8 + 0.132*27.9 + 0.019*273) * lbToKg},
 		{`electricity_co2e(1000, "MWh", "us", "location", 2023)`, "eGRID2023 US CO2e 770.9", 770.9 * lbToKg},
 		// UK GHG Conversion Factors 2025, UK electricity: electricity generated, kg CO2e/kWh.
-		{`electricity_co2e(1000, "MWh", "gb")`, "UK 2025 electricity generated 0.177 kg CO2e/kWh", 177},
+		{`electricity_co2e(1000, "MWh", "gb", "location", 2025)`, "UK 2025 electricity generated 0.177 kg CO2e/kWh", 177},
+		{`electricity_co2e(1000, "MWh", "gb")`, "UK 2026 electricity generated 0.13096 kg CO2e/kWh (latest)", 130.96},
 		{`electricity_co2(1000, "MWh", "gb")`, "UK 2025 electricity generated, kg CO2e of CO2 0.17489", 174.89},
 		{`electricity_co2e(1000, "MWh", "gb", "location", 2025, "ar6")`, "UK 2025 split 0.17489 + 0.0009/28x27.9 + 0.00122/265x273",
 			174.89 + 0.9/28*27.9 + 1.22/265*273},
@@ -81,13 +82,27 @@ func TestElectricityWorkedExample(t *testing.T) {
 	}
 }
 
+// TestElectricityLatestWithData: the 2026 UK set states CO2e only, so CO2 comes
+// from the 2025 set (UK conversion factors 2025, kg CO2e of CO2 0.17489), said in a note.
+func TestElectricityLatestWithData(t *testing.T) {
+	e := newTestEngine(t)
+	r := call(t, e, `electricity_co2(1000, "MWh", "gb")`)
+	if !near(r.Value, 174.89, 1e-12) || !hasNote(r, "the 2026 set (uk2026) gives no location-based CO2 factor for gb; the latest that does is 2025") {
+		t.Errorf("gb CO2: %v %q", r.Value, r.Notes)
+	}
+}
+
 // TestElectricityLosses: UK T&D factor as published, and eGRID's grid gross
 // loss applied as consumption x r / (1 - r) x the generation rate.
 func TestElectricityLosses(t *testing.T) {
 	e := newTestEngine(t)
 	// UK conversion factors 2025, Transmission and distribution: T&D- UK electricity 0.01853 kg CO2e/kWh.
-	if r := call(t, e, `electricity_losses_co2e(1000, "MWh", "United Kingdom")`); !near(r.Value, 18.53, 1e-12) || !hasNote(r, "Scope 3 category 3") {
+	if r := call(t, e, `electricity_losses_co2e(1000, "MWh", "United Kingdom", 2025)`); !near(r.Value, 18.53, 1e-12) || !hasNote(r, "Scope 3 category 3") {
 		t.Errorf("gb losses %v %q", r.Value, r.Notes)
+	}
+	// UK conversion factors 2026: T&D- UK electricity 0.01299 kg CO2e/kWh (the latest set).
+	if r := call(t, e, `electricity_losses_co2e(1000, "MWh", "gb")`); !near(r.Value, 12.99, 1e-12) || !hasNote(r, "data year 2026") {
+		t.Errorf("gb losses 2026 %v %q", r.Value, r.Notes)
 	}
 	// Hub 2026 Table 6 CAMX: 403.6 / 0.025 / 0.003 lb/MWh, grid gross loss 4.4 %.
 	want := (403.6 + 0.025*28 + 0.003*265) * lbToKg * 0.044 / 0.956
@@ -209,7 +224,7 @@ func TestGrids(t *testing.T) {
 	if g := byID["us_camx"]; g.Name != "WECC California (CAMX)" || !slices.Equal(g.Years, []int{2023, 2024}) || !g.Losses || len(g.Sources) != 2 {
 		t.Errorf("us_camx: %+v", g)
 	}
-	if g := byID["gb"]; !slices.Equal(g.Years, []int{2025}) || !g.Losses || !slices.Equal(g.Methods, []string{MethodLocation}) {
+	if g := byID["gb"]; !slices.Equal(g.Years, []int{2025, 2026}) || !g.Losses || !slices.Equal(g.Methods, []string{MethodLocation}) {
 		t.Errorf("gb: %+v", g)
 	}
 	if g := byID["pl"]; g.Name != "Poland" || g.Losses {

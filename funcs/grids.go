@@ -138,6 +138,8 @@ func builtinSetTitle(set string) string {
 		return "European Environment Agency, GHG emission intensity of electricity generation (assessment of 2020), 2018"
 	case "uk2025":
 		return "UK Government GHG Conversion Factors for Company Reporting 2025"
+	case "uk2026":
+		return "UK Government GHG Conversion Factors for Company Reporting 2026"
 	case "epahub2025":
 		return "US EPA GHG Emission Factors Hub (2025)"
 	}
