@@ -42,6 +42,10 @@ func TestElectricityReference(t *testing.T) {
 		{`electricity_co2e(500, "kWh", "se")`, "EEA 2022 Sweden 8 g CO2e/kWh", 0.004},
 		{`electricity_co2e(1, "GWh", "eu27")`, "EEA assessment 2020: EU-27 2018 281 g CO2e/kWh", 281},
 		{`electricity_co2e(3.6, "TJ", "de")`, "EEA 2022 Germany 368 g CO2e/kWh; 3.6 TJ = 1 GWh", 368},
+		// Australian National Greenhouse Accounts Factors 2022, Table 1 (scope 2), kg CO2-e/kWh.
+		{`electricity_co2e(1000, "MWh", "Victoria")`, "NGA 2022 Table 1 Victoria 0.85", 850},
+		{`electricity_co2e(1000, "MWh", "ACT")`, "NGA 2022 Table 1 NSW and ACT 0.73", 730},
+		{`electricity_co2e(1000, "MWh", "Tasmania")`, "NGA 2022 Table 1 Tasmania 0.17", 170},
 	}
 	for _, tc := range tests {
 		r, err := evalExpr(e, tc.expr)
@@ -163,8 +167,8 @@ func TestElectricityMarket(t *testing.T) {
 func TestElectricityBadInputs(t *testing.T) {
 	e := newTestEngine(t)
 	tests := []struct{ expr, param, msg string }{
-		{`electricity_co2e(1000, "MWh", "Germny")`, "grid", `unknown grid "Germny" (did you mean germany (de)?): accepted are at, be, bg,`},
-		{`electricity_co2e(1000, "MWh", "atlantis")`, "grid", `unknown grid "atlantis": accepted are at, be, bg, cy, cz, de,`},
+		{`electricity_co2e(1000, "MWh", "Germny")`, "grid", `unknown grid "Germny" (did you mean germany (de)?): accepted are at, au, au_nsw,`},
+		{`electricity_co2e(1000, "MWh", "atlantis")`, "grid", `unknown grid "atlantis": accepted are at, au, au_nsw,`},
 		{`electricity_co2e(1000, "MWh", "us", "location", 2019)`, "year", `grid us has no location-based factor for 2019: available years are 2024, 2023`},
 		{`electricity_co2e(1000, "MWh", "us", "location", 2024.5)`, "year", `year must be a whole year such as 2024, got 2024.5`},
 		{`electricity_co2(1000, "MWh", "de")`, "grid", `grid de (Germany) has a CO2e rate only, no CO2 rate: use electricity_co2e`},
@@ -196,6 +200,7 @@ func TestResolveGrid(t *testing.T) {
 		"CAMX": "us_camx", "eGRID CAMX": "us_camx", "eGRID2023 CAMX": "us_camx", "US-CAMX": "us_camx", "WECC California": "us_camx",
 		"SRVC": "us_srvc", "SERC Virginia/Carolinas": "us_srvc", "subregion: SRVC": "us_srvc",
 		"U.S.": "us", "USA": "us", "United States": "us", "US average": "us",
+		"Australia": "au", "South West Interconnected System": "au_wa_swis", "NSW": "au_nsw",
 		"EU-27": "eu27", "European Union": "eu27", "EL": "gr", "Czech Republic": "cz", "España": "es",
 	} {
 		gi, err := e.ResolveGrid(name)
@@ -204,7 +209,7 @@ func TestResolveGrid(t *testing.T) {
 		}
 	}
 	_, err := e.ResolveGrid("Norway")
-	if fe, ok := AsError(err); !ok || fe.Param != "grid" || !strings.Contains(fe.Msg, "accepted are at, be,") {
+	if fe, ok := AsError(err); !ok || fe.Param != "grid" || !strings.Contains(fe.Msg, "accepted are at, au,") {
 		t.Errorf("Norway: %v", err)
 	}
 }
@@ -213,9 +218,9 @@ func TestResolveGrid(t *testing.T) {
 func TestGrids(t *testing.T) {
 	e := newTestEngine(t)
 	gs := e.Grids()
-	// 27 eGRID subregions + US, 27 EU member states + EU-27, UK.
-	if len(gs) != 57 {
-		t.Errorf("%d grids, want 57", len(gs))
+	// 27 eGRID subregions + US, 27 EU member states + EU-27, UK, Australia + 7 NGA state rows.
+	if len(gs) != 65 {
+		t.Errorf("%d grids, want 65", len(gs))
 	}
 	byID := map[string]GridInfo{}
 	for _, g := range gs {

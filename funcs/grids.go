@@ -140,6 +140,8 @@ func builtinSetTitle(set string) string {
 		return "UK Government GHG Conversion Factors for Company Reporting 2025"
 	case "uk2026":
 		return "UK Government GHG Conversion Factors for Company Reporting 2026"
+	case "nga2022":
+		return "Australian National Greenhouse Accounts Factors 2022, Table 1"
 	case "epahub2025":
 		return "US EPA GHG Emission Factors Hub (2025)"
 	}
