@@ -351,7 +351,7 @@ func (e *Engine) Grids() []GridInfo {
 }
 
 func (ix *gridIndex) info(g *gridEntry) GridInfo {
-	gi := GridInfo{ID: g.id, Name: g.name}
+	gi := GridInfo{ID: g.id, Name: g.name, Sources: []string{}, Years: []int{}, Methods: []string{}}
 	years := map[int]bool{}
 	methods := map[string]bool{}
 	for _, ed := range g.editions {
