@@ -44,7 +44,7 @@ func TestElectricityReference(t *testing.T) {
 		{`electricity_co2e(3.6, "TJ", "de")`, "EEA 2022 Germany 368 g CO2e/kWh; 3.6 TJ = 1 GWh", 368},
 		// Australian National Greenhouse Accounts Factors 2022, Table 1 (scope 2), kg CO2-e/kWh.
 		{`electricity_co2e(1000, "MWh", "Victoria")`, "NGA 2022 Table 1 Victoria 0.85", 850},
-		{`electricity_co2e(1000, "MWh", "ACT")`, "NGA 2022 Table 1 NSW and ACT 0.73", 730},
+		{`electricity_co2e(1000, "MWh", "Australian Capital Territory")`, "NGA 2022 Table 1 NSW and ACT 0.73", 730},
 		{`electricity_co2e(1000, "MWh", "Tasmania")`, "NGA 2022 Table 1 Tasmania 0.17", 170},
 	}
 	for _, tc := range tests {
@@ -80,9 +80,18 @@ func TestElectricityWorkedExample(t *testing.T) {
 			t.Errorf("sources %s lack %s", keys, k)
 		}
 	}
-	// The default year is the latest loaded: 2024 for eGRID subregions.
+	// The default year, and year 0, is the latest loaded: 2024 for eGRID subregions.
 	if d := call(t, e, `electricity_co2e(1000, "MWh", "us_srvc")`); d.Value != r.Value {
 		t.Errorf("default year gives %v, 2024 gives %v", d.Value, r.Value)
+	}
+	if d := call(t, e, `electricity_co2e(1000, "MWh", "us_srvc", "location", 0, "ar5")`); d.Value != r.Value {
+		t.Errorf("year 0 gives %v, 2024 gives %v", d.Value, r.Value)
+	}
+	if id, ok := e.LookupGrid("SRVC"); !ok || id != "us_srvc" {
+		t.Errorf("LookupGrid(SRVC) = %q, %v", id, ok)
+	}
+	if _, ok := e.LookupGrid("diesel"); ok {
+		t.Error("LookupGrid(diesel) reads as a grid")
 	}
 }
 
@@ -170,7 +179,7 @@ func TestElectricityBadInputs(t *testing.T) {
 		{`electricity_co2e(1000, "MWh", "Germny")`, "grid", `unknown grid "Germny" (did you mean germany (de)?): accepted are at, au, au_nsw,`},
 		{`electricity_co2e(1000, "MWh", "atlantis")`, "grid", `unknown grid "atlantis": accepted are at, au, au_nsw,`},
 		{`electricity_co2e(1000, "MWh", "us", "location", 2019)`, "year", `grid us has no location-based factor for 2019: available years are 2024, 2023`},
-		{`electricity_co2e(1000, "MWh", "us", "location", 2024.5)`, "year", `year must be a whole year such as 2024, got 2024.5`},
+		{`electricity_co2e(1000, "MWh", "us", "location", 2024.5)`, "year", `year must be a whole year such as 2024 (or 0 for the latest), got 2024.5`},
 		{`electricity_co2(1000, "MWh", "de")`, "grid", `grid de (Germany) has a CO2e rate only, no CO2 rate: use electricity_co2e`},
 		{`electricity_co2e(1000, "t", "us")`, "unit", `unit "t" is a mass, but an energy is needed here`},
 		{`electricity_co2e(1000, "MWh HHV", "us")`, "unit", `delivered energy has no heating-value basis: write "MWh" without HHV`},
@@ -200,7 +209,7 @@ func TestResolveGrid(t *testing.T) {
 		"CAMX": "us_camx", "eGRID CAMX": "us_camx", "eGRID2023 CAMX": "us_camx", "US-CAMX": "us_camx", "WECC California": "us_camx",
 		"SRVC": "us_srvc", "SERC Virginia/Carolinas": "us_srvc", "subregion: SRVC": "us_srvc",
 		"U.S.": "us", "USA": "us", "United States": "us", "US average": "us",
-		"Australia": "au", "South West Interconnected System": "au_wa_swis", "NSW": "au_nsw",
+		"Australia": "au", "South West Interconnected System": "au_wa_swis", "NSW": "au_nsw", "AU-SA": "au_sa",
 		"EU-27": "eu27", "European Union": "eu27", "EL": "gr", "Czech Republic": "cz", "España": "es",
 	} {
 		gi, err := e.ResolveGrid(name)

@@ -341,6 +341,10 @@ func (e *Engine) ResolveGrid(name string) (GridInfo, error) {
 	return e.grids.info(e.grids.grids[id]), nil
 }
 
+// LookupGrid is the cheap test of ResolveGrid: the grid id a name reads as, and
+// whether it reads as one, without building an error message.
+func (e *Engine) LookupGrid(name string) (string, bool) { return e.grids.resolve(name) }
+
 // Grids describes every grid with rows loaded, sorted by id.
 func (e *Engine) Grids() []GridInfo {
 	out := make([]GridInfo, 0, len(e.grids.ids))
