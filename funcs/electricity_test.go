@@ -172,6 +172,27 @@ func TestElectricityMarket(t *testing.T) {
 	}
 }
 
+// TestElectricityUndatedRow: a supplier row without a pack column applies to every
+// pack; it is one undated market-based edition named by its file, used for any year
+// with a note, and it never turns a grid average into a market factor.
+func TestElectricityUndatedRow(t *testing.T) {
+	rows := "id,quantity,value,unit,source\nde,market_co2e,0.45,kg CO2e/kWh,\"supplier statement (invented for this test)\"\n"
+	e, err := New(WithFactorData("supplier.csv", []byte(rows)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := call(t, e, `electricity_co2e(1000, "MWh", "de", "market", 2024)`)
+	if !near(r.Value, 450, 1e-12) || !hasNote(r, "user set supplier.csv") || !hasNote(r, "states no year; it is used for 2024") {
+		t.Errorf("undated supplier row: %v %q", r.Value, r.Notes)
+	}
+	if r := call(t, e, `electricity_co2e(1000, "MWh", "de")`); !near(r.Value, 368, 1e-12) || !hasNote(r, "European Environment Agency") {
+		t.Errorf("location de: %v %q", r.Value, r.Notes)
+	}
+	if g, _ := e.ResolveGrid("de"); !slices.Equal(g.Years, []int{2022}) || !slices.Equal(g.Methods, []string{MethodLocation, MethodMarket}) {
+		t.Errorf("de: %+v", g)
+	}
+}
+
 // TestElectricityBadInputs: every bad input names its parameter and what is accepted.
 func TestElectricityBadInputs(t *testing.T) {
 	e := newTestEngine(t)

@@ -170,62 +170,68 @@ func newGridIndex(ps *packSet, vocab []gridName) (*gridIndex, error) {
 		names = append(names, n)
 	}
 	sort.Strings(names)
-	seen := map[string]bool{} // id + signature of the rows' file:line
+	// A row a user file gave to every pack (empty pack column) is copied into
+	// each: it appears under the same file and line more than once.
+	copies := map[string]int{}
+	for _, pn := range names {
+		for k, f := range ps.packs[pn].rows {
+			if isGridQuantity(k.quantity) {
+				copies[f.File+":"+strconv.Itoa(f.Line)]++
+			}
+		}
+	}
+	type groupKey struct{ set, id string }
+	groups := map[groupKey]*gridEdition{}
+	var order []groupKey
 	for _, pn := range names {
 		p := ps.packs[pn]
+		gridSet := p.gridOnly()
 		gwp := map[string]*Factor{}
-		byID := map[string]map[string]*Factor{}
 		for k, f := range p.rows {
-			if !isGridQuantity(k.quantity) {
-				continue
-			}
-			if k.quantity == "source_gwp100" {
+			if k.quantity == "source_gwp100" && copies[f.File+":"+strconv.Itoa(f.Line)] == 1 {
 				gwp[k.id] = f
-				continue
 			}
-			if byID[k.id] == nil {
-				byID[k.id] = map[string]*Factor{}
-			}
-			byID[k.id][k.quantity] = f
 		}
-		for id, rows := range byID {
-			var sig []string
-			for _, f := range rows {
-				sig = append(sig, f.File+":"+strconv.Itoa(f.Line))
-			}
-			sort.Strings(sig)
-			key := id + "|" + strings.Join(sig, ",")
-			if seen[key] {
+		for k, f := range p.rows {
+			if !isGridQuantity(k.quantity) || k.quantity == "source_gwp100" {
 				continue
 			}
-			seen[key] = true
-			ed := &gridEdition{set: pn, year: setYear(pn), rows: rows, gwp: gwp}
-			if !p.gridOnly() { // rows given to every pack: name them by their file
-				for _, f := range rows {
-					ed.set = f.File
-					break
-				}
-				ed.year = 0
+			key, year, setGWP := groupKey{pn, k.id}, setYear(pn), gwp
+			if copies[f.File+":"+strconv.Itoa(f.Line)] > 1 || !gridSet { // name them by their file
+				key, year, setGWP = groupKey{f.File, k.id}, 0, nil
 			}
-			ix.titles[ed.set] = builtinSetTitle(ed.set)
-			if ix.titles[ed.set] == "" {
-				ix.titles[ed.set] = "user set " + ed.set
+			ed := groups[key]
+			if ed == nil {
+				ed = &gridEdition{set: key.set, year: year, rows: map[string]*Factor{}, gwp: setGWP}
+				groups[key] = ed
+				order = append(order, key)
 			}
-			if ed.has("heat") {
-				if ix.heat[ed.set] == nil {
-					ix.heat[ed.set] = map[string]*gridEdition{}
-				}
-				ix.heat[ed.set][id] = ed
-				continue
-			}
-			g := ix.grids[id]
-			if g == nil {
-				g = &gridEntry{id: id, name: id}
-				ix.grids[id] = g
-				ix.ids = append(ix.ids, id)
-			}
-			g.editions = append(g.editions, ed)
+			ed.rows[k.quantity] = f
 		}
+	}
+	for _, key := range order {
+		ed, id := groups[key], key.id
+		if ed.gwp == nil {
+			ed.gwp = map[string]*Factor{}
+		}
+		ix.titles[ed.set] = builtinSetTitle(ed.set)
+		if ix.titles[ed.set] == "" {
+			ix.titles[ed.set] = "user set " + ed.set
+		}
+		if ed.has("heat") {
+			if ix.heat[ed.set] == nil {
+				ix.heat[ed.set] = map[string]*gridEdition{}
+			}
+			ix.heat[ed.set][id] = ed
+			continue
+		}
+		g := ix.grids[id]
+		if g == nil {
+			g = &gridEntry{id: id, name: id}
+			ix.grids[id] = g
+			ix.ids = append(ix.ids, id)
+		}
+		g.editions = append(g.editions, ed)
 	}
 	sort.Strings(ix.ids)
 	for _, g := range ix.grids {
