@@ -46,6 +46,11 @@ func TestElectricityReference(t *testing.T) {
 		{`electricity_co2e(1000, "MWh", "Victoria")`, "NGA 2022 Table 1 Victoria 0.85", 850},
 		{`electricity_co2e(1000, "MWh", "Australian Capital Territory")`, "NGA 2022 Table 1 NSW and ACT 0.73", 730},
 		{`electricity_co2e(1000, "MWh", "Tasmania")`, "NGA 2022 Table 1 Tasmania 0.17", 170},
+		// Canada NIR 1990-2019 (2021) Annex 13, electricity intensity by province, g CO2 eq/kWh.
+		{`electricity_co2e(1000, "MWh", "Alberta")`, "NIR 2021 Annex 13 Alberta 2019 670", 670},
+		{`electricity_co2e(1000, "MWh", "Alberta", "location", 2018)`, "NIR 2021 Annex 13 Alberta 2018 690", 690},
+		{`electricity_co2e(1000, "MWh", "Québec", "location", 2017)`, "NIR 2021 Annex 13 Quebec 2017 1.4", 1.4},
+		{`electricity_co2e(1, "GWh", "CAN")`, "NIR 2021 Annex 13 Canada 2019 120", 120},
 	}
 	for _, tc := range tests {
 		r, err := evalExpr(e, tc.expr)
@@ -200,6 +205,7 @@ func TestElectricityBadInputs(t *testing.T) {
 		{`electricity_co2e(1000, "MWh", "Germny")`, "grid", `unknown grid "Germny" (did you mean germany (de)?): accepted are at, au, au_nsw,`},
 		{`electricity_co2e(1000, "MWh", "atlantis")`, "grid", `unknown grid "atlantis": accepted are at, au, au_nsw,`},
 		{`electricity_co2e(1000, "MWh", "us", "location", 2019)`, "year", `grid us has no location-based factor for 2019: available years are 2024, 2023`},
+		{`electricity_co2e(1000, "MWh", "ca_on", "location", 2016)`, "year", `grid ca_on has no location-based factor for 2016: available years are 2019, 2018, 2017`},
 		{`electricity_co2e(1000, "MWh", "us", "location", 2024.5)`, "year", `year must be a whole year such as 2024 (or 0 for the latest), got 2024.5`},
 		{`electricity_co2(1000, "MWh", "de")`, "grid", `grid de (Germany) has a CO2e rate only, no CO2 rate: use electricity_co2e`},
 		{`electricity_co2e(1000, "t", "us")`, "unit", `unit "t" is a mass, but an energy is needed here`},
@@ -248,9 +254,10 @@ func TestResolveGrid(t *testing.T) {
 func TestGrids(t *testing.T) {
 	e := newTestEngine(t)
 	gs := e.Grids()
-	// 27 eGRID subregions + US, 27 EU member states + EU-27, UK, Australia + 7 NGA state rows.
-	if len(gs) != 65 {
-		t.Errorf("%d grids, want 65", len(gs))
+	// 27 eGRID subregions + US, 27 EU member states + EU-27, UK, Australia + 7 NGA state rows,
+	// Canada + 13 provinces and territories.
+	if len(gs) != 79 {
+		t.Errorf("%d grids, want 79", len(gs))
 	}
 	byID := map[string]GridInfo{}
 	for _, g := range gs {

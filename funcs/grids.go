@@ -140,6 +140,8 @@ func builtinSetTitle(set string) string {
 		return "UK Government GHG Conversion Factors for Company Reporting 2025"
 	case "uk2026":
 		return "UK Government GHG Conversion Factors for Company Reporting 2026"
+	case "canir2021_2017", "canir2021_2018", "canir2021_2019":
+		return "Environment and Climate Change Canada, National Inventory Report 1990-2019 (2021) Annex 13, " + set[len(set)-4:]
 	case "nga2022":
 		return "Australian National Greenhouse Accounts Factors 2022, Table 1"
 	case "epahub2025":
