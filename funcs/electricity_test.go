@@ -250,6 +250,20 @@ func TestResolveGrid(t *testing.T) {
 	}
 }
 
+// TestGridQuantityNames: the cheap test agrees with the declared quantities.
+func TestGridQuantityNames(t *testing.T) {
+	for q := range gridQuantities() {
+		if !isGridQuantity(q) {
+			t.Errorf("%s declared but not recognised", q)
+		}
+	}
+	for _, q := range []string{"co2_ef", "grid", "grid_co2x", "lifecycle", "heat_", "gwp100_ar5"} {
+		if isGridQuantity(q) {
+			t.Errorf("%s recognised as a grid quantity", q)
+		}
+	}
+}
+
 // TestGrids lists every grid with its sets, years, methods and losses.
 func TestGrids(t *testing.T) {
 	e := newTestEngine(t)

@@ -46,10 +46,27 @@ func gridQuantities() map[string]quantitySpec {
 	return m
 }
 
-// isGridQuantity reports whether q belongs to grid sets.
+// isGridQuantity reports whether q belongs to grid sets (the names of
+// gridQuantities, without building the map).
 func isGridQuantity(q string) bool {
-	_, ok := gridQuantities()[q]
-	return ok
+	switch q {
+	case "grid_loss_rate", "boiler_efficiency", "source_gwp100":
+		return true
+	}
+	stream, gas, ok := strings.Cut(q, "_")
+	if !ok {
+		return false
+	}
+	switch stream {
+	case "grid", "market", "td", "heat":
+	default:
+		return false
+	}
+	switch gas {
+	case "co2", "ch4", "n2o", "co2e", "ch4_co2e", "n2o_co2e":
+		return true
+	}
+	return false
 }
 
 // gridOnly reports whether a pack is a grid set: every row is a grid quantity.
@@ -58,7 +75,10 @@ func isGridQuantity(q string) bool {
 func (p *pack) gridOnly() bool {
 	embedded := false
 	for _, f := range p.rows {
-		embedded = embedded || strings.HasPrefix(f.File, "embedded:")
+		if strings.HasPrefix(f.File, "embedded:") {
+			embedded = true
+			break
+		}
 	}
 	n := 0
 	for _, f := range p.rows {
