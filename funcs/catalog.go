@@ -98,6 +98,7 @@ func catalogFamilies() []func(e *Engine) []*Function {
 		mobileFunctions,
 		refrigerantFunctions,
 		fugitiveFunctions,
+		gridFunctions,
 	}
 }
 

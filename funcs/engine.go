@@ -16,6 +16,7 @@ type Engine struct {
 	fuels       *fuelIndex
 	techs       *techIndex
 	gases       *gasIndex
+	grids       *gridIndex
 	catalog     *catalogIndex
 	defaultPack string
 
@@ -110,6 +111,9 @@ func New(opts ...Option) (*Engine, error) {
 		return nil, packError(err)
 	}
 	if e.gases, err = newGasIndex(ps, tables); err != nil {
+		return nil, packError(err)
+	}
+	if e.grids, err = buildGridIndex(ps); err != nil {
 		return nil, packError(err)
 	}
 	e.catalog = newCatalogIndex(buildCatalog(e))
@@ -229,11 +233,11 @@ func (e *Engine) resolvePack(name string) (string, error) {
 	if name == "" {
 		return e.defaultPack, nil
 	}
-	if _, ok := e.packs.packs[name]; ok && name != CommonPack {
+	if p, ok := e.packs.packs[name]; ok && name != CommonPack && !p.gridOnly() {
 		return name, nil
 	}
 	lower := strings.ToLower(strings.TrimSpace(name))
-	if _, ok := e.packs.packs[lower]; ok && lower != CommonPack {
+	if p, ok := e.packs.packs[lower]; ok && lower != CommonPack && !p.gridOnly() {
 		return lower, nil
 	}
 	msg := "unknown pack " + quote(name) + ": accepted are " + strings.Join(e.packs.names, ", ")
