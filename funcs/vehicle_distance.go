@@ -147,8 +147,12 @@ func callVehicleCO2e(e *Engine, c *callCtx, a argList) (float64, string, error) 
 		}
 		if asked.name != set.name {
 			return 0, "", &Error{Code: CodeBadArgument, Func: fn, Param: "set",
-				Msg: "set " + asked.name + " has no row for " + v.ID + ", which is in set " + set.name + ": leave set out or choose a vehicle of " + asked.name + " (" + strings.Join(e.setVehicles(asked.name), ", ") + ")"}
+				Msg: "the table of " + asked.name + " has no row for " + v.ID + ", which is in set " + set.name + ": leave set out or choose a vehicle of " + asked.name + " (" + strings.Join(e.setVehicles(asked.name), ", ") + ")"}
 		}
+	}
+	c.note("set " + set.name + " (" + set.title + "), vehicle " + v.ID + ", per " + set.basis + ": tailpipe emissions of the whole vehicle, not per passenger")
+	if v.Note != "" {
+		c.note(v.Note)
 	}
 	meters := distance * u.SIFloat()
 	var kgPerMeter float64
@@ -190,12 +194,8 @@ func callVehicleCO2e(e *Engine, c *callCtx, a argList) (float64, string, error) 
 		}
 		c.use(f)
 		kgPerMeter = f.si
-		c.note("set " + set.name + " publishes CO2e per km with CH4 and N2O weighted by " + set.gwp + " GWP-100 values")
+		c.note("set " + set.name + " publishes CO2e only, with CH4 and N2O weighted by " + set.gwp + " GWP-100 values (the publisher's choice; from memory)")
 	}
-	if v.Note != "" {
-		c.note(v.Note)
-	}
-	c.note("set " + set.name + " (" + set.title + "), vehicle " + v.ID + ", per " + set.basis + ": tailpipe emissions of the whole vehicle, not per passenger")
 	if strings.Contains(v.ID, "_bev") {
 		c.note("battery-electric: no tailpipe emissions; the electricity it uses is Scope 2, computed with electricity_co2e")
 	}
