@@ -154,6 +154,9 @@ func callVehicleCO2e(e *Engine, c *callCtx, a argList) (float64, string, error) 
 	if v.Note != "" {
 		c.note(v.Note)
 	}
+	if distance < 0 {
+		c.note(NegativeAmountNote)
+	}
 	meters := distance * u.SIFloat()
 	var kgPerMeter float64
 	if set.perGas {

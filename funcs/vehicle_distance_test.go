@@ -196,6 +196,9 @@ func TestVehicleCO2eBadInputs(t *testing.T) {
 			t.Errorf("%s: code %s\n got: %s\nwant: %s", tt.expr, fe.Code, fe.Headline(), tt.want)
 		}
 	}
+	if r := call(t, e, `vehicle_co2e(-10, "km", "car_petrol_medium")`); !near(r.Value, -0.0018, 1e-12) || !hasNote(r, NegativeAmountNote) {
+		t.Errorf("negative distance: %v %q", r.Value, r.Notes)
+	}
 	// a compatible set and GWP set are accepted
 	if r := call(t, e, `vehicle_co2e(100, "km", "car_petrol_medium", "AR5", "UK2024")`); !near(r.Value, 0.018, 1e-12) {
 		t.Errorf("explicit set: %v", r.Value)
