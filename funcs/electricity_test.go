@@ -190,6 +190,9 @@ func TestElectricityUndatedRow(t *testing.T) {
 	if !near(r.Value, 450, 1e-12) || !hasNote(r, "user set supplier.csv") || !hasNote(r, "states no year; it is used for 2024") {
 		t.Errorf("undated supplier row: %v %q", r.Value, r.Notes)
 	}
+	if len(r.Sources) != 1 || r.Sources[0].Key() != "common/de/market_co2e" {
+		t.Errorf("undated supplier row is cited under a fuel or grid set's name: %v", r.Sources)
+	}
 	if r := call(t, e, `electricity_co2e(1000, "MWh", "de")`); !near(r.Value, 368, 1e-12) || !hasNote(r, "European Environment Agency") {
 		t.Errorf("location de: %v %q", r.Value, r.Notes)
 	}

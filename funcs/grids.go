@@ -219,6 +219,9 @@ func newGridIndex(ps *packSet, vocab []gridName) (*gridIndex, error) {
 				continue
 			}
 			key, year, setGWP := groupKey{pn, k.id}, setYear(pn), gwp
+			if copies[f.File+":"+strconv.Itoa(f.Line)] > 1 && pn != CommonPack {
+				continue // one copy is enough: the common pack's, so that its key names no fuel or grid set
+			}
 			if copies[f.File+":"+strconv.Itoa(f.Line)] > 1 || !gridSet { // name them by their file
 				key, year, setGWP = groupKey{f.File, k.id}, 0, nil
 			}
