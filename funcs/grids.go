@@ -16,7 +16,7 @@ import (
 // losses, purchased heat). They are loaded like any pack (data/grid_*.csv, a
 // user's --factors file, a workbook's factor sheet) but are not fuel packs: the
 // pack parameter of the fuel functions never lists them. A set's data year is
-// the four digits that end its name (egrid2024, eea2022, uk2025); a user set
+// the four digits that end its name (egrid2022, eea2014, uk2023); a user set
 // without them is undated and serves any year.
 //
 // Quantities, per unit of delivered energy (no heating-value basis):
@@ -148,22 +148,18 @@ type GridInfo struct {
 // builtinSetTitle describes the embedded grid sets.
 func builtinSetTitle(set string) string {
 	switch set {
-	case "egrid2024":
-		return "US EPA eGRID2024, as published in the EPA GHG Emission Factors Hub (2026) Table 6"
-	case "egrid2023":
-		return "US EPA eGRID2023 Summary Tables rev 2 (2025) Table 1"
-	case "eea2022":
-		return "European Environment Agency, GHG emission intensity of electricity generation, 2022"
+	case "egrid2022":
+		return "US EPA eGRID2022, CO2 total output emission rates by subregion"
+	case "eea2014":
+		return "European Environment Agency, CO2 emission intensity of electricity generation (2017 data set), 2014"
 	case "eea2018":
 		return "European Environment Agency, GHG emission intensity of electricity generation (assessment of 2020), 2018"
-	case "uk2025":
-		return "UK Government GHG Conversion Factors for Company Reporting 2025"
-	case "uk2026":
-		return "UK Government GHG Conversion Factors for Company Reporting 2026"
+	case "uk2023":
+		return "UK Government GHG Conversion Factors for Company Reporting 2023"
 	case "canir2021_2017", "canir2021_2018", "canir2021_2019":
 		return "Environment and Climate Change Canada, National Inventory Report 1990-2019 (2021) Annex 13, " + set[len(set)-4:]
-	case "nga2022":
-		return "Australian National Greenhouse Accounts Factors 2022, Table 1"
+	case "nga2024":
+		return "Australian National Greenhouse Accounts Factors 2024"
 	case "epahub2025":
 		return "US EPA GHG Emission Factors Hub (2025)"
 	}
