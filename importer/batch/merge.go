@@ -356,3 +356,20 @@ func mergeClip(s string, n int) string {
 	}
 	return s[:n] + "…"
 }
+
+// IsMergedSummary reports whether the file at path starts with the header
+// of a merged summary, which a new merge may replace.
+func IsMergedSummary(path string) bool {
+	f, err := os.Open(path)
+	if err != nil {
+		return false
+	}
+	defer f.Close()
+	head, err := csv.NewReader(io.LimitReader(f, 4096)).Read()
+	if err != nil || len(head) == 0 {
+		return false
+	}
+	head[0] = strings.TrimPrefix(head[0], "\uFEFF")
+	merged, ok := summaryHeader(head)
+	return ok && merged
+}

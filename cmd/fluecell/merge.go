@@ -1,0 +1,67 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"os"
+	"path/filepath"
+
+	"github.com/fluecell/fluecell/importer/batch"
+)
+
+// cmdBatchMerge combines the summary CSVs of a sharded batch into one.
+func cmdBatchMerge(ctx context.Context, s stdio, args []string) int {
+	fs := newFlags("batch-merge", "batch-merge OUT.csv SHARD.csv... (the summaries that fluecell batch --shard I/N --summary wrote)", s.err, false)
+	pos, code, ok := parseArgs(fs, args)
+	if !ok {
+		return code
+	}
+	if len(pos) < 2 {
+		fmt.Fprintln(s.err, "fluecell batch-merge: give the merged file first, then the shards' summaries, e.g. fluecell batch-merge out/summary.csv out/summary-*.csv")
+		return 2
+	}
+	out, shards := pos[0], pos[1:]
+	for _, p := range shards {
+		if sameFile(out, p) {
+			fmt.Fprintf(s.err, "fluecell batch-merge: %s is both the merged file and one of the summaries to merge; name a new file first (e.g. %s)\n", out, filepath.Join(filepath.Dir(out), "summary-all.csv"))
+			return 2
+		}
+	}
+	if _, err := os.Lstat(out); err == nil && !batch.IsMergedSummary(out) {
+		fmt.Fprintf(s.err, "fluecell batch-merge: %s exists and is not a merged summary; the merged file comes first (fluecell batch-merge OUT.csv SHARD.csv...): name a new file, or remove this one\n", out)
+		return 2
+	}
+	m, err := batch.MergeSummaries(shards)
+	if err != nil {
+		return fail(s, "batch-merge", err)
+	}
+	if err := batch.WriteMergedCSV(out, m); err != nil {
+		return fail(s, "batch-merge", err)
+	}
+	all := m.Totals[0]
+	line := fmt.Sprintf("%d workbooks from %d summaries:", all.Files, m.Shards)
+	for i, t := range m.Totals[1:] {
+		sep := ","
+		if i == 0 {
+			sep = ""
+		}
+		line += fmt.Sprintf("%s %d %s", sep, t.Files, t.Status)
+	}
+	fmt.Fprintln(s.out, line)
+	fmt.Fprintf(s.out, "total: %.3f tCO2, %.3f tCO2e (kept apart: tCO2e already includes the CO2)\n", all.TCO2, all.TCO2e)
+	fmt.Fprintf(s.out, "merged summary: %s\n", out)
+	return 0
+}
+
+// sameFile reports whether a and b name the same file: the same existing
+// file, or the same absolute path when either does not exist.
+func sameFile(a, b string) bool {
+	ia, errA := os.Stat(a)
+	ib, errB := os.Stat(b)
+	if errA == nil && errB == nil {
+		return os.SameFile(ia, ib)
+	}
+	pa, errA := filepath.Abs(a)
+	pb, errB := filepath.Abs(b)
+	return errA == nil && errB == nil && pa == pb
+}
