@@ -7,6 +7,7 @@ import (
 	"net"
 	"os"
 	"os/exec"
+	"os/user"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -65,6 +66,7 @@ type cluster struct {
 	dir   string
 	conf  string
 	node  string
+	user  string // runs the daemons and the jobs
 	tools map[string]string
 	procs []*daemon
 }
@@ -133,6 +135,11 @@ func startCluster(t *testing.T, tools map[string]string) *cluster {
 		return err == nil, ""
 	})
 
+	me, err := user.Current()
+	if err != nil {
+		t.Fatal(err)
+	}
+	c.user = me.Username
 	host, err := os.Hostname()
 	if err != nil {
 		t.Fatal(err)
@@ -177,15 +184,17 @@ func nodeSize(s string) (cpus, mem int) {
 
 func (c *cluster) socket() string { return filepath.Join(c.dir, "munge", "munge.socket") }
 
-// config is slurm.conf for one node, without cgroups or accounting.
+// config is slurm.conf for one node, without cgroups or accounting. Both
+// daemons run as the user running the test, root or not: slurmd then
+// starts jobs of that user alone, which is all the test submits.
 func (c *cluster) config(cpus, mem, ctldPort, slurmdPort int) string {
 	d := c.dir
 	return fmt.Sprintf(`ClusterName=fluecelltest
 SlurmctldHost=%[2]s(127.0.0.1)
 SlurmctldPort=%[3]d
 SlurmdPort=%[4]d
-SlurmUser=root
-SlurmdUser=root
+SlurmUser=%[7]s
+SlurmdUser=%[7]s
 AuthType=auth/munge
 AuthInfo=socket=%[1]s/munge/munge.socket
 CredType=cred/munge
@@ -207,7 +216,7 @@ SlurmctldLogFile=%[1]s/log/slurmctld.log
 SlurmdLogFile=%[1]s/log/slurmd.log
 NodeName=%[2]s NodeAddr=127.0.0.1 CPUs=%[5]d RealMemory=%[6]d State=UNKNOWN
 PartitionName=debug Nodes=%[2]s Default=YES MaxTime=INFINITE State=UP
-`, d, c.node, ctldPort, slurmdPort, cpus, mem)
+`, d, c.node, ctldPort, slurmdPort, cpus, mem, c.user)
 }
 
 // env is the environment of every Slurm command: this cluster's

@@ -4,7 +4,8 @@
 // into one shared output folder, and merges the shards' summaries with
 // fluecell batch-merge.
 //
-// The test skips when Slurm or munge is not installed (Debian packages
-// slurm-wlm and munge) or when it does not run as root; with
-// FLUECELL_REQUIRE_SLURM=1, as CI sets it, it fails instead.
+// The daemons run as the user running the test (root is not needed) and
+// every file they use lies below a temporary folder. The test skips when
+// Slurm or munge is not installed (Debian packages slurm-wlm and munge);
+// with FLUECELL_REQUIRE_SLURM=1, as CI sets it, it fails instead.
 package slurmtest
