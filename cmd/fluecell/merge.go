@@ -11,7 +11,8 @@ import (
 
 // cmdBatchMerge combines the summary CSVs of a sharded batch into one.
 func cmdBatchMerge(ctx context.Context, s stdio, args []string) int {
-	fs := newFlags("batch-merge", "batch-merge OUT.csv SHARD.csv... (the summaries that fluecell batch --shard I/N --summary wrote)", s.err, false)
+	fs := newFlags("batch-merge", "batch-merge OUT.csv SHARD.csv... [--shards N] (the summaries that fluecell batch --shard I/N --summary wrote)", s.err, false)
+	shards := fs.Int("shards", 0, "check that the summaries are those of shards 1..`N` of one run: one per shard, none missing")
 	pos, code, ok := parseArgs(fs, args)
 	if !ok {
 		return code
@@ -20,8 +21,8 @@ func cmdBatchMerge(ctx context.Context, s stdio, args []string) int {
 		fmt.Fprintln(s.err, "fluecell batch-merge: give the merged file first, then the shards' summaries, e.g. fluecell batch-merge out/summary.csv out/summary-*.csv")
 		return 2
 	}
-	out, shards := pos[0], pos[1:]
-	for _, p := range shards {
+	out, sums := pos[0], pos[1:]
+	for _, p := range sums {
 		if sameFile(out, p) {
 			fmt.Fprintf(s.err, "fluecell batch-merge: %s is both the merged file and one of the summaries to merge; name a new file first (e.g. %s)\n", out, filepath.Join(filepath.Dir(out), "summary-all.csv"))
 			return 2
@@ -31,15 +32,20 @@ func cmdBatchMerge(ctx context.Context, s stdio, args []string) int {
 		fmt.Fprintf(s.err, "fluecell batch-merge: %s exists and is not a merged summary; the merged file comes first (fluecell batch-merge OUT.csv SHARD.csv...): name a new file, or remove this one\n", out)
 		return 2
 	}
-	m, err := batch.MergeSummaries(shards)
+	m, err := batch.MergeSummaries(sums)
 	if err != nil {
 		return fail(s, "batch-merge", err)
+	}
+	if *shards != 0 {
+		if err := batch.CheckShards(m, *shards); err != nil {
+			return fail(s, "batch-merge", err)
+		}
 	}
 	if err := batch.WriteMergedCSV(out, m); err != nil {
 		return fail(s, "batch-merge", err)
 	}
 	all := m.Totals[0]
-	line := fmt.Sprintf("%d workbooks from %d summaries:", all.Files, m.Shards)
+	line := fmt.Sprintf("%d workbooks from %d summaries:", all.Files, len(m.Summaries))
 	for i, t := range m.Totals[1:] {
 		sep := ","
 		if i == 0 {

@@ -23,7 +23,7 @@ func TestBatchMergeCommand(t *testing.T) {
 		shards = append(shards, sum)
 	}
 	merged := filepath.Join(out, "summary-all.csv")
-	code, stdout, stderr := runCLI(t, append([]string{"batch-merge", merged}, shards...)...)
+	code, stdout, stderr := runCLI(t, append([]string{"batch-merge", merged, "--shards", "3"}, shards...)...)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
@@ -66,6 +66,10 @@ func TestBatchMergeCommand(t *testing.T) {
 	}
 	if after, _ := os.ReadFile(merged); string(after) != string(before) {
 		t.Error("a failed merge changed the merged file")
+	}
+	// A task that wrote no summary: its files would be missing.
+	if code, _, stderr := runCLI(t, "batch-merge", merged, shards[0], shards[2], "--shards", "3"); code != 1 || !strings.Contains(stderr, "2 summaries for 3 shards") {
+		t.Errorf("a missing shard: exit %d, %s", code, stderr)
 	}
 	if code, _, _ := runCLI(t, "batch-merge", merged); code != 2 {
 		t.Errorf("no shard summaries: exit %d, want 2", code)

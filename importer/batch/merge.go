@@ -72,9 +72,9 @@ type Total struct {
 
 // Merged is the combination of the summaries of a sharded batch.
 type Merged struct {
-	Files  []MergedFile // sorted by File
-	Totals []Total      // every file first, then one per status (ok, partial, nothing computed, up-to-date, failed)
-	Shards int          // summaries read
+	Files     []MergedFile // sorted by File
+	Totals    []Total      // every file first, then one per status (ok, partial, nothing computed, up-to-date, failed)
+	Summaries []string     // the summary CSVs read, in the order given
 }
 
 // MergeSummaries reads the summary CSVs that the shards of a batch wrote
@@ -90,7 +90,7 @@ func MergeSummaries(paths []string) (*Merged, error) {
 	if len(paths) == 0 {
 		return nil, errors.New("batch merge: no summary CSV given")
 	}
-	m := &Merged{Shards: len(paths)}
+	m := &Merged{Summaries: append([]string(nil), paths...)}
 	seen := map[string]int{}
 	for _, p := range paths {
 		rows, err := readSummary(p)
@@ -137,6 +137,60 @@ func MergeSummaries(paths []string) (*Merged, error) {
 		}
 	}
 	return m, nil
+}
+
+// CheckShards checks that the summaries merged into m are those of shards
+// 1 to n of one run: n summaries, the files of each belonging to a single
+// shard (Shard.Takes), no two summaries holding the same shard. It catches
+// a task that wrote no summary (its files would be silently missing) and a
+// summary of a run with another shard count. A summary with no file (a
+// shard that took none) cannot be told apart and passes.
+func CheckShards(m *Merged, n int) error {
+	if n < 1 || n > 1_000_000 {
+		return fmt.Errorf("batch merge: shards %d: give the N of --shard I/N, between 1 and 1000000", n)
+	}
+	if len(m.Summaries) != n {
+		return fmt.Errorf("batch merge: %d summaries for %d shards: every task I of 1..%d must have written its summary (a task that wrote none did not finish; run it again)", len(m.Summaries), n, n)
+	}
+	type owner struct {
+		shard Shard
+		file  string // the first file seen of that summary
+	}
+	first := map[string]owner{} // summary path -> its shard
+	for _, f := range m.Files {
+		name := f.File
+		if len(name) > 1 && name[0] == '\'' && mergeNeutral(name[1:]) != name[1:] {
+			name = name[1:] // neutralised by the writer of the summary
+		}
+		var sh Shard
+		for i := 1; i <= n; i++ {
+			if (Shard{Index: i, Count: n}).Takes(name) {
+				sh = Shard{Index: i, Count: n}
+				break
+			}
+		}
+		o, seen := first[f.From]
+		if !seen {
+			first[f.From] = owner{sh, f.File}
+			continue
+		}
+		if o.shard != sh {
+			return fmt.Errorf("batch merge: %s holds files of shard %s (%s) and of shard %s (%s, line %d): was it written by a run with another N than %d?",
+				f.From, o.shard, mergeQuote(o.file), sh, mergeQuote(f.File), f.Line, n)
+		}
+	}
+	holder := map[Shard]string{}
+	for _, p := range m.Summaries {
+		o, ok := first[p]
+		if !ok {
+			continue // no file: any shard
+		}
+		if other, taken := holder[o.shard]; taken {
+			return fmt.Errorf("batch merge: %s and %s both hold files of shard %s: the same task twice, or summaries of different runs", other, p, o.shard)
+		}
+		holder[o.shard] = p
+	}
+	return nil
 }
 
 // readSummary reads one summary CSV (or merged summary) and checks every

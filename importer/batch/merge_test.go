@@ -97,6 +97,9 @@ func TestMergeShardsOfDemo(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	if err := batch.CheckShards(m, 3); err != nil {
+		t.Errorf("the summaries of shards 1/3, 2/3 and 3/3: %v", err)
+	}
 	merged := filepath.Join(t.TempDir(), "all.csv")
 	if err := batch.WriteMergedCSV(merged, m); err != nil {
 		t.Fatal(err)
@@ -281,5 +284,63 @@ func TestMergeWriteIsAtomic(t *testing.T) {
 	ents, _ := os.ReadDir(dir)
 	if len(ents) != 1 || ents[0].Name() != "m.csv" {
 		t.Errorf("folder holds %v, want m.csv alone", ents)
+	}
+}
+
+// TestCheckShards writes the summaries of three shards by hand, each file
+// in the summary of the shard that takes it, then breaks that in the ways a
+// job array can.
+func TestCheckShards(t *testing.T) {
+	var groups [3][]string
+	for c := 'a'; c <= 'r'; c++ {
+		name := string(c) + ".xlsx"
+		for i := 1; i <= 3; i++ {
+			if (batch.Shard{Index: i, Count: 3}).Takes(name) {
+				groups[i-1] = append(groups[i-1], name)
+			}
+		}
+	}
+	for i, g := range groups {
+		if len(g) < 2 {
+			t.Fatalf("shard %d/3 takes %v: too few names for this test", i+1, g)
+		}
+	}
+	summary := func(files ...string) string {
+		var b strings.Builder
+		b.WriteString(header)
+		for _, f := range files {
+			fmt.Fprintf(&b, "%s,ok,1,1,1,1,0,,0,%s,\n", f, f)
+		}
+		return writeFile(t, "s.csv", b.String())
+	}
+	s1, s2, s3 := summary(groups[0]...), summary(groups[1]...), summary(groups[2]...)
+	check := func(n int, paths ...string) error {
+		t.Helper()
+		m, err := batch.MergeSummaries(paths)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return batch.CheckShards(m, n)
+	}
+	if err := check(3, s3, s1, s2); err != nil {
+		t.Errorf("the three shards: %v", err)
+	}
+	if err := check(3, s1, s3); err == nil || !strings.Contains(err.Error(), "2 summaries for 3 shards") {
+		t.Errorf("a missing shard: %v", err)
+	}
+	// A file in the summary of a shard that does not take it: the run had
+	// another N.
+	moved := summary(append(groups[0][1:], groups[1][0])...)
+	rest := summary(groups[1][1:]...)
+	if err := check(3, moved, rest, s3); err == nil || !strings.Contains(err.Error(), "holds files of shard") || !strings.Contains(err.Error(), groups[1][0]) || !strings.Contains(err.Error(), "another N than 3") {
+		t.Errorf("a file in the wrong shard: %v", err)
+	}
+	// One shard's files in two summaries, another shard's in none.
+	half1, half2 := summary(groups[0][:1]...), summary(groups[0][1:]...)
+	if err := check(3, half1, half2, s2); err == nil || !strings.Contains(err.Error(), "both hold files of shard 1/3") {
+		t.Errorf("one shard twice: %v", err)
+	}
+	if err := check(0, s1); err == nil || !strings.Contains(err.Error(), "shards 0") {
+		t.Errorf("0 shards: %v", err)
 	}
 }

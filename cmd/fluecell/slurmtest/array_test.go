@@ -112,7 +112,7 @@ func TestSlurmJobArray(t *testing.T) {
 	// One merged summary lists every input once, with the totals.
 	merged := filepath.Join(work, "summary-all.csv")
 	shardSums, _ := filepath.Glob(filepath.Join(sums, "summary-*.csv"))
-	mergeOut, err := exec.Command(bin, append([]string{"batch-merge", merged}, shardSums...)...).CombinedOutput()
+	mergeOut, err := exec.Command(bin, append([]string{"batch-merge", merged, "--shards", strconv.Itoa(tasks)}, shardSums...)...).CombinedOutput()
 	if err != nil {
 		t.Fatalf("batch-merge: %v\n%s", err, mergeOut)
 	}
