@@ -127,13 +127,15 @@ func MergeSummaries(paths []string) (*Merged, error) {
 			t.Seconds += f.Seconds
 		}
 	}
-	all := m.Totals[0]
-	for _, k := range []struct {
-		name string
-		v    float64
-	}{{"tCO2", all.TCO2}, {"tCO2e", all.TCO2e}} {
-		if math.IsInf(k.v, 0) || math.IsNaN(k.v) {
-			return nil, fmt.Errorf("batch merge: the %s total of %d files is beyond the float64 range (%g): check the files with the largest %s", k.name, all.Files, k.v, k.name)
+	for _, t := range m.Totals {
+		for _, k := range []struct {
+			name string
+			v    float64
+		}{{"tCO2", t.TCO2}, {"tCO2e", t.TCO2e}, {"seconds", t.Seconds}} {
+			if math.IsInf(k.v, 0) || math.IsNaN(k.v) {
+				return nil, fmt.Errorf("batch merge: the %s total of %d files (%s) is beyond the float64 range (%g): check the files with the largest %s",
+					k.name, t.Files, strings.TrimSpace("total "+t.Status), k.v, k.name)
+			}
 		}
 	}
 	return m, nil

@@ -263,7 +263,7 @@ func TestMergeOverflow(t *testing.T) {
 	p := writeFile(t, "big.csv", header+
 		"a.xlsx,ok,1,1,1e308,1,0,,0,a.xlsx,\n"+
 		"b.xlsx,ok,1,1,1e308,1,0,,0,b.xlsx,\n")
-	if _, err := batch.MergeSummaries([]string{p}); err == nil || !strings.Contains(err.Error(), "tCO2 total of 2 files is beyond the float64 range") {
+	if _, err := batch.MergeSummaries([]string{p}); err == nil || !strings.Contains(err.Error(), "tCO2 total of 2 files (total) is beyond the float64 range") {
 		t.Errorf("overflowing total: %v", err)
 	}
 }
