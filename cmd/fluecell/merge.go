@@ -47,11 +47,18 @@ func cmdBatchMerge(ctx context.Context, s stdio, args []string) int {
 	all := m.Totals[0]
 	line := fmt.Sprintf("%d workbooks from %d summaries:", all.Files, len(m.Summaries))
 	for i, t := range m.Totals[1:] {
-		sep := ","
-		if i == 0 {
-			sep = ""
+		switch {
+		case t.Status == "unreadable":
+			if t.Files == 1 {
+				line += "; 1 unreadable folder (its workbooks were not seen)"
+			} else if t.Files > 1 {
+				line += fmt.Sprintf("; %d unreadable folders (their workbooks were not seen)", t.Files)
+			}
+		case i == 0:
+			line += fmt.Sprintf(" %d %s", t.Files, t.Status)
+		default:
+			line += fmt.Sprintf(", %d %s", t.Files, t.Status)
 		}
-		line += fmt.Sprintf("%s %d %s", sep, t.Files, t.Status)
 	}
 	fmt.Fprintln(s.out, line)
 	fmt.Fprintf(s.out, "total: %.3f tCO2, %.3f tCO2e (kept apart: tCO2e already includes the CO2)\n", all.TCO2, all.TCO2e)

@@ -36,8 +36,8 @@ func TestBatchMergeCommand(t *testing.T) {
 	}
 	recs, err := csv.NewReader(f).ReadAll()
 	f.Close()
-	if err != nil || len(recs) != 1+10+6 {
-		t.Fatalf("merged summary: %d lines (want 17), %v", len(recs), err)
+	if err != nil || len(recs) != 1+10+7 {
+		t.Fatalf("merged summary: %d lines (want 18), %v", len(recs), err)
 	}
 	seen := map[string]bool{}
 	for _, r := range recs[1:11] {
@@ -73,5 +73,20 @@ func TestBatchMergeCommand(t *testing.T) {
 	}
 	if code, _, _ := runCLI(t, "batch-merge", merged); code != 2 {
 		t.Errorf("no shard summaries: exit %d, want 2", code)
+	}
+}
+
+// TestBatchMergeUnreadableFolder merges a summary that reports a folder
+// it could not list: the folder is counted apart from the workbooks.
+func TestBatchMergeUnreadableFolder(t *testing.T) {
+	dir := t.TempDir()
+	sum := filepath.Join(dir, "summary-1.csv")
+	os.WriteFile(sum, []byte("file,status,rows,computed,tCO2,tCO2e,warnings,error,seconds,output,sheets\n"+
+		"north/a.xlsx,ok,4,4,1.5,1.75,0,,0.2,north/a.xlsx,Sheet1: ok\n"+
+		"south/locked/,unreadable,,,,,,permission denied,0,,\n"), 0o644)
+	code, stdout, stderr := runCLI(t, "batch-merge", filepath.Join(dir, "all.csv"), sum)
+	if code != 0 || !strings.Contains(stdout, "1 workbooks from 1 summaries: 1 ok, 0 partial, 0 nothing computed, 0 up-to-date, 0 failed; 1 unreadable folder (its workbooks were not seen)") ||
+		!strings.Contains(stdout, "total: 1.500 tCO2, 1.750 tCO2e") {
+		t.Errorf("exit %d\n%s\n%s", code, stdout, stderr)
 	}
 }

@@ -40,8 +40,17 @@ const (
 // totalStatuses returns the statuses a merged summary totals, in the
 // order of its total rows.
 func totalStatuses() []string {
-	return []string{StatusOK, StatusPartial, StatusNone, StatusUpToDate, StatusFailed}
+	return []string{StatusOK, StatusPartial, StatusNone, StatusUpToDate, StatusFailed, statusUnreadable}
 }
+
+// statusUnreadable is the status of a summary row for a folder that could
+// not be listed (its path ends in a slash); the shard that takes the
+// folder's path reports it. It is no workbook: it has no numbers, and the
+// "total" row leaves it out.
+const statusUnreadable = "unreadable"
+
+// noOutcome reports whether rows of this status have empty counts.
+func noOutcome(status string) bool { return status == StatusFailed || status == statusUnreadable }
 
 // MergedFile is one file's row in a merged summary.
 type MergedFile struct {
@@ -73,7 +82,7 @@ type Total struct {
 // Merged is the combination of the summaries of a sharded batch.
 type Merged struct {
 	Files     []MergedFile // sorted by File
-	Totals    []Total      // every file first, then one per status (ok, partial, nothing computed, up-to-date, failed)
+	Totals    []Total      // every workbook first, then one per status (ok, partial, nothing computed, up-to-date, failed, unreadable)
 	Summaries []string     // the summary CSVs read, in the order given
 }
 
@@ -115,7 +124,7 @@ func MergeSummaries(paths []string) (*Merged, error) {
 	for _, f := range m.Files {
 		for i := range m.Totals {
 			t := &m.Totals[i]
-			if t.Status != "" && t.Status != f.Status {
+			if (t.Status == "" && f.Status == statusUnreadable) || (t.Status != "" && t.Status != f.Status) {
 				continue
 			}
 			t.Files++
@@ -283,8 +292,8 @@ func parseSummaryRow(rec []string) (MergedFile, error) {
 	if f.Seconds, err = mergeNumber(rec, fieldSeconds, true); err != nil {
 		return f, err
 	}
-	if f.Status == StatusFailed {
-		return f, nil // no outcome: the counts are empty
+	if noOutcome(f.Status) {
+		return f, nil // the counts are empty
 	}
 	o := &f.Outcome
 	o.Sheets = rec[fieldSheets]
@@ -332,9 +341,10 @@ func mergeNumber(rec []string, col int, nonNegative bool) (float64, error) {
 }
 
 // WriteMergedCSV writes m atomically: the columns of a summary plus
-// "files", one row per file (files = 1), then the total rows, whose file
-// column is empty and whose status says what they add up ("total", "total
-// ok", "total partial", ...). Text fields that a spreadsheet would read as
+// "files", one row per workbook (files = 1) or unreadable folder (files
+// empty), then the total rows, whose file column is empty and whose status
+// says what they add up ("total" over every workbook, "total ok", "total
+// partial", ..., "total unreadable" counting folders). Text fields that a spreadsheet would read as
 // a formula are neutralised (see mergeNeutral).
 func WriteMergedCSV(path string, m *Merged) error {
 	return atomicfile.Write(path, func(out io.Writer) error {
@@ -345,8 +355,10 @@ func WriteMergedCSV(path string, m *Merged) error {
 			rec[fieldFile], rec[fieldStatus] = mergeNeutral(f.File), mergeNeutral(f.Status)
 			rec[fieldError], rec[fieldOutput] = mergeNeutral(f.Error), mergeNeutral(f.Output)
 			rec[fieldSeconds] = strconv.FormatFloat(f.Seconds, 'f', 3, 64)
-			rec[fieldFiles] = "1"
-			if f.Status != StatusFailed {
+			if f.Status != statusUnreadable {
+				rec[fieldFiles] = "1"
+			}
+			if !noOutcome(f.Status) {
 				o := f.Outcome
 				rec[fieldRows], rec[fieldComputed], rec[fieldWarnings] = strconv.Itoa(o.Rows), strconv.Itoa(o.Computed), strconv.Itoa(o.Warnings)
 				rec[fieldTCO2], rec[fieldTCO2e] = strconv.FormatFloat(o.TCO2, 'f', -1, 64), strconv.FormatFloat(o.TCO2e, 'f', -1, 64)
@@ -359,7 +371,7 @@ func WriteMergedCSV(path string, m *Merged) error {
 			rec[fieldStatus] = strings.TrimSpace("total " + t.Status)
 			rec[fieldFiles] = strconv.Itoa(t.Files)
 			rec[fieldSeconds] = strconv.FormatFloat(t.Seconds, 'f', 3, 64)
-			if t.Status != StatusFailed {
+			if !noOutcome(t.Status) {
 				rec[fieldRows], rec[fieldComputed], rec[fieldWarnings] = strconv.Itoa(t.Rows), strconv.Itoa(t.Computed), strconv.Itoa(t.Warnings)
 				rec[fieldTCO2], rec[fieldTCO2e] = mergeTonnes(t.TCO2), mergeTonnes(t.TCO2e)
 			}
@@ -384,19 +396,17 @@ func mergeTonnes(v float64) string {
 }
 
 // mergeNeutral makes a text field safe to open in a spreadsheet: a field
-// starting with = + - @ (a formula, or the start of one) or with a tab or
-// carriage return gets a leading single quote, which spreadsheet programs
-// show as text. Other fields, and fields already starting with a quote,
-// are returned as they are, so neutralising twice changes nothing.
+// whose first character after any spaces is = + - @ (a formula, or the
+// start of one), a tab or a line break gets a leading single quote, which
+// spreadsheet programs show as text. It is the rule of the batch summary
+// itself. Other fields, and fields already starting with a quote, are
+// returned as they are, so neutralising twice changes nothing.
 func mergeNeutral(s string) string {
-	if s == "" {
+	t := strings.TrimLeft(s, " ")
+	if t == "" || !strings.ContainsRune("=+-@\t\r\n", rune(t[0])) {
 		return s
 	}
-	switch s[0] {
-	case '=', '+', '-', '@', '\t', '\r':
-		return "'" + s
-	}
-	return s
+	return "'" + s
 }
 
 // mergeQuote shows a file name from an untrusted summary on one line.

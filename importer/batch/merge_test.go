@@ -108,8 +108,8 @@ func TestMergeShardsOfDemo(t *testing.T) {
 	if got, want := strings.Join(recs[0], ","), "file,status,rows,computed,tCO2,tCO2e,warnings,error,seconds,output,sheets,files"; got != want {
 		t.Fatalf("header %q, want %q", got, want)
 	}
-	if got, want := len(recs), 1+11+6; got != want {
-		t.Fatalf("%d lines, want %d (header, 11 files, 6 totals)", got, want)
+	if got, want := len(recs), 1+11+7; got != want {
+		t.Fatalf("%d lines, want %d (header, 11 files, 7 totals)", got, want)
 	}
 	files, totals := recs[1:12], recs[12:]
 	var want2, want2e float64
@@ -145,7 +145,7 @@ func TestMergeShardsOfDemo(t *testing.T) {
 	if want2 == 0 || want2e <= want2 {
 		t.Errorf("demo totals %v tCO2, %v tCO2e: expected tCO2e above tCO2 (other gases count in tCO2e only)", want2, want2e)
 	}
-	for i, s := range []string{"ok", "partial", "nothing computed", "up-to-date", "failed"} {
+	for i, s := range []string{"ok", "partial", "nothing computed", "up-to-date", "failed", "unreadable"} {
 		row := totals[1+i]
 		if row[1] != "total "+s || row[11] != strconv.Itoa(status[s]) {
 			t.Errorf("total row for %s = %v, want %d files", s, row, status[s])
@@ -193,7 +193,7 @@ func TestMergeRefusesWhatIsNotASummary(t *testing.T) {
 		{"empty", "", "is empty; a summary has at least its header line file,status,rows"},
 		{"other CSV", "site,fuel,quantity\nA,diesel,3\n", `is not a batch summary: its first line is "site,fuel,quantity"`},
 		{"a workbook", "PK\x03\x04\x14\x00\x06\x00\x08\x00\x00\x00!\x00", "is not a batch summary"},
-		{"unknown status", header + "a.xlsx,done,1,1,0.5,0.5,0,,0.1,a.xlsx,\n", `line 2: status "done": want one of ok, partial, nothing computed, up-to-date, failed`},
+		{"unknown status", header + "a.xlsx,done,1,1,0.5,0.5,0,,0.1,a.xlsx,\n", `line 2: status "done": want one of ok, partial, nothing computed, up-to-date, failed, unreadable`},
 		{"infinite tCO2", header + "a.xlsx,ok,1,1,+Inf,1,0,,0.1,a.xlsx,\n", `line 2: tCO2 "+Inf": want a finite decimal number`},
 		{"NaN tCO2e", header + "a.xlsx,ok,1,1,1,NaN,0,,0.1,a.xlsx,\n", `line 2: tCO2e "NaN": want a finite decimal number`},
 		{"negative rows", header + "a.xlsx,ok,-1,1,1,1,0,,0.1,a.xlsx,\n", `line 2: rows "-1": want a whole number from 0 to`},
@@ -220,7 +220,8 @@ func TestMergeRefusesWhatIsNotASummary(t *testing.T) {
 
 // TestMergeTotals checks the arithmetic of the total rows on rows written
 // by hand: tCO2 and tCO2e are summed apart, failed files count but add no
-// tonnes, and a summary saved by a spreadsheet (BOM, quoted negative
+// tonnes, an unreadable folder is counted apart from the workbooks, and a
+// summary saved by a spreadsheet (BOM, quoted negative
 // number) still reads.
 func TestMergeTotals(t *testing.T) {
 	a := writeFile(t, "a.csv", "\uFEFF"+header+
@@ -229,7 +230,9 @@ func TestMergeTotals(t *testing.T) {
 	b := writeFile(t, "b.csv", header+
 		"y/credit.csv,ok,2,2,'-0.3,-0.3,0,,0.125,y/credit.csv,\n"+
 		"y/bad.xlsx,failed,,,,,,not a zip file,0.5,y/bad.xlsx,\n"+
-		"@SUM(A1).xlsx,up-to-date,5,5,4,4.5,0,,0,@SUM(A1).xlsx,-S: x\n")
+		"@SUM(A1).xlsx,up-to-date,5,5,4,4.5,0,,0,@SUM(A1).xlsx,-S: x\n"+
+		"y/locked/,unreadable,,,,,,permission denied,0,,\n"+
+		" =cmd.csv,ok,0,0,0,0,0,,0, =cmd.csv,\n")
 	m, err := batch.MergeSummaries([]string{a, b})
 	if err != nil {
 		t.Fatal(err)
@@ -241,18 +244,21 @@ func TestMergeTotals(t *testing.T) {
 	got := readCSV(t, out)
 	want := [][]string{
 		{"file", "status", "rows", "computed", "tCO2", "tCO2e", "warnings", "error", "seconds", "output", "sheets", "files"},
+		{"' =cmd.csv", "ok", "0", "0", "0", "0", "0", "", "0.000", "' =cmd.csv", "", "1"},
 		{"'@SUM(A1).xlsx", "up-to-date", "5", "5", "4", "4.5", "0", "", "0.000", "'@SUM(A1).xlsx", "'-S: x", "1"},
 		{"x/one.xlsx", "ok", "10", "10", "1.1", "1.2", "0", "", "0.500", "x/one.xlsx", "S: computed", "1"},
 		{"x/two.xlsx", "partial", "10", "4", "2.2", "2.4", "3", "", "0.250", "x/two.xlsx", "S: partial", "1"},
 		{"y/bad.xlsx", "failed", "", "", "", "", "", "not a zip file", "0.500", "y/bad.xlsx", "", "1"},
 		{"y/credit.csv", "ok", "2", "2", "-0.3", "-0.3", "0", "", "0.125", "y/credit.csv", "", "1"},
+		{"y/locked/", "unreadable", "", "", "", "", "", "permission denied", "0.000", "", "", ""},
 		// 1.1+2.2-0.3+4 = 7 tCO2; 1.2+2.4-0.3+4.5 = 7.8 tCO2e
-		{"", "total", "27", "21", "7", "7.8", "3", "", "1.375", "", "", "5"},
-		{"", "total ok", "12", "12", "0.8", "0.9", "0", "", "0.625", "", "", "2"},
+		{"", "total", "27", "21", "7", "7.8", "3", "", "1.375", "", "", "6"},
+		{"", "total ok", "12", "12", "0.8", "0.9", "0", "", "0.625", "", "", "3"},
 		{"", "total partial", "10", "4", "2.2", "2.4", "3", "", "0.250", "", "", "1"},
 		{"", "total nothing computed", "0", "0", "0", "0", "0", "", "0.000", "", "", "0"},
 		{"", "total up-to-date", "5", "5", "4", "4.5", "0", "", "0.000", "", "", "1"},
 		{"", "total failed", "", "", "", "", "", "", "0.500", "", "", "1"},
+		{"", "total unreadable", "", "", "", "", "", "", "0.000", "", "", "1"},
 	}
 	if fmt.Sprint(got) != fmt.Sprint(want) {
 		t.Errorf("merged:\n%q\nwant:\n%q", got, want)

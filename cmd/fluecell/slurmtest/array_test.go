@@ -215,8 +215,8 @@ func completeWorkbook(p string) error {
 func checkMerged(t *testing.T, path string, inputs []string) {
 	t.Helper()
 	recs := readCSV(t, path)
-	if len(recs) != 1+len(inputs)+6 {
-		t.Fatalf("merged summary has %d lines, want %d (header, %d files, 6 totals)", len(recs), 1+len(inputs)+6, len(inputs))
+	if len(recs) != 1+len(inputs)+7 {
+		t.Fatalf("merged summary has %d lines, want %d (header, %d files, 7 totals)", len(recs), 1+len(inputs)+7, len(inputs))
 	}
 	var files []string
 	var sum2, sum2e float64
