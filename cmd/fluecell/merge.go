@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"strings"
 
 	"github.com/fluecell/fluecell/importer/batch"
 )
@@ -45,7 +46,7 @@ func cmdBatchMerge(ctx context.Context, s stdio, args []string) int {
 		return fail(s, "batch-merge", err)
 	}
 	all := m.Totals[0]
-	line := fmt.Sprintf("%d workbooks from %d summaries:", all.Files, len(m.Summaries))
+	line := fmt.Sprintf("%s from %s:", plural(all.Files, "workbook"), plural(len(m.Summaries), "summary"))
 	for i, t := range m.Totals[1:] {
 		switch {
 		case t.Status == "unreadable":
@@ -77,4 +78,15 @@ func sameFile(a, b string) bool {
 	pa, errA := filepath.Abs(a)
 	pb, errB := filepath.Abs(b)
 	return errA == nil && errB == nil && pa == pb
+}
+
+// plural writes n and the noun, in the plural unless n is 1.
+func plural(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	if strings.HasSuffix(noun, "y") {
+		return fmt.Sprintf("%d %sies", n, strings.TrimSuffix(noun, "y"))
+	}
+	return fmt.Sprintf("%d %ss", n, noun)
 }

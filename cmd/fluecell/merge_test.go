@@ -85,7 +85,7 @@ func TestBatchMergeUnreadableFolder(t *testing.T) {
 		"north/a.xlsx,ok,4,4,1.5,1.75,0,,0.2,north/a.xlsx,Sheet1: ok\n"+
 		"south/locked/,unreadable,,,,,,permission denied,0,,\n"), 0o644)
 	code, stdout, stderr := runCLI(t, "batch-merge", filepath.Join(dir, "all.csv"), sum)
-	if code != 0 || !strings.Contains(stdout, "1 workbooks from 1 summaries: 1 ok, 0 partial, 0 nothing computed, 0 up-to-date, 0 failed; 1 unreadable folder (its workbooks were not seen)") ||
+	if code != 0 || !strings.Contains(stdout, "1 workbook from 1 summary: 1 ok, 0 partial, 0 nothing computed, 0 up-to-date, 0 failed; 1 unreadable folder (its workbooks were not seen)") ||
 		!strings.Contains(stdout, "total: 1.500 tCO2, 1.750 tCO2e") {
 		t.Errorf("exit %d\n%s\n%s", code, stdout, stderr)
 	}
