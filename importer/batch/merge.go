@@ -102,7 +102,7 @@ func MergeSummaries(paths []string) (*Merged, error) {
 	m := &Merged{Summaries: append([]string(nil), paths...)}
 	seen := map[string]int{}
 	for _, p := range paths {
-		rows, err := readSummary(p)
+		rows, err := readShardSummary(p)
 		if err != nil {
 			return nil, err
 		}
@@ -204,9 +204,9 @@ func CheckShards(m *Merged, n int) error {
 	return nil
 }
 
-// readSummary reads one summary CSV (or merged summary) and checks every
+// readShardSummary reads one summary CSV (or merged summary) and checks every
 // row.
-func readSummary(path string) ([]MergedFile, error) {
+func readShardSummary(path string) ([]MergedFile, error) {
 	f, err := os.Open(path)
 	if err != nil {
 		return nil, fmt.Errorf("batch merge: %w", err)
