@@ -225,7 +225,12 @@ func (c *cluster) env() []string { return append(os.Environ(), "SLURM_CONF="+c.c
 
 // command prepares a client command (sinfo, sbatch) against this cluster.
 func (c *cluster) command(name string, args ...string) *exec.Cmd {
-	cmd := exec.Command(name, args...)
+	return c.commandContext(context.Background(), name, args...)
+}
+
+// commandContext is command, killed when ctx ends.
+func (c *cluster) commandContext(ctx context.Context, name string, args ...string) *exec.Cmd {
+	cmd := exec.CommandContext(ctx, name, args...)
 	cmd.Env = c.env()
 	cmd.Dir = filepath.Join(c.dir, "work")
 	return cmd
@@ -337,10 +342,6 @@ func (c *cluster) stragglers() []int {
 // sbatch submits a job and waits for it (--wait) within the context's
 // deadline.
 func (c *cluster) sbatch(ctx context.Context, args ...string) (string, error) {
-	cmd := c.command(c.tools["sbatch"], args...)
-	cmd = exec.CommandContext(ctx, cmd.Path, cmd.Args[1:]...)
-	cmd.Env = c.env()
-	cmd.Dir = filepath.Join(c.dir, "work")
-	out, err := cmd.CombinedOutput()
+	out, err := c.commandContext(ctx, c.tools["sbatch"], args...).CombinedOutput()
 	return string(out), err
 }
