@@ -37,6 +37,7 @@ func commands() []command {
 		{"eval", "evaluate one expression, e.g. fuel_co2(\"diesel\", 1000, \"L\")", cmdEval},
 		{"annotate", "add tCO2/tCO2e columns and unit warnings to a workbook (.xlsx, .xlsm, .xls, .csv)", cmdAnnotate},
 		{"batch", "annotate every workbook below a folder into a mirror folder, in parallel", cmdBatch},
+		{"batch-merge", "combine the summary CSVs of batch shards into one, each workbook once, with totals", cmdBatchMerge},
 		{"inspect", "show how a workbook's tables and columns are read; write that reading as a mapping to edit", cmdInspect},
 		{"functions", "list the carbon functions with parameters and examples", cmdFunctions},
 		{"factors", "list factor rows with their sources", cmdFactors},
@@ -96,7 +97,7 @@ func usage(w io.Writer) {
 	fmt.Fprintln(w, "Usage: fluecell COMMAND [flags] [args]   (fluecell COMMAND --help for one command)")
 	fmt.Fprintln(w)
 	for _, c := range commands() {
-		fmt.Fprintf(w, "  %-10s %s\n", c.name, c.summary)
+		fmt.Fprintf(w, "  %-11s %s\n", c.name, c.summary)
 	}
 	fmt.Fprintln(w)
 	fmt.Fprintln(w, caution)
