@@ -56,13 +56,13 @@ func TestIsPlainNumber(t *testing.T) {
 
 func TestName(t *testing.T) {
 	for in, want := range map[string]string{
-		"plain.xlsx":              "plain.xlsx",
-		"Köln-Überblick.xlsx":     "Köln-Überblick.xlsx",
-		"two\nlines.xlsx":         `"two\nlines.xlsx"`,
-		"esc\x1b[31mred.xlsx":     `"esc\x1b[31mred.xlsx"`,
-		"bad\xffbyte.csv":         `"bad\xffbyte.csv"`,
-		"rlo\u202Excod.xlsx":      `"rlo\u202excod.xlsx"`,
-		"tab\there.csv":           `"tab\there.csv"`,
+		"plain.xlsx":             "plain.xlsx",
+		"Köln-Überblick.xlsx":    "Köln-Überblick.xlsx",
+		"two\nlines.xlsx":        `"two\nlines.xlsx"`,
+		"esc\x1b[31mred.xlsx":    `"esc\x1b[31mred.xlsx"`,
+		"bad\xffbyte.csv":        `"bad\xffbyte.csv"`,
+		"rlo\u202Excod.xlsx":     `"rlo\u202excod.xlsx"`,
+		"tab\there.csv":          `"tab\there.csv"`,
 		"literal\uFFFDchar.xlsx": "literal\uFFFDchar.xlsx",
 	} {
 		if got := Name(in); got != want {
