@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"io/fs"
+	"math"
 	"os"
 	"path/filepath"
 	"runtime"
@@ -13,6 +14,8 @@ import (
 	"strings"
 	"sync"
 	"time"
+
+	"github.com/fluecell/fluecell/importer/safetext"
 )
 
 // Outcome is what one annotation reports back.
@@ -49,11 +52,12 @@ type Config struct {
 
 // Status of one file.
 const (
-	StatusOK       = "ok"               // every data row computed
-	StatusPartial  = "partial"          // some rows computed; the others have findings at their rows
-	StatusNone     = "nothing computed" // the file was read, but no row could be computed (see its sheets)
-	StatusFailed   = "failed"           // the file could not be annotated (Error says why)
-	StatusUpToDate = "up-to-date"       // its output is newer than the input and the settings: not redone
+	StatusOK         = "ok"               // every data row computed
+	StatusPartial    = "partial"          // some rows computed; the others have findings at their rows
+	StatusNone       = "nothing computed" // the file was read, but no row could be computed (see its sheets)
+	StatusFailed     = "failed"           // the file could not be annotated (Error says why)
+	StatusUpToDate   = "up-to-date"       // its output is newer than the input and the settings: not redone
+	StatusUnreadable = "unreadable"       // a folder that could not be listed (Error says why); its files were not seen
 )
 
 // statusOf names the status of an annotated file from its rows.
@@ -79,12 +83,14 @@ type FileResult struct {
 
 // Summary is the result of Run.
 type Summary struct {
-	Files    []FileResult // workbooks of this shard, sorted by path
-	Skipped  int          // files below InDir that are not workbooks
-	Others   int          // workbooks left to other shards
-	Failed   int
-	UpToDate int
-	Written  int
+	Files      []FileResult // workbooks of this shard, sorted by path
+	Skipped    int          // files below InDir that are not workbooks
+	Others     int          // workbooks left to other shards
+	Failed     int
+	UpToDate   int
+	Written    int
+	Unreadable int
+	Notes      []string
 }
 
 // isWorkbook lists the extensions treated as workbooks. Legacy .xls files
@@ -147,31 +153,27 @@ func Run(ctx context.Context, cfg Config) (*Summary, error) {
 	if cfg.Annotate == nil {
 		return nil, errors.New("batch: no annotate function")
 	}
-	in, err := filepath.Abs(cfg.InDir)
+	in, out, err := folders(cfg.InDir, cfg.OutDir)
 	if err != nil {
-		return nil, fmt.Errorf("batch: input folder: %w", err)
-	}
-	out, err := filepath.Abs(cfg.OutDir)
-	if err != nil {
-		return nil, fmt.Errorf("batch: output folder: %w", err)
-	}
-	if st, err := os.Stat(in); err != nil || !st.IsDir() {
-		return nil, fmt.Errorf("batch: input folder %s is not a readable folder", cfg.InDir)
-	}
-	if in == out {
-		return nil, fmt.Errorf("batch: the output folder must differ from the input folder %s (inputs are never overwritten)", cfg.InDir)
-	}
-	if rel, err := filepath.Rel(out, in); err == nil && !strings.HasPrefix(rel, "..") {
-		return nil, fmt.Errorf("batch: the input folder %s lies inside the output folder %s", cfg.InDir, cfg.OutDir)
+		return nil, err
 	}
 	if err := os.MkdirAll(out, 0o755); err != nil {
 		return nil, fmt.Errorf("batch: output folder: %w", err)
 	}
-	files, skipped, err := listWorkbooks(in, out)
+	lw, err := listWorkbooks(in, out)
 	if err != nil {
 		return nil, err
 	}
-	sum := &Summary{Skipped: skipped}
+	files, skipped := lw.files, lw.skipped
+	sum := &Summary{Skipped: skipped, Notes: lw.notes}
+	for _, u := range lw.unreadable {
+		if cfg.Shard.Takes(u.File) {
+			sum.Unreadable++
+			sum.Files = append(sum.Files, u)
+		} else {
+			sum.Notes = append(sum.Notes, fmt.Sprintf("folder %s: %s (shard %s does not list it; another shard's summary does)", safetext.Name(u.File), u.Error, cfg.Shard))
+		}
+	}
 	clash := collisions(files)
 	var mine []string
 	for _, f := range files {
@@ -198,7 +200,7 @@ func Run(ctx context.Context, cfg Config) (*Summary, error) {
 			for i := range work {
 				if other, ok := clash[mine[i]]; ok {
 					results[i] = FileResult{File: mine[i], Output: OutputName(mine[i]), Status: StatusFailed,
-						Error: fmt.Sprintf("not annotated: its output %s would overwrite the output of %s; rename one of the two inputs", OutputName(mine[i]), other)}
+						Error: fmt.Sprintf("not annotated: its output %s would overwrite the output of %s; rename one of the two inputs", safetext.Name(OutputName(mine[i])), safetext.Name(other))}
 				} else {
 					results[i] = one(ctx, cfg, st, in, out, mine[i])
 				}
@@ -231,6 +233,7 @@ dispatch:
 		}
 		sum.Files = append(sum.Files, results[i])
 	}
+	sort.SliceStable(sum.Files, func(i, j int) bool { return sum.Files[i].File < sum.Files[j].File })
 	if err := ctx.Err(); err != nil {
 		return sum, fmt.Errorf("batch: interrupted after %d of %d files: %w", len(sum.Files), len(mine), err)
 	}
@@ -265,6 +268,9 @@ func one(ctx context.Context, cfg Config, st stamps, in, out, rel string) FileRe
 	if err != nil {
 		return fail(err)
 	}
+	if err := checkTotals(o); err != nil {
+		return fail(err)
+	}
 	res.Status, res.Outcome = statusOf(o), o
 	res.Seconds = time.Since(start).Seconds()
 	if err := st.write(rel, dst, sum, cfg.Fingerprint, o); err != nil {
@@ -274,39 +280,26 @@ func one(ctx context.Context, cfg Config, st stamps, in, out, rel string) FileRe
 	return res
 }
 
-func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
+// oneLine puts a message on one line: runs of white space, line breaks
+// included, become one space, and other control characters are escaped.
+func oneLine(s string) string { return safetext.Line(strings.Join(strings.Fields(s), " ")) }
 
-// listWorkbooks returns the workbooks below in (relative, slash-separated,
-// sorted) and how many other files it passed over. Hidden files and
-// folders, office lock files (~$name.xlsx) and the output folder, when it
-// lies inside in, are passed over.
-func listWorkbooks(in, out string) ([]string, int, error) {
-	var files []string
-	skipped := 0
-	err := filepath.WalkDir(in, func(p string, d fs.DirEntry, err error) error {
-		if err != nil {
-			return fmt.Errorf("batch: reading %s: %w", p, err)
+// checkTotals refuses an outcome whose totals are not finite numbers: rows
+// that are each finite can add up to more than float64 holds (about
+// 1.8e308), and Inf or NaN is no total.
+func checkTotals(o Outcome) error {
+	for _, t := range []struct {
+		name string
+		v    float64
+	}{{"tCO2", o.TCO2}, {"tCO2e", o.TCO2e}} {
+		switch {
+		case math.IsInf(t.v, 0):
+			return fmt.Errorf("total exceeds the float64 range: the computed %s rows add up to beyond ±%.3g (check the amounts and units of the largest rows); the output was written, but no total can be given", t.name, math.MaxFloat64)
+		case math.IsNaN(t.v):
+			return fmt.Errorf("total %s is not a number (NaN); the output was written, but no total can be given", t.name)
 		}
-		name := d.Name()
-		if d.IsDir() {
-			if p != in && (p == out || strings.HasPrefix(name, ".")) {
-				return filepath.SkipDir
-			}
-			return nil
-		}
-		if !d.Type().IsRegular() || strings.HasPrefix(name, ".") || strings.HasPrefix(name, "~$") || !isWorkbook(name) {
-			skipped++
-			return nil
-		}
-		rel, err := filepath.Rel(in, p)
-		if err != nil {
-			return err
-		}
-		files = append(files, filepath.ToSlash(rel))
-		return nil
-	})
-	sort.Strings(files)
-	return files, skipped, err
+	}
+	return nil
 }
 
 // removeStaleTemps deletes the temporary files a killed run left in the

@@ -9,6 +9,7 @@ import (
 	"path/filepath"
 
 	"github.com/fluecell/fluecell/importer/atomicfile"
+	"github.com/fluecell/fluecell/importer/regfile"
 )
 
 // stampDir is the folder below the output folder that holds one stamp per
@@ -29,7 +30,12 @@ func (s stamps) path(rel string) string { return filepath.Join(s.dir, filepath.F
 // upToDate reports whether dst was made from an input with this hash and
 // this fingerprint, and is still the file that was written.
 func (s stamps) upToDate(rel, dst, sum, fingerprint string) (stamp, bool) {
-	b, err := os.ReadFile(s.path(rel))
+	f, err := regfile.Open(s.path(rel))
+	if err != nil {
+		return stamp{}, false
+	}
+	b, err := io.ReadAll(io.LimitReader(f, 1<<20))
+	f.Close()
 	if err != nil {
 		return stamp{}, false
 	}
@@ -64,8 +70,10 @@ func (s stamps) write(rel, dst, sum, fingerprint string, o Outcome) error {
 
 func (s stamps) remove(rel string) { os.Remove(s.path(rel)) }
 
+// hashFile returns the SHA-256 of the regular file at path in hex; it
+// refuses anything else (a named pipe would block the worker for ever).
 func hashFile(path string) (string, error) {
-	f, err := os.Open(path)
+	f, err := regfile.Open(path)
 	if err != nil {
 		return "", err
 	}

@@ -1,0 +1,278 @@
+package batch
+
+import (
+	"context"
+	"encoding/csv"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"sync/atomic"
+	"syscall"
+	"testing"
+	"time"
+)
+
+// readSummary writes s as the summary CSV and reads it back.
+func readSummary(t *testing.T, s *Summary) [][]string {
+	t.Helper()
+	p := filepath.Join(t.TempDir(), "summary.csv")
+	if err := WriteSummaryCSV(p, s); err != nil {
+		t.Fatal(err)
+	}
+	f, err := os.Open(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	recs, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return recs
+}
+
+// TestSummaryNeutralisesFormulas: file names, errors and sheet names that a
+// spreadsheet would read as a formula get a leading quote in the summary
+// (OWASP "CSV Injection": = + - @ tab carriage return); numbers, negative
+// ones included, stay numbers.
+func TestSummaryNeutralisesFormulas(t *testing.T) {
+	names := []string{`=HYPERLINK("http://example.invalid","x").xlsx`, "@SUM(A1).xlsx", "+cmd.xlsx", "-1+2.xlsx", "\t=1+1.csv", "\r=2+2.csv", "plain.xlsx"}
+	s := &Summary{}
+	for _, n := range names {
+		s.Files = append(s.Files, FileResult{File: n, Output: n, Status: StatusOK,
+			Outcome: Outcome{Rows: 2, Computed: 2, TCO2: -1.5, TCO2e: 2.5, Sheets: "=cmd|' /C calc'!A0: ok"}})
+	}
+	s.Files = append(s.Files, FileResult{File: "bad.xlsx", Output: "bad.xlsx", Status: StatusFailed, Error: "-2+3 is not a workbook"})
+	recs := readSummary(t, s)
+	for i, n := range names {
+		r := recs[i+1]
+		want := "'" + n
+		if n == "plain.xlsx" {
+			want = n
+		}
+		if r[0] != want || r[9] != want {
+			t.Errorf("file %q written as %q, output as %q; want %q", n, r[0], r[9], want)
+		}
+		if r[4] != "-1.5" || r[5] != "2.5" || r[2] != "2" {
+			t.Errorf("numbers changed: %q", r)
+		}
+		if r[10] != "'=cmd|' /C calc'!A0: ok" {
+			t.Errorf("sheets %q", r[10])
+		}
+	}
+	if r := recs[len(recs)-1]; r[7] != "'-2+3 is not a workbook" {
+		t.Errorf("error %q", r[7])
+	}
+}
+
+// TestUnreadableFolderReported: a folder that cannot be read is a row of
+// the summary (status unreadable, with the reason); the other files are
+// annotated. As root every folder is readable, so this variant skips;
+// TestTooLongFolderReported runs everywhere.
+func TestUnreadableFolderReported(t *testing.T) {
+	if os.Geteuid() == 0 {
+		t.Skip("root reads every folder; TestTooLongFolderReported covers an unreadable folder as root")
+	}
+	in := tree(t, map[string]string{"a.xlsx": "a", "locked/b.xlsx": "b", "z/c.xlsx": "c"})
+	locked := filepath.Join(in, "locked")
+	if err := os.Chmod(locked, 0); err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { os.Chmod(locked, 0o755) })
+	checkUnreadable(t, in, "locked/", "permission denied", 2)
+}
+
+// TestTooLongFolderReported: a folder whose path is longer than the system
+// accepts (PATH_MAX, 4096 bytes on Linux) cannot be listed, even by root.
+func TestTooLongFolderReported(t *testing.T) {
+	in := tree(t, map[string]string{"a.xlsx": "a", "z/c.xlsx": "c"})
+	seg := strings.Repeat("d", 250)
+	fd, err := syscall.Open(in, syscall.O_RDONLY|syscall.O_DIRECTORY, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rel := ""
+	for i := 0; i < 18; i++ { // 18 x 251 bytes: beyond 4096
+		if err := syscall.Mkdirat(fd, seg, 0o755); err != nil {
+			syscall.Close(fd)
+			t.Skip("cannot build a deep folder here:", err)
+		}
+		next, err := syscall.Openat(fd, seg, syscall.O_RDONLY|syscall.O_DIRECTORY, 0)
+		syscall.Close(fd)
+		if err != nil {
+			t.Fatal(err)
+		}
+		fd = next
+		rel += seg + "/"
+	}
+	syscall.Close(fd)
+	// The first folder too long to read is reported; its parent is listed.
+	long := ""
+	for p := seg + "/"; ; p += seg + "/" {
+		if len(filepath.Join(in, p)) >= 4096 {
+			long = p
+			break
+		}
+	}
+	checkUnreadable(t, in, long, "file name too long", 2)
+}
+
+func checkUnreadable(t *testing.T, in, folder, why string, files int) {
+	t.Helper()
+	var calls atomic.Int64
+	s, err := Run(context.Background(), Config{InDir: in, OutDir: filepath.Join(t.TempDir(), "out"), Annotate: copyAnnotate(&calls)})
+	if err != nil {
+		t.Fatalf("one unreadable folder stopped the run: %v", err)
+	}
+	if calls.Load() != int64(files) || s.Written != files {
+		t.Errorf("%d files annotated, %d written; want %d", calls.Load(), s.Written, files)
+	}
+	var row *FileResult
+	for i, f := range s.Files {
+		if f.Status == StatusUnreadable {
+			row = &s.Files[i]
+		}
+	}
+	if row == nil || row.File != folder || !strings.Contains(row.Error, why) || s.Unreadable != 1 {
+		t.Fatalf("unreadable folder not reported as %q (%s): %+v", folder, why, s.Files)
+	}
+	recs := readSummary(t, s)
+	found := false
+	for _, r := range recs {
+		found = found || r[0] == folder && r[1] == StatusUnreadable && strings.Contains(r[7], why)
+	}
+	if !found {
+		t.Errorf("summary lacks the unreadable folder: %q", recs)
+	}
+}
+
+// TestFIFONeverOpened: a named pipe put where a workbook was listed is
+// refused at once; reading it would wait for a writer forever.
+func TestFIFONeverOpened(t *testing.T) {
+	in := tree(t, map[string]string{"a.xlsx": "a"})
+	out := t.TempDir()
+	p := filepath.Join(in, "pipe.xlsx")
+	if err := syscall.Mkfifo(p, 0o644); err != nil {
+		t.Skip("no named pipes:", err)
+	}
+	var calls atomic.Int64
+	done := make(chan FileResult, 1)
+	go func() {
+		done <- one(context.Background(), Config{Annotate: copyAnnotate(&calls)}, stamps{dir: filepath.Join(out, stampDir)}, in, out, "pipe.xlsx")
+	}()
+	select {
+	case r := <-done:
+		if r.Status != StatusFailed || !strings.Contains(r.Error, "named pipe (FIFO), not a regular file") || calls.Load() != 0 {
+			t.Errorf("%+v, %d annotations", r, calls.Load())
+		}
+	case <-time.After(5 * time.Second):
+		t.Fatal("blocked opening a named pipe")
+	}
+	// Listed normally, the pipe is passed over.
+	s, err := Run(context.Background(), Config{InDir: in, OutDir: filepath.Join(out, "o"), Annotate: copyAnnotate(&calls)})
+	if err != nil || len(s.Files) != 1 || s.Skipped != 1 {
+		t.Errorf("%v %+v", err, s)
+	}
+}
+
+// TestOutputThroughSymlink: an output folder named through a symbolic link
+// that leads into the input folder is recognised by its real path, passed
+// over when walking, and said so; a re-run takes no output as input.
+func TestOutputThroughSymlink(t *testing.T) {
+	in := tree(t, map[string]string{"a.xlsx": "a", "north/b.xlsx": "b"})
+	os.MkdirAll(filepath.Join(in, "results"), 0o755)
+	link := filepath.Join(t.TempDir(), "results-link")
+	if err := os.Symlink(filepath.Join(in, "results"), link); err != nil {
+		t.Skip(err)
+	}
+	var calls atomic.Int64
+	cfg := Config{InDir: in, OutDir: link, Fingerprint: "v1", Annotate: copyAnnotate(&calls)}
+	for run := 1; run <= 3; run++ {
+		s, err := Run(context.Background(), cfg)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(s.Files) != 2 {
+			t.Fatalf("run %d took %d files (%+v): its own outputs were read as inputs", run, len(s.Files), s.Files)
+		}
+		if len(s.Notes) != 1 || !strings.Contains(s.Notes[0], "passed over the output folder results") {
+			t.Errorf("run %d notes %q", run, s.Notes)
+		}
+	}
+	// The input folder named through a link, the output given by its real
+	// path inside it: the same.
+	inLink := filepath.Join(t.TempDir(), "in-link")
+	os.Symlink(in, inLink)
+	s, err := Run(context.Background(), Config{InDir: inLink, OutDir: filepath.Join(in, "results"), Fingerprint: "v1", Annotate: copyAnnotate(&calls)})
+	if err != nil || len(s.Files) != 2 {
+		t.Fatalf("%v %+v", err, s)
+	}
+	// An input folder that is the output folder through a link is refused.
+	if _, err := Run(context.Background(), Config{InDir: in, OutDir: inLink, Annotate: copyAnnotate(&calls)}); err == nil || !strings.Contains(err.Error(), "must differ") {
+		t.Errorf("same folder through a link: %v", err)
+	}
+	// So is an input folder inside the output folder reached through a link.
+	if _, err := Run(context.Background(), Config{InDir: filepath.Join(inLink, "north"), OutDir: in, Annotate: copyAnnotate(&calls)}); err == nil || !strings.Contains(err.Error(), "lies inside the output folder") {
+		t.Errorf("input inside output through a link: %v", err)
+	}
+}
+
+// TestOverflowingTotal: a file whose rows are finite but whose total is
+// beyond the float64 range fails with that said, and the summary never
+// holds Inf.
+func TestOverflowingTotal(t *testing.T) {
+	in := tree(t, map[string]string{"big.xlsx": "b", "small.xlsx": "s"})
+	annotate := func(ctx context.Context, src, dst string) (Outcome, error) {
+		if err := os.WriteFile(dst, []byte("x"), 0o644); err != nil {
+			return Outcome{}, err
+		}
+		if strings.Contains(src, "big") {
+			return Outcome{Rows: 3, Computed: 3, TCO2: 1, TCO2e: math.Inf(1)}, nil
+		}
+		return Outcome{Rows: 1, Computed: 1, TCO2: 2, TCO2e: 2}, nil
+	}
+	s, err := Run(context.Background(), Config{InDir: in, OutDir: t.TempDir(), Annotate: annotate})
+	if err != nil {
+		t.Fatal(err)
+	}
+	big := s.Files[0]
+	if big.Status != StatusFailed || !strings.Contains(big.Error, "total exceeds the float64 range") || s.Failed != 1 {
+		t.Errorf("%+v", big)
+	}
+	for _, r := range readSummary(t, s) {
+		if strings.Contains(strings.Join(r, ","), "Inf") {
+			t.Errorf("summary row %q", r)
+		}
+	}
+}
+
+// TestControlCharactersInNames: messages name files with control
+// characters quoted, on one line; the summary keeps the name exactly.
+func TestControlCharactersInNames(t *testing.T) {
+	in := tree(t, map[string]string{"two\nlines.xlsx": "a", "two\nlines.xls": "b", "esc\x1b[2J.xlsx": "corrupt"})
+	var calls atomic.Int64
+	s, err := Run(context.Background(), Config{InDir: in, OutDir: t.TempDir(), Annotate: copyAnnotate(&calls)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range s.Files {
+		if strings.ContainsAny(f.Error, "\n\x1b") {
+			t.Errorf("raw control character in %q", f.Error)
+		}
+	}
+	var collided bool
+	for _, f := range s.Files {
+		collided = collided || f.File == "two\nlines.xls" && strings.Contains(f.Error, `"two\nlines.xlsx"`)
+	}
+	if !collided {
+		t.Errorf("collision message does not quote the names: %+v", s.Files)
+	}
+	names := map[string]bool{}
+	for _, r := range readSummary(t, s)[1:] {
+		names[r[0]] = true
+	}
+	if !names["two\nlines.xlsx"] || !names["esc\x1b[2J.xlsx"] {
+		t.Errorf("summary names %v", names)
+	}
+}
