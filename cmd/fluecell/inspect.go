@@ -12,6 +12,7 @@ import (
 
 	"github.com/fluecell/fluecell/funcs"
 	"github.com/fluecell/fluecell/importer"
+	"github.com/fluecell/fluecell/importer/regfile"
 )
 
 func cmdInspect(ctx context.Context, s stdio, args []string) int {
@@ -32,6 +33,9 @@ func cmdInspect(ctx context.Context, s stdio, args []string) int {
 	if *write != "" && samePath(in, *write) {
 		fmt.Fprintf(s.err, "fluecell inspect: --write-mapping %s is the input: name another file, e.g. %s\n", *write, strings.TrimSuffix(in, filepath.Ext(in))+".mapping.json")
 		return 2
+	}
+	if err := regfile.Check(in); err != nil {
+		return fail(s, "inspect", err)
 	}
 	e, err := af.engine()
 	if err != nil {
