@@ -2,7 +2,6 @@ package main
 
 import (
 	"archive/zip"
-	"context"
 	"encoding/csv"
 	"fmt"
 	"os"
@@ -22,7 +21,7 @@ import (
 // (FLUECELL_TEST_MAIN=1), so that it can be killed like a real process.
 func TestMain(m *testing.M) {
 	if os.Getenv("FLUECELL_TEST_MAIN") == "1" {
-		os.Exit(run(context.Background(), os.Args[1:], stdio{in: os.Stdin, out: os.Stdout, err: os.Stderr}))
+		os.Exit(runMain(os.Args[1:]))
 	}
 	os.Exit(m.Run())
 }

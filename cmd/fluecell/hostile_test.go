@@ -5,6 +5,7 @@ package main
 import (
 	"archive/zip"
 	"encoding/csv"
+	"errors"
 	"io"
 	"os"
 	"os/exec"
@@ -59,6 +60,41 @@ func TestNamedPipesRefused(t *testing.T) {
 		code, _, stderr := runCLIWithin(t, 10*time.Second, args...)
 		if code != 1 || !strings.Contains(stderr, "named pipe (FIFO), not a regular file") {
 			t.Errorf("%q: exit %d, stderr %q", args, code, stderr)
+		}
+	}
+}
+
+// TestAnnotatePipeProcess runs fluecell annotate on a named pipe as a
+// process: it ends at once with a clear error; were it ever to wait, a
+// SIGTERM would end it.
+func TestAnnotatePipeProcess(t *testing.T) {
+	pipe := filepath.Join(t.TempDir(), "pipe.xlsx")
+	if err := syscall.Mkfifo(pipe, 0o644); err != nil {
+		t.Skip("no named pipes:", err)
+	}
+	cmd := exec.Command(os.Args[0], "annotate", pipe)
+	cmd.Env = append(os.Environ(), "FLUECELL_TEST_MAIN=1")
+	var stderr strings.Builder
+	cmd.Stderr = &stderr
+	if err := cmd.Start(); err != nil {
+		t.Fatal(err)
+	}
+	done := make(chan error, 1)
+	go func() { done <- cmd.Wait() }()
+	select {
+	case err := <-done:
+		var ee *exec.ExitError
+		if !errors.As(err, &ee) || ee.ExitCode() != 1 || !strings.Contains(stderr.String(), "named pipe (FIFO), not a regular file") {
+			t.Errorf("%v: %s", err, stderr.String())
+		}
+	case <-time.After(10 * time.Second):
+		cmd.Process.Signal(syscall.SIGTERM)
+		select {
+		case <-done:
+			t.Error("annotate of a named pipe waited until SIGTERM")
+		case <-time.After(5 * time.Second):
+			cmd.Process.Kill()
+			t.Error("annotate of a named pipe waited, and ignored SIGTERM")
 		}
 	}
 }
