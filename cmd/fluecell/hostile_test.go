@@ -255,3 +255,21 @@ func TestBatchFoldersReported(t *testing.T) {
 		t.Errorf("summary:\n%s", b)
 	}
 }
+
+// TestAnnotateControlCharactersInNames: annotate's messages and report
+// never print a name's line break or escape sequence raw.
+func TestAnnotateControlCharactersInNames(t *testing.T) {
+	dir := t.TempDir()
+	broken := filepath.Join(dir, "bad\n\x1b[2J.xlsx")
+	os.WriteFile(broken, []byte("PK\x03\x04 truncated"), 0o644)
+	code, _, stderr := runCLI(t, "annotate", broken)
+	if code != 1 || strings.Contains(stderr, "\x1b") || strings.Count(stderr, "\n") != 1 || !strings.Contains(stderr, `\x1b[2J`) {
+		t.Errorf("exit %d, stderr %q", code, stderr)
+	}
+	good := filepath.Join(dir, "log\x1b]0;title\a.csv")
+	os.WriteFile(good, []byte("Fuel,Quantity,Unit\ndiesel,10,L\n"), 0o644)
+	code, stdout, stderr := runCLI(t, "annotate", good)
+	if code != 0 || strings.ContainsAny(stdout+stderr, "\x1b\a") || !strings.Contains(stdout, `wrote "`) {
+		t.Errorf("exit %d\n%q\n%q", code, stdout, stderr)
+	}
+}
