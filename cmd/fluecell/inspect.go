@@ -13,6 +13,7 @@ import (
 	"github.com/fluecell/fluecell/funcs"
 	"github.com/fluecell/fluecell/importer"
 	"github.com/fluecell/fluecell/importer/regfile"
+	"github.com/fluecell/fluecell/importer/safetext"
 )
 
 func cmdInspect(ctx context.Context, s stdio, args []string) int {
@@ -79,7 +80,7 @@ func samePath(a, b string) bool {
 // the fuel names that are not fuel ids; the mapping.
 func printInspection(w io.Writer, ins *importer.Inspection, wrote string) {
 	rep := ins.Report
-	fmt.Fprintf(w, "%s: %s on %s; %d of %s computed; %s tCO2, %s tCO2e\n", filepath.Base(ins.Path),
+	fmt.Fprintf(w, "%s: %s on %s; %d of %s computed; %s tCO2, %s tCO2e\n", safetext.Name(filepath.Base(ins.Path)),
 		count(len(rep.Tables), "table"), count(len(rep.Sheets), "sheet"), rep.Computed, count(rep.Rows, "row"),
 		funcs.FormatNumber(round3(rep.Totals.TCO2)), funcs.FormatNumber(round3(rep.Totals.TCO2e)))
 	for i, t := range rep.Tables {
@@ -144,9 +145,9 @@ func printInspection(w io.Writer, ins *importer.Inspection, wrote string) {
 	fmt.Fprintf(w, "\nfindings: %s, %s (fluecell annotate lists them, or --json here)\n", count(nErr, "error"), count(nWarn, "warning"))
 	switch {
 	case wrote != "":
-		fmt.Fprintf(w, "mapping: wrote %s; check and edit it, then: fluecell annotate %s --mapping %s\n", wrote, ins.Path, wrote)
+		fmt.Fprintf(w, "mapping: wrote %s; check and edit it, then: fluecell annotate %s --mapping %s\n", safetext.Name(wrote), safetext.Name(ins.Path), safetext.Name(wrote))
 	case rep.Mapping != nil:
-		fmt.Fprintf(w, "mapping: read with %s (sha256 %s)\n", rep.Mapping.Path, rep.Mapping.SHA256[:12])
+		fmt.Fprintf(w, "mapping: read with %s (sha256 %s)\n", safetext.Name(rep.Mapping.Path), rep.Mapping.SHA256[:12])
 	default:
 		fmt.Fprintln(w, "mapping: none (--write-mapping M.json writes this reading for checking and editing)")
 	}
@@ -154,9 +155,10 @@ func printInspection(w io.Writer, ins *importer.Inspection, wrote string) {
 	fmt.Fprintln(w, caution)
 }
 
-// short cuts s to n characters with "..." for a column of text output.
+// short cuts s to n characters with "..." for a column of text output;
+// line breaks become spaces, other control characters are escaped.
 func short(s string, n int) string {
-	s = strings.ReplaceAll(s, "\n", " ")
+	s = safetext.Line(strings.ReplaceAll(s, "\n", " "))
 	if r := []rune(s); len(r) > n {
 		return string(r[:n-3]) + "..."
 	}
