@@ -209,6 +209,16 @@ func TestBatchOverflowingTotals(t *testing.T) {
 		!strings.Contains(stderr, "total exceeds the float64 range") {
 		t.Errorf("annotate: exit %d\n%s\n%s", code, stdout, stderr)
 	}
+	for _, asJSON := range []bool{false, true} {
+		args := []string{"inspect", filepath.Join(in, "big.csv"), "--rule", "tCO2e = quantity"}
+		if asJSON {
+			args = append(args, "--json")
+		}
+		code, stdout, stderr = runCLI(t, args...)
+		if code != 1 || strings.Contains(stdout+stderr, "Inf") || !strings.Contains(stderr, "total exceeds the float64 range") {
+			t.Errorf("inspect (json %v): exit %d\n%s\n%s", asJSON, code, stdout, stderr)
+		}
+	}
 }
 
 // TestBatchFoldersReported: a folder that cannot be read (here: its path

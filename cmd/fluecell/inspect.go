@@ -52,7 +52,14 @@ func cmdInspect(ctx context.Context, s stdio, args []string) int {
 			return fail(s, "inspect", err)
 		}
 	}
+	totalErr := totalsError(ins.Report.Totals)
+	if totalErr != nil {
+		totalErr = fmt.Errorf("%s: %v", safetext.Name(in), totalErr)
+	}
 	if *asJSON {
+		if totalErr != nil {
+			return fail(s, "inspect", fmt.Errorf("%v; JSON cannot hold it", totalErr))
+		}
 		enc := json.NewEncoder(s.out)
 		enc.SetIndent("", "  ")
 		if err := enc.Encode(ins); err != nil {
@@ -61,6 +68,9 @@ func cmdInspect(ctx context.Context, s stdio, args []string) int {
 		return 0
 	}
 	printInspection(s.out, ins, *write)
+	if totalErr != nil {
+		return fail(s, "inspect", totalErr)
+	}
 	return 0
 }
 
@@ -82,7 +92,7 @@ func printInspection(w io.Writer, ins *importer.Inspection, wrote string) {
 	rep := ins.Report
 	fmt.Fprintf(w, "%s: %s on %s; %d of %s computed; %s tCO2, %s tCO2e\n", safetext.Name(filepath.Base(ins.Path)),
 		count(len(rep.Tables), "table"), count(len(rep.Sheets), "sheet"), rep.Computed, count(rep.Rows, "row"),
-		funcs.FormatNumber(round3(rep.Totals.TCO2)), funcs.FormatNumber(round3(rep.Totals.TCO2e)))
+		totalText(rep.Totals.TCO2, funcs.FormatNumber), totalText(rep.Totals.TCO2e, funcs.FormatNumber))
 	for i, t := range rep.Tables {
 		fmt.Fprintf(w, "\ntable %d: sheet %q %s, header row %d, %s; %d of %s computed\n", i+1, t.Sheet, t.Range, t.HeaderRow, t.Kind, t.Computed, count(t.Rows, "row"))
 		if t.Fuel != "" {
