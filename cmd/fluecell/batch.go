@@ -58,6 +58,9 @@ func cmdBatch(ctx context.Context, s stdio, args []string) int {
 				Warnings: rep.Count(importer.SevError) + rep.Count(importer.SevWarning), Sheets: sheetsLine(rep)}, nil
 		},
 	}
+	if *summary != "" {
+		cfg.Exclude = []string{*summary}
+	}
 	if f, isFile := s.err.(*os.File); isFile && term.IsTerminal(int(f.Fd())) {
 		cfg.Progress = s.err
 	}

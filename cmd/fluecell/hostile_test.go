@@ -150,3 +150,18 @@ func TestAnnotateControlCharactersInNames(t *testing.T) {
 		t.Errorf("exit %d\n%q\n%q", code, stdout, stderr)
 	}
 }
+
+// TestBatchSummaryInsideInput: a summary written into the input folder is
+// not annotated as a workbook by the next run.
+func TestBatchSummaryInsideInput(t *testing.T) {
+	in := t.TempDir()
+	fuelLog(t, filepath.Join(in, "a.xlsx"), 3)
+	out := filepath.Join(t.TempDir(), "out")
+	sum := filepath.Join(in, "summary.csv")
+	for run := 0; run < 2; run++ {
+		code, stdout, stderr := runCLI(t, "batch", in, out, "--summary", sum)
+		if code != 0 || !strings.HasPrefix(stdout, "1 workbooks:") {
+			t.Errorf("run %d: exit %d\n%s\n%s", run, code, stdout, stderr)
+		}
+	}
+}

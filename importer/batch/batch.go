@@ -48,6 +48,11 @@ type Config struct {
 	// Progress, when not nil, receives a one-line progress display
 	// (rewritten with \r); pass it only when it is a terminal.
 	Progress io.Writer
+	// Exclude names files that are never inputs, such as the summary CSV
+	// the caller writes, which a later run would otherwise find in the
+	// input folder and annotate. Paths are compared after resolving
+	// symbolic links.
+	Exclude []string
 }
 
 // Status of one file.
@@ -160,7 +165,13 @@ func Run(ctx context.Context, cfg Config) (*Summary, error) {
 	if err := os.MkdirAll(out, 0o755); err != nil {
 		return nil, fmt.Errorf("batch: output folder: %w", err)
 	}
-	lw, err := listWorkbooks(in, out)
+	var exclude []string
+	for _, x := range cfg.Exclude {
+		if r, err := realPath(x); err == nil {
+			exclude = append(exclude, r)
+		}
+	}
+	lw, err := listWorkbooks(in, out, exclude...)
 	if err != nil {
 		return nil, err
 	}

@@ -164,3 +164,22 @@ func TestControlCharactersInNames(t *testing.T) {
 		t.Errorf("summary names %v", names)
 	}
 }
+
+// TestExcludedFiles: a file the run writes itself (the summary CSV) in the
+// input folder is never taken as an input, however its path is spelled.
+func TestExcludedFiles(t *testing.T) {
+	in := tree(t, map[string]string{"a.xlsx": "a", "reports/summary.csv": "file,status\n"})
+	link := filepath.Join(t.TempDir(), "in-link")
+	if err := os.Symlink(in, link); err != nil {
+		t.Skip(err)
+	}
+	var calls atomic.Int64
+	s, err := Run(context.Background(), Config{InDir: in, OutDir: t.TempDir(), Annotate: copyAnnotate(&calls),
+		Exclude: []string{filepath.Join(link, "reports", "summary.csv")}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(s.Files) != 1 || s.Files[0].File != "a.xlsx" || len(s.Notes) != 1 || !strings.Contains(s.Notes[0], "passed over reports/summary.csv") {
+		t.Errorf("%+v %q", s.Files, s.Notes)
+	}
+}

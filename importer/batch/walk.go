@@ -7,6 +7,7 @@ import (
 	"os"
 	"path"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strings"
 
@@ -84,8 +85,9 @@ type listing struct {
 // inside in (recognised as the same folder, whatever path leads to it). A
 // folder that cannot be listed becomes a row with StatusUnreadable and the
 // reason; the others are listed all the same. Only an input folder that
-// cannot be listed at all is an error.
-func listWorkbooks(in, out string) (*listing, error) {
+// cannot be listed at all is an error. The files at the real paths
+// exclude are passed over and said so.
+func listWorkbooks(in, out string, exclude ...string) (*listing, error) {
 	l := &listing{}
 	var outInfo fs.FileInfo
 	if within(out, in) {
@@ -121,6 +123,10 @@ func listWorkbooks(in, out string) (*listing, error) {
 			}
 			if !d.Type().IsRegular() || strings.HasPrefix(name, ".") || strings.HasPrefix(name, "~$") || !isWorkbook(name) {
 				l.skipped++
+				continue
+			}
+			if slices.Contains(exclude, p) {
+				l.notes = append(l.notes, fmt.Sprintf("passed over %s, which this run writes", safetext.Name(r)))
 				continue
 			}
 			l.files = append(l.files, r)
