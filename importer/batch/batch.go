@@ -88,14 +88,21 @@ type FileResult struct {
 
 // Summary is the result of Run.
 type Summary struct {
-	Files      []FileResult // workbooks of this shard, sorted by path
-	Skipped    int          // files below InDir that are not workbooks
-	Others     int          // workbooks left to other shards
-	Failed     int
-	UpToDate   int
-	Written    int
+	// Files are the workbooks of this shard and the folders of this shard
+	// that could not be listed (StatusUnreadable), sorted by path.
+	Files    []FileResult
+	Skipped  int // files below InDir that are not workbooks
+	Others   int // workbooks left to other shards
+	Failed   int
+	UpToDate int
+	Written  int
+	// Unreadable counts the rows of Files with StatusUnreadable: folders
+	// whose files were not seen.
 	Unreadable int
-	Notes      []string
+	// Notes say what the run passed over besides files that are not
+	// workbooks: the output folder when it lies inside the input folder,
+	// excluded files, unreadable folders that another shard reports.
+	Notes []string
 }
 
 // isWorkbook lists the extensions treated as workbooks. Legacy .xls files
@@ -246,7 +253,7 @@ dispatch:
 	}
 	sort.SliceStable(sum.Files, func(i, j int) bool { return sum.Files[i].File < sum.Files[j].File })
 	if err := ctx.Err(); err != nil {
-		return sum, fmt.Errorf("batch: interrupted after %d of %d files: %w", len(sum.Files), len(mine), err)
+		return sum, fmt.Errorf("batch: interrupted after %d of %d files: %w", len(sum.Files)-sum.Unreadable, len(mine), err)
 	}
 	return sum, nil
 }
