@@ -5,7 +5,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"io/fs"
 	"math"
 	"os"
 	"path/filepath"
@@ -318,79 +317,4 @@ func checkTotals(o Outcome) error {
 		}
 	}
 	return nil
-}
-
-// removeStaleTemps deletes the temporary files a killed run left in the
-// output folder (".name.xlsx.123.tmp" beside name.xlsx), for this shard's
-// files only: other shards may be writing theirs into the same folder. A
-// temporary output belongs to the input that gives that output (one of
-// files), else to the input of the same name.
-func removeStaleTemps(out string, shard Shard, files []string) {
-	input := map[string]string{}
-	for _, f := range files {
-		input[OutputName(f)] = f
-	}
-	stamps := filepath.Join(out, stampDir)
-	filepath.WalkDir(out, func(p string, d fs.DirEntry, err error) error {
-		if err != nil {
-			return nil
-		}
-		if d.IsDir() {
-			if p == stamps {
-				removeStaleStampTemps(stamps, shard)
-				return filepath.SkipDir
-			}
-			return nil
-		}
-		base, ok := tempOwner(d.Name())
-		if !ok || !isWorkbook(base) {
-			return nil
-		}
-		rel, err := filepath.Rel(out, filepath.Join(filepath.Dir(p), base))
-		if err != nil {
-			return nil
-		}
-		owner := filepath.ToSlash(rel)
-		if f, ok := input[owner]; ok {
-			owner = f
-		}
-		if shard.Takes(owner) {
-			os.Remove(p)
-		}
-		return nil
-	})
-}
-
-// removeStaleStampTemps deletes the temporary stamps a killed run left
-// (".rel.json.123.tmp" beside rel.json below the stamp folder), for this
-// shard's inputs only.
-func removeStaleStampTemps(dir string, shard Shard) {
-	filepath.WalkDir(dir, func(p string, d fs.DirEntry, err error) error {
-		if err != nil || d.IsDir() {
-			return nil
-		}
-		base, ok := tempOwner(d.Name())
-		if !ok || !strings.HasSuffix(base, ".json") {
-			return nil
-		}
-		rel, err := filepath.Rel(dir, filepath.Join(filepath.Dir(p), strings.TrimSuffix(base, ".json")))
-		if err == nil && shard.Takes(filepath.ToSlash(rel)) {
-			os.Remove(p)
-		}
-		return nil
-	})
-}
-
-// tempOwner returns the name of the file a temporary file of
-// atomicfile.Write stands for (".name.xlsx.123.tmp" gives name.xlsx); ok
-// is false for any other name.
-func tempOwner(name string) (string, bool) {
-	if !strings.HasPrefix(name, ".") || !strings.HasSuffix(name, ".tmp") {
-		return "", false
-	}
-	base := strings.TrimSuffix(strings.TrimPrefix(name, "."), ".tmp")
-	if i := strings.LastIndexByte(base, '.'); i > 0 {
-		base = base[:i] // the random part of the temporary name
-	}
-	return base, true
 }

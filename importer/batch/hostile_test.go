@@ -3,12 +3,15 @@ package batch
 import (
 	"context"
 	"encoding/csv"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
 	"strings"
 	"sync/atomic"
 	"testing"
+
+	"github.com/fluecell/fluecell/importer/atomicfile"
 )
 
 // readSummary writes s as the summary CSV and reads it back.
@@ -181,5 +184,60 @@ func TestExcludedFiles(t *testing.T) {
 	}
 	if len(s.Files) != 1 || s.Files[0].File != "a.xlsx" || len(s.Notes) != 1 || !strings.Contains(s.Notes[0], "passed over reports/summary.csv") {
 		t.Errorf("%+v %q", s.Files, s.Notes)
+	}
+}
+
+// atomicAnnotate copies the input with atomicfile.Write, as the importer
+// writes its outputs.
+func atomicAnnotate(calls *atomic.Int64) AnnotateFunc {
+	return func(ctx context.Context, in, out string) (Outcome, error) {
+		calls.Add(1)
+		b, err := os.ReadFile(in)
+		if err != nil {
+			return Outcome{}, err
+		}
+		err = atomicfile.Write(out, func(w io.Writer) error { _, err := w.Write(b); return err })
+		return Outcome{Rows: 1, Computed: 1, TCO2: 1, TCO2e: 1}, err
+	}
+}
+
+// TestLongNames: inputs whose names are near the 255-byte limit are
+// annotated and stamped (a re-run finds them up to date), and the
+// temporary files a killed run left for them are removed.
+func TestLongNames(t *testing.T) {
+	long := strings.Repeat("L", 245) + ".xlsx"    // 250 bytes
+	longer := strings.Repeat("é", 123) + "Z.xlsx" // 252 bytes
+	in := tree(t, map[string]string{long: "a", "north/" + longer: "b", "short.xlsx": "c"})
+	out := t.TempDir()
+	os.MkdirAll(filepath.Join(out, "north"), 0o755)
+	var stale []string
+	for _, p := range []string{filepath.Join(out, long), filepath.Join(out, "north", longer), filepath.Join(out, stampDir, filepath.FromSlash(stampRel("north/"+longer)))} {
+		os.MkdirAll(filepath.Dir(p), 0o755)
+		f, err := os.CreateTemp(filepath.Dir(p), atomicfile.TempPattern(filepath.Base(p)))
+		if err != nil {
+			t.Fatal(err)
+		}
+		f.Close()
+		stale = append(stale, f.Name())
+	}
+	var calls atomic.Int64
+	for run := 0; run < 2; run++ {
+		s, err := Run(context.Background(), Config{InDir: in, OutDir: out, Fingerprint: "v1", Annotate: atomicAnnotate(&calls)})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(s.Files) != 3 || s.Failed != 0 {
+			t.Fatalf("run %d: %+v", run, s.Files)
+		}
+		for _, f := range s.Files {
+			if f.Error != "" || (run == 1) != (f.Status == StatusUpToDate) {
+				t.Errorf("run %d: %+v", run, f)
+			}
+		}
+	}
+	for _, p := range stale {
+		if _, err := os.Stat(p); !os.IsNotExist(err) {
+			t.Errorf("stale temporary %s left in place", filepath.Base(p))
+		}
 	}
 }

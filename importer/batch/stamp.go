@@ -6,6 +6,7 @@ import (
 	"encoding/json"
 	"io"
 	"os"
+	"path"
 	"path/filepath"
 
 	"github.com/fluecell/fluecell/importer/atomicfile"
@@ -25,7 +26,23 @@ type stamp struct {
 
 type stamps struct{ dir string }
 
-func (s stamps) path(rel string) string { return filepath.Join(s.dir, filepath.FromSlash(rel)+".json") }
+func (s stamps) path(rel string) string {
+	return filepath.Join(s.dir, filepath.FromSlash(stampRel(rel)))
+}
+
+// stampRel is the path of the stamp of the input at rel, relative to the
+// stamp folder and slash-separated: rel.json, or for a name too long to
+// take ".json" and still leave room for a temporary name (see
+// atomicfile.TempPattern), "~" and the SHA-256 of the name in the same
+// folder.
+func stampRel(rel string) string {
+	dir, base := path.Split(rel)
+	if len(base)+len(".json")+16 > 255 {
+		sum := sha256.Sum256([]byte(base))
+		base = "~" + hex.EncodeToString(sum[:20])
+	}
+	return dir + base + ".json"
+}
 
 // upToDate reports whether dst was made from an input with this hash and
 // this fingerprint, and is still the file that was written.
