@@ -24,14 +24,18 @@ func folders(inDir, outDir string) (in, out string, err error) {
 	if err != nil {
 		return "", "", fmt.Errorf("batch: input folder %s: %w", safetext.Name(inDir), err)
 	}
-	if st, err := os.Stat(in); err != nil || !st.IsDir() {
+	inInfo, err := os.Stat(in)
+	if err != nil || !inInfo.IsDir() {
 		return "", "", fmt.Errorf("batch: input folder %s is not a readable folder", safetext.Name(inDir))
 	}
 	out, err = realPath(outDir)
 	if err != nil {
 		return "", "", fmt.Errorf("batch: output folder %s: %w", safetext.Name(outDir), err)
 	}
-	if in == out {
+	// The same folder by another path: a bind mount, or a name differing in
+	// case on a file system that ignores case.
+	outInfo, err := os.Stat(out)
+	if in == out || err == nil && os.SameFile(inInfo, outInfo) {
 		return "", "", fmt.Errorf("batch: the output folder must differ from the input folder %s (inputs are never overwritten)", safetext.Name(inDir))
 	}
 	if within(in, out) {
