@@ -3,6 +3,7 @@ package funcs
 import (
 	"slices"
 	"strings"
+	"unicode/utf8"
 )
 
 // Fuel describes a canonical fuel id: its display name, the family used for
@@ -164,9 +165,15 @@ func suggestFrom(s string, options []string) string {
 	return ""
 }
 
+// quote quotes s for a message, cut to 77 bytes and "..." when longer
+// than 80, never inside a UTF-8 character.
 func quote(s string) string {
 	if len(s) > 80 {
-		s = s[:77] + "..."
+		n := 77
+		for n > 0 && !utf8.RuneStart(s[n]) {
+			n--
+		}
+		s = s[:n] + "..."
 	}
 	return `"` + s + `"`
 }

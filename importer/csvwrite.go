@@ -8,11 +8,19 @@ import (
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs"
+	"github.com/fluecell/fluecell/importer/safetext"
 )
 
 // writeCSV copies every record of the input byte for byte and appends the
 // computed fields to the records of each table (the header record gets the
 // rule names and "source"); other records are unchanged.
+//
+// The text fluecell adds (column names, source text) goes through
+// safetext.CSVField, so that none starts a formula when the file is opened
+// in a spreadsheet; computed numbers are written as numbers. The input's
+// own cells are left exactly as they were, a formula-looking one included:
+// they are the user's data, already in the user's file, and changing them
+// silently would make the annotated file disagree with its input.
 func (res *ScanResult) writeCSV(w io.Writer) error {
 	in := res.csv
 	bw := bufio.NewWriterSize(w, 256<<10)
@@ -35,7 +43,7 @@ func (res *ScanResult) writeCSV(w io.Writer) error {
 		t.outSheet, t.outCol = csvSheetName(res.Path), width+1
 		head := make([]string, 0, len(t.rules)+1)
 		for _, r := range t.rules {
-			head = append(head, r.column)
+			head = append(head, safetext.CSVField(r.column))
 		}
 		add[t.spec.headerRow] = extra{width, append(head, "source")}
 		for i, rn := range t.rowNums {
@@ -46,7 +54,7 @@ func (res *ScanResult) writeCSV(w io.Writer) error {
 				}
 			}
 			if s := t.src[i]; s >= 0 {
-				fields[len(t.rules)] = t.srcText[s]
+				fields[len(t.rules)] = safetext.CSVField(t.srcText[s])
 			}
 			add[int(rn)] = extra{width, fields}
 		}

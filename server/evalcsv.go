@@ -13,6 +13,7 @@ import (
 	"github.com/gin-gonic/gin"
 
 	"github.com/fluecell/fluecell/funcs"
+	"github.com/fluecell/fluecell/importer/safetext"
 )
 
 // defaultResultColumn names the computed column when ?as= is not given.
@@ -87,7 +88,7 @@ func (s *Server) evalCSV(ctx context.Context, c *gin.Context) {
 	var out bytes.Buffer
 	out.Grow(len(data) + len(data)/4 + 64)
 	w := csv.NewWriter(&out)
-	_ = w.Write(append(header, as))
+	_ = w.Write(append(header, safetext.CSVField(as))) // the caller's header as sent; the added name never a formula
 	line := make([]string, len(header)+1)
 	okRows, badRows := 0, 0
 	for n := 0; ; n++ {

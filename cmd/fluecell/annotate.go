@@ -14,6 +14,8 @@ import (
 	"github.com/fluecell/fluecell/funcs"
 	"github.com/fluecell/fluecell/importer"
 	"github.com/fluecell/fluecell/importer/atomicfile"
+	"github.com/fluecell/fluecell/importer/regfile"
+	"github.com/fluecell/fluecell/importer/safetext"
 )
 
 // exitFailOn is the exit code when --fail-on finds warnings of that
@@ -46,6 +48,9 @@ func cmdAnnotate(ctx context.Context, s stdio, args []string) int {
 	if dst == "" {
 		dst = importer.DefaultOutput(in)
 	}
+	if err := regfile.Check(in); err != nil {
+		return fail(s, "annotate", err)
+	}
 	e, err := af.engine()
 	if err != nil {
 		return fail(s, "annotate", err)
@@ -56,6 +61,9 @@ func cmdAnnotate(ctx context.Context, s stdio, args []string) int {
 		return fail(s, "annotate", err)
 	}
 	printReport(s.out, rep)
+	if err := totalsError(rep.Totals); err != nil {
+		return fail(s, "annotate", fmt.Errorf("%s: %v; the annotated output %s was written, the report was not", safetext.Name(in), err, safetext.Name(rep.Output)))
+	}
 	if *report != "" {
 		if err := writeReport(*report, s.out, rep); err != nil {
 			return fail(s, "annotate", err)
@@ -73,12 +81,12 @@ func cmdAnnotate(ctx context.Context, s stdio, args []string) int {
 
 // printReport writes the short human summary of an annotation.
 func printReport(w io.Writer, rep *importer.Report) {
-	fmt.Fprintf(w, "wrote %s (%s; %d of %d rows computed)\n", rep.Output, rep.Layout, rep.Computed, rep.Rows)
+	fmt.Fprintf(w, "wrote %s (%s; %d of %d rows computed)\n", safetext.Name(rep.Output), rep.Layout, rep.Computed, rep.Rows)
 	fmt.Fprintln(w, "rules:")
 	for _, r := range rep.Rules {
-		fmt.Fprintf(w, "  %s\n", r)
+		fmt.Fprintf(w, "  %s\n", safetext.Line(r))
 	}
-	fmt.Fprintf(w, "total: %s tCO2, %s tCO2e\n", funcs.FormatNumber(round3(rep.Totals.TCO2)), funcs.FormatNumber(round3(rep.Totals.TCO2e)))
+	fmt.Fprintf(w, "total: %s tCO2, %s tCO2e\n", totalText(rep.Totals.TCO2, funcs.FormatNumber), totalText(rep.Totals.TCO2e, funcs.FormatNumber))
 	nErr, nWarn, nInfo := rep.Count(importer.SevError), rep.Count(importer.SevWarning), rep.Count(importer.SevInfo)
 	fmt.Fprintf(w, "findings: %s (rows not computed), %s, %s; all %s\n", count(nErr, "error"), count(nWarn, "warning"), count(nInfo, "note"), findingsWhere(rep))
 	shown := 0
@@ -90,7 +98,7 @@ func printReport(w io.Writer, rep *importer.Report) {
 			fmt.Fprintf(w, "  ... and %d more\n", nErr+nWarn-shown)
 			break
 		}
-		fmt.Fprintf(w, "  %s!%s %s %s: %s\n", x.Sheet, x.Cell, x.Severity, x.Code, x.Message)
+		fmt.Fprintln(w, safetext.Line(fmt.Sprintf("  %s!%s %s %s: %s", x.Sheet, x.Cell, x.Severity, x.Code, x.Message)))
 		shown++
 	}
 }

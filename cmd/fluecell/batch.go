@@ -3,6 +3,7 @@ package main
 import (
 	"context"
 	"fmt"
+	"math"
 	"os"
 	"strings"
 
@@ -10,6 +11,7 @@ import (
 
 	"github.com/fluecell/fluecell/importer"
 	"github.com/fluecell/fluecell/importer/batch"
+	"github.com/fluecell/fluecell/importer/safetext"
 )
 
 func cmdBatch(ctx context.Context, s stdio, args []string) int {
@@ -56,6 +58,9 @@ func cmdBatch(ctx context.Context, s stdio, args []string) int {
 				Warnings: rep.Count(importer.SevError) + rep.Count(importer.SevWarning), Sheets: sheetsLine(rep)}, nil
 		},
 	}
+	if *summary != "" {
+		cfg.Exclude = []string{*summary}
+	}
 	if f, isFile := s.err.(*os.File); isFile && term.IsTerminal(int(f.Fd())) {
 		cfg.Progress = s.err
 	}
@@ -65,30 +70,33 @@ func cmdBatch(ctx context.Context, s stdio, args []string) int {
 	}
 	if *summary != "" {
 		if err := batch.WriteSummaryCSV(*summary, sum); err != nil {
-			fmt.Fprintf(s.err, "fluecell batch: --summary %s: %v\n", *summary, err)
+			fmt.Fprintf(s.err, "fluecell batch: --summary %s: %s\n", safetext.Name(*summary), safetext.Line(err.Error()))
 			return 1
 		}
 	}
 	var t2, t2e float64
+	var partial, none int
 	for _, f := range sum.Files {
 		t2 += f.Outcome.TCO2
 		t2e += f.Outcome.TCO2e
-		if f.Status == batch.StatusFailed {
-			fmt.Fprintf(s.err, "fluecell batch: %s: %s\n", f.File, f.Error)
-		}
-	}
-	var partial, none int
-	for _, f := range sum.Files {
 		switch f.Status {
+		case batch.StatusFailed, batch.StatusUnreadable:
+			fmt.Fprintf(s.err, "fluecell batch: %s: %s\n", safetext.Name(f.File), safetext.Line(f.Error))
 		case batch.StatusPartial:
 			partial++
 		case batch.StatusNone:
 			none++
 		}
 	}
-	line := fmt.Sprintf("%d workbooks: %d written, %d up to date, %d failed", len(sum.Files), sum.Written, sum.UpToDate, sum.Failed)
+	for _, n := range sum.Notes {
+		fmt.Fprintf(s.err, "fluecell batch: %s\n", safetext.Line(n))
+	}
+	line := fmt.Sprintf("%d workbooks: %d written, %d up to date, %d failed", len(sum.Files)-sum.Unreadable, sum.Written, sum.UpToDate, sum.Failed)
 	if partial+none > 0 {
 		line += fmt.Sprintf("; %d partial (rows not computed, each with its finding), %d with nothing computed (see the summary's sheets column)", partial, none)
+	}
+	if sum.Unreadable > 0 {
+		line += "; " + count(sum.Unreadable, "unreadable folder") + " (its workbooks not seen; see standard error)"
 	}
 	if sum.Skipped > 0 {
 		line += fmt.Sprintf("; %d other files skipped", sum.Skipped)
@@ -97,20 +105,31 @@ func cmdBatch(ctx context.Context, s stdio, args []string) int {
 		line += fmt.Sprintf("; shard %s (%d workbooks left to other shards)", shard, sum.Others)
 	}
 	fmt.Fprintln(s.out, line)
-	fmt.Fprintf(s.out, "total: %s tCO2, %s tCO2e; outputs in %s\n", fmtTonnes(t2), fmtTonnes(t2e), pos[1])
+	fmt.Fprintf(s.out, "total: %s tCO2, %s tCO2e; outputs in %s\n", totalText(t2, fmtTonnes), totalText(t2e, fmtTonnes), safetext.Name(pos[1]))
 	if *summary != "" {
-		fmt.Fprintf(s.out, "summary: %s\n", *summary)
+		fmt.Fprintf(s.out, "summary: %s\n", safetext.Name(*summary))
+	}
+	totalErr := totalsError(importer.Totals{TCO2: t2, TCO2e: t2e})
+	if totalErr != nil {
+		fmt.Fprintf(s.err, "fluecell batch: the %v\n", totalErr)
 	}
 	if runErr != nil {
 		return fail(s, "batch", runErr)
 	}
-	if sum.Failed > 0 {
+	if sum.Failed > 0 || sum.Unreadable > 0 || totalErr != nil {
 		return 1
 	}
 	return 0
 }
 
-func fmtTonnes(v float64) string { return fmt.Sprintf("%.3f", round3(v)) }
+// fmtTonnes formats tonnes with three decimals (a total too large for
+// that, beyond 1e15 t, in exponent form).
+func fmtTonnes(v float64) string {
+	if math.Abs(v) >= 1e15 {
+		return fmt.Sprintf("%.6g", v)
+	}
+	return fmt.Sprintf("%.3f", round3(v))
+}
 
 // sheetsLine says in one line what happened to each sheet of a workbook.
 func sheetsLine(rep *importer.Report) string {

@@ -2,7 +2,6 @@ package main
 
 import (
 	"archive/zip"
-	"context"
 	"encoding/csv"
 	"fmt"
 	"os"
@@ -22,7 +21,7 @@ import (
 // (FLUECELL_TEST_MAIN=1), so that it can be killed like a real process.
 func TestMain(m *testing.M) {
 	if os.Getenv("FLUECELL_TEST_MAIN") == "1" {
-		os.Exit(run(context.Background(), os.Args[1:], stdio{in: os.Stdin, out: os.Stdout, err: os.Stderr}))
+		os.Exit(runMain(os.Args[1:]))
 	}
 	os.Exit(m.Run())
 }
@@ -132,47 +131,47 @@ func TestBatchCommand(t *testing.T) {
 }
 
 // TestBatchKill kills a running batch with SIGKILL and checks that the
-// output folder holds only complete workbooks, then that a second run
-// completes the rest.
+// output folder holds only complete outputs (workbooks and annotated CSV
+// files; temporary files are hidden), then that a second run completes
+// the rest and leaves no temporary file.
 func TestBatchKill(t *testing.T) {
 	if testing.Short() {
 		t.Skip("kill test in -short mode")
 	}
-	const copies = 16
+	const copies, csvs, csvRows = 16, 4, 40000
 	in := batchInputs(t, copies, 2000)
-	out := filepath.Join(t.TempDir(), "out")
-	cmd := exec.Command(os.Args[0], "batch", in, out, "--jobs", "2")
-	cmd.Env = append(os.Environ(), "FLUECELL_TEST_MAIN=1")
-	if err := cmd.Start(); err != nil {
-		t.Fatal(err)
-	}
-	deadline := time.Now().Add(60 * time.Second)
-	for time.Now().Before(deadline) {
-		if n := len(listOutputs(t, out)); n >= 3 {
-			break
+	for i := 0; i < csvs; i++ {
+		var b strings.Builder
+		b.WriteString("Site,Fuel,Quantity,Unit\n")
+		for r := 0; r < csvRows; r++ {
+			fmt.Fprintf(&b, "Depot %d,diesel,%d,L\n", r%7, 100+r%50)
 		}
-		time.Sleep(20 * time.Millisecond)
+		os.WriteFile(filepath.Join(in, fmt.Sprintf("csv-%d.csv", i)), []byte(b.String()), 0o644)
 	}
-	if err := cmd.Process.Signal(syscall.SIGKILL); err != nil {
-		t.Fatal(err)
-	}
-	cmd.Wait()
+	out := filepath.Join(t.TempDir(), "out")
+	summary := filepath.Join(t.TempDir(), "summary.csv")
+	// First kill: while an annotated CSV is being written. Second kill: a
+	// few workbooks later.
+	killWhen(t, in, out, summary, func() bool { return hasTemp(out, ".csv") })
+	t.Logf("killed with a partial CSV output left behind: %v", hasTemp(out, ".csv"))
+	checkVisibleComplete(t, out, csvRows)
+	before := len(listOutputs(t, out))
+	killWhen(t, in, out, summary, func() bool { return len(listOutputs(t, out)) >= before+3 })
 	done := listOutputs(t, out)
-	if len(done) == 0 || len(done) >= copies+3 {
+	if len(done) == 0 || len(done) >= copies+3+csvs {
 		t.Fatalf("%d outputs when killed: the kill did not land mid-run", len(done))
 	}
-	for _, p := range done {
-		if err := completeWorkbook(p); err != nil {
-			t.Errorf("%s after kill -9: %v", p, err)
-		}
+	checkVisibleComplete(t, out, csvRows)
+	if _, err := os.Stat(summary); !os.IsNotExist(err) {
+		t.Errorf("a summary was written by a killed run: %v", err)
 	}
-	code, stdout, stderr := runCLI(t, "batch", in, out, "--jobs", "2")
-	if code != 1 || !strings.Contains(stdout, fmt.Sprintf("%d workbooks:", copies+4)) || !strings.Contains(stdout, "1 failed") {
+	code, stdout, stderr := runCLI(t, "batch", in, out, "--jobs", "2", "--summary", summary)
+	if code != 1 || !strings.Contains(stdout, fmt.Sprintf("%d workbooks:", copies+4+csvs)) || !strings.Contains(stdout, "1 failed") {
 		t.Fatalf("re-run: exit %d\n%s\n%s", code, stdout, stderr)
 	}
 	var n, w, u int
 	fmt.Sscanf(stdout, "%d workbooks: %d written, %d up to date", &n, &w, &u)
-	if u < len(done)-2 || w+u != copies+3 {
+	if u < len(done)-2 || w+u != copies+3+csvs {
 		t.Errorf("re-run wrote %d and skipped %d; %d were complete before", w, u, len(done))
 	}
 	leftovers := 0
@@ -185,21 +184,99 @@ func TestBatchKill(t *testing.T) {
 	if leftovers != 0 {
 		t.Errorf("%d temporary files left after the re-run", leftovers)
 	}
-	for _, p := range listOutputs(t, out) {
-		if err := completeWorkbook(p); err != nil {
-			t.Errorf("%s: %v", p, err)
-		}
+	checkVisibleComplete(t, out, csvRows)
+	if got := len(listOutputs(t, out)); got != copies+3+csvs {
+		t.Errorf("%d outputs after the re-run, want %d", got, copies+3+csvs)
+	}
+	if b, err := os.ReadFile(summary); err != nil || strings.Count(string(b), "\n") != copies+4+csvs+1 {
+		t.Errorf("summary after the re-run: %v\n%s", err, b)
 	}
 }
 
-// listOutputs lists the workbooks (not temporary files) below dir.
+// killWhen starts a batch of in into out as a separate process and kills
+// it with SIGKILL as soon as cond holds.
+func killWhen(t *testing.T, in, out, summary string, cond func() bool) {
+	t.Helper()
+	cmd := exec.Command(os.Args[0], "batch", in, out, "--jobs", "2", "--summary", summary)
+	cmd.Env = append(os.Environ(), "FLUECELL_TEST_MAIN=1")
+	if err := cmd.Start(); err != nil {
+		t.Fatal(err)
+	}
+	deadline := time.Now().Add(60 * time.Second)
+	for time.Now().Before(deadline) && !cond() {
+		time.Sleep(5 * time.Millisecond)
+	}
+	if !cond() {
+		t.Error("the batch never reached the state to kill it in")
+	}
+	if err := cmd.Process.Signal(syscall.SIGKILL); err != nil {
+		t.Fatal(err)
+	}
+	cmd.Wait()
+}
+
+// hasTemp reports whether a temporary output for a file ending in ext
+// lies below dir.
+func hasTemp(dir, ext string) bool {
+	found := false
+	filepath.Walk(dir, func(p string, fi os.FileInfo, err error) error {
+		name := filepath.Base(p)
+		found = found || err == nil && strings.HasPrefix(name, ".") && strings.HasSuffix(name, ".tmp") && strings.Contains(name, ext+".")
+		return nil
+	})
+	return found
+}
+
+// checkVisibleComplete checks every file below dir that is not hidden:
+// workbooks must be complete, annotated CSV files must hold every row
+// with the added columns.
+func checkVisibleComplete(t *testing.T, dir string, csvRows int) {
+	t.Helper()
+	filepath.Walk(dir, func(p string, fi os.FileInfo, err error) error {
+		if err != nil {
+			return nil
+		}
+		if strings.HasPrefix(fi.Name(), ".") && p != dir {
+			if fi.IsDir() {
+				return filepath.SkipDir
+			}
+			return nil
+		}
+		if fi.IsDir() {
+			return nil
+		}
+		switch filepath.Ext(p) {
+		case ".xlsx", ".xlsm":
+			if err := completeWorkbook(p); err != nil {
+				t.Errorf("%s: %v", p, err)
+			}
+		case ".csv":
+			f, err := os.Open(p)
+			if err != nil {
+				t.Error(err)
+				return nil
+			}
+			recs, err := csv.NewReader(f).ReadAll()
+			f.Close()
+			if err != nil || len(recs) != csvRows+1 || recs[0][len(recs[0])-1] != "source" || recs[len(recs)-1][len(recs[0])-1] == "" {
+				t.Errorf("%s: incomplete annotated CSV (%d records, %v)", p, len(recs), err)
+			}
+		default:
+			t.Errorf("unexpected visible file %s", p)
+		}
+		return nil
+	})
+}
+
+// listOutputs lists the outputs (workbooks and CSV files, not temporary
+// files) below dir.
 func listOutputs(t *testing.T, dir string) []string {
 	var out []string
 	filepath.Walk(dir, func(p string, fi os.FileInfo, err error) error {
 		if err != nil || fi.IsDir() || strings.HasPrefix(fi.Name(), ".") {
 			return nil
 		}
-		if strings.HasSuffix(p, ".xlsx") || strings.HasSuffix(p, ".xlsm") {
+		if strings.HasSuffix(p, ".xlsx") || strings.HasSuffix(p, ".xlsm") || strings.HasSuffix(p, ".csv") {
 			out = append(out, p)
 		}
 		return nil

@@ -7,6 +7,8 @@ import (
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs"
+	"github.com/fluecell/fluecell/importer/regfile"
+	"github.com/fluecell/fluecell/importer/safetext"
 )
 
 // listFlag is a repeatable string flag.
@@ -66,6 +68,11 @@ func (f *engineFlags) register(fs *flag.FlagSet) {
 }
 
 func (f *engineFlags) engine() (*funcs.Engine, error) {
+	for _, p := range f.factors {
+		if err := regfile.Check(p); err != nil {
+			return nil, fmt.Errorf("--factors: %w", err)
+		}
+	}
 	opts := []funcs.Option{funcs.WithFactorFiles(f.factors...)}
 	if f.pack != "" {
 		opts = append(opts, funcs.WithDefaultPack(f.pack))
@@ -74,7 +81,8 @@ func (f *engineFlags) engine() (*funcs.Engine, error) {
 }
 
 // fail prints a one-line error and returns exit code 1. Expression errors
-// keep their caret lines, which point at the column.
+// keep their caret lines, which point at the column. Control characters
+// (a file name's line break or escape sequence) are printed escaped.
 func fail(s stdio, cmd string, err error) int {
 	msg := err.Error()
 	if fe, ok := funcs.AsError(err); ok && fe.Column == 0 {
@@ -82,6 +90,10 @@ func fail(s stdio, cmd string, err error) int {
 	} else if !ok {
 		msg = strings.ReplaceAll(msg, "\n", " ")
 	}
-	fmt.Fprintf(s.err, "fluecell %s: %s\n", cmd, msg)
+	lines := strings.Split(msg, "\n")
+	for i, l := range lines {
+		lines[i] = safetext.Line(l)
+	}
+	fmt.Fprintf(s.err, "fluecell %s: %s\n", cmd, strings.Join(lines, "\n"))
 	return 1
 }

@@ -12,6 +12,8 @@ import (
 
 	"github.com/fluecell/fluecell/funcs"
 	"github.com/fluecell/fluecell/importer"
+	"github.com/fluecell/fluecell/importer/regfile"
+	"github.com/fluecell/fluecell/importer/safetext"
 )
 
 func cmdInspect(ctx context.Context, s stdio, args []string) int {
@@ -33,6 +35,9 @@ func cmdInspect(ctx context.Context, s stdio, args []string) int {
 		fmt.Fprintf(s.err, "fluecell inspect: --write-mapping %s is the input: name another file, e.g. %s\n", *write, strings.TrimSuffix(in, filepath.Ext(in))+".mapping.json")
 		return 2
 	}
+	if err := regfile.Check(in); err != nil {
+		return fail(s, "inspect", err)
+	}
 	e, err := af.engine()
 	if err != nil {
 		return fail(s, "inspect", err)
@@ -47,7 +52,14 @@ func cmdInspect(ctx context.Context, s stdio, args []string) int {
 			return fail(s, "inspect", err)
 		}
 	}
+	totalErr := totalsError(ins.Report.Totals)
+	if totalErr != nil {
+		totalErr = fmt.Errorf("%s: %v", safetext.Name(in), totalErr)
+	}
 	if *asJSON {
+		if totalErr != nil {
+			return fail(s, "inspect", fmt.Errorf("%v; JSON cannot hold it", totalErr))
+		}
 		enc := json.NewEncoder(s.out)
 		enc.SetIndent("", "  ")
 		if err := enc.Encode(ins); err != nil {
@@ -56,6 +68,9 @@ func cmdInspect(ctx context.Context, s stdio, args []string) int {
 		return 0
 	}
 	printInspection(s.out, ins, *write)
+	if totalErr != nil {
+		return fail(s, "inspect", totalErr)
+	}
 	return 0
 }
 
@@ -75,9 +90,9 @@ func samePath(a, b string) bool {
 // the fuel names that are not fuel ids; the mapping.
 func printInspection(w io.Writer, ins *importer.Inspection, wrote string) {
 	rep := ins.Report
-	fmt.Fprintf(w, "%s: %s on %s; %d of %s computed; %s tCO2, %s tCO2e\n", filepath.Base(ins.Path),
+	fmt.Fprintf(w, "%s: %s on %s; %d of %s computed; %s tCO2, %s tCO2e\n", safetext.Name(filepath.Base(ins.Path)),
 		count(len(rep.Tables), "table"), count(len(rep.Sheets), "sheet"), rep.Computed, count(rep.Rows, "row"),
-		funcs.FormatNumber(round3(rep.Totals.TCO2)), funcs.FormatNumber(round3(rep.Totals.TCO2e)))
+		totalText(rep.Totals.TCO2, funcs.FormatNumber), totalText(rep.Totals.TCO2e, funcs.FormatNumber))
 	for i, t := range rep.Tables {
 		fmt.Fprintf(w, "\ntable %d: sheet %q %s, header row %d, %s; %d of %s computed\n", i+1, t.Sheet, t.Range, t.HeaderRow, t.Kind, t.Computed, count(t.Rows, "row"))
 		if t.Fuel != "" {
@@ -140,9 +155,9 @@ func printInspection(w io.Writer, ins *importer.Inspection, wrote string) {
 	fmt.Fprintf(w, "\nfindings: %s, %s (fluecell annotate lists them, or --json here)\n", count(nErr, "error"), count(nWarn, "warning"))
 	switch {
 	case wrote != "":
-		fmt.Fprintf(w, "mapping: wrote %s; check and edit it, then: fluecell annotate %s --mapping %s\n", wrote, ins.Path, wrote)
+		fmt.Fprintf(w, "mapping: wrote %s; check and edit it, then: fluecell annotate %s --mapping %s\n", safetext.Name(wrote), safetext.Name(ins.Path), safetext.Name(wrote))
 	case rep.Mapping != nil:
-		fmt.Fprintf(w, "mapping: read with %s (sha256 %s)\n", rep.Mapping.Path, rep.Mapping.SHA256[:12])
+		fmt.Fprintf(w, "mapping: read with %s (sha256 %s)\n", safetext.Name(rep.Mapping.Path), rep.Mapping.SHA256[:12])
 	default:
 		fmt.Fprintln(w, "mapping: none (--write-mapping M.json writes this reading for checking and editing)")
 	}
@@ -150,9 +165,10 @@ func printInspection(w io.Writer, ins *importer.Inspection, wrote string) {
 	fmt.Fprintln(w, caution)
 }
 
-// short cuts s to n characters with "..." for a column of text output.
+// short cuts s to n characters with "..." for a column of text output;
+// line breaks become spaces, other control characters are escaped.
 func short(s string, n int) string {
-	s = strings.ReplaceAll(s, "\n", " ")
+	s = safetext.Line(strings.ReplaceAll(s, "\n", " "))
 	if r := []rune(s); len(r) > n {
 		return string(r[:n-3]) + "..."
 	}

@@ -48,10 +48,21 @@ func commands() []command {
 }
 
 func main() {
+	os.Exit(runMain(os.Args[1:]))
+}
+
+// runMain runs the program as a process: the first SIGINT or SIGTERM
+// cancels the command's context (batch lets running files finish, serve
+// shuts down gracefully); a second one ends the process at once, as
+// outputs are written atomically and never left half-written.
+func runMain(args []string) int {
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
-	code := run(ctx, os.Args[1:], stdio{in: os.Stdin, out: os.Stdout, err: os.Stderr})
-	stop()
-	os.Exit(code)
+	defer stop()
+	go func() {
+		<-ctx.Done()
+		stop() // restore the default action for the next signal
+	}()
+	return run(ctx, args, stdio{in: os.Stdin, out: os.Stdout, err: os.Stderr})
 }
 
 // run dispatches to a subcommand and returns the exit code: 0 on success, 1

@@ -2,9 +2,11 @@ package main
 
 import (
 	"flag"
+	"fmt"
 
 	"github.com/fluecell/fluecell/funcs"
 	"github.com/fluecell/fluecell/importer"
+	"github.com/fluecell/fluecell/importer/regfile"
 )
 
 // mappingFlag is the --mapping flag of the commands that read workbooks:
@@ -23,6 +25,9 @@ func (f *mappingFlag) register(fs *flag.FlagSet) {
 func (f *mappingFlag) load(e *funcs.Engine) error {
 	if f.path == "" || f.loaded != nil {
 		return nil
+	}
+	if err := regfile.Check(f.path); err != nil {
+		return fmt.Errorf("--mapping: %w", err)
 	}
 	m, err := importer.LoadMapping(e, f.path)
 	if err != nil {

@@ -5,7 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"io/fs"
+	"math"
 	"os"
 	"path/filepath"
 	"runtime"
@@ -13,6 +13,8 @@ import (
 	"strings"
 	"sync"
 	"time"
+
+	"github.com/fluecell/fluecell/importer/safetext"
 )
 
 // Outcome is what one annotation reports back.
@@ -45,15 +47,21 @@ type Config struct {
 	// Progress, when not nil, receives a one-line progress display
 	// (rewritten with \r); pass it only when it is a terminal.
 	Progress io.Writer
+	// Exclude names files that are never inputs, such as the summary CSV
+	// the caller writes, which a later run would otherwise find in the
+	// input folder and annotate. Paths are compared after resolving
+	// symbolic links.
+	Exclude []string
 }
 
 // Status of one file.
 const (
-	StatusOK       = "ok"               // every data row computed
-	StatusPartial  = "partial"          // some rows computed; the others have findings at their rows
-	StatusNone     = "nothing computed" // the file was read, but no row could be computed (see its sheets)
-	StatusFailed   = "failed"           // the file could not be annotated (Error says why)
-	StatusUpToDate = "up-to-date"       // its output is newer than the input and the settings: not redone
+	StatusOK         = "ok"               // every data row computed
+	StatusPartial    = "partial"          // some rows computed; the others have findings at their rows
+	StatusNone       = "nothing computed" // the file was read, but no row could be computed (see its sheets)
+	StatusFailed     = "failed"           // the file could not be annotated (Error says why)
+	StatusUpToDate   = "up-to-date"       // its output is newer than the input and the settings: not redone
+	StatusUnreadable = "unreadable"       // a folder that could not be listed (Error says why); its files were not seen
 )
 
 // statusOf names the status of an annotated file from its rows.
@@ -79,12 +87,21 @@ type FileResult struct {
 
 // Summary is the result of Run.
 type Summary struct {
-	Files    []FileResult // workbooks of this shard, sorted by path
-	Skipped  int          // files below InDir that are not workbooks
-	Others   int          // workbooks left to other shards
+	// Files are the workbooks of this shard and the folders of this shard
+	// that could not be listed (StatusUnreadable), sorted by path.
+	Files    []FileResult
+	Skipped  int // files below InDir that are not workbooks
+	Others   int // workbooks left to other shards
 	Failed   int
 	UpToDate int
 	Written  int
+	// Unreadable counts the rows of Files with StatusUnreadable: folders
+	// whose files were not seen.
+	Unreadable int
+	// Notes say what the run passed over besides files that are not
+	// workbooks: the output folder when it lies inside the input folder,
+	// excluded files, unreadable folders that another shard reports.
+	Notes []string
 }
 
 // isWorkbook lists the extensions treated as workbooks. Legacy .xls files
@@ -147,31 +164,33 @@ func Run(ctx context.Context, cfg Config) (*Summary, error) {
 	if cfg.Annotate == nil {
 		return nil, errors.New("batch: no annotate function")
 	}
-	in, err := filepath.Abs(cfg.InDir)
+	in, out, err := folders(cfg.InDir, cfg.OutDir)
 	if err != nil {
-		return nil, fmt.Errorf("batch: input folder: %w", err)
-	}
-	out, err := filepath.Abs(cfg.OutDir)
-	if err != nil {
-		return nil, fmt.Errorf("batch: output folder: %w", err)
-	}
-	if st, err := os.Stat(in); err != nil || !st.IsDir() {
-		return nil, fmt.Errorf("batch: input folder %s is not a readable folder", cfg.InDir)
-	}
-	if in == out {
-		return nil, fmt.Errorf("batch: the output folder must differ from the input folder %s (inputs are never overwritten)", cfg.InDir)
-	}
-	if rel, err := filepath.Rel(out, in); err == nil && !strings.HasPrefix(rel, "..") {
-		return nil, fmt.Errorf("batch: the input folder %s lies inside the output folder %s", cfg.InDir, cfg.OutDir)
+		return nil, err
 	}
 	if err := os.MkdirAll(out, 0o755); err != nil {
 		return nil, fmt.Errorf("batch: output folder: %w", err)
 	}
-	files, skipped, err := listWorkbooks(in, out)
+	var exclude []string
+	for _, x := range cfg.Exclude {
+		if r, err := realPath(x); err == nil {
+			exclude = append(exclude, r)
+		}
+	}
+	lw, err := listWorkbooks(in, out, exclude...)
 	if err != nil {
 		return nil, err
 	}
-	sum := &Summary{Skipped: skipped}
+	files, skipped := lw.files, lw.skipped
+	sum := &Summary{Skipped: skipped, Notes: lw.notes}
+	for _, u := range lw.unreadable {
+		if cfg.Shard.Takes(u.File) {
+			sum.Unreadable++
+			sum.Files = append(sum.Files, u)
+		} else {
+			sum.Notes = append(sum.Notes, fmt.Sprintf("folder %s: %s (shard %s does not list it; another shard's summary does)", safetext.Name(u.File), u.Error, cfg.Shard))
+		}
+	}
 	clash := collisions(files)
 	var mine []string
 	for _, f := range files {
@@ -198,7 +217,7 @@ func Run(ctx context.Context, cfg Config) (*Summary, error) {
 			for i := range work {
 				if other, ok := clash[mine[i]]; ok {
 					results[i] = FileResult{File: mine[i], Output: OutputName(mine[i]), Status: StatusFailed,
-						Error: fmt.Sprintf("not annotated: its output %s would overwrite the output of %s; rename one of the two inputs", OutputName(mine[i]), other)}
+						Error: fmt.Sprintf("not annotated: its output %s would overwrite the output of %s; rename one of the two inputs", safetext.Name(OutputName(mine[i])), safetext.Name(other))}
 				} else {
 					results[i] = one(ctx, cfg, st, in, out, mine[i])
 				}
@@ -231,8 +250,9 @@ dispatch:
 		}
 		sum.Files = append(sum.Files, results[i])
 	}
+	sort.SliceStable(sum.Files, func(i, j int) bool { return sum.Files[i].File < sum.Files[j].File })
 	if err := ctx.Err(); err != nil {
-		return sum, fmt.Errorf("batch: interrupted after %d of %d files: %w", len(sum.Files), len(mine), err)
+		return sum, fmt.Errorf("batch: interrupted after %d of %d files: %w", len(sum.Files)-sum.Unreadable, len(mine), err)
 	}
 	return sum, nil
 }
@@ -265,6 +285,9 @@ func one(ctx context.Context, cfg Config, st stamps, in, out, rel string) FileRe
 	if err != nil {
 		return fail(err)
 	}
+	if err := checkTotals(o); err != nil {
+		return fail(err)
+	}
 	res.Status, res.Outcome = statusOf(o), o
 	res.Seconds = time.Since(start).Seconds()
 	if err := st.write(rel, dst, sum, cfg.Fingerprint, o); err != nil {
@@ -274,112 +297,24 @@ func one(ctx context.Context, cfg Config, st stamps, in, out, rel string) FileRe
 	return res
 }
 
-func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
+// oneLine puts a message on one line: runs of white space, line breaks
+// included, become one space, and other control characters are escaped.
+func oneLine(s string) string { return safetext.Line(strings.Join(strings.Fields(s), " ")) }
 
-// listWorkbooks returns the workbooks below in (relative, slash-separated,
-// sorted) and how many other files it passed over. Hidden files and
-// folders, office lock files (~$name.xlsx) and the output folder, when it
-// lies inside in, are passed over.
-func listWorkbooks(in, out string) ([]string, int, error) {
-	var files []string
-	skipped := 0
-	err := filepath.WalkDir(in, func(p string, d fs.DirEntry, err error) error {
-		if err != nil {
-			return fmt.Errorf("batch: reading %s: %w", p, err)
+// checkTotals refuses an outcome whose totals are not finite numbers: rows
+// that are each finite can add up to more than float64 holds (about
+// 1.8e308), and Inf or NaN is no total.
+func checkTotals(o Outcome) error {
+	for _, t := range []struct {
+		name string
+		v    float64
+	}{{"tCO2", o.TCO2}, {"tCO2e", o.TCO2e}} {
+		switch {
+		case math.IsInf(t.v, 0):
+			return fmt.Errorf("total exceeds the float64 range: the computed %s rows add up to beyond ±%.3g (check the amounts and units of the largest rows); the output was written, but no total can be given", t.name, math.MaxFloat64)
+		case math.IsNaN(t.v):
+			return fmt.Errorf("total %s is not a number (NaN); the output was written, but no total can be given", t.name)
 		}
-		name := d.Name()
-		if d.IsDir() {
-			if p != in && (p == out || strings.HasPrefix(name, ".")) {
-				return filepath.SkipDir
-			}
-			return nil
-		}
-		if !d.Type().IsRegular() || strings.HasPrefix(name, ".") || strings.HasPrefix(name, "~$") || !isWorkbook(name) {
-			skipped++
-			return nil
-		}
-		rel, err := filepath.Rel(in, p)
-		if err != nil {
-			return err
-		}
-		files = append(files, filepath.ToSlash(rel))
-		return nil
-	})
-	sort.Strings(files)
-	return files, skipped, err
-}
-
-// removeStaleTemps deletes the temporary files a killed run left in the
-// output folder (".name.xlsx.123.tmp" beside name.xlsx), for this shard's
-// files only: other shards may be writing theirs into the same folder. A
-// temporary output belongs to the input that gives that output (one of
-// files), else to the input of the same name.
-func removeStaleTemps(out string, shard Shard, files []string) {
-	input := map[string]string{}
-	for _, f := range files {
-		input[OutputName(f)] = f
 	}
-	stamps := filepath.Join(out, stampDir)
-	filepath.WalkDir(out, func(p string, d fs.DirEntry, err error) error {
-		if err != nil {
-			return nil
-		}
-		if d.IsDir() {
-			if p == stamps {
-				removeStaleStampTemps(stamps, shard)
-				return filepath.SkipDir
-			}
-			return nil
-		}
-		base, ok := tempOwner(d.Name())
-		if !ok || !isWorkbook(base) {
-			return nil
-		}
-		rel, err := filepath.Rel(out, filepath.Join(filepath.Dir(p), base))
-		if err != nil {
-			return nil
-		}
-		owner := filepath.ToSlash(rel)
-		if f, ok := input[owner]; ok {
-			owner = f
-		}
-		if shard.Takes(owner) {
-			os.Remove(p)
-		}
-		return nil
-	})
-}
-
-// removeStaleStampTemps deletes the temporary stamps a killed run left
-// (".rel.json.123.tmp" beside rel.json below the stamp folder), for this
-// shard's inputs only.
-func removeStaleStampTemps(dir string, shard Shard) {
-	filepath.WalkDir(dir, func(p string, d fs.DirEntry, err error) error {
-		if err != nil || d.IsDir() {
-			return nil
-		}
-		base, ok := tempOwner(d.Name())
-		if !ok || !strings.HasSuffix(base, ".json") {
-			return nil
-		}
-		rel, err := filepath.Rel(dir, filepath.Join(filepath.Dir(p), strings.TrimSuffix(base, ".json")))
-		if err == nil && shard.Takes(filepath.ToSlash(rel)) {
-			os.Remove(p)
-		}
-		return nil
-	})
-}
-
-// tempOwner returns the name of the file a temporary file of
-// atomicfile.Write stands for (".name.xlsx.123.tmp" gives name.xlsx); ok
-// is false for any other name.
-func tempOwner(name string) (string, bool) {
-	if !strings.HasPrefix(name, ".") || !strings.HasSuffix(name, ".tmp") {
-		return "", false
-	}
-	base := strings.TrimSuffix(strings.TrimPrefix(name, "."), ".tmp")
-	if i := strings.LastIndexByte(base, '.'); i > 0 {
-		base = base[:i] // the random part of the temporary name
-	}
-	return base, true
+	return nil
 }

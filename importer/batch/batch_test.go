@@ -187,10 +187,11 @@ func TestShards(t *testing.T) {
 		files["d"+string(rune('a'+i%7))+"/f"+strings.Repeat("x", i%5)+string(rune('a'+i%26))+".xlsx"] = "z"
 	}
 	in := tree(t, files)
-	all, _, err := listWorkbooks(in, filepath.Join(in, "nowhere"))
+	l, err := listWorkbooks(in, filepath.Join(in, "nowhere"))
 	if err != nil {
 		t.Fatal(err)
 	}
+	all := l.files
 	seen := map[string]int{}
 	for i := 1; i <= 3; i++ {
 		var calls atomic.Int64

@@ -6,9 +6,11 @@ import (
 	"encoding/json"
 	"io"
 	"os"
+	"path"
 	"path/filepath"
 
 	"github.com/fluecell/fluecell/importer/atomicfile"
+	"github.com/fluecell/fluecell/importer/regfile"
 )
 
 // stampDir is the folder below the output folder that holds one stamp per
@@ -24,12 +26,33 @@ type stamp struct {
 
 type stamps struct{ dir string }
 
-func (s stamps) path(rel string) string { return filepath.Join(s.dir, filepath.FromSlash(rel)+".json") }
+func (s stamps) path(rel string) string {
+	return filepath.Join(s.dir, filepath.FromSlash(stampRel(rel)))
+}
+
+// stampRel is the path of the stamp of the input at rel, relative to the
+// stamp folder and slash-separated: rel.json, or for a name too long to
+// take ".json" and still leave room for a temporary name (see
+// atomicfile.TempPattern), "~" and the SHA-256 of the name in the same
+// folder.
+func stampRel(rel string) string {
+	dir, base := path.Split(rel)
+	if len(base)+len(".json")+16 > 255 {
+		sum := sha256.Sum256([]byte(base))
+		base = "~" + hex.EncodeToString(sum[:20])
+	}
+	return dir + base + ".json"
+}
 
 // upToDate reports whether dst was made from an input with this hash and
 // this fingerprint, and is still the file that was written.
 func (s stamps) upToDate(rel, dst, sum, fingerprint string) (stamp, bool) {
-	b, err := os.ReadFile(s.path(rel))
+	f, err := regfile.Open(s.path(rel))
+	if err != nil {
+		return stamp{}, false
+	}
+	b, err := io.ReadAll(io.LimitReader(f, 1<<20))
+	f.Close()
 	if err != nil {
 		return stamp{}, false
 	}
@@ -64,8 +87,10 @@ func (s stamps) write(rel, dst, sum, fingerprint string, o Outcome) error {
 
 func (s stamps) remove(rel string) { os.Remove(s.path(rel)) }
 
+// hashFile returns the SHA-256 of the regular file at path in hex; it
+// refuses anything else (a named pipe would block the worker for ever).
 func hashFile(path string) (string, error) {
-	f, err := os.Open(path)
+	f, err := regfile.Open(path)
 	if err != nil {
 		return "", err
 	}
