@@ -4,6 +4,7 @@ import (
 	"context"
 	"encoding/csv"
 	"errors"
+	"fmt"
 	"os"
 	"path/filepath"
 	"sort"
@@ -317,6 +318,32 @@ func TestStaleTempsRemoved(t *testing.T) {
 	}
 	if _, err := os.Stat(keep); err != nil {
 		t.Error("removed a file that is not a temporary workbook")
+	}
+}
+
+// TestShardKeepsOtherShardsTemps: the shards of a job array share one output
+// folder; a shard never removes a temporary file that is no input's output,
+// such as another shard's summary being written there (a race seen in the
+// Slurm job-array test).
+func TestShardKeepsOtherShardsTemps(t *testing.T) {
+	in := tree(t, map[string]string{"a.xlsx": "a", "b.xlsx": "b", "c.xlsx": "c", "d.xlsx": "d"})
+	out := t.TempDir()
+	summaries := make([]string, 0, 4)
+	for i := 1; i <= 4; i++ {
+		p := filepath.Join(out, fmt.Sprintf(".summary-%d.csv.%d.tmp", i, 1000+i))
+		os.WriteFile(p, []byte("file,status"), 0o644)
+		summaries = append(summaries, p)
+	}
+	for i := 1; i <= 4; i++ {
+		var calls atomic.Int64
+		if _, err := Run(context.Background(), Config{InDir: in, OutDir: out, Shard: Shard{Index: i, Count: 4}, Annotate: copyAnnotate(&calls)}); err != nil {
+			t.Fatal(err)
+		}
+	}
+	for _, p := range summaries {
+		if _, err := os.Stat(p); err != nil {
+			t.Errorf("a shard removed %s, which is no input's output", filepath.Base(p))
+		}
 	}
 }
 

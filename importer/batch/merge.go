@@ -4,6 +4,7 @@ import (
 	"encoding/csv"
 	"errors"
 	"fmt"
+	"github.com/fluecell/fluecell/importer/safetext"
 	"io"
 	"math"
 	"os"
@@ -40,17 +41,11 @@ const (
 // totalStatuses returns the statuses a merged summary totals, in the
 // order of its total rows.
 func totalStatuses() []string {
-	return []string{StatusOK, StatusPartial, StatusNone, StatusUpToDate, StatusFailed, statusUnreadable}
+	return []string{StatusOK, StatusPartial, StatusNone, StatusUpToDate, StatusFailed, StatusUnreadable}
 }
 
-// statusUnreadable is the status of a summary row for a folder that could
-// not be listed (its path ends in a slash); the shard that takes the
-// folder's path reports it. It is no workbook: it has no numbers, and the
-// "total" row leaves it out.
-const statusUnreadable = "unreadable"
-
 // noOutcome reports whether rows of this status have empty counts.
-func noOutcome(status string) bool { return status == StatusFailed || status == statusUnreadable }
+func noOutcome(status string) bool { return status == StatusFailed || status == StatusUnreadable }
 
 // MergedFile is one file's row in a merged summary.
 type MergedFile struct {
@@ -124,7 +119,7 @@ func MergeSummaries(paths []string) (*Merged, error) {
 	for _, f := range m.Files {
 		for i := range m.Totals {
 			t := &m.Totals[i]
-			if (t.Status == "" && f.Status == statusUnreadable) || (t.Status != "" && t.Status != f.Status) {
+			if (t.Status == "" && f.Status == StatusUnreadable) || (t.Status != "" && t.Status != f.Status) {
 				continue
 			}
 			t.Files++
@@ -170,7 +165,7 @@ func CheckShards(m *Merged, n int) error {
 	first := map[string]owner{} // summary path -> its shard
 	for _, f := range m.Files {
 		name := f.File
-		if len(name) > 1 && name[0] == '\'' && mergeNeutral(name[1:]) != name[1:] {
+		if len(name) > 1 && name[0] == '\'' && safetext.CSVField(name[1:]) != name[1:] {
 			name = name[1:] // neutralised by the writer of the summary
 		}
 		var sh Shard
@@ -345,24 +340,24 @@ func mergeNumber(rec []string, col int, nonNegative bool) (float64, error) {
 // empty), then the total rows, whose file column is empty and whose status
 // says what they add up ("total" over every workbook, "total ok", "total
 // partial", ..., "total unreadable" counting folders). Text fields that a spreadsheet would read as
-// a formula are neutralised (see mergeNeutral).
+// a formula are neutralised (see safetext.CSVField).
 func WriteMergedCSV(path string, m *Merged) error {
 	return atomicfile.Write(path, func(out io.Writer) error {
 		w := csv.NewWriter(out)
 		w.Write(append(summaryColumns(), "files"))
 		for _, f := range m.Files {
 			rec := make([]string, len(summaryColumns())+1)
-			rec[fieldFile], rec[fieldStatus] = mergeNeutral(f.File), mergeNeutral(f.Status)
-			rec[fieldError], rec[fieldOutput] = mergeNeutral(f.Error), mergeNeutral(f.Output)
+			rec[fieldFile], rec[fieldStatus] = safetext.CSVField(f.File), safetext.CSVField(f.Status)
+			rec[fieldError], rec[fieldOutput] = safetext.CSVField(f.Error), safetext.CSVField(f.Output)
 			rec[fieldSeconds] = strconv.FormatFloat(f.Seconds, 'f', 3, 64)
-			if f.Status != statusUnreadable {
+			if f.Status != StatusUnreadable {
 				rec[fieldFiles] = "1"
 			}
 			if !noOutcome(f.Status) {
 				o := f.Outcome
 				rec[fieldRows], rec[fieldComputed], rec[fieldWarnings] = strconv.Itoa(o.Rows), strconv.Itoa(o.Computed), strconv.Itoa(o.Warnings)
 				rec[fieldTCO2], rec[fieldTCO2e] = strconv.FormatFloat(o.TCO2, 'f', -1, 64), strconv.FormatFloat(o.TCO2e, 'f', -1, 64)
-				rec[fieldSheets] = mergeNeutral(o.Sheets)
+				rec[fieldSheets] = safetext.CSVField(o.Sheets)
 			}
 			w.Write(rec)
 		}
@@ -393,20 +388,6 @@ func mergeTonnes(v float64) string {
 		s = "0"
 	}
 	return s
-}
-
-// mergeNeutral makes a text field safe to open in a spreadsheet: a field
-// whose first character after any spaces is = + - @ (a formula, or the
-// start of one), a tab or a line break gets a leading single quote, which
-// spreadsheet programs show as text. It is the rule of the batch summary
-// itself. Other fields, and fields already starting with a quote, are
-// returned as they are, so neutralising twice changes nothing.
-func mergeNeutral(s string) string {
-	t := strings.TrimLeft(s, " ")
-	if t == "" || !strings.ContainsRune("=+-@\t\r\n", rune(t[0])) {
-		return s
-	}
-	return "'" + s
 }
 
 // mergeQuote shows a file name from an untrusted summary on one line.

@@ -40,7 +40,13 @@ func removeStaleTemps(out string, shard Shard, files []string) {
 			}
 			return nil
 		}
-		removeTemp(out, p, shard, outputs, func(name string) (string, bool) { return name, isWorkbook(name) })
+		removeTemp(out, p, shard, outputs, func(name string) (string, bool) {
+			// A temporary file of no current input's output is taken as a stale
+			// output only when this run is the only one writing the folder: the
+			// shards of a job array share it, and one shard's summary
+			// (summary-3.csv) may be written there while another walks it.
+			return name, shard.Count <= 1 && isWorkbook(name)
+		})
 		return nil
 	})
 }
