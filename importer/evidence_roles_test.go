@@ -234,6 +234,9 @@ func TestFuelRowsNotComputed(t *testing.T) {
 	for _, cell := range []string{"A4", "A5", "A6", "A7"} {
 		wantFinding(t, rep, "Bills", cell, SevInfo, CodeNotComputed)
 	}
+	if w := wantFinding(t, rep, "Bills", "A6", SevWarning, CodeGridUnknown); !strings.Contains(w.Message, "--grid") {
+		t.Errorf("finding at A6 %q, want how to choose a grid", w.Message)
+	}
 	w := wantFinding(t, rep, "Bills", "A8", SevError, CodeFuelUnknown)
 	if !strings.Contains(w.Message, "did you mean natural_gas") {
 		t.Errorf("finding at A8 %q, want a suggestion of natural_gas", w.Message)

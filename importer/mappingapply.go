@@ -124,7 +124,7 @@ func (run *mappingRun) apply(d *detector, t *tableSpec, mt *mapTable) error {
 			return run.errorf(path, "%s (%s): role %q for a column outside the table %s:%s, which has no header there",
 				where(t, mc.col), mc.at, roleLabel(mc.role), cellRef(t.firstCol, t.headerRow), cellRef(t.lastCol, t.headerRow))
 		}
-		if err := run.setRole(path, t, c, mt, &mc); err != nil {
+		if err := run.setRole(d.lx, path, t, c, mt, &mc); err != nil {
 			return err
 		}
 	}
@@ -144,9 +144,10 @@ func (run *mappingRun) apply(d *detector, t *tableSpec, mt *mapTable) error {
 	return nil
 }
 
-// setRole gives column c the mapped role, unit and fuel; path is the
+// setRole gives column c the mapped role, unit and fuel (lx reads a
+// purchased-energy header); path is the
 // workbook's, for errors.
-func (run *mappingRun) setRole(path string, t *tableSpec, c *column, mt *mapTable, mc *mapCol) error {
+func (run *mappingRun) setRole(lx *lexicon, path string, t *tableSpec, c *column, mt *mapTable, mc *mapCol) error {
 	c.role = mc.role
 	switch mc.role {
 	case roleFuel:
@@ -180,10 +181,17 @@ func (run *mappingRun) setRole(path string, t *tableSpec, c *column, mt *mapTabl
 		t.periods = append(t.periods, c)
 	case roleWhen:
 		t.when = c
+	case roleGrid:
+		t.gridCol = c
+	case roleCarrier:
+		if c.carrier = lx.carrierOf(c.hdr.Base); c.carrier == carrierNone {
+			c.carrier = carrierElectricity // the mapping says it is bought energy; a header naming no carrier is electricity
+		}
+		t.scope2 = append(t.scope2, c)
 	default:
 		return run.errorf(path, "%s (%s): role %q cannot be given by a mapping", where(t, c.col), mc.at, roleLabel(mc.role))
 	}
-	if mc.role != roleQuantity && mc.role != roleWideFuel && mc.role != roleCapacity {
+	if mc.role != roleQuantity && mc.role != roleWideFuel && mc.role != roleCapacity && mc.role != roleCarrier {
 		return nil
 	}
 	switch {
@@ -229,11 +237,12 @@ func setHeaderUnit(c *column, unit string) {
 // clearRoles takes every role off t's columns.
 func clearRoles(t *tableSpec) {
 	for _, c := range t.cols {
-		c.role, c.fuelID, c.fuelAlias, c.partOf, c.carbon = roleNone, "", false, nil, carbonCol{}
+		c.role, c.fuelID, c.fuelAlias, c.partOf, c.carbon, c.carrier = roleNone, "", false, nil, carbonCol{}, carrierNone
 	}
 	t.fuel, t.qty, t.unit, t.group = nil, nil, nil, nil
 	t.tech, t.capacity, t.cf, t.life = nil, nil, nil, nil
 	t.wide, t.periods, t.existing, t.when = nil, nil, nil, nil
+	t.gridCol, t.scope2 = nil, nil
 	t.headerErr = nil
 }
 

@@ -18,7 +18,7 @@ type mapParser struct {
 }
 
 func (p *mapParser) table(v any, at string) (mapTable, error) {
-	obj, err := p.object(v, at, "sheet", "header_row", "kind", "fuel", "unit", "columns")
+	obj, err := p.object(v, at, "sheet", "header_row", "kind", "fuel", "unit", "grid", "sector", "gallons", "columns")
 	if err != nil {
 		return mapTable{}, err
 	}
@@ -57,6 +57,15 @@ func (p *mapParser) table(v any, at string) (mapTable, error) {
 		return t, err
 	}
 	if err := p.unit(t.unit, at+".unit"); err != nil {
+		return t, err
+	}
+	if t.grid, err = p.grid(obj, at); err != nil {
+		return t, err
+	}
+	if t.sector, err = p.sector(obj, at); err != nil {
+		return t, err
+	}
+	if t.gallons, err = p.gallons(obj, at); err != nil {
 		return t, err
 	}
 	list, ok := obj["columns"].([]any)
@@ -116,7 +125,7 @@ func (p *mapParser) column(v any, at string) (mapCol, error) {
 	if c.role, ok = roleByName(name); !ok {
 		return c, p.fail(at+".role", "unknown role %q: accepted are none, %s", name, strings.Join(roleNames(), ", "))
 	}
-	amount := c.role == roleQuantity || c.role == roleWideFuel || c.role == roleCapacity
+	amount := c.role == roleQuantity || c.role == roleWideFuel || c.role == roleCapacity || c.role == roleCarrier
 	if c.unit, err = p.optStr(obj, "unit", at); err != nil {
 		return c, err
 	}

@@ -215,7 +215,10 @@ func (d *detector) assignRoles(t *tableSpec) {
 			t.periods = ps
 		}
 	}
-	// Amount columns left out (electricity, steam, unknown names with a unit).
+	// Purchased energy (electricity, steam) and the grid of its rows.
+	d.assignScope2(t)
+	d.findGridCol(t)
+	// Amount columns left out (steam in pounds, unknown names with a unit).
 	for _, c := range t.cols {
 		if !taken(c) && c.numeric && c.hdr.UnitText != "" && isQuantityDim(c.hdr.Unit) && !c.st.hint.Any(tables.HintRate|tables.HintCount) {
 			t.partial = true
@@ -379,7 +382,7 @@ func (d *detector) decideKind(t *tableSpec) bool {
 			t.headerErr = &Warning{Sheet: t.sheet, Cell: cellRef(t.periods[0].col, t.headerRow), Severity: SevError, Code: CodeUnitUnknown,
 				Message: "no unit for the amounts by period: add a unit column (L, kWh, t...) beside " + quoteText(t.fuel.hdr.Text) + "; no row is computed"}
 		}
-	case len(t.wide) > 0:
+	case len(t.wide) > 0 || len(t.scope2) > 0:
 		t.kind = kindWide
 	case t.tech != nil && t.capacity != nil:
 		t.kind = kindBuildPlan

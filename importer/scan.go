@@ -259,7 +259,7 @@ func (res *ScanResult) finish() error {
 			info.Columns = append(info.Columns, ColumnInfo{Cell: cellRef(c.col, spec.headerRow), Header: c.hdr.Text, Ident: c.ident,
 				HeaderUnit: c.hdr.UnitText, Role: c.role.String()})
 		}
-		for _, r := range t.rules {
+		for _, r := range t.allRules() {
 			info.Rules = append(info.Rules, r.src)
 			if !seenRule[r.src] {
 				seenRule[r.src] = true

@@ -27,6 +27,7 @@ type scanCtx struct {
 	missed    []string // identifiers of a header that lacked a rule's variables
 	missedAt  string
 	mapRun    *mappingRun // what the scan did with opt.Mapping (mappingapply.go)
+	gridAt    string      // the cell of the grid-unknown finding, once per scan (grid.go)
 	provenance
 
 	*lexicon // how texts read (fuels, units, technologies, headers)

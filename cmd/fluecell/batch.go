@@ -13,7 +13,7 @@ import (
 )
 
 func cmdBatch(ctx context.Context, s stdio, args []string) int {
-	fs := newFlags("batch", "batch IN_DIR OUT_DIR [--jobs N] [--shard I/N] [--summary FILE.csv] [--rule 'COLUMN = EXPR']... [--sheet S] [--pack P] [--factors FILE]...", s.err, true)
+	fs := newFlags("batch", "batch IN_DIR OUT_DIR [--jobs N] [--shard I/N] [--summary FILE.csv] [--rule 'COLUMN = EXPR']... [--sheet S] [--pack P] [--grid G] [--factors FILE]...", s.err, true)
 	jobs := fs.Int("jobs", 0, "annotate `N` workbooks at a time (default: the number of CPUs)")
 	shardFlag := fs.String("shard", "", "take only shard `I/N` of the files (1 <= I <= N), chosen by relative path, for job arrays")
 	summary := fs.String("summary", "", "write one CSV row per workbook to `FILE.csv`: file, status, rows, tCO2, tCO2e, warnings, error, seconds, output (a legacy .xls gives an .xlsx output)")
