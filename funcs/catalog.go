@@ -95,6 +95,7 @@ func optional(p Param, def string) Param { p.Optional, p.Default = true, def; re
 func catalogFamilies() []func(e *Engine) []*Function {
 	return []func(e *Engine) []*Function{
 		coreFunctions,
+		gridFunctions,
 	}
 }
 

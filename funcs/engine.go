@@ -15,6 +15,7 @@ type Engine struct {
 	packs       *packSet
 	fuels       *fuelIndex
 	techs       *techIndex
+	grids       *gridIndex
 	catalog     *catalogIndex
 	defaultPack string
 
@@ -102,6 +103,9 @@ func New(opts ...Option) (*Engine, error) {
 	}
 	e.defaultPack = cfg.defaultPack
 	if e.techs, err = newTechIndex(e.technologies()); err != nil {
+		return nil, packError(err)
+	}
+	if e.grids, err = buildGridIndex(ps); err != nil {
 		return nil, packError(err)
 	}
 	e.catalog = newCatalogIndex(buildCatalog(e))
@@ -221,11 +225,11 @@ func (e *Engine) resolvePack(name string) (string, error) {
 	if name == "" {
 		return e.defaultPack, nil
 	}
-	if _, ok := e.packs.packs[name]; ok && name != CommonPack {
+	if p, ok := e.packs.packs[name]; ok && name != CommonPack && !p.gridOnly() {
 		return name, nil
 	}
 	lower := strings.ToLower(strings.TrimSpace(name))
-	if _, ok := e.packs.packs[lower]; ok && lower != CommonPack {
+	if p, ok := e.packs.packs[lower]; ok && lower != CommonPack && !p.gridOnly() {
 		return lower, nil
 	}
 	msg := "unknown pack " + quote(name) + ": accepted are " + strings.Join(e.packs.names, ", ")

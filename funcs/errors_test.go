@@ -98,7 +98,7 @@ func TestCallErrors(t *testing.T) {
 		code string
 		want string
 	}{
-		{"fuel_co3", nil, CodeUnknownFunction, `unknown function "fuel_co3" (did you mean fuel_co2?); functions are carbon_from_co2, co2_from_carbon, embodied, embodied_per_mw, fuel_carbon, fuel_co2, fuel_co2e, fuel_energy, gtc_from_ppm, gwp, lifecycle_intensity, ppm_from_co2, ppm_from_gtc, to_unit`},
+		{"fuel_co3", nil, CodeUnknownFunction, `unknown function "fuel_co3" (did you mean fuel_co2?); functions are carbon_from_co2, co2_from_carbon, electricity_co2, electricity_co2e, electricity_losses_co2e, embodied, embodied_per_mw, fuel_carbon, fuel_co2, fuel_co2e, fuel_energy, gtc_from_ppm, gwp, heat_co2e, lifecycle_intensity, ppm_from_co2, ppm_from_gtc, to_unit`},
 		{"fuel_co2", map[string]string{"fuel": "diesel", "unit": "L"}, CodeBadArgument, `fuel_co2: amount: missing required parameter amount (number: quantity of fuel used)`},
 		{"fuel_co2", map[string]string{"fuel": "diesel", "amount": "1,5", "unit": "L"}, CodeBadArgument, `fuel_co2: amount must be a number with "." as decimal separator, got "1,5"`},
 		{"fuel_co2", map[string]string{"fuel": "diesel", "amount": "NaN", "unit": "L"}, CodeBadArgument, `fuel_co2: amount must be a number with "." as decimal separator, got "NaN"`},

@@ -173,7 +173,7 @@ func (ps *packSet) finish() {
 	}
 	sort.Strings(names)
 	for _, name := range names {
-		if name != CommonPack {
+		if name != CommonPack && !ps.packs[name].gridOnly() {
 			ps.names = append(ps.names, name)
 		}
 		for _, f := range ps.packs[name].sorted() {

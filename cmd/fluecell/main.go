@@ -40,6 +40,7 @@ func commands() []command {
 		{"inspect", "show how a workbook's tables and columns are read; write that reading as a mapping to edit", cmdInspect},
 		{"functions", "list the carbon functions with parameters and examples", cmdFunctions},
 		{"factors", "list factor rows with their sources", cmdFactors},
+		{"grids", "list the electricity grids (Scope 2) with their sets and years", cmdGrids},
 		{"units", "list the accepted units with their exact factors", cmdUnits},
 		{"demo", "write and annotate the workbooks of an invented dairy co-operative", cmdDemo},
 	}
