@@ -25,9 +25,9 @@ func (c carrier) heatArg() string {
 	case carrierSteam:
 		return "steam"
 	case carrierHeat:
-		return "hot water"
+		return "hot_water"
 	case carrierCooling:
-		return "cooling"
+		return "chilled_water"
 	}
 	return ""
 }

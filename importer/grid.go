@@ -11,51 +11,47 @@ import (
 const gridFunc = "electricity_co2e"
 
 // CheckGrid checks a grid name as Options.Grid takes it (a country, a
-// country code or a grid id: "DE", "Germany", "UK", "CAMX") and returns it
-// trimmed. An error is an *Error of code ErrInput naming the option and
-// what is accepted, or saying that the engine has no grid factors.
+// country code or a grid id: "DE", "Germany", "UK", "CAMX") and returns the
+// grid's id. An error is an *Error of code ErrInput naming the option and
+// what is accepted.
 func CheckGrid(e *funcs.Engine, grid string) (string, error) {
 	g := strings.TrimSpace(grid)
 	if g == "" {
 		return "", nil
 	}
-	if msg := gridProblem(e, g); msg != "" {
-		return "", &Error{Code: ErrInput, Msg: "grid " + quoteText(g) + ": " + msg}
+	info, err := e.ResolveGrid(g)
+	if err != nil {
+		return "", &Error{Code: ErrInput, Msg: "grid " + quoteText(g) + ": " + funcsMsg(err), Err: err}
 	}
-	return g, nil
+	return info.ID, nil
 }
 
-// gridProblem says why g is no grid the engine has a factor for; "" when
-// it is one.
-func gridProblem(e *funcs.Engine, g string) string {
-	if _, ok := e.Function(gridFunc); !ok {
-		return "this build of fluecell has no grid factors (no function " + gridFunc + ")"
+// funcsMsg is an engine error's message without its function prefix.
+func funcsMsg(err error) string {
+	if fe, ok := funcs.AsError(err); ok {
+		return fe.Msg
 	}
-	if _, err := e.CallValues(gridFunc, 1.0, "kWh", g); err != nil {
-		if fe, ok := funcs.AsError(err); ok {
-			return fe.Msg
-		}
-		return err.Error()
-	}
-	return ""
+	return err.Error()
 }
 
-// gridName reads a cell or title text as a grid, cached; ok is false when
-// it names none (or the engine has no grid factors).
-func (lx *lexicon) gridName(s string) bool {
+// gridName resolves a cell or title text as a grid, cached: the grid's
+// id, or "" when the text names none.
+func (lx *lexicon) gridName(s string) string {
 	s = strings.TrimSpace(s)
 	if s == "" || len(s) > 60 {
-		return false
+		return ""
 	}
-	if ok, seen := lx.grids[s]; seen {
-		return ok
+	if id, seen := lx.grids[s]; seen {
+		return id
 	}
-	_, has := lx.e.Function(gridFunc)
-	ok := has && gridProblem(lx.e, s) == ""
+	id := ""
+	if info, err := lx.e.ResolveGrid(s); err == nil {
+		id = info.ID
+	}
 	if len(lx.grids) < maxCache {
-		lx.grids[s] = ok
+		lx.grids[s] = id
 	}
-	return ok
+	return id
 }
 
 // gridChoice is where a table's grid comes from: a column (row by row), or
@@ -96,7 +92,7 @@ func (d *detector) chooseGrid(t *tableSpec) {
 		t.grid = gridChoice{name: g, from: from}
 		return
 	}
-	if g := strings.TrimSpace(d.sc.opt.Grid); g != "" {
+	if g := d.lx.gridName(d.sc.opt.Grid); g != "" {
 		t.grid = gridChoice{name: g, from: "--grid"}
 		return
 	}

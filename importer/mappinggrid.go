@@ -14,11 +14,11 @@ func (p *mapParser) grid(obj map[string]any, at string) (string, error) {
 	if err != nil || g == "" {
 		return "", err
 	}
-	g = strings.TrimSpace(g)
-	if msg := gridProblem(p.e, g); msg != "" {
-		return "", p.fail(joinPath(at, "grid"), "%s", msg)
+	info, err := p.e.ResolveGrid(strings.TrimSpace(g))
+	if err != nil {
+		return "", p.fail(joinPath(at, "grid"), "%s", funcsMsg(err))
 	}
-	return g, nil
+	return info.ID, nil
 }
 
 // sectors are the sectors a mapping may give a table's combustion (IPCC

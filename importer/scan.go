@@ -83,6 +83,9 @@ func scan(ctx context.Context, e *funcs.Engine, path string, opt Options, calc f
 	if err != nil {
 		return nil, err
 	}
+	if _, err := CheckGrid(e, opt.Grid); err != nil {
+		return nil, err
+	}
 	res := &ScanResult{Path: path, sheetCells: map[string]int{}}
 	lim := opt.limits()
 	if kind == fmtCSV {

@@ -78,7 +78,7 @@ func (d *detector) findGridCol(t *tableSpec) {
 		}
 		n := 0
 		for s := range c.st.distinct {
-			if d.lx.gridName(s) {
+			if d.lx.gridName(s) != "" {
 				n++
 			}
 		}
@@ -117,8 +117,8 @@ func (d *detector) titleGrid(t *tableSpec, titles []string) {
 				continue
 			}
 			tail := strings.Trim(strings.TrimSpace(s[i+len(sep):]), "()")
-			if tail != "" && len(words(tail)) <= 3 && d.lx.gridName(tail) {
-				t.ctxGrid, t.ctxGridFrom = tail, s
+			if id := d.lx.gridName(tail); tail != "" && len(words(tail)) <= 3 && id != "" {
+				t.ctxGrid, t.ctxGridFrom = id, s
 				return
 			}
 		}
@@ -142,18 +142,19 @@ func (sc *scanCtx) scope2Terms(t *tableSpec) []string {
 
 // carrierCall is the call computing an amount of purchased energy:
 // electricity through the table's grid, heat through its carrier; "" when
-// it cannot be computed (no grid, or no such function in this build).
-// gas is "co2e" or "co2" (electricity only).
+// it cannot be computed (no grid, or no such function in this build); gas
+// is "co2e" or "co2", the column it fills.
+// Only CO2e is computed: the grid sets publish CO2 alone for some grids
+// only, so a tCO2 column leaves purchased energy out.
 func (sc *scanCtx) carrierCall(t *tableSpec, c carrier, amount, unit, gas string) string {
 	switch {
-	case c == carrierElectricity:
-		fn := "electricity_" + gas
-		if _, ok := sc.e.Function(fn); !ok || !t.grid.known() {
-			return ""
-		}
-		return fn + "(" + amount + ", " + unit + ", " + t.grid.arg() + ")"
 	case gas != "co2e":
 		return ""
+	case c == carrierElectricity:
+		if _, ok := sc.e.Function(gridFunc); !ok || !t.grid.known() {
+			return ""
+		}
+		return gridFunc + "(" + amount + ", " + unit + ", " + t.grid.arg() + ")"
 	default:
 		if _, ok := sc.e.Function(heatFunc); !ok {
 			return ""

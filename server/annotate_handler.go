@@ -105,6 +105,10 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	opt.Rules = append(append([]string(nil), opt.Rules...), q["rule"]...)
 	opt.Sheet = q.Get("sheet")
 	if g := q.Get("grid"); g != "" {
+		if _, err := importer.CheckGrid(h.e, g); err != nil {
+			h.fail(w, badRequest("grid", err.Error()))
+			return
+		}
 		opt.Grid = g
 	}
 	if p := q.Get("pack"); p != "" {

@@ -1,0 +1,186 @@
+package importer
+
+import (
+	"context"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// Published factors the checks below use:
+//   - Germany 2022: 368 g CO2e/kWh (European Environment Agency, GHG
+//     emission intensity of electricity generation, data set
+//     co2-emission-intensity-15, 2022);
+//   - United Kingdom 2025: 0.177 kg CO2e/kWh (UK Government GHG Conversion
+//     Factors for Company Reporting 2025, UK electricity);
+//   - France 2022: 74 g CO2e/kWh (EEA, as above);
+//   - purchased steam: 66.33 kg CO2, 1.25 g CH4 and 0.125 g N2O per MMBtu
+//     (US EPA GHG Emission Factors Hub 2025, Table 7 Steam and Heat), CH4
+//     and N2O weighted by 28 and 265 (IPCC AR5 WG1 Table 8.7, the default
+//     GWP set).
+const (
+	deKgPerKWh  = 0.368
+	frKgPerKWh  = 0.074
+	gbKgPerKWh  = 0.177
+	steamTPerMM = (66.33 + 1.25e-3*28 + 0.125e-3*265) / 1000
+)
+
+// energyLog is a long table with fuels and purchased energy in one column.
+var energyLog = [][]any{
+	{"Site energy 2024"},
+	{},
+	{"Energy carrier", "Quantity", "Unit"},
+	{"Diesel", 1000, "L"},
+	{"Electricity", 10000, "kWh"},
+	{"District steam", 100, "MMBtu"},
+	{"Electricity", 5000, "kWh"},
+}
+
+func scanWith(t *testing.T, name, sheet string, rows [][]any, opt Options) *Report {
+	t.Helper()
+	f := newBook(t, sheet)
+	setRows(t, f, sheet, 1, rows)
+	path := save(t, f, filepath.Join(t.TempDir(), name))
+	return scanFile(t, path, opt)
+}
+
+// TestElectricityRowsWithGrid: with --grid, the electricity rows of a long
+// table are computed with electricity_co2e, the steam row with heat_co2e,
+// the diesel row as before; the totals by fuel name them as Scope 2.
+func TestElectricityRowsWithGrid(t *testing.T) {
+	rep := scanWith(t, "energy.xlsx", "Energy", energyLog, Options{Grid: "Germany"})
+	if rep.Computed != 4 || rep.Rows != 4 {
+		t.Fatalf("computed %d of %d rows, want 4 of 4; findings: %s", rep.Computed, rep.Rows, listFindings(rep))
+	}
+	if got, want := rep.ByFuel["Scope 2: electricity"].TCO2e, 15000*deKgPerKWh/1000; !near(got, want) {
+		t.Errorf("electricity %.9g t CO2e, want %.9g", got, want)
+	}
+	if got, want := rep.ByFuel["Scope 2: steam"].TCO2e, 100*steamTPerMM; !near(got, want) {
+		t.Errorf("steam %.9g t CO2e, want %.9g", got, want)
+	}
+	rules := strings.Join(rep.Rules, "\n")
+	for _, want := range []string{`tCO2e = electricity_co2e(quantity, unit, "de")`, `tCO2e = heat_co2e(quantity, unit, "steam")`, "tCO2e = fuel_co2e(energy_carrier, quantity, unit)"} {
+		if !strings.Contains(rules, want) {
+			t.Errorf("rules %q lack %q", rules, want)
+		}
+	}
+	if w := wantFinding(t, rep, "Energy", "A5", SevInfo, CodeReadAs); !strings.Contains(w.Message, "grid de from --grid") {
+		t.Errorf("A5: %q, want the grid and where it came from", w.Message)
+	}
+	for _, w := range rep.Warnings {
+		if w.Code == CodeGridUnknown {
+			t.Errorf("grid-unknown with a grid: %+v", w)
+		}
+	}
+}
+
+// TestElectricityRowsWithoutGrid: without a grid, one grid-unknown finding
+// at the first electricity cell says how to choose one; every electricity
+// row has its reason; the steam and diesel rows are computed.
+func TestElectricityRowsWithoutGrid(t *testing.T) {
+	rep := scanWith(t, "energy.xlsx", "Energy", energyLog, Options{})
+	w := wantFinding(t, rep, "Energy", "A5", SevWarning, CodeGridUnknown)
+	for _, want := range []string{"--grid", "mapping", "column"} {
+		if !strings.Contains(w.Message, want) {
+			t.Errorf("grid-unknown %q does not mention %s", w.Message, want)
+		}
+	}
+	n := 0
+	for _, w := range rep.Warnings {
+		if w.Code == CodeGridUnknown {
+			n++
+		}
+	}
+	if n != 1 {
+		t.Errorf("%d grid-unknown findings, want 1", n)
+	}
+	for _, cell := range []string{"A5", "A7"} {
+		if w := wantFinding(t, rep, "Energy", cell, SevInfo, CodeNotComputed); !strings.Contains(w.Message, "no grid") {
+			t.Errorf("%s: %q", cell, w.Message)
+		}
+	}
+	if rep.Computed != 2 || rep.Rows != 4 {
+		t.Errorf("computed %d of %d rows, want 2 of 4", rep.Computed, rep.Rows)
+	}
+}
+
+// TestElectricityColumnWide: a wide table's "Electricity (kWh)" column is
+// computed into tCO2e_scope2 with the mapping's grid, beside the gas.
+func TestElectricityColumnWide(t *testing.T) {
+	f := newBook(t, "Monthly")
+	setRows(t, f, "Monthly", 1, [][]any{
+		{"Month", "Natural gas (GJ)", "Electricity (kWh)"},
+		{"Jan", 100, 20000},
+		{"Feb", 80, 18000},
+	})
+	dir := t.TempDir()
+	path := save(t, f, filepath.Join(dir, "monthly.xlsx"))
+	mpath := filepath.Join(dir, "m.json")
+	must(t, os.WriteFile(mpath, []byte(`{"fluecell_mapping": 1, "tables": [], "grid": "UK"}`), 0o644))
+	m, err := LoadMapping(testEngine(t), mpath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rep := scanFile(t, path, Options{Mapping: m})
+	if got, want := rep.ByFuel["Scope 2: electricity"].TCO2e, 38000*gbKgPerKWh/1000; !near(got, want) {
+		t.Errorf("electricity %.9g t CO2e, want %.9g; rules %v; findings %s", got, want, rep.Rules, listFindings(rep))
+	}
+	if !strings.Contains(strings.Join(rep.Rules, "\n"), `tCO2e_scope2 = electricity_co2e(electricity, electricity_unit, "gb")`) {
+		t.Errorf("rules %v", rep.Rules)
+	}
+	if w := wantFinding(t, rep, "Monthly", "C1", SevInfo, CodeReadAs); !strings.Contains(w.Message, "the mapping") {
+		t.Errorf("C1: %q", w.Message)
+	}
+	col := annotatedColumnOpt(t, path, "Monthly", scope2Column, Options{Mapping: m})
+	if got, want := col[2], 20000*gbKgPerKWh/1000; !near(got, want) {
+		t.Errorf("row 2 %s = %.9g, want %.9g", scope2Column, got, want)
+	}
+}
+
+// TestGridColumn: a column of countries gives each row its grid.
+func TestGridColumn(t *testing.T) {
+	rep := scanWith(t, "sites.xlsx", "Sites", [][]any{
+		{"Site", "Country", "Electricity (kWh)"},
+		{"Depot North", "Germany", 1000},
+		{"Depot South", "France", 2000},
+		{"Depot East", "Germany", 500},
+	}, Options{Grid: "UK"})
+	tb := rep.Tables[0]
+	if got := columnAt(t, tb, "B1"); got.Role != "grid" {
+		t.Errorf("B1 role %q, want grid", got.Role)
+	}
+	want := (1500*deKgPerKWh + 2000*frKgPerKWh) / 1000
+	if got := rep.Totals.TCO2e; !near(got, want) {
+		t.Errorf("total %.9g t CO2e, want %.9g (the column's grids, not --grid); findings %s", got, want, listFindings(rep))
+	}
+	if rep.Computed != 3 {
+		t.Errorf("computed %d rows, want 3", rep.Computed)
+	}
+}
+
+// TestGridInTitle: "Electricity use, Germany" above the table names its grid.
+func TestGridInTitle(t *testing.T) {
+	rep := scanWith(t, "title.xlsx", "Power", [][]any{
+		{"Electricity use, Germany"},
+		{},
+		{"Month", "Electricity (MWh)"},
+		{"Jan", 10},
+		{"Feb", 12},
+	}, Options{})
+	if got, want := rep.Totals.TCO2e, 22*1000*deKgPerKWh/1000; !near(got, want) {
+		t.Errorf("total %.9g t CO2e, want %.9g; findings %s", got, want, listFindings(rep))
+	}
+}
+
+// TestBadGridOption: an unknown --grid is an input error naming it.
+func TestBadGridOption(t *testing.T) {
+	f := newBook(t, "Energy")
+	setRows(t, f, "Energy", 1, energyLog)
+	path := save(t, f, filepath.Join(t.TempDir(), "energy.xlsx"))
+	_, err := Scan(context.Background(), testEngine(t), path, Options{Grid: "Atlantis"})
+	ie, ok := err.(*Error)
+	if !ok || ie.Code != ErrInput || !strings.Contains(ie.Msg, `grid "Atlantis"`) {
+		t.Fatalf("err = %v, want an input error naming the grid", err)
+	}
+}
