@@ -32,7 +32,6 @@ const (
 	kindGWPSet
 	kindTech
 	kindStat
-	kindGas
 )
 
 func (p Param) with(k paramKind) Param { p.kind = k; return p }
@@ -96,6 +95,8 @@ func catalogFamilies() []func(e *Engine) []*Function {
 	return []func(e *Engine) []*Function{
 		coreFunctions,
 		gridFunctions,
+		refrigerantFunctions,
+		fugitiveFunctions,
 	}
 }
 
@@ -165,9 +166,9 @@ func coreFunctions(e *Engine) []*Function {
 			ResultUnit: "t CO2e", Params: []Param{tech, paramNum("capacity", "the unit given in unit", "capacity to build"),
 				Param{Name: "unit", Type: typeString, Unit: "unit string", Doc: "power unit of capacity (kW, MW, MWp, GW...)", kind: kindPowerUnit}, cf, life},
 			Example: `embodied("pv_utility", 100, "MW", 0.2, 25)`, ExampleResult: 48 * 1000 * 0.2 * 8760 * 25 / 1e6 * 100, Sources: lifecycle, call: callEmbodied},
-		{Name: "gwp", Doc: "Global warming potential over 100 years of a gas in an IPCC assessment.",
-			ResultUnit: "", Params: []Param{paramStr("gas", "greenhouse gas", "co2", "ch4", "ch4_fossil", "ch4_nonfossil", "n2o").with(kindGas), gwpSet},
-			Example: `gwp("n2o", "ar6")`, ExampleResult: 273, Sources: []string{"IPCC AR4 WG1 Ch 2 Table 2.14", "IPCC AR5 WG1 Ch 8 Table 8.A.1", "IPCC AR6 WG1 Ch 7 Table 7.15"}, call: callGWP},
+		{Name: "gwp", Doc: "Global warming potential over 100 years of a gas or refrigerant blend in an IPCC assessment; a blend's is the mass-weighted sum of its components' (ASHRAE Standard 34 compositions).",
+			ResultUnit: "", Params: []Param{gasParam(e), gwpSetParam(e, "IPCC assessment whose GWP-100 value is returned")},
+			Example: `gwp("R-410A", "ar4")`, ExampleResult: 0.5*675 + 0.5*3500, Sources: []string{"IPCC AR4 WG1 Ch 2 Table 2.14", "IPCC AR5 WG1 Ch 8 Table 8.A.1", "IPCC AR6 WG1 Ch 7 Tables 7.15 and 7.SM.7", "ANSI/ASHRAE Standard 34 (blend compositions)"}, call: callGWP},
 		{Name: "to_unit", Doc: "Converts a value between units of one dimension with exact decimal factors (NIST SP 811, IEA).",
 			ResultUnit: "the unit given in to", Params: []Param{paramNum("value", "the unit given in from", "value to convert"),
 				Param{Name: "from", Type: typeString, Unit: "unit string", Doc: "unit of value", kind: kindAnyUnit}, Param{Name: "to", Type: typeString, Unit: "unit string", Doc: "unit of the result", kind: kindAnyUnit}},

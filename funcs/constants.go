@@ -38,15 +38,6 @@ func (e *Engine) checkConstant(f *Function, p Param, s string) error {
 		default:
 			err = &Error{Code: CodeBadArgument, Param: p.Name, Msg: "unknown statistic " + quote(s) + ": accepted are min, median, max"}
 		}
-	case kindGas:
-		g := canonicalGas(s)
-		ok := false
-		for _, a := range p.Allowed {
-			ok = ok || a == g
-		}
-		if !ok {
-			err = &Error{Code: CodeBadArgument, Param: p.Name, Msg: "unknown gas " + quote(s) + ": accepted are " + strings.Join(p.Allowed, ", ")}
-		}
 	}
 	if err == nil {
 		return nil

@@ -16,6 +16,7 @@ type Engine struct {
 	fuels       *fuelIndex
 	techs       *techIndex
 	grids       *gridIndex
+	gases       *gasIndex
 	catalog     *catalogIndex
 	defaultPack string
 
@@ -106,6 +107,13 @@ func New(opts ...Option) (*Engine, error) {
 		return nil, packError(err)
 	}
 	if e.grids, err = buildGridIndex(ps); err != nil {
+		return nil, packError(err)
+	}
+	tables, err := embeddedGasTables()
+	if err != nil {
+		return nil, packError(err)
+	}
+	if e.gases, err = newGasIndex(ps, tables); err != nil {
 		return nil, packError(err)
 	}
 	e.catalog = newCatalogIndex(buildCatalog(e))

@@ -38,8 +38,8 @@ func TestBadInputs(t *testing.T) {
 		{`ppm_from_gtc(1, 1.5)`, CodeBadArgument, `ppm_from_gtc: airborne_fraction: must lie in (0, 1], got 1.5 (the long-run observed value is about 0.44) (column 1)`},
 		{`ppm_from_gtc(1, 0)`, CodeBadArgument, `ppm_from_gtc: airborne_fraction: must lie in (0, 1], got 0 (the long-run observed value is about 0.44) (column 1)`},
 		{`ppm_from_co2(1, "GJ")`, CodeUnit, `ppm_from_co2: unit "GJ" is an energy, but a mass is needed here (column 17)`},
-		{`gwp("sf6")`, CodeBadArgument, `gwp: gas: unknown gas "sf6": accepted are co2, ch4, ch4_fossil, ch4_nonfossil, n2o (column 5)`},
-		{`gwp("ch4_fossil", "ar4")`, CodeMissingFactor, `gwp: gwp_set: GWP set ar4 has no value for ch4_fossil; sets with it: ar5, ar6 (column 1)`},
+		{`gwp("sf7")`, CodeBadArgument, `gwp: gas: unknown gas "sf7" (did you mean SF6?): accepted are IPCC names (HFC-134a, SF6, c-C4F8) and ASHRAE refrigerant numbers (R-134a, R-410A); the doc of the gas parameter (fluecell functions gwp) lists every gas and blend (column 5)`},
+		{`gwp("ch4_fossil", "ar4")`, CodeMissingFactor, `gwp: gwp_set: GWP set ar4 has no value for CH4 (fossil); sets with it: ar5, ar6 (column 1)`},
 		{`lifecycle_intensity("solar")`, CodeBadArgument, `lifecycle_intensity: tech: ambiguous technology "solar": utility PV, rooftop PV or concentrating solar: write pv_utility, pv_rooftop or csp (column 21)`},
 		{`lifecycle_intensity("gas-CT")`, CodeBadArgument, `lifecycle_intensity: tech: no life-cycle row for technology "gas-CT" (gas combustion turbine (simple cycle)), and no other technology stands in for it: accepted are biomass_dedicated, coal_pc, csp, gas_cc, geothermal, hydropower, nuclear, ocean, pv_rooftop, pv_utility, wind_offshore, wind_onshore (column 21)`},
 		{`lifecycle_intensity("solar farm")`, CodeBadArgument, `lifecycle_intensity: tech: unknown technology "solar farm": accepted are biomass_dedicated, coal_pc, csp, gas_cc, geothermal, hydropower, nuclear, ocean, pv_rooftop, pv_utility, wind_offshore, wind_onshore (column 21)`},
@@ -98,7 +98,7 @@ func TestCallErrors(t *testing.T) {
 		code string
 		want string
 	}{
-		{"fuel_co3", nil, CodeUnknownFunction, `unknown function "fuel_co3" (did you mean fuel_co2?); functions are carbon_from_co2, co2_from_carbon, electricity_co2, electricity_co2e, electricity_losses_co2e, embodied, embodied_per_mw, fuel_carbon, fuel_co2, fuel_co2e, fuel_energy, gtc_from_ppm, gwp, heat_co2e, lifecycle_intensity, ppm_from_co2, ppm_from_gtc, to_unit`},
+		{"fuel_co3", nil, CodeUnknownFunction, `unknown function "fuel_co3" (did you mean fuel_co2?); functions are carbon_from_co2, co2_from_carbon, electricity_co2, electricity_co2e, electricity_losses_co2e, embodied, embodied_per_mw, fuel_carbon, fuel_co2, fuel_co2e, fuel_energy, fugitive_co2e, gtc_from_ppm, gwp, heat_co2e, lifecycle_intensity, ppm_from_co2, ppm_from_gtc, refrigerant_co2e, refrigerant_leak_rate, to_unit`},
 		{"fuel_co2", map[string]string{"fuel": "diesel", "unit": "L"}, CodeBadArgument, `fuel_co2: amount: missing required parameter amount (number: quantity of fuel used)`},
 		{"fuel_co2", map[string]string{"fuel": "diesel", "amount": "1,5", "unit": "L"}, CodeBadArgument, `fuel_co2: amount must be a number with "." as decimal separator, got "1,5"`},
 		{"fuel_co2", map[string]string{"fuel": "diesel", "amount": "NaN", "unit": "L"}, CodeBadArgument, `fuel_co2: amount must be a number with "." as decimal separator, got "NaN"`},
