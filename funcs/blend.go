@@ -41,10 +41,14 @@ func (e *Engine) blendPlan(key planKey, m fuelMatch) (*plan, error) {
 	p.factors = append(p.factors, base.factors...)
 	p.notes = append(p.notes, base.notes...)
 	switch key.kind {
-	case kindCO2:
+	case kindCO2, kindMobileCO2:
 		memo := quote(key.fuel) + ": " + pct(share) + " % fossil by volume; " + pct(rest) + " % " + row.bioID + " is biogenic, its CO2 "
 		if bio, err := e.fuelPlan(bioKey); err == nil {
-			p.memoK = ratFloat(new(big.Rat).Mul(rest, bio.exact))
+			k := new(big.Rat).Mul(rest, bio.exact)
+			p.memoK, p.memoDen = ratFloat(k), 1
+			if n, d, ok := smallFraction(k); ok {
+				p.memoK, p.memoDen = n, d
+			}
 			p.memoPrefix, p.memoSuffix = memo+"(", " t) is a memo item, not in this result"
 			p.factors = append(p.factors, bio.factors...)
 		} else {
@@ -52,14 +56,14 @@ func (e *Engine) blendPlan(key planKey, m fuelMatch) (*plan, error) {
 		}
 	case kindCarbon:
 		p.notes = append(p.notes, "fossil carbon only: the "+pct(rest)+" % "+row.bioID+" is biogenic")
-	case kindCO2e, kindEnergy:
+	case kindCO2e, kindMobileCO2e, kindEnergy:
 		bio, err := e.fuelPlan(bioKey)
 		if err != nil {
 			return nil, err
 		}
 		p.exact.Add(p.exact, new(big.Rat).Mul(rest, bio.exact))
 		p.factors = append(p.factors, bio.factors...)
-		if key.kind == kindCO2e {
+		if key.kind == kindCO2e || key.kind == kindMobileCO2e {
 			p.notes = append(p.notes, "CO2e of the "+pct(share)+" % fossil part plus CH4 and N2O of the "+pct(rest)+" % "+row.bioID+
 				"; the "+row.bioID+" CO2 is biogenic, a memo item outside this result")
 		}
@@ -72,7 +76,7 @@ func (p *plan) memoNote(amount float64) string {
 	if p.memoPrefix == "" {
 		return ""
 	}
-	return p.memoPrefix + FormatNumber(amount*p.memoK) + p.memoSuffix
+	return p.memoPrefix + FormatNumber(amount*p.memoK/p.memoDen) + p.memoSuffix
 }
 
 // errHeadline is an error's message without the function prefix or caret snippet.

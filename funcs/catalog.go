@@ -97,6 +97,7 @@ func catalogFamilies() []func(e *Engine) []*Function {
 		gridFunctions,
 		refrigerantFunctions,
 		fugitiveFunctions,
+		mobileFunctions,
 	}
 }
 
@@ -124,6 +125,7 @@ func coreFunctions(e *Engine) []*Function {
 	cf := optional(paramNum("capacity_factor", "fraction", "average output / rated capacity over a 365-day year, in (0, 1]"), "technology default")
 	life := optional(paramNum("lifetime_years", "yr", "economic lifetime in 365-day years"), "technology default")
 	combustion := []string{"IPCC 2006 Guidelines Vol 2 Ch 1 Tables 1.2-1.4", "IPCC 2006 Guidelines Vol 2 Ch 2 Table 2.2", "US EPA GHG Emission Factors Hub 2025 Table 1"}
+	sectors := []string{"IPCC 2006 Guidelines Vol 2 Ch 2 Tables 2.3-2.5"}
 	lifecycle := []string{"IPCC AR5 WG3 Annex III Table A.III.2"}
 	gcb := []string{"Global Carbon Budget (Friedlingstein et al.): 1 ppm CO2 = 2.124 GtC"}
 
@@ -131,9 +133,10 @@ func coreFunctions(e *Engine) []*Function {
 		{Name: "fuel_co2", Doc: "CO2 from burning a fuel (stationary combustion, Tier 1 default factor). Biogenic CO2 is returned with a note to report it separately.",
 			ResultUnit: "t CO2", Params: []Param{fuel, amount, amountUnit, pack},
 			Example: `fuel_co2("natural_gas", 1000, "GJ")`, ExampleResult: 56.1, Sources: combustion, call: callFuel(kindCO2, 0, "")},
-		{Name: "fuel_co2e", Doc: "CO2e from burning a fuel: CO2 + CH4 x GWP + N2O x GWP (stationary combustion, energy industries). Biogenic CO2 is excluded.",
-			ResultUnit: "t CO2e", Params: []Param{fuel, amount, amountUnit, gwpSet, pack},
-			Example: `fuel_co2e("natural_gas", 1000, "GJ")`, ExampleResult: 56.1545, Sources: append(combustion, "IPCC AR5 WG1 Ch 8 Table 8.A.1"), call: callFuel(kindCO2e, 3, DefaultGWPSet)},
+		{Name: "fuel_co2e", Doc: "CO2e from burning a fuel: CO2 + CH4 x GWP + N2O x GWP (stationary combustion; CH4 and N2O of the sector, energy industries unless sector says otherwise). Biogenic CO2 is excluded.",
+			ResultUnit: "t CO2e", Params: []Param{fuel, amount, amountUnit, gwpSet, pack,
+				optional(paramStr("sector", "where the fuel is burned, choosing the CH4 and N2O factors: energy (energy industries, IPCC 2006 Vol 2 Ch 2 Table 2.2, the default), manufacturing (industries and construction, Table 2.3), commercial (commercial/institutional, Table 2.4), residential and agriculture (Table 2.5); a pack with one value per fuel (epa2025) uses it for every sector, with a note", sectorNames()...), DefaultSector).checked(checkSector)},
+			Example: `fuel_co2e("natural_gas", 1000, "GJ")`, ExampleResult: 56.1545, Sources: append(append(combustion, sectors...), "IPCC AR5 WG1 Ch 8 Table 8.A.1"), call: callFuel(kindCO2e, 3, DefaultGWPSet)},
 		{Name: "fuel_carbon", Doc: "Carbon content of a fuel amount (t C), from the pack's carbon content or its CO2 factor x 12/44.",
 			ResultUnit: "t C", Params: []Param{fuel, amount, amountUnit, pack},
 			Example: `fuel_carbon("natural_gas", 1000, "GJ")`, ExampleResult: 15.3, Sources: combustion[:1], call: callFuel(kindCarbon, 0, "")},

@@ -27,6 +27,7 @@ const (
 type planKey struct {
 	kind                 planKind
 	pack, fuel, unit, to string // to: gwp set for CO2e, target unit for energy
+	sector               string // stationary sector for CO2e, mode for mobile combustion
 }
 
 // plan is a cached fuel computation: result = amount x k.
@@ -38,9 +39,10 @@ type plan struct {
 	unit    string
 	factors []*Factor
 	notes   []string
-	// memoK is a blend's biogenic CO2 in t per unit amount, stated in a note built per call
-	// from memoPrefix and memoSuffix (see blendPlan); memoPrefix is "" for other plans.
-	memoK                  float64
+	// memoK/memoDen is a blend's biogenic CO2 in t per unit amount (a fraction like num/den),
+	// stated in a note built per call from memoPrefix and memoSuffix (see blendPlan);
+	// memoPrefix is "" for other plans.
+	memoK, memoDen         float64
 	memoPrefix, memoSuffix string
 }
 
@@ -96,6 +98,11 @@ func (e *Engine) buildPlan(key planKey) (*plan, error) {
 		return e.blendPlan(key, m)
 	}
 	p := &plan{}
+	if fuel.Family == "gas" {
+		if n := units.GasVolumeNote(u); n != "" {
+			p.notes = append(p.notes, n)
+		}
+	}
 	if m.alias {
 		note := "fuel " + quote(key.fuel) + " read as " + fuel.ID
 		if len(m.dropped) > 0 {
@@ -119,7 +126,20 @@ func (e *Engine) buildPlan(key planKey) (*plan, error) {
 		if err != nil {
 			return nil, err
 		}
-		if err := e.co2ePlan(p, packName, fuel, u, set); err != nil {
+		sec, err := resolveSector(key.sector)
+		if err != nil {
+			return nil, err
+		}
+		ch4, n2o, note, err := e.sectorGases(packName, fuel, sec, strings.TrimSpace(key.sector) != "")
+		if err != nil {
+			return nil, err
+		}
+		if err := e.co2ePlan(p, packName, fuel, u, set, "co2_ef", ch4, n2o); err != nil {
+			return nil, err
+		}
+		p.notes = append(p.notes, note)
+	case kindMobileCO2, kindMobileCO2e:
+		if err := e.mobilePlan(p, key, packName, fuel, u); err != nil {
 			return nil, err
 		}
 	case kindCarbon:
@@ -217,19 +237,21 @@ func biogenicNote(fuel *Fuel, bio *big.Rat) string {
 	return "CO2 from " + fuel.ID + " is biogenic (" + share + "): report it separately as a memo item, outside the Scope 1 total"
 }
 
-func (e *Engine) co2ePlan(p *plan, packName string, fuel *Fuel, u units.Unit, set string) error {
+// co2ePlan fills p with the CO2e of fuel: CO2, CH4 and N2O from the quantities co2, ch4 and
+// n2o (co2_ef and a sector's or a mode's rows).
+func (e *Engine) co2ePlan(p *plan, packName string, fuel *Fuel, u units.Unit, set, co2, ch4, n2o string) error {
 	bio := e.biogenicFraction(packName, fuel)
-	kCO2, fs, notes, err := e.emission(packName, fuel, u, "co2_ef")
+	kCO2, fs, notes, err := e.emission(packName, fuel, u, co2)
 	if err != nil {
 		return err
 	}
 	p.factors, p.notes = append(p.factors, fs...), append(p.notes, notes...)
-	kCH4, fs, notes, err := e.emission(packName, fuel, u, "ch4_ef")
+	kCH4, fs, notes, err := e.emission(packName, fuel, u, ch4)
 	if err != nil {
 		return err
 	}
 	p.factors, p.notes = append(p.factors, fs...), append(p.notes, notes...)
-	kN2O, fs, notes, err := e.emission(packName, fuel, u, "n2o_ef")
+	kN2O, fs, notes, err := e.emission(packName, fuel, u, n2o)
 	if err != nil {
 		return err
 	}
@@ -360,7 +382,13 @@ func callFuel(kind planKind, toIndex int, toDefault string) func(e *Engine, c *c
 		if err != nil {
 			return 0, "", err
 		}
-		p, err := e.fuelPlan(planKey{kind: kind, pack: pack, fuel: fuel, unit: unit, to: to})
+		sector := ""
+		if kind == kindCO2e {
+			if sector, err = a.optStr(packIndex+1, ""); err != nil {
+				return 0, "", err
+			}
+		}
+		p, err := e.fuelPlan(planKey{kind: kind, pack: pack, fuel: fuel, unit: unit, to: to, sector: sector})
 		if err != nil {
 			return 0, "", withFunc(err, a.fn.Name)
 		}

@@ -42,8 +42,8 @@ func ExampleEngine_Compile() {
 		fmt.Println(funcs.FormatNumber(res.Value), res.Unit, res.Notes)
 	}
 	// Output:
-	// 56.1545 t CO2e [CO2e with GWP-100 AR5: CH4 28, N2O 265]
-	// 6.393498 t CO2e [fuel "diesel" read as gas_diesel_oil CO2e with GWP-100 AR5: CH4 28, N2O 265]
+	// 56.1545 t CO2e [CO2e with GWP-100 AR5: CH4 28, N2O 265 CH4 and N2O of stationary combustion in energy industries (sector energy, the default)]
+	// 6.393498 t CO2e [fuel "diesel" read as gas_diesel_oil CO2e with GWP-100 AR5: CH4 28, N2O 265 CH4 and N2O of stationary combustion in energy industries (sector energy, the default)]
 }
 
 // Compile errors point at the column.

@@ -91,6 +91,8 @@ func quantityFamilies() []map[string]quantitySpec {
 	return []map[string]quantitySpec{
 		gridQuantities(),
 		fugitiveQuantities(),
+		sectorQuantities(),
+		mobileQuantities(),
 	}
 }
 

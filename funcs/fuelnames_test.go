@@ -76,7 +76,7 @@ func TestNotFuels(t *testing.T) {
 		"Electric":       `"Electric" (electricity) is not a fuel`,
 		"Chilled Water":  `"Chilled Water" (chilled water) is not a fuel`,
 		"WO":             `"WO" (waste or other oil (US EIA code)) is a fuel fluecell has no id for`,
-		"Landfill Gas":   `"Landfill Gas" (landfill gas) is a fuel fluecell has no id for`,
+		"Black Liquor":   `"Black Liquor" (black liquor) is a fuel fluecell has no id for`,
 		"Gas Fuel Cell":  `unknown fuel "Gas Fuel Cell"`,
 		"Cogen Electric": `unknown fuel "Cogen Electric"`,
 	} {

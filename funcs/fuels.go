@@ -69,6 +69,14 @@ func builtinFuels() []Fuel {
 		{ID: "ethanol", Name: "ethanol (biogasoline)", Biogenic: true},
 		{ID: "biodiesel", Name: "biodiesel", Biogenic: true},
 		{ID: "renewable_diesel", Name: "renewable diesel (hydrotreated vegetable oil)", Biogenic: true},
+		{ID: "coal_coke", Name: "coke oven coke", Family: "coal", Aliases: []string{"coke oven coke", "metallurgical coke", "lignite coke"}},
+		{ID: "lubricants", Name: "lubricants", Family: "oil", Aliases: []string{"lubricating oil", "lube oil"}},
+		{ID: "waste_oil", Name: "waste oils", Family: "oil", Aliases: []string{"waste oils", "used oil"}},
+		{ID: "refinery_gas", Name: "refinery gas (fuel gas)", Family: "gas", Aliases: []string{"refinery fuel gas", "still gas"}},
+		{ID: "blast_furnace_gas", Name: "blast furnace gas", Family: "gas"},
+		{ID: "coke_oven_gas", Name: "coke oven gas", Family: "gas"},
+		{ID: "landfill_gas", Name: "landfill gas", Family: "gas", Biogenic: true},
+		{ID: "municipal_solid_waste", Name: "municipal solid waste"},
 	}
 }
 

@@ -29,18 +29,20 @@ const (
 
 // Default factors of the ipcc2006 and common packs (funcs/data).
 const (
-	gasEF      = 56100.0 // kg CO2/TJ natural gas: IPCC 2006 Vol 2 Ch 1 Table 1.4
-	dieselEF   = 74100.0 // kg CO2/TJ gas/diesel oil: IPCC 2006 Vol 2 Ch 1 Table 1.4
-	coalEF     = 94600.0 // kg CO2/TJ other bituminous coal: IPCC 2006 Vol 2 Ch 1 Table 1.4
-	gasNCV     = 48.0    // TJ/Gg natural gas: IPCC 2006 Vol 2 Ch 1 Table 1.2
-	dieselNCV  = 43.0    // TJ/Gg gas/diesel oil: IPCC 2006 Vol 2 Ch 1 Table 1.2
-	coalNCV    = 25.8    // TJ/Gg other bituminous coal: IPCC 2006 Vol 2 Ch 1 Table 1.2
-	dieselRho  = 832.5   // kg/m3: EN 590 density limits, midpoint (the pack marks it from memory)
-	gasRho     = 0.75    // kg/m3 pipeline gas at 15 °C (the pack marks it from memory)
-	gasNetGr   = 0.90    // NCV/GCV of gas: IPCC 2006 Vol 2 Ch 1 section 1.4.1 (the pack marks it from memory)
-	oilNetGr   = 0.95    // NCV/GCV of oil: IPCC 2006 Vol 2 Ch 1 section 1.4.1 (from memory)
-	coalNetGr  = 0.95    // NCV/GCV of coal: IPCC 2006 Vol 2 Ch 1 section 1.4.1 (from memory)
-	kgPerTonne = 1000.0  // SI
+	gasEF      = 56100.0        // kg CO2/TJ natural gas: IPCC 2006 Vol 2 Ch 1 Table 1.4
+	dieselEF   = 74100.0        // kg CO2/TJ gas/diesel oil: IPCC 2006 Vol 2 Ch 1 Table 1.4
+	coalEF     = 94600.0        // kg CO2/TJ other bituminous coal: IPCC 2006 Vol 2 Ch 1 Table 1.4
+	gasNCV     = 48.0           // TJ/Gg natural gas: IPCC 2006 Vol 2 Ch 1 Table 1.2
+	dieselNCV  = 43.0           // TJ/Gg gas/diesel oil: IPCC 2006 Vol 2 Ch 1 Table 1.2
+	coalNCV    = 25.8           // TJ/Gg other bituminous coal: IPCC 2006 Vol 2 Ch 1 Table 1.2
+	dieselRho  = 832.5          // kg/m3: EN 590 density limits, midpoint (the pack marks it from memory)
+	gasHHVscf  = 1.026e-3       // MMBtu/scf natural gas: 40 CFR 98 Table C-1 (the ipcc2006 pack's volume path)
+	m3PerScf   = 0.028316846592 // m3 per cubic foot: NIST SP 811
+	gjPerMMBtu = 1.05505585262  // GJ per MMBtu (Btu IT): NIST SP 811
+	gasNetGr   = 0.90           // NCV/GCV of gas: IPCC 2006 Vol 2 Ch 1 section 1.4.1 (the pack marks it from memory)
+	oilNetGr   = 0.95           // NCV/GCV of oil: IPCC 2006 Vol 2 Ch 1 section 1.4.1 (from memory)
+	coalNetGr  = 0.95           // NCV/GCV of coal: IPCC 2006 Vol 2 Ch 1 section 1.4.1 (from memory)
+	kgPerTonne = 1000.0         // SI
 )
 
 // Tonnes of CO2 worked by hand from the factors above.
@@ -48,8 +50,10 @@ const (
 // gasGrossT is t CO2 from natural gas given in J on a gross (HHV) basis.
 func gasGrossT(j float64) float64 { return j / 1e12 * gasNetGr * gasEF / kgPerTonne }
 
-// gasVolT is t CO2 from m3 of natural gas: density, then NCV.
-func gasVolT(m3 float64) float64 { return m3 * gasRho / 1e6 * gasNCV * gasEF / kgPerTonne }
+// gasVolT is t CO2 from m3 of natural gas: heat content per scf (HHV), then NCV.
+func gasVolT(m3 float64) float64 {
+	return m3 / m3PerScf * gasHHVscf * gjPerMMBtu * gasNetGr * gasEF / 1e6
+}
 
 // dieselT is t CO2 from litres of diesel: density, then NCV.
 func dieselT(l float64) float64 {

@@ -52,7 +52,7 @@ type unitDoc struct {
 	Symbol     string   `json:"symbol"`
 	Name       string   `json:"name"`
 	Dimension  string   `json:"dimension"`
-	SIFactor   string   `json:"si_factor"` // exact decimal: 1 unit = si_factor si_unit
+	SIFactor   string   `json:"si_factor"` // exact decimal (a fraction n/d where none is finite): 1 unit = si_factor si_unit
 	SIUnit     string   `json:"si_unit"`
 	UsualBasis string   `json:"usual_basis,omitempty"`
 	Spellings  []string `json:"spellings"`
@@ -72,6 +72,10 @@ func siUnit(d units.Dimension) string {
 		return "W"
 	case units.Time:
 		return "s"
+	case units.Length:
+		return "m"
+	case units.Area:
+		return "m2"
 	}
 	return ""
 }

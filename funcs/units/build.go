@@ -12,7 +12,8 @@ type catalog struct {
 	units   []Unit     // index 0 is the zero Unit
 	si      []*big.Rat // exact factor to the SI base, by unit id
 	siFloat []float64  // si times each magnitude, rounded once: [id*numScales+scale]
-	exact   []string   // si as an exact decimal string
+	exact   []string   // si as an exact decimal string (a fraction when it has no finite decimal)
+	ref     []string   // gas reference conditions, by unit id (see Unit.Reference)
 	spell   [][]string // other accepted spellings, by unit id
 	pos     []int      // position of the unit within its dimension
 	dimLen  [numDims]int
@@ -46,6 +47,7 @@ func build(defs []unitDef, ambs []ambiguity) *catalog {
 		si:       []*big.Rat{nil},
 		siFloat:  make([]float64, numScales),
 		exact:    []string{""},
+		ref:      []string{""},
 		spell:    [][]string{nil},
 		pos:      []int{0},
 		exactMap: map[string]uint16{},
@@ -70,8 +72,8 @@ func build(defs []unitDef, ambs []ambiguity) *catalog {
 		c.suggest = append(c.suggest, candidate{fold: []rune(k), id: id, symbol: symbol})
 	}
 	for _, d := range defs {
-		f, ok := new(big.Rat).SetString(d.factor)
-		if !ok || f.Sign() <= 0 || !d.dim.valid() {
+		f, ok := parseFactor(d.factor)
+		if !ok || f.Sign() <= 0 || !d.dim.valid() || d.ref != "" && d.dim != Volume {
 			panic("units: bad factor or dimension for " + d.sym)
 		}
 		if d.of != "" {
@@ -92,11 +94,12 @@ func build(defs []unitDef, ambs []ambiguity) *catalog {
 		if d.of != "" {
 			c.addScaled(id, d)
 		}
-		c.exact = append(c.exact, decimal(f))
+		c.exact = append(c.exact, exactString(f))
+		c.ref = append(c.ref, d.ref)
 		c.spell = append(c.spell, append(slices.Clone(d.spell), d.exactOnly...))
 		c.pos = append(c.pos, c.dimLen[d.dim])
 		c.dimLen[d.dim]++
-		addSpelling(d.sym, id, true, true)
+		addSpelling(d.sym, id, !d.symExact, true)
 		for _, s := range d.spell {
 			addSpelling(s, id, true, false)
 		}
@@ -188,7 +191,7 @@ func (c *catalog) addScaled(id uint16, d unitDef) {
 	base := c.exactMap[d.of]
 	for scale := uint8(1); scale < numScales; scale++ {
 		_, exp := magnitudeWord(scale)
-		if f, ok := new(big.Rat).SetString(d.factor); ok && f.Cmp(pow10(exp)) == 0 {
+		if f, ok := parseFactor(d.factor); ok && f.Cmp(pow10(exp)) == 0 {
 			if _, dup := c.scaled[scaledKey{base, scale}]; !dup {
 				c.scaled[scaledKey{base, scale}] = id
 			}
@@ -211,9 +214,24 @@ func (c *catalog) known(u Unit) bool {
 		u.Symbol[len(w)] == ' ' && strings.HasSuffix(u.Symbol, base)
 }
 
-// decimal writes r exactly as a decimal number without exponent. It panics if r has no finite
-// decimal expansion (the table holds decimal factors only).
-func decimal(r *big.Rat) string {
+// parseFactor reads an exact decimal ("3.785411784", "1e6") or a ratio of two exact decimals
+// ("288.15/273.15").
+func parseFactor(s string) (*big.Rat, bool) {
+	num, den, isRatio := strings.Cut(s, "/")
+	f, ok := new(big.Rat).SetString(num)
+	if !ok || !isRatio {
+		return f, ok
+	}
+	d, ok := new(big.Rat).SetString(den)
+	if !ok || d.Sign() == 0 {
+		return nil, false
+	}
+	return f.Quo(f, d), true
+}
+
+// exactString writes r exactly: as a decimal number without exponent when r has a finite
+// decimal expansion ("0.003785411784"), else as a reduced fraction ("5763/5463").
+func exactString(r *big.Rat) string {
 	num := new(big.Int).Abs(r.Num())
 	ten := big.NewInt(10)
 	rem := new(big.Int)
@@ -223,5 +241,5 @@ func decimal(r *big.Rat) string {
 		}
 		num.Mul(num, ten)
 	}
-	panic("units: factor " + r.String() + " is not a finite decimal")
+	return r.String()
 }

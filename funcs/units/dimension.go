@@ -12,12 +12,18 @@ const (
 	Volume                      // m3
 	Power                       // W
 	Time                        // s
+	Length                      // m
+	Area                        // m2
 )
 
-// numDims is one more than the largest Dimension, for arrays indexed by Dimension.
-const numDims = int(Time) + 1
+// lastDim is the largest Dimension; numDims is one more, for arrays indexed by Dimension.
+const (
+	lastDim = Area
+	numDims = int(lastDim) + 1
+)
 
-// String returns "energy", "mass", "volume", "power" or "time"; "Dimension(n)" for other values.
+// String returns "energy", "mass", "volume", "power", "time", "length" or "area";
+// "Dimension(n)" for other values.
 func (d Dimension) String() string {
 	switch d {
 	case Energy:
@@ -30,20 +36,24 @@ func (d Dimension) String() string {
 		return "power"
 	case Time:
 		return "time"
+	case Length:
+		return "length"
+	case Area:
+		return "area"
 	}
 	return "Dimension(" + strconv.Itoa(int(d)) + ")"
 }
 
-// article returns the dimension with its indefinite article: "an energy", "a mass".
+// article returns the dimension with its indefinite article: "an energy", "a mass", "an area".
 func (d Dimension) article() string {
-	if d == Energy {
-		return "an energy"
+	if d == Energy || d == Area {
+		return "an " + d.String()
 	}
 	return "a " + d.String()
 }
 
 // valid reports whether d is one of the declared dimensions.
-func (d Dimension) valid() bool { return d >= Energy && d <= Time }
+func (d Dimension) valid() bool { return d >= Energy && d <= lastDim }
 
 // Basis is the heating-value basis an energy figure is stated on.
 type Basis uint8

@@ -95,6 +95,12 @@ func TestFactorsAgainstSources(t *testing.T) {
 		{"MMcf", "28316.846592", "definition (10^6 scf)"},
 		{"Bcf", "28316846.592", "definition (10^9 scf)"},
 		{"Tcf", "28316846592", "definition (10^12 scf)"},
+		{"Sm3", "1", "ISO 13443 (m3 at standard reference conditions 15 °C, 101.325 kPa)"},
+		{"kSm3", "1000", "ISO 13443, SI prefix k"},
+		{"MSm3", "1000000", "ISO 13443, SI prefix M"},
+		{"Nm3", "1921/1821", "288.15/273.15 reduced: ISO 13443 (288.15 K) and normal conditions (273.15 K) at 101.325 kPa, ideal gas"},
+		{"kNm3", "1921000/1821", "normal conditions, SI prefix k"},
+		{"MNm3", "1921000000/1821", "normal conditions, SI prefix M"},
 		// Power, W.
 		{"W", "1", "SI"},
 		{"kW", "1000", "SI prefix k"},
@@ -107,6 +113,16 @@ func TestFactorsAgainstSources(t *testing.T) {
 		{"h", "3600", "SI Brochure (hour = 3600 s)"},
 		{"d", "86400", "SI Brochure (day = 86 400 s)"},
 		{"yr", "31536000", "definition (365-day year)"},
+		// Length, m.
+		{"m", "1", "SI base unit"},
+		{"km", "1000", "SI prefix k"},
+		{"mi", "1609.344", "NIST SP 811 Appendix B.8 (mile, international = 1.609344 E+03 m, exact)"},
+		{"nmi", "1852", "NIST SP 811 Appendix B.8 (mile, nautical = 1.852 E+03 m); SI Brochure Table 8"},
+		// Area, m2.
+		{"m2", "1", "SI"},
+		{"ft2", "0.09290304", "NIST SP 811 Appendix B.8 (square foot = 9.290304 E-02 m2, exact)"},
+		{"ha", "10000", "SI Brochure Table 8 (hectare = 1 hm2 = 10^4 m2)"},
+		{"km2", "1000000", "SI (km)^2"},
 	}
 	seen := map[string]bool{}
 	for _, r := range rows {
@@ -173,6 +189,13 @@ func TestFactorDerivations(t *testing.T) {
 		{"long_ton = 2240 lb", ratio("long_ton", "lb"), big.NewRat(2240, 1), "NIST SP 811 Appendix B.8"},
 		{"Dth = MMBtu", ratio("Dth", "MMBtu"), big.NewRat(1, 1), "definition (dekatherm = 10 therm = 10^6 Btu)"},
 		{"Gg = kt", ratio("Gg", "kt"), big.NewRat(1, 1), "SI prefixes"},
+		{"mi = 5280 ft", mustParse(t, "mi").SI(), new(big.Rat).Mul(big.NewRat(5280, 1), foot), "NIST SP 811 Appendix B.8 (mile = 5280 ft; foot = 0.3048 m)"},
+		{"ft2 = ft x ft", mustParse(t, "ft2").SI(), new(big.Rat).Mul(foot, foot), "NIST SP 811 Appendix B.8 (foot = 0.3048 m)"},
+		{"ha = hm2", ratio("ha", "m2"), new(big.Rat).Mul(big.NewRat(100, 1), big.NewRat(100, 1)), "SI Brochure Table 8 (hectare = 1 hm2)"},
+		{"km2 = km x km", ratio("km2", "m2"), new(big.Rat).Mul(ratio("km", "m"), ratio("km", "m")), "SI"},
+		{"Nm3/Sm3 = T_std/T_normal", ratio("Nm3", "Sm3"), new(big.Rat).Quo(new(big.Rat).Add(rat(t, "273.15"), rat(t, "15")), rat(t, "273.15")),
+			"ISO 13443 (15 °C) and normal conditions (0 °C), both 101.325 kPa: ideal gas V proportional to T"},
+		{"MNm3 = 10^6 Nm3", ratio("MNm3", "Nm3"), big.NewRat(1_000_000, 1), "SI prefix M"},
 		{"TWyr / Julian TWyr = 365/365.25", new(big.Rat).Quo(mustParse(t, "TWyr").SI(), rat(t, "3.15576e19")),
 			new(big.Rat).Quo(big.NewRat(365, 1), rat(t, "365.25")), "Julian year 365.25 d (IAU); the table uses 365 d"},
 	}
@@ -199,6 +222,9 @@ func TestNISTPrintedValues(t *testing.T) {
 		{"gal", 3.785412e-3}, // gallon US to m3
 		{"bbl", 1.589873e-1}, // barrel for petroleum to m3
 		{"scf", 2.831685e-2}, // cubic foot to m3
+		{"mi", 1.609344e3},   // mile (international) to m
+		{"nmi", 1.852e3},     // mile, nautical to m
+		{"ft2", 9.290304e-2}, // square foot to m2
 	}
 	for _, r := range rows {
 		got := mustParse(t, r.sym).SIFloat()

@@ -29,7 +29,7 @@ func TestList(t *testing.T) {
 			t.Errorf("List not sorted by dimension then factor: %s before %s", prev.Symbol, e.Symbol)
 		}
 	}
-	for d := Energy; d <= Time; d++ {
+	for d := Energy; d <= lastDim; d++ {
 		n := 0
 		for _, e := range list {
 			if e.Dim == d {
@@ -40,11 +40,16 @@ func TestList(t *testing.T) {
 			t.Errorf("no %s units listed", d)
 		}
 	}
-	// Exact is a plain decimal: no exponent, no trailing zeros after a point.
+	// Exact is a plain decimal: no exponent, no trailing zeros after a point; a reduced
+	// fraction only where the factor has no finite decimal (Nm3).
 	plain := regexp.MustCompile(`^(0|[1-9][0-9]*)(\.[0-9]*[1-9])?$`)
+	fraction := regexp.MustCompile(`^[1-9][0-9]*/[1-9][0-9]*$`)
 	for _, e := range list {
-		if !plain.MatchString(e.Exact) {
-			t.Errorf("%s: Exact %q is not a plain shortest decimal", e.Symbol, e.Exact)
+		if !plain.MatchString(e.Exact) && !fraction.MatchString(e.Exact) {
+			t.Errorf("%s: Exact %q is neither a plain shortest decimal nor a fraction", e.Symbol, e.Exact)
+		}
+		if fraction.MatchString(e.Exact) && finiteDecimal(e.SI()) {
+			t.Errorf("%s: Exact %q is a fraction, but the factor has a finite decimal", e.Symbol, e.Exact)
 		}
 	}
 }
@@ -65,7 +70,8 @@ func TestListIsACopy(t *testing.T) {
 }
 
 func TestListExamples(t *testing.T) {
-	want := map[string]string{"Btu": "1055.05585262", "gal": "0.003785411784", "TWyr": "31536000000000000000", "mL": "0.000001"}
+	want := map[string]string{"Btu": "1055.05585262", "gal": "0.003785411784", "TWyr": "31536000000000000000", "mL": "0.000001",
+		"Nm3": "1921/1821", "mi": "1609.344", "ft2": "0.09290304"} // 288.15/273.15 = 1921/1821
 	for _, e := range List() {
 		if w, ok := want[e.Symbol]; ok && e.Exact != w {
 			t.Errorf("%s Exact = %q, want %q", e.Symbol, e.Exact, w)
@@ -82,4 +88,18 @@ func TestListExamples(t *testing.T) {
 			}
 		}
 	}
+}
+
+// finiteDecimal reports whether r has a finite decimal expansion: its reduced denominator has
+// no prime factor but 2 and 5.
+func finiteDecimal(r *big.Rat) bool {
+	d := new(big.Int).Set(r.Denom())
+	m := new(big.Int)
+	for _, p := range []int64{2, 5} {
+		bp := big.NewInt(p)
+		for m.Rem(d, bp).Sign() == 0 {
+			d.Quo(d, bp)
+		}
+	}
+	return d.Cmp(big.NewInt(1)) == 0
 }

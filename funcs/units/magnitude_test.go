@@ -90,7 +90,7 @@ func TestRecordSpellings(t *testing.T) {
 // mulDec multiplies two exact decimals and writes the product as a decimal.
 func mulDec(t *testing.T, a, b string) string {
 	t.Helper()
-	return decimal(rat(t, a).Mul(rat(t, a), rat(t, b)))
+	return exactString(rat(t, a).Mul(rat(t, a), rat(t, b)))
 }
 
 // TestDerivedUnitsConvert: a magnitude word converts exactly to the named unit it equals.

@@ -18,8 +18,7 @@ func TestWorkbookSpellings(t *testing.T) {
 	}
 	for in, want := range map[string]string{
 		"lt":  `ambiguous unit "lt": write L (litre) or long_ton (2240 lb)`,
-		"Nm3": `ambiguous unit "Nm3": a gas volume at reference conditions (0 °C or 15 °C) that fluecell does not convert between; write GJ`,
-		"scm": `ambiguous unit "scm"`,
+		"scm": `ambiguous unit "scm": standard cubic metre at 15 °C (ISO 13443) or at 20 °C (US EPA); write Sm3`,
 	} {
 		_, err := Parse(in)
 		if err == nil || !strings.HasPrefix(err.Error(), want) {

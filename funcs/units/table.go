@@ -7,10 +7,15 @@ type unitDef struct {
 	name   string
 	dim    Dimension
 	usual  Basis
-	factor string // exact decimal
+	factor string // exact decimal, or a ratio of two exact decimals "288.15/273.15"
 	of     string // symbol of an earlier unit of the same dimension; "" for the SI base
 	source string
-	spell  []string // other spellings, matched exactly, then case-insensitively when unique
+	// ref is the gas reference conditions of a volume unit that states them (Sm3, Nm3, scf):
+	// see Unit.Reference. "" for a plain volume or another dimension.
+	ref string
+	// symExact makes the symbol itself match only as written: "m" must not catch "M".
+	symExact bool
+	spell    []string // other spellings, matched exactly, then case-insensitively when unique
 	// exactOnly spellings are matched only as written: "a" (year) must not catch "A" (ampere).
 	exactOnly []string
 }
@@ -45,8 +50,14 @@ func unitDefs() []unitDef {
 		// Steam is billed per thousand pounds, written Mlb (City of Duluth Resolution
 		// 06-0351R: "per thousand pounds of steam (Mlbs)") or klb.
 		steam = "NIST SP 811 (lb); US steam billing: Mlb = klb = 1000 lb (City of Duluth Resolution 06-0351R)"
+		// Gas reference conditions (see Unit.Reference).
+		isoRef = "ISO 13443 (standard reference conditions 15 °C, 101.325 kPa)"
+		normal = "normal conditions 0 °C, 101.325 kPa (common practice); ideal gas: 1 Nm3 = 288.15/273.15 Sm3"
+		sm3Ref = StandardReference
+		nm3Ref = "0 °C, 101.325 kPa (normal conditions)"
+		scfRef = "60 °F, 14.696 psia (40 CFR 98.6)"
 	)
-	e, m, v, p, t := Energy, Mass, Volume, Power, Time
+	e, m, v, p, t, l, ar := Energy, Mass, Volume, Power, Time, Length, Area
 	return []unitDef{
 		// Energy, SI base J.
 		{sym: "J", name: "joule", dim: e, factor: "1", source: si, spell: []string{"joule", "joules"}},
@@ -114,13 +125,25 @@ func unitDefs() []unitDef {
 		// factor is the cubic foot, so the m3 it converts to is at the same standard conditions.
 		// "Cubic feet" alone is not read as scf: only standard cubic feet, or the gas trade's
 		// Mcf, MMcf and their spelled forms ("Million cubic feet"), imply standard conditions.
-		{sym: "scf", name: "standard cubic foot (60 °F, 14.696 psia)", dim: v, factor: "0.028316846592", source: scf, spell: []string{"standard cubic foot", "standard cubic feet"}},
+		{sym: "scf", name: "standard cubic foot (60 °F, 14.696 psia)", dim: v, factor: "0.028316846592", source: scf, ref: scfRef, spell: []string{"standard cubic foot", "standard cubic feet"}},
 		// C = 100 (Roman numeral), as on US gas bills (common practice).
-		{sym: "ccf", name: "hundred standard cubic feet", dim: v, factor: "100", of: "scf", source: scf + "; C = 100 (common practice)", spell: []string{"hundred cubic feet"}},
-		{sym: "Mcf", name: "thousand standard cubic feet", dim: v, factor: "1e3", of: "scf", source: scf + "; " + oilGas, spell: []string{"Mscf", "thousand cubic feet"}},
-		{sym: "MMcf", name: "million standard cubic feet", dim: v, factor: "1e6", of: "scf", source: scf + "; " + oilGas, spell: []string{"MMscf", "million cubic feet"}},
-		{sym: "Bcf", name: "billion standard cubic feet", dim: v, factor: "1e9", of: "scf", source: scf + "; " + bt, spell: []string{"billion cubic feet"}},
-		{sym: "Tcf", name: "trillion standard cubic feet", dim: v, factor: "1e12", of: "scf", source: scf + "; " + bt, spell: []string{"trillion cubic feet"}},
+		{sym: "ccf", name: "hundred standard cubic feet", dim: v, factor: "100", of: "scf", source: scf + "; C = 100 (common practice)", ref: scfRef, spell: []string{"hundred cubic feet"}},
+		{sym: "Mcf", name: "thousand standard cubic feet", dim: v, factor: "1e3", of: "scf", source: scf + "; " + oilGas, ref: scfRef, spell: []string{"Mscf", "thousand cubic feet"}},
+		{sym: "MMcf", name: "million standard cubic feet", dim: v, factor: "1e6", of: "scf", source: scf + "; " + oilGas, ref: scfRef, spell: []string{"MMscf", "million cubic feet"}},
+		{sym: "Bcf", name: "billion standard cubic feet", dim: v, factor: "1e9", of: "scf", source: scf + "; " + bt, ref: scfRef, spell: []string{"billion cubic feet"}},
+		{sym: "Tcf", name: "trillion standard cubic feet", dim: v, factor: "1e12", of: "scf", source: scf + "; " + bt, ref: scfRef, spell: []string{"trillion cubic feet"}},
+
+		// Gas volumes at reference conditions. Sm3 is 1 m3 of gas at the standard reference
+		// conditions of ISO 13443, 15 °C and 101.325 kPa, so a plain m3 of gas is an Sm3 (see
+		// GasVolumeNote). Nm3 is 1 m3 at 0 °C and 101.325 kPa: the same amount of an ideal gas
+		// fills 288.15/273.15 m3 at 15 °C. Real gases differ slightly; the ratio is exact for an
+		// ideal gas only. k = 10^3 and M = 10^6 (SI prefixes, as in the European gas trade).
+		{sym: "Sm3", name: "standard cubic metre (15 °C, 101.325 kPa)", dim: v, factor: "1", of: "m3", source: isoRef, ref: sm3Ref, spell: []string{"Sm³", "Sm^3", "standard m3", "standard m³", "standard cubic metre", "standard cubic metres", "standard cubic meter", "standard cubic meters"}},
+		{sym: "kSm3", name: "thousand standard cubic metres", dim: v, factor: "1e3", of: "Sm3", source: isoRef + "; SI prefix k", ref: sm3Ref, spell: []string{"kSm³"}},
+		{sym: "MSm3", name: "million standard cubic metres", dim: v, factor: "1e6", of: "Sm3", source: isoRef + "; SI prefix M", ref: sm3Ref, spell: []string{"MSm³"}},
+		{sym: "Nm3", name: "normal cubic metre (0 °C, 101.325 kPa)", dim: v, factor: "288.15/273.15", of: "Sm3", source: normal, ref: nm3Ref, spell: []string{"Nm³", "Nm^3", "normal m3", "normal m³", "normal cubic metre", "normal cubic metres", "normal cubic meter", "normal cubic meters"}},
+		{sym: "kNm3", name: "thousand normal cubic metres", dim: v, factor: "1e3", of: "Nm3", source: normal + "; SI prefix k", ref: nm3Ref, spell: []string{"kNm³"}},
+		{sym: "MNm3", name: "million normal cubic metres", dim: v, factor: "1e6", of: "Nm3", source: normal + "; SI prefix M", ref: nm3Ref, spell: []string{"MNm³"}},
 
 		// Power, SI base W. The e (electric), p (peak) and th (thermal) suffixes say what is
 		// measured, not a different unit.
@@ -136,6 +159,19 @@ func unitDefs() []unitDef {
 		{sym: "h", name: "hour", dim: t, factor: "3600", source: si, spell: []string{"hr", "hrs", "hour", "hours"}},
 		{sym: "d", name: "day", dim: t, factor: "86400", source: si, spell: []string{"day", "days"}},
 		{sym: "yr", name: "year (365 days)", dim: t, factor: "365", of: "d", source: year365, spell: []string{"year", "years"}, exactOnly: []string{"a"}},
+
+		// Length, SI base m. "M" is no spelling of the metre (it is a prefix, and a thousand
+		// in US oil and gas usage).
+		{sym: "m", name: "metre", dim: l, factor: "1", source: si, symExact: true, spell: []string{"metre", "metres", "meter", "meters"}},
+		{sym: "km", name: "kilometre", dim: l, factor: "1e3", of: "m", source: si, spell: []string{"kilometre", "kilometres", "kilometer", "kilometers", "kms"}},
+		{sym: "mi", name: "mile (international)", dim: l, factor: "1609.344", of: "m", source: "NIST SP 811 (mile, international)", spell: []string{"mile", "miles", "international mile", "international miles"}},
+		{sym: "nmi", name: "nautical mile", dim: l, factor: "1852", of: "m", source: "NIST SP 811 (nautical mile); SI Brochure Table 8", spell: []string{"nautical mile", "nautical miles"}},
+
+		// Area, SI base m2.
+		{sym: "m2", name: "square metre", dim: ar, factor: "1", source: si, spell: []string{"m²", "m^2", "sq m", "sqm", "square metre", "square metres", "square meter", "square meters"}},
+		{sym: "ft2", name: "square foot", dim: ar, factor: "0.09290304", of: "m2", source: "NIST SP 811 (square foot)", spell: []string{"ft²", "ft^2", "sq ft", "sqft", "sq. ft.", "square foot", "square feet"}},
+		{sym: "ha", name: "hectare", dim: ar, factor: "1e4", of: "m2", source: "SI Brochure Table 8 (hectare = 10^4 m2)", spell: []string{"hectare", "hectares"}},
+		{sym: "km2", name: "square kilometre", dim: ar, factor: "1e6", of: "m2", source: si, spell: []string{"km²", "km^2", "sq km", "square kilometre", "square kilometres", "square kilometer", "square kilometers"}},
 	}
 }
 
@@ -160,8 +196,9 @@ func ambiguities() []ambiguity {
 		{spell: []string{"cal", "calorie", "calories"}, note: "the calorie has several definitions",
 			alts: []alt{{"kcal", "International Table calorie"}, {"J", "joule"}}},
 		{spell: []string{"lt", "LT"}, alts: []alt{{"L", "litre"}, {"long_ton", "2240 lb"}}},
-		{spell: []string{"Nm3", "Nm³", "Sm3", "Sm³", "scm", "SCM", "normal cubic metre", "normal cubic metres", "standard cubic metre", "standard cubic metres"},
-			note: "a gas volume at reference conditions (0 °C or 15 °C) that fluecell does not convert between",
-			alts: []alt{{"GJ", "the energy on the gas bill, or kWh"}, {"scf", "standard cubic feet at 60 °F, with pack epa2025"}}},
+		// 40 CFR 60.2 defines scm at 20 °C and 101.325 kPa (from memory); elsewhere scm is the
+		// ISO 13443 standard cubic metre.
+		{spell: []string{"scm", "SCM"}, note: "standard cubic metre at 15 °C (ISO 13443) or at 20 °C (US EPA)",
+			alts: []alt{{"Sm3", "standard cubic metre, 15 °C, 101.325 kPa"}, {"Nm3", "normal cubic metre, 0 °C, 101.325 kPa"}}},
 	}
 }
