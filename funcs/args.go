@@ -5,6 +5,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"github.com/fluecell/fluecell/funcs/units"
 )
 
 // argList holds the arguments of one call, positionally, after defaults: a
@@ -24,7 +26,7 @@ func (a argList) num(i int) (float64, error) {
 		return 0, &Error{Code: CodeBadArgument, Func: a.fn.Name, Param: p.Name, Msg: "expected a number, got " + describe(a.vals[i])}
 	}
 	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return 0, &Error{Code: CodeArithmetic, Func: a.fn.Name, Param: p.Name, Msg: "expected a finite number, got " + FormatNumber(v)}
+		return 0, &Error{Code: CodeArithmetic, Func: a.fn.Name, Param: p.Name, Msg: "expected a finite number " + float64Range + ", got " + FormatNumber(v)}
 	}
 	return v, nil
 }
@@ -54,6 +56,43 @@ func (a argList) optNum(i int) (float64, bool, error) {
 	}
 	v, err := a.num(i)
 	return v, err == nil, err
+}
+
+// Notes every call carries, from its arguments.
+const (
+	// NegativeAmountNote is noted when an amount parameter is negative: it is computed as
+	// given (a negative emission), which is right for a return or a correction only.
+	NegativeAmountNote = "negative amount: a return or correction?"
+	// amountParam is the name of the parameter holding a quantity consumed (fuel burned,
+	// electricity used) in every function that takes one.
+	amountParam = "amount"
+	// unitParamUnit is Param.Unit of a parameter that holds a unit string.
+	unitParamUnit = "unit string"
+)
+
+// notes returns the notes the arguments call for: the note of a unit string read by
+// convention (units.SpellingNote: a bare gallon is the US gallon) for every unit parameter,
+// and NegativeAmountNote for a negative amount.
+func (a argList) notes() []string {
+	var out []string
+	for i, p := range a.fn.Params {
+		if !a.given(i) {
+			continue
+		}
+		switch {
+		case p.Type == typeString && p.Unit == unitParamUnit:
+			if s, ok := a.vals[i].(string); ok {
+				if n := units.SpellingNote(s); n != "" {
+					out = append(out, n)
+				}
+			}
+		case p.Type == typeNumber && p.Name == amountParam:
+			if v, ok := toNumber(a.vals[i]); ok && v < 0 {
+				out = append(out, NegativeAmountNote)
+			}
+		}
+	}
+	return out
 }
 
 // toNumber accepts the number types a caller may pass (JSON decoding gives

@@ -1,6 +1,7 @@
 package funcs
 
 import (
+	"errors"
 	"math"
 	"sort"
 	"strconv"
@@ -57,6 +58,9 @@ func (e *Engine) Call(name string, args map[string]string) (Result, error) {
 			v, ok := ParseNumber(s)
 			if !ok {
 				msg := p.Name + " must be a number with \".\" as decimal separator, got " + quote(s)
+				if beyondRange(s) {
+					msg = p.Name + " " + strings.TrimSpace(s) + " is beyond the float64 range: give a number " + float64Range
+				}
 				return Result{}, &Error{Code: CodeBadArgument, Func: f.Name, Param: p.Name, Msg: msg}
 			}
 			vals[i] = v
@@ -90,12 +94,9 @@ func (e *Engine) CallValues(name string, args ...any) (Result, error) {
 
 func (e *Engine) callValues(f *Function, vals []any) (Result, error) {
 	var c callCtx
-	v, unit, err := f.call(e, &c, argList{fn: f, vals: vals})
+	v, unit, err := e.invoke(f, &c, argList{fn: f, vals: vals})
 	if err != nil {
-		return Result{}, withFunc(err, f.Name)
-	}
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return Result{}, &Error{Code: CodeArithmetic, Func: f.Name, Msg: "the result is not a finite number (" + FormatNumber(v) + "): an argument is too large"}
+		return Result{}, err
 	}
 	if v == 0 {
 		v = 0 // no negative zero in answers
@@ -104,6 +105,92 @@ func (e *Engine) callValues(f *Function, vals []any) (Result, error) {
 		unit = f.staticUnit(vals)
 	}
 	return Result{Value: v, Unit: unit, Sources: c.factors, Notes: c.notes}, nil
+}
+
+// invoke runs f with the arguments a. It adds the notes the arguments call for (see
+// argList.notes) and turns a result that is not a finite number into an error naming the
+// argument to blame and the range it accepts (see overflow). Every call of a catalog
+// function, from Call, CallValues or an expression, goes through it.
+func (e *Engine) invoke(f *Function, c *callCtx, a argList) (float64, string, error) {
+	v, unit, err := f.call(e, c, a)
+	if err != nil {
+		return 0, "", withFunc(err, f.Name)
+	}
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return 0, "", e.overflow(f, a, v)
+	}
+	c.note(a.notes()...)
+	return v, unit, nil
+}
+
+// overflow is the error of a call of f whose result v is not a finite number. When one
+// numeric argument is to blame (the result is finite with it set to 1, sign kept), the error
+// names it and the largest magnitude that gives a finite result with the other arguments as
+// given, found by bisection over the float64 values between 1 and the argument. Otherwise the
+// error says that an argument is too large.
+func (e *Engine) overflow(f *Function, a argList, v float64) error {
+	for i, p := range f.Params {
+		if p.Type != typeNumber || !a.given(i) {
+			continue
+		}
+		x, ok := toNumber(a.vals[i])
+		if !ok || math.IsNaN(x) || math.Abs(x) <= 1 {
+			continue
+		}
+		vals := make([]any, len(a.vals))
+		finite := func(y float64) bool {
+			copy(vals, a.vals)
+			vals[i] = math.Copysign(y, x)
+			r, _, err := f.call(e, &callCtx{}, argList{fn: f, vals: vals})
+			return err == nil && !math.IsNaN(r) && !math.IsInf(r, 0)
+		}
+		if !finite(1) {
+			continue
+		}
+		// Positive float64 values are ordered as their bit patterns.
+		lo, hi := math.Float64bits(1), math.Float64bits(math.Abs(x))
+		for hi-lo > 1 {
+			mid := lo + (hi-lo)/2
+			if finite(math.Float64frombits(mid)) {
+				lo = mid
+			} else {
+				hi = mid
+			}
+		}
+		limit := FormatNumber(roundDown3(math.Float64frombits(lo)))
+		return &Error{Code: CodeArithmetic, Func: f.Name, Param: p.Name,
+			Msg: p.Name + " " + FormatNumber(x) + " gives a result beyond the float64 range (" + FormatNumber(v) +
+				"): with the other arguments as given, " + p.Name + " must lie between -" + limit + " and " + limit}
+	}
+	return &Error{Code: CodeArithmetic, Func: f.Name,
+		Msg: "the result is not a finite number (" + FormatNumber(v) + "): an argument is too large"}
+}
+
+// roundDown3 rounds a positive x down to three significant digits.
+func roundDown3(x float64) float64 {
+	r, err := strconv.ParseFloat(strconv.FormatFloat(x, 'e', 2, 64), 64)
+	if err != nil || r <= x {
+		return r
+	}
+	// rounded up: step the third digit down
+	exp := math.Floor(math.Log10(r))
+	step := math.Pow(10, exp-2)
+	r, _ = strconv.ParseFloat(strconv.FormatFloat(r-step, 'e', 2, 64), 64)
+	return r
+}
+
+// float64Range is the range of finite float64 values, as an error message states it.
+const float64Range = "between -1.7976931348623157e308 and 1.7976931348623157e308"
+
+// beyondRange reports whether s is a plain decimal number too large for a float64 ("1e999").
+func beyondRange(s string) bool {
+	s = strings.TrimSpace(s)
+	if _, ok := ParseNumber(s); ok || s == "" || strings.ContainsAny(s, "nNiI") {
+		return false
+	}
+	_, err := strconv.ParseFloat(s, 64)
+	var ne *strconv.NumError
+	return errors.As(err, &ne) && ne.Err == strconv.ErrRange && !strings.ContainsAny(s, "xXpP_")
 }
 
 // staticUnit is the unit of a call's result from its declaration and, for

@@ -102,9 +102,9 @@ func TestCallErrors(t *testing.T) {
 		{"fuel_co2", map[string]string{"fuel": "diesel", "unit": "L"}, CodeBadArgument, `fuel_co2: amount: missing required parameter amount (number: quantity of fuel used)`},
 		{"fuel_co2", map[string]string{"fuel": "diesel", "amount": "1,5", "unit": "L"}, CodeBadArgument, `fuel_co2: amount must be a number with "." as decimal separator, got "1,5"`},
 		{"fuel_co2", map[string]string{"fuel": "diesel", "amount": "NaN", "unit": "L"}, CodeBadArgument, `fuel_co2: amount must be a number with "." as decimal separator, got "NaN"`},
-		{"fuel_co2", map[string]string{"fuel": "diesel", "amount": "1e999", "unit": "L"}, CodeBadArgument, `fuel_co2: amount must be a number with "." as decimal separator, got "1e999"`},
+		{"fuel_co2", map[string]string{"fuel": "diesel", "amount": "1e999", "unit": "L"}, CodeBadArgument, `fuel_co2: amount 1e999 is beyond the float64 range: give a number between -1.7976931348623157e308 and 1.7976931348623157e308`},
 		{"fuel_co2", map[string]string{"fuel": "diesel", "amount": "1", "unit": "L", "amt": "2"}, CodeBadArgument, `fuel_co2: amt: unknown parameter "amt": fuel_co2 takes fuel, amount, unit, pack`},
-		{"fuel_co2", map[string]string{"fuel": "diesel", "amount": "1e308", "unit": "t"}, CodeArithmetic, `fuel_co2: the result is not a finite number (+Inf): an argument is too large`},
+		{"fuel_co2", map[string]string{"fuel": "diesel", "amount": "1e308", "unit": "t"}, CodeArithmetic, `fuel_co2: amount 1e+308 gives a result beyond the float64 range (+Inf): with the other arguments as given, amount must lie between -5.64e+303 and 5.64e+303`},
 		{"ppm_from_gtc", map[string]string{"gtc": "1", "airborne_fraction": "-0.2"}, CodeBadArgument, `ppm_from_gtc: airborne_fraction: must lie in (0, 1], got -0.2 (the long-run observed value is about 0.44)`},
 	}
 	for _, tt := range tests {

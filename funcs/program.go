@@ -152,12 +152,9 @@ func (e *Engine) exprFunc(f *Function) func(params ...any) (any, error) {
 		if !ok || st == nil {
 			return nil, &Error{Code: CodeCompile, Func: f.Name, Msg: "internal: run state missing"}
 		}
-		v, _, err := f.call(e, &st.ctx, argList{fn: f, vals: params[1:]})
+		v, _, err := e.invoke(f, &st.ctx, argList{fn: f, vals: params[1:]})
 		if err != nil {
-			return nil, withFunc(err, f.Name)
-		}
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, &Error{Code: CodeArithmetic, Func: f.Name, Msg: "result is not a finite number"}
+			return nil, err
 		}
 		return v, nil
 	}

@@ -115,7 +115,10 @@ func buildStatic(e *funcs.Engine, version string) (staticPages, error) {
 	b, err = marshalJSON(map[string]any{"units": us, "notes": []string{
 		`An energy unit may carry a heating-value basis: "MMBtu HHV", "GJ NCV" (GCV = HHV, LHV = NCV).`,
 		"A year is 365 days (8760 h), for TWyr and for capacity factors.",
-		"Ambiguous spellings (ton, MT, MBtu, gallon without US or UK) are errors that name the alternatives.",
+		"Ambiguous spellings (ton, MT, MBtu, Mgal) are errors that name the alternatives.",
+		"Case is ignored only where it cannot change an SI prefix or read another SI unit: mwh is MWh, but mWh (milliwatt hour), mJ and mW are refused.",
+		"A bare gallon is the US gallon, with a note in results; imperial gallons are gal_imp (\"imperial gallons\", \"UK gal\").",
+		"A gas volume in m3 is read at the ISO 13443 standard reference conditions (15 °C, 101.325 kPa), i.e. as Sm3; Nm3 (0 °C) = 288.15/273.15 Sm3 for an ideal gas.",
 	}})
 	if err != nil {
 		return sp, err

@@ -8,6 +8,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/fluecell/fluecell/funcs/units"
 )
 
 // runCLI runs the whole program in-process and returns the exit code and
@@ -51,7 +53,8 @@ func TestEvalJSONAndVars(t *testing.T) {
 		t.Fatalf("%v\n%s", err, out)
 	}
 	// EPA GHG Emission Factors Hub 2025 Table 1: 0.138 MMBtu/gal x 73.96 kg CO2/MMBtu
-	if r.Value != 1000*0.138*73.96/1000 || r.Unit != "t CO2" || len(r.Sources) != 2 || len(r.Notes) != 1 {
+	// Notes: the fuel alias, and gal read as the US gallon.
+	if r.Value != 1000*0.138*73.96/1000 || r.Unit != "t CO2" || len(r.Sources) != 2 || len(r.Notes) != 2 || r.Notes[1] != units.GallonNote {
 		t.Errorf("%+v", r)
 	}
 }

@@ -25,8 +25,11 @@ type catalog struct {
 	ambig    map[string]*ambiguity // lower-cased ambiguous spellings
 	suggest  []candidate           // spellings offered as "did you mean"
 
-	prefixes []prefix             // written magnitude words ("thousand", "'000")
-	scaled   map[scaledKey]uint16 // declared units equal to a magnitude times another unit (kgal)
+	prefixes   []prefix             // written magnitude words ("thousand", "'000")
+	siPrefixes []siPrefix           // SI prefixes, for readSI
+	siBases    []prefixBase         // SI symbols, for readSI
+	notes      map[string]string    // lower-cased spellings read by convention: their note
+	scaled     map[scaledKey]uint16 // declared units equal to a magnitude times another unit (kgal)
 }
 
 // candidate is a lower-cased spelling considered for suggestions.
@@ -43,18 +46,21 @@ var table = build(unitDefs(), ambiguities())
 // programming error, caught by the tests.
 func build(defs []unitDef, ambs []ambiguity) *catalog {
 	c := &catalog{
-		units:    []Unit{{}},
-		si:       []*big.Rat{nil},
-		siFloat:  make([]float64, numScales),
-		exact:    []string{""},
-		ref:      []string{""},
-		spell:    [][]string{nil},
-		pos:      []int{0},
-		exactMap: map[string]uint16{},
-		foldMap:  map[string]uint16{},
-		ambig:    map[string]*ambiguity{},
-		prefixes: magnitudePrefixes(),
-		scaled:   map[scaledKey]uint16{},
+		units:      []Unit{{}},
+		si:         []*big.Rat{nil},
+		siFloat:    make([]float64, numScales),
+		exact:      []string{""},
+		ref:        []string{""},
+		spell:      [][]string{nil},
+		pos:        []int{0},
+		exactMap:   map[string]uint16{},
+		foldMap:    map[string]uint16{},
+		ambig:      map[string]*ambiguity{},
+		prefixes:   magnitudePrefixes(),
+		siPrefixes: siPrefixes(),
+		siBases:    prefixBases(),
+		notes:      map[string]string{},
+		scaled:     map[scaledKey]uint16{},
 	}
 	foldIDs := map[string][]uint16{}
 	addSpelling := func(s string, id uint16, fold, symbol bool) {
@@ -139,6 +145,14 @@ func build(defs []unitDef, ambs []ambiguity) *catalog {
 			if u, _, ok := c.resolveScaled(al.sym); !ok || u.Symbol != al.sym {
 				panic("units: ambiguity names unknown symbol " + al.sym)
 			}
+		}
+	}
+	for _, sn := range spellingNotes() {
+		for _, sp := range sn.spell {
+			if _, ok := c.exactMap[sp]; !ok || strings.ToLower(sp) != strings.Map(asciiLower, sp) {
+				panic("units: note for unknown or non-ASCII spelling " + sp)
+			}
+			c.notes[strings.ToLower(sp)] = sn.note
 		}
 	}
 	c.buildRatios()

@@ -53,6 +53,12 @@ func errUnknown(input, name string, want []Dimension, suggest bool) *Error {
 }
 
 func errAmbiguous(input, name string, a *ambiguity) *Error {
+	if a.refused != "" {
+		al := a.alts[0]
+		return &Error{Input: input, Code: CodeAmbiguous, Alternatives: []string{al.sym},
+			Msg: "unit " + quote(name) + " reads as " + a.refused + ", which is not accepted: for " +
+				al.desc + " write " + al.sym}
+	}
 	var b strings.Builder
 	b.WriteString("ambiguous unit ")
 	b.WriteString(quote(name))

@@ -6,7 +6,10 @@ import "slices"
 type Entry struct {
 	Unit
 	Spellings []string // other accepted spellings, e.g. "tonne", "tonnes", "metric ton"
-	Exact     string   // exact SI factor as a decimal string, e.g. "1055.05585262" (J), "0.003785411784" (m3)
+	// Exact is the exact SI factor as a decimal string, e.g. "1055.05585262" (J),
+	// "0.003785411784" (m3), or as a reduced fraction where it has no finite decimal:
+	// "1921/1821" (Nm3, 288.15/273.15 m3).
+	Exact string
 }
 
 // List returns every unit (canonical symbols, sorted by dimension then SI factor), each with

@@ -9,7 +9,10 @@ import (
 //
 // The exact spelling is tried first; then a case-insensitive match, only where it is unique
 // among all spellings and not declared ambiguous ("mwh" is MWh, but "mt" and "MT" could be t or
-// Mt, and "ml" could be mL or ML). Leading and trailing white space is ignored and inner runs of
+// Mt, and "ml" could be mL or ML), and only where the spelling as written is not an SI symbol
+// of something else: "mWh" is a milliwatt hour, "pJ" a picojoule, "T" the tesla, so they are
+// refused with Code "unit-ambiguous" and the unit the case-insensitive match would have given
+// (see prefix.go). Leading and trailing white space is ignored and inner runs of
 // white space count as one space.
 //
 // An energy unit may be followed by a basis, HHV, GCV, LHV or NCV (GCV is read as HHV and LHV as
@@ -128,14 +131,26 @@ func (c *catalog) lookupFold(n string) (uint16, *ambiguity) {
 			if a := c.ambig[string(k)]; a != nil {
 				return 0, a
 			}
-			return c.foldMap[string(k)], nil
+			return c.checkFold(n, c.foldMap[string(k)])
 		}
 	}
 	k := strings.ToLower(n)
 	if a := c.ambig[k]; a != nil {
 		return 0, a
 	}
-	return c.foldMap[k], nil
+	return c.checkFold(n, c.foldMap[k])
+}
+
+// checkFold refuses the unit id found by folding the case of n when n, as written, is an SI
+// symbol of something else (see prefixTrap).
+func (c *catalog) checkFold(n string, id uint16) (uint16, *ambiguity) {
+	if id == 0 {
+		return 0, nil
+	}
+	if a := c.prefixTrap(n, id); a != nil {
+		return 0, a
+	}
+	return id, nil
 }
 
 // normalize trims white space and folds inner runs of white space to one space. It allocates

@@ -26,6 +26,9 @@ type ambiguity struct {
 	spell []string
 	note  string // why it is ambiguous, when the alternatives do not say it
 	alts  []alt
+	// refused is the SI reading of a spelling refused because folding its case would change
+	// it ("milliwatt hour" for "mWh"); see prefixTrap.
+	refused string
 }
 
 // alt is one unit the user could have meant, with a short description.
@@ -117,7 +120,12 @@ func unitDefs() []unitDef {
 		{sym: "gal", name: "US gallon", dim: v, factor: "3.785411784", of: "L", source: "NIST SP 811 (gallon, US)", spell: []string{"gallon", "gallons", "gals", "US gal", "gal (US)", "USG", "US gallon", "US gallons"}, exactOnly: []string{"GA", "Ga", "ga"}},
 		// Water and fuel utilities bill in thousands of gallons, written kgal (common practice).
 		{sym: "kgal", name: "thousand US gallons", dim: v, factor: "1e3", of: "gal", source: "NIST SP 811 (gallon, US); k = 10^3 (common practice)", spell: []string{"kgals", "thousand gallons"}},
-		{sym: "gal_imp", name: "imperial gallon", dim: v, factor: "4.54609", of: "L", source: "UK Weights and Measures Act 1985"},
+		// A gallon is read as imperial only when the spelling says so; a bare gallon is the US
+		// gallon, and SpellingNote says so.
+		{sym: "gal_imp", name: "imperial gallon", dim: v, factor: "4.54609", of: "L", source: "UK Weights and Measures Act 1985",
+			spell: []string{"imperial gallon", "imperial gallons", "imperial gal", "imp gal", "imp. gal", "imp gallon", "imp gallons",
+				"gal (imp)", "gal (UK)", "gallon (UK)", "gallons (UK)", "gallon (imperial)", "gallons (imperial)",
+				"UK gallon", "UK gallons", "UK gal", "gal_UK"}},
 		{sym: "bbl", name: "barrel (42 US gallons)", dim: v, factor: "42", of: "gal", source: "NIST SP 811 (barrel, petroleum)", spell: []string{"barrel", "barrels", "bbls"}},
 		{sym: "Mbbl", name: "thousand barrels", dim: v, factor: "1e3", of: "bbl", source: oilGas, spell: []string{"MBbl", "MBBL", "Mbbls", "thousand barrels"}},
 		{sym: "MMbbl", name: "million barrels", dim: v, factor: "1e6", of: "bbl", source: oilGas, spell: []string{"MMBbl", "MMBBL", "MMbbls", "million barrels"}},
@@ -189,10 +197,6 @@ func ambiguities() []ambiguity {
 		// thousand (from memory).
 		{spell: []string{"Mgal", "Mgals"}, note: "M means a thousand on some bills and a million in others",
 			alts: []alt{{"kgal", "thousand US gallons"}, {"million gal", "million US gallons"}}},
-		{spell: []string{"gallon (UK)", "gallons (UK)", "gal (UK)", "UK gallon", "UK gallons", "UK gal",
-			"imperial gallon", "imperial gallons", "imp gal"},
-			note: "fluecell's gal is the US gallon",
-			alts: []alt{{"gal_imp", "imperial gallon, 4.54609 L"}, {"gal", "US gallon, 3.785411784 L"}}},
 		{spell: []string{"cal", "calorie", "calories"}, note: "the calorie has several definitions",
 			alts: []alt{{"kcal", "International Table calorie"}, {"J", "joule"}}},
 		{spell: []string{"lt", "LT"}, alts: []alt{{"L", "litre"}, {"long_ton", "2240 lb"}}},

@@ -8,7 +8,7 @@ import (
 // Unit is one unit of the table, as returned by Parse, ParseAs or List. The zero Unit is no
 // unit: Factor, Ratio and Convert reject it. Units are comparable with ==.
 type Unit struct {
-	Symbol string    // canonical symbol: "MWh", "MMBtu", "short_ton", "gal", "m3", "TWyr"
+	Symbol string    // canonical symbol: "MWh", "MMBtu", "short_ton", "gal", "m3", "Nm3", "TWyr", "km"
 	Name   string    // "megawatt hour"
 	Dim    Dimension // what the unit measures
 	// Basis is the heating-value basis declared in the parsed string ("GJ NCV"); NoBasis if
@@ -33,8 +33,8 @@ func (u Unit) String() string {
 	return u.Symbol + " " + u.Basis.String()
 }
 
-// SI returns a fresh copy of the exact factor to the SI base unit of the unit's dimension
-// (J, kg, m3, W or s): 1 u = SI() base units. It returns nil for the zero Unit.
+// SI returns a fresh copy of the exact factor to the SI unit of the unit's dimension
+// (J, kg, m3, W, s, m or m2): 1 u = SI() base units. It returns nil for the zero Unit.
 func (u Unit) SI() *big.Rat {
 	if !table.known(u) {
 		return nil
