@@ -75,3 +75,10 @@ func (lx *lexicon) readCarrier(s string) carrier {
 	}
 	return carrierNone
 }
+
+// perColumn reports a column of amounts, one kind per column (a fuel, a
+// period, purchased energy), whose empty or dashed cells count as none
+// while the row's other columns still count.
+func (c *column) perColumn() bool {
+	return c.role == roleWideFuel || c.role == rolePeriod || c.role == roleCarrier
+}

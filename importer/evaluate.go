@@ -234,9 +234,9 @@ func (sc *scanCtx) headerWarnings(t *table) {
 		}
 	}
 	for _, c := range spec.cols {
-		if c.hdr.UnitErr != nil && (used[c] || c.role == roleWideFuel || c.role == roleQuantity || c.role == roleCapacity) {
+		if c.hdr.UnitErr != nil && (used[c] || c.role == roleWideFuel || c.role == roleCarrier || c.role == roleQuantity || c.role == roleCapacity) {
 			msg := c.hdr.UnitErr.Msg + " (in the header " + quoteText(c.hdr.Text) + ")"
-			if c.role == roleWideFuel {
+			if c.role == roleWideFuel || c.role == roleCarrier {
 				msg += "; the column is left out of the totals"
 			} else {
 				msg += "; no row is computed from it"
@@ -256,7 +256,7 @@ func (sc *scanCtx) headerWarnings(t *table) {
 		if c.role == roleWideFuel && c.hdr.UnitErr == nil && c.unitIdent != "" {
 			sc.gasKWh(sheet, c.col, hr, c.fuelID, c.hdr.Unit)
 		}
-		if c.styleGuess && (c.role == roleQuantity || c.role == roleWideFuel || c.role == rolePeriod || c.role == roleCapacity) {
+		if c.styleGuess && (c.role == roleQuantity || c.perColumn() || c.role == roleCapacity) {
 			sc.warn.add(sheet, c.col, hr, SevInfo, CodeValueTextNumber, "numbers stored as text in "+quoteText(c.hdr.Text)+" read with "+c.numStyle.String()+
 				": every such value there reads that way (\"20,523\" as 20523); set the column's number style in a mapping if they are decimals")
 		}
@@ -493,7 +493,7 @@ func (sc *scanCtx) variantFor(t *table, r *rule, i int, good map[string]bool) *r
 func (t *table) decideStyles() {
 	for s, c := range t.slots {
 		switch c.role {
-		case roleQuantity, roleWideFuel, rolePeriod, roleCapacity, roleCF, roleLifetime, roleExisting:
+		case roleQuantity, roleWideFuel, rolePeriod, roleCapacity, roleCF, roleLifetime, roleExisting, roleCarrier:
 		default:
 			continue
 		}

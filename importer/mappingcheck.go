@@ -83,7 +83,7 @@ func (p *mapParser) table(v any, at string) (mapTable, error) {
 			return t, p.fail(c.at+".column", "column %s is mapped twice (first at %s): keep one", colName(c.col), first)
 		}
 		byCol[c.col] = c.at
-		if c.role != roleNone && c.role != roleWideFuel && c.role != rolePeriod && c.role != roleExisting {
+		if c.role != roleNone && c.role != roleWideFuel && c.role != rolePeriod && c.role != roleExisting && c.role != roleCarrier {
 			if first := byRole[c.role]; first != 0 {
 				return t, p.fail(c.at+".role", "a second %q column (the first is %s): a table has one", c.role, colName(first))
 			}

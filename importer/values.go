@@ -42,7 +42,7 @@ func (sc *scanCtx) value(t *table, i int, b *binding) (any, bool) {
 		return sc.unitValue(t, c, v, r)
 	case roleTech:
 		return sc.techValue(t, c, v, r)
-	case roleQuantity, roleWideFuel, rolePeriod, roleCapacity, roleCF, roleLifetime, roleExisting:
+	case roleQuantity, roleWideFuel, rolePeriod, roleCapacity, roleCF, roleLifetime, roleExisting, roleCarrier:
 		return sc.numberValue(t, c, v, r)
 	}
 	if c.numeric {
@@ -251,11 +251,11 @@ func (sc *scanCtx) numberValue(t *table, c *column, v *cellVal, r int) (any, boo
 				" (decimal comma): store it as a number; row not computed")
 			return nil, false
 		default:
-			if (c.role == roleWideFuel || c.role == rolePeriod) && isDash(v.text) {
+			if c.perColumn() && isDash(v.text) {
 				return 0.0, true
 			}
 			if tables.Missing(v.text) {
-				if c.role == roleWideFuel || c.role == rolePeriod {
+				if c.perColumn() {
 					// One fuel of the row not given: the row's other fuels still count.
 					sc.warn.add(sheet, c.col, r, SevInfo, CodeNotComputed, quoteText(v.text)+": the source gives no value here; counted as none of this fuel, the row's other amounts still count")
 					return 0.0, true
@@ -280,7 +280,7 @@ func (sc *scanCtx) numberValue(t *table, c *column, v *cellVal, r int) (any, boo
 			break
 		}
 		switch c.role {
-		case roleWideFuel, rolePeriod:
+		case roleWideFuel, rolePeriod, roleCarrier:
 			return 0.0, true
 		case roleQuantity, roleCapacity:
 			sc.warn.add(sheet, c.col, r, SevWarning, CodeValueNotNumber, "no "+strings.ToLower(c.hdr.Base)+" given: row not computed")
@@ -298,7 +298,7 @@ func (sc *scanCtx) numberValue(t *table, c *column, v *cellVal, r int) (any, boo
 	if c.hdr.Percent && c.role != roleCF {
 		x /= 100
 	}
-	if x < 0 && (c.role == roleQuantity || c.role == roleWideFuel || c.role == rolePeriod || c.role == roleCapacity) {
+	if x < 0 && (c.role == roleQuantity || c.perColumn() || c.role == roleCapacity) {
 		sc.warn.add(sheet, c.col, r, SevWarning, CodeValueNegative, "negative "+strings.ToLower(c.hdr.Base)+" "+funcs.FormatNumber(x)+
 			" (a return or a correction?): computed, giving negative emissions")
 	}
