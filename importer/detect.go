@@ -28,11 +28,12 @@ const (
 	roleWhen          // the date or period of a row (YYYYMM, Date): annual rows among monthly ones are left out
 	roleGrid          // the country or grid region of each row: its electricity grid (scope2.go)
 	roleCarrier       // one column of purchased energy: "Electricity (kWh)", "Steam (MMBtu)" (scope2.go)
+	roleGas           // refrigerant or other fugitive gas names: R-410A, HFC-134a (fugitive.go)
 )
 
 func (r role) String() string {
 	return [...]string{"", "fuel", "quantity", "unit", "fuel-column", "technology", "capacity",
-		"capacity-factor", "lifetime", "existing-carbon", "group", "period", "date", "grid", "purchased-energy"}[r]
+		"capacity-factor", "lifetime", "existing-carbon", "group", "period", "date", "grid", "purchased-energy", "gas"}[r]
 }
 
 // Table kinds.
@@ -95,6 +96,10 @@ type tableSpec struct {
 	ctxGridFrom string
 	scope2      []*column // columns of purchased energy (roleCarrier)
 	titles      []string  // the title rows above the header
+
+	// Refrigerant logs (fugitive.go): the gas column, and a charge held
+	// where no mass released is given.
+	gas, charge *column
 
 	// The columns with a role (nil when absent).
 	fuel, qty, unit, group   *column

@@ -97,6 +97,10 @@ func (sc *scanCtx) evaluate(t *table) error {
 				" (the error at "+spec.headerErr.Cell+")")
 			continue
 		}
+		if spec.kind == kindCharge {
+			sc.warn.add(sheet, spec.charge.col, rowNum, SevInfo, CodeNotComputed, chargeReason(spec))
+			continue
+		}
 		if len(t.rules) == 0 && len(spec.scope2) > 0 {
 			// Only purchased energy that cannot be computed: each row says so.
 			c := spec.scope2[0]
@@ -432,6 +436,13 @@ func (sc *scanCtx) rowTotals(t *table, i int, vars map[string]any, wideK map[*co
 				key = strings.TrimSpace(s)
 				if f := sc.fuel(s); f.err == nil {
 					key = f.id
+				}
+			}
+		} else if spec.gas != nil {
+			if s, ok := vars[spec.gas.ident].(string); ok {
+				key = strings.TrimSpace(s)
+				if id := sc.gasName(s); id != "" {
+					key = id
 				}
 			}
 		} else if spec.tech != nil {

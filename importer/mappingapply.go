@@ -183,6 +183,8 @@ func (run *mappingRun) setRole(lx *lexicon, path string, t *tableSpec, c *column
 		t.when = c
 	case roleGrid:
 		t.gridCol = c
+	case roleGas:
+		t.gas = c
 	case roleCarrier:
 		if c.carrier = lx.carrierOf(c.hdr.Base); c.carrier == carrierNone {
 			c.carrier = carrierElectricity // the mapping says it is bought energy; a header naming no carrier is electricity
@@ -242,7 +244,7 @@ func clearRoles(t *tableSpec) {
 	t.fuel, t.qty, t.unit, t.group = nil, nil, nil, nil
 	t.tech, t.capacity, t.cf, t.life = nil, nil, nil, nil
 	t.wide, t.periods, t.existing, t.when = nil, nil, nil, nil
-	t.gridCol, t.scope2 = nil, nil
+	t.gridCol, t.scope2, t.gas, t.charge = nil, nil, nil, nil
 	t.headerErr = nil
 }
 
@@ -257,6 +259,8 @@ func kindNeeds(kind string) string {
 		return "a fuel-by-period table needs a fuel column and period columns"
 	case kindBuildPlan:
 		return "a build-plan needs a technology column and a capacity column"
+	case kindRefrigerant:
+		return "a refrigerant table needs a gas column and a quantity column of the mass released"
 	}
 	return "a custom table is read only with --rule"
 }

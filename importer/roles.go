@@ -218,6 +218,8 @@ func (d *detector) assignRoles(t *tableSpec) {
 	// Purchased energy (electricity, steam) and the grid of its rows.
 	d.assignScope2(t)
 	d.findGridCol(t)
+	// Refrigerant logs: gas names and a mass added or lost.
+	d.assignRefrigerant(t)
 	// Amount columns left out (steam in pounds, unknown names with a unit).
 	for _, c := range t.cols {
 		if !taken(c) && c.numeric && c.hdr.UnitText != "" && isQuantityDim(c.hdr.Unit) && !c.st.hint.Any(tables.HintRate|tables.HintCount) {
@@ -370,6 +372,14 @@ func fuelHeader(ws []string) bool {
 // can use (no roles, and no user rule whose variables it has).
 func (d *detector) decideKind(t *tableSpec) bool {
 	switch {
+	case t.gas != nil && t.qty != nil:
+		t.kind = kindRefrigerant
+		if t.unit == nil && t.qty.hdr.UnitText == "" {
+			t.headerErr = &Warning{Sheet: t.sheet, Cell: cellRef(t.qty.col, t.headerRow), Severity: SevError, Code: CodeUnitUnknown,
+				Message: "no unit for " + quoteText(t.qty.hdr.Text) + ": add a unit column or write the unit in the header, e.g. " + quoteText(t.qty.hdr.Base+" (kg)") + "; no row is computed"}
+		}
+	case t.gas != nil && t.charge != nil:
+		t.kind = kindCharge
 	case (t.fuel != nil || t.ctxFuel != "") && t.qty != nil:
 		t.kind = kindFuelLog
 		if t.unit == nil && t.qty.hdr.UnitText == "" {

@@ -182,6 +182,11 @@ func proposeRules(t *tableSpec, scope2 []string) []string {
 			co2e = append(co2e, "fuel_co2e("+args+")")
 		}
 		return []string{"tCO2 = " + strings.Join(co2, " + "), "tCO2e = " + strings.Join(co2e, " + ")}
+	case kindRefrigerant:
+		if r := refrigerantRule(t); r != "" && t.headerErr == nil {
+			return []string{r}
+		}
+		return nil
 	case kindBuildPlan:
 		if t.headerErr != nil {
 			return nil
