@@ -144,12 +144,12 @@ func ruleCalls(rs *ruleSet) string {
 	return strings.Join(out, "; ")
 }
 
-// allRules lists the table's rules, then those of its rows of purchased
-// energy (by carrier), for the report.
+// allRules lists the table's rules, then those its rows of purchased
+// energy used (by carrier), for the report.
 func (t *table) allRules() []*rule {
 	out := append([]*rule(nil), t.rules...)
 	for _, c := range []carrier{carrierElectricity, carrierSteam, carrierHeat, carrierCooling} {
-		if rs := t.alts[c]; rs != nil {
+		if rs := t.alts[c]; rs != nil && t.noted[c] {
 			out = append(out, rs.rules...)
 		}
 	}
