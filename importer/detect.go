@@ -29,11 +29,12 @@ const (
 	roleGrid          // the country or grid region of each row: its electricity grid (scope2.go)
 	roleCarrier       // one column of purchased energy: "Electricity (kWh)", "Steam (MMBtu)" (scope2.go)
 	roleGas           // refrigerant or other fugitive gas names: R-410A, HFC-134a (fugitive.go)
+	roleSector        // the sector where a row's fuel is burned: energy, commercial (fleet.go)
 )
 
 func (r role) String() string {
 	return [...]string{"", "fuel", "quantity", "unit", "fuel-column", "technology", "capacity",
-		"capacity-factor", "lifetime", "existing-carbon", "group", "period", "date", "grid", "purchased-energy", "gas"}[r]
+		"capacity-factor", "lifetime", "existing-carbon", "group", "period", "date", "grid", "purchased-energy", "gas", "sector"}[r]
 }
 
 // Table kinds.
@@ -100,6 +101,12 @@ type tableSpec struct {
 	// Refrigerant logs (fugitive.go): the gas column, and a charge held
 	// where no mass released is given.
 	gas, charge *column
+
+	// Combustion (fleet.go): a fleet's evidence (mobile combustion), or the
+	// sector column and the sector arguments of fuel_co2e.
+	mobile     string
+	sector     *column
+	sectorArgs string
 
 	// The columns with a role (nil when absent).
 	fuel, qty, unit, group   *column
@@ -423,6 +430,8 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 	}
 	d.assignRoles(t)
 	d.applyMapping(t)
+	d.fleetEvidence(t)
+	d.chooseSector(t)
 	d.titleGrid(t, t.titles)
 	d.chooseGrid(t)
 	if !d.decideKind(t) {

@@ -36,6 +36,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 	t.decideStyles()
 	sc.headerWarnings(t)
 	sc.scope2Findings(t)
+	sc.fleetFindings(t)
 	if spec.ctxFuel != "" && spec.fuel == nil && spec.qty != nil {
 		// No fuel column: every row is the fuel the title, sheet or file
 		// name gives. A title is the table's own word; a sheet or file
@@ -360,6 +361,10 @@ func (sc *scanCtx) wideFactors(t *table) map[*column][2]float64 {
 		}
 		a, err1 := sc.e.CallValues("fuel_co2", c.fuelID, 1.0, c.hdr.UnitText)
 		b, err2 := sc.e.CallValues("fuel_co2e", c.fuelID, 1.0, c.hdr.UnitText)
+		if t.spec.mobile != "" {
+			a, err1 = sc.e.CallValues("mobile_co2", c.fuelID, 1.0, c.hdr.UnitText, modeFor(c.fuelID))
+			b, err2 = sc.e.CallValues("mobile_co2e", c.fuelID, 1.0, c.hdr.UnitText, modeFor(c.fuelID))
+		}
 		if err1 == nil && err2 == nil {
 			out[c] = [2]float64{a.Value, b.Value}
 		}

@@ -185,6 +185,8 @@ func (run *mappingRun) setRole(lx *lexicon, path string, t *tableSpec, c *column
 		t.gridCol = c
 	case roleGas:
 		t.gas = c
+	case roleSector:
+		t.sector = c
 	case roleCarrier:
 		if c.carrier = lx.carrierOf(c.hdr.Base); c.carrier == carrierNone {
 			c.carrier = carrierElectricity // the mapping says it is bought energy; a header naming no carrier is electricity
@@ -244,7 +246,7 @@ func clearRoles(t *tableSpec) {
 	t.fuel, t.qty, t.unit, t.group = nil, nil, nil, nil
 	t.tech, t.capacity, t.cf, t.life = nil, nil, nil, nil
 	t.wide, t.periods, t.existing, t.when = nil, nil, nil, nil
-	t.gridCol, t.scope2, t.gas, t.charge = nil, nil, nil, nil
+	t.gridCol, t.scope2, t.gas, t.charge, t.sector = nil, nil, nil, nil, nil
 	t.headerErr = nil
 }
 

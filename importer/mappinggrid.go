@@ -21,9 +21,9 @@ func (p *mapParser) grid(obj map[string]any, at string) (string, error) {
 	return info.ID, nil
 }
 
-// sectors are the sectors a mapping may give a table's combustion (IPCC
-// 2006 Vol 2 Ch 2 Tables 2.2 to 2.5).
-var sectors = [...]string{"energy", "manufacturing", "commercial", "residential"}
+// sectors are the sectors fuel_co2e takes (IPCC 2006 Vol 2 Ch 2 Tables 2.2
+// to 2.5).
+var sectors = [...]string{"energy", "manufacturing", "commercial", "residential", "agriculture"}
 
 // sector reads an optional "sector" of obj.
 func (p *mapParser) sector(obj map[string]any, at string) (string, error) {
@@ -49,6 +49,8 @@ func sectorName(s string) (string, bool) {
 		return "commercial", true
 	case hasWord(ws, "residential", "household", "households", "domestic", "housing"):
 		return "residential", true
+	case hasWord(ws, "agriculture", "agricultural", "farm", "farming", "forestry", "fishing"):
+		return "agriculture", true
 	}
 	return "", false
 }

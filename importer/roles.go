@@ -220,6 +220,7 @@ func (d *detector) assignRoles(t *tableSpec) {
 	d.findGridCol(t)
 	// Refrigerant logs: gas names and a mass added or lost.
 	d.assignRefrigerant(t)
+	d.findSectorCol(t)
 	// Amount columns left out (steam in pounds, unknown names with a unit).
 	for _, c := range t.cols {
 		if !taken(c) && c.numeric && c.hdr.UnitText != "" && isQuantityDim(c.hdr.Unit) && !c.st.hint.Any(tables.HintRate|tables.HintCount) {

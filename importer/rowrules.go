@@ -52,7 +52,6 @@ func (sc *scanCtx) compileRowRules(t *table) error {
 		return nil
 	}
 	unit := fuelLogUnit(spec)
-	idents := identList(spec)
 	for _, c := range []carrier{carrierElectricity, carrierSteam, carrierHeat, carrierCooling} {
 		var rules []*rule
 		var at []int
@@ -65,14 +64,9 @@ func (sc *scanCtx) compileRowRules(t *table) error {
 			if call == "" {
 				continue
 			}
-			p, err := sc.e.Compile(call, funcs.WithVariables(idents...))
+			r, err := sc.compileRowRule(t, main, call)
 			if err != nil {
-				return &Error{Code: ErrRule, Path: sc.path, Err: err,
-					Msg: "rule " + quoteText(main.column+" = "+call) + " for the table at " + spec.sheet + "!" + cellRef(spec.firstCol, spec.headerRow) + ": " + err.Error()}
-			}
-			r := &rule{column: main.column, src: main.column + " = " + call, prog: p, run: p.NewRunner(), paramVar: paramVars(sc.e, call), total: main.total}
-			for _, v := range p.Variables() {
-				r.vars = append(r.vars, t.bind(v))
+				return err
 			}
 			rules, at = append(rules, r), append(at, ri)
 		}
@@ -83,7 +77,22 @@ func (sc *scanCtx) compileRowRules(t *table) error {
 			t.alts[c] = newRuleSet(rules, at, c.byTotal())
 		}
 	}
-	return nil
+	return sc.compileModeRules(t)
+}
+
+// compileRowRule compiles call as the rule of main's column for some rows.
+func (sc *scanCtx) compileRowRule(t *table, main *rule, call string) (*rule, error) {
+	spec := t.spec
+	p, err := sc.e.Compile(call, funcs.WithVariables(identList(spec)...))
+	if err != nil {
+		return nil, &Error{Code: ErrRule, Path: sc.path, Err: err,
+			Msg: "rule " + quoteText(main.column+" = "+call) + " for the table at " + spec.sheet + "!" + cellRef(spec.firstCol, spec.headerRow) + ": " + err.Error()}
+	}
+	r := &rule{column: main.column, src: main.column + " = " + call, prog: p, run: p.NewRunner(), paramVar: paramVars(sc.e, call), total: main.total}
+	for _, v := range p.Variables() {
+		r.vars = append(r.vars, t.bind(v))
+	}
+	return r, nil
 }
 
 // rowCarrier reads the purchased energy a fuel log's row names, cached
@@ -109,6 +118,9 @@ func (sc *scanCtx) rowCarrier(t *table, i int) carrier {
 func (sc *scanCtx) rowRules(t *table, main *ruleSet, i int) (rs *ruleSet, skip bool) {
 	c := sc.rowCarrier(t, i)
 	if c == carrierNone {
+		if rs := sc.rowMode(t, i); rs != nil {
+			return rs, false
+		}
 		return main, false
 	}
 	if rs := t.alts[c]; rs != nil {
@@ -152,6 +164,9 @@ func (t *table) allRules() []*rule {
 		if rs := t.alts[c]; rs != nil && t.noted[c] {
 			out = append(out, rs.rules...)
 		}
+	}
+	if rs := t.modes[roadModeGasoline]; rs != nil && t.modeNoted {
+		out = append(out, rs.rules...)
 	}
 	return out
 }

@@ -143,21 +143,20 @@ func proposeRules(t *tableSpec, scope2 []string) []string {
 		if unit == "" {
 			return nil
 		}
-		fuel := "\"" + t.ctxFuel + "\""
+		fuel, id := "\""+t.ctxFuel+"\"", t.ctxFuel
 		if t.fuel != nil {
-			fuel = t.fuel.ident
+			fuel, id = t.fuel.ident, ""
 		}
-		args := fuel + ", " + scaled(t.qty) + ", " + unit
-		return []string{"tCO2 = fuel_co2(" + args + ")", "tCO2e = fuel_co2e(" + args + ")"}
+		co2, co2e := combustionCalls(t, fuel, id, scaled(t.qty), unit)
+		return []string{"tCO2 = " + co2, "tCO2e = " + co2e}
 	case kindWide:
 		var co2, co2e []string
 		for _, c := range t.wide {
 			if c.hdr.UnitErr != nil || c.unitIdent == "" {
 				continue
 			}
-			args := "\"" + c.fuelID + "\", " + scaled(c) + ", " + c.unitIdent
-			co2 = append(co2, "fuel_co2("+args+")")
-			co2e = append(co2e, "fuel_co2e("+args+")")
+			a, b := combustionCalls(t, "\""+c.fuelID+"\"", c.fuelID, scaled(c), c.unitIdent)
+			co2, co2e = append(co2, a), append(co2e, b)
 		}
 		var out []string
 		if len(co2) > 0 {

@@ -31,6 +31,8 @@ type table struct {
 	rules     []*rule
 	alts      map[carrier]*ruleSet // rules of rows of purchased energy (rowrules.go)
 	noted     map[carrier]bool     // carriers whose reading was said in a finding
+	modes     map[string]*ruleSet  // rules of a fleet's rows by road mode (fleet.go)
+	modeNoted bool
 	merges    []rangeRef
 
 	// Results (see evaluate).

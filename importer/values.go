@@ -42,6 +42,8 @@ func (sc *scanCtx) value(t *table, i int, b *binding) (any, bool) {
 		return sc.unitValue(t, c, v, r)
 	case roleTech:
 		return sc.techValue(t, c, v, r)
+	case roleSector:
+		return sc.sectorValue(t, c, v, r)
 	case roleQuantity, roleWideFuel, rolePeriod, roleCapacity, roleCF, roleLifetime, roleExisting, roleCarrier:
 		return sc.numberValue(t, c, v, r)
 	}
