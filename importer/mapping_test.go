@@ -283,7 +283,7 @@ func TestMappingValidation(t *testing.T) {
 		{"unknown key", `{"fluecell_mapping": 1, "tables": [{"sheet": "A", "header_row": 1, "colums": []}]}`,
 			`tables[0].colums: unknown key "colums": accepted are sheet, header_row, kind, fuel, unit, grid, sector, gallons, columns`},
 		{"role", table(`{"column": "C", "header": "Fuel", "role": "amount"}`),
-			`tables[0].columns[0].role: unknown role "amount": accepted are none, fuel, quantity, unit, fuel-column, technology, capacity, capacity-factor, lifetime, existing-carbon, group, period, date, grid, purchased-energy, gas`},
+			`tables[0].columns[0].role: unknown role "amount": accepted are none, fuel, quantity, unit, fuel-column, technology, capacity, capacity-factor, lifetime, existing-carbon, group, period, date, grid, purchased-energy, gas, sector`},
 		{"column letter", table(`{"column": "C4", "header": "Fuel", "role": "fuel"}`),
 			`tables[0].columns[0].column: "C4" is not a column: write its letters, A to XFD`},
 		{"column too far", table(`{"column": "XFE", "header": "Fuel", "role": "fuel"}`),
