@@ -61,6 +61,7 @@ type column struct {
 	styleGuess bool     // numStyle comes from values that only lean one way: said in a finding
 	fuelAlias  bool
 	carrier    carrier // roleCarrier: the energy bought
+	gallonText string  // a bare gallon of the header read as imperial, as the mapping says (gallons.go)
 	carbon     carbonCol
 	numeric    bool // values are mostly numbers
 	unitBad    bool // the header unit cannot be used for this column's role
@@ -432,6 +433,7 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 	d.applyMapping(t)
 	d.fleetEvidence(t)
 	d.chooseSector(t)
+	d.imperialHeaders(t)
 	d.titleGrid(t, t.titles)
 	d.chooseGrid(t)
 	if !d.decideKind(t) {

@@ -37,6 +37,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 	sc.headerWarnings(t)
 	sc.scope2Findings(t)
 	sc.fleetFindings(t)
+	sc.gallonHeaders(t)
 	if spec.ctxFuel != "" && spec.fuel == nil && spec.qty != nil {
 		// No fuel column: every row is the fuel the title, sheet or file
 		// name gives. A title is the table's own word; a sheet or file

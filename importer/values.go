@@ -151,7 +151,7 @@ func (sc *scanCtx) unitValue(t *table, c *column, v *cellVal, r int) (any, bool)
 		return nil, false
 	}
 	t.noteUnit(c, u, r)
-	return s, true
+	return sc.gallonUnit(t, c.col, r, s), true
 }
 
 // checkUnit parses a unit for a quantity (energy, mass or volume) or, with
