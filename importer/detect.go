@@ -106,6 +106,7 @@ type tableSpec struct {
 	// Combustion (fleet.go): a fleet's evidence (mobile combustion), or the
 	// sector column and the sector arguments of fuel_co2e.
 	mobile     string
+	stationary map[string]bool // fuels of a fleet without road CH4 and N2O in the pack
 	sector     *column
 	sectorArgs string
 

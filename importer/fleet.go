@@ -31,6 +31,26 @@ func modeFor(fuelID string) string {
 	return roadMode
 }
 
+// stationaryMode keys the rules of a fleet's rows whose fuel has no road
+// CH4 and N2O in the pack (ethanol in ipcc2006): stationary combustion.
+const stationaryMode = "stationary"
+
+// roadModeOf is the road mode of a fuel id when the engine's default pack
+// has mobile CH4 and N2O for it in that mode, else "" (cached).
+func (lx *lexicon) roadModeOf(id string) string {
+	if m, ok := lx.modes[id]; ok {
+		return m
+	}
+	m := modeFor(id)
+	if _, err := lx.e.CallValues("mobile_co2e", id, 1.0, "GJ", m); err != nil {
+		m = ""
+	}
+	if len(lx.modes) < maxCache {
+		lx.modes[id] = m
+	}
+	return m
+}
+
 // fleetWords are title and sheet words that make a table a fleet's.
 var fleetWords = []string{"fleet", "vehicle", "vehicles", "car", "cars", "van", "vans", "truck", "trucks", "lorry", "lorries", "mileage", "motor pool"}
 
@@ -41,6 +61,18 @@ func (d *detector) fleetEvidence(t *tableSpec) {
 	if _, ok := d.sc.e.Function("mobile_co2e"); !ok {
 		return
 	}
+	defer func() {
+		if t.mobile == "" {
+			return
+		}
+		// Fuels the pack has no road CH4 and N2O for stay stationary.
+		t.stationary = map[string]bool{}
+		for _, id := range append([]string{t.ctxFuel}, wideFuels(t)...) {
+			if id != "" && d.lx.roadModeOf(id) == "" {
+				t.stationary[id] = true
+			}
+		}
+	}()
 	for _, c := range t.cols {
 		if c.st.hint.Any(tables.HintVehicle) && c.role != roleQuantity {
 			t.mobile = "the column " + quoteText(c.hdr.Text)
@@ -56,6 +88,15 @@ func (d *detector) fleetEvidence(t *tableSpec) {
 			return
 		}
 	}
+}
+
+// wideFuels lists the fuels of t's per-fuel columns.
+func wideFuels(t *tableSpec) []string {
+	var out []string
+	for _, c := range t.wide {
+		out = append(out, c.fuelID)
+	}
+	return out
 }
 
 // findSectorCol gives the role sector to a column headed sector (or end
@@ -110,7 +151,7 @@ func (d *detector) chooseSector(t *tableSpec) {
 // gasoline get their own, see compileModeRules).
 func combustionCalls(t *tableSpec, fuel, fuelID, amount, unit string) (co2, co2e string) {
 	args := fuel + ", " + amount + ", " + unit
-	if t.mobile != "" {
+	if t.mobile != "" && !t.stationary[fuelID] {
 		mode := quoteRuleString(modeFor(fuelID))
 		return "mobile_co2(" + args + ", " + mode + ")", "mobile_co2e(" + args + ", " + mode + ")"
 	}
@@ -125,22 +166,28 @@ func (sc *scanCtx) compileModeRules(t *table) error {
 	if len(sc.userRules) > 0 || spec.kind != kindFuelLog || spec.fuel == nil || spec.mobile == "" || len(t.rules) == 0 {
 		return nil
 	}
-	mode := roadModeGasoline
-	co2, co2e := combustionCalls(spec, spec.fuel.ident, "motor_gasoline", scaled(spec.qty), fuelLogUnit(spec))
-	var rules []*rule
-	var at []int
-	for ri, main := range t.rules {
-		call := map[int]string{1: co2, 2: co2e}[main.total]
-		if call == "" {
-			continue
+	t.modes = map[string]*ruleSet{}
+	for _, mode := range []string{roadModeGasoline, stationaryMode} {
+		args := spec.fuel.ident + ", " + scaled(spec.qty) + ", " + fuelLogUnit(spec)
+		co2, co2e := "mobile_co2("+args+", "+quoteRuleString(mode)+")", "mobile_co2e("+args+", "+quoteRuleString(mode)+")"
+		if mode == stationaryMode {
+			co2, co2e = "fuel_co2("+args+")", "fuel_co2e("+args+")"
 		}
-		r, err := sc.compileRowRule(t, main, call)
-		if err != nil {
-			return err
+		var rules []*rule
+		var at []int
+		for ri, main := range t.rules {
+			call := map[int]string{1: co2, 2: co2e}[main.total]
+			if call == "" {
+				continue
+			}
+			r, err := sc.compileRowRule(t, main, call)
+			if err != nil {
+				return err
+			}
+			rules, at = append(rules, r), append(at, ri)
 		}
-		rules, at = append(rules, r), append(at, ri)
+		t.modes[mode] = newRuleSet(rules, at, "")
 	}
-	t.modes = map[string]*ruleSet{mode: newRuleSet(rules, at, "")}
 	return nil
 }
 
@@ -158,12 +205,25 @@ func (sc *scanCtx) rowMode(t *table, i int) *ruleSet {
 	if f.err != nil {
 		return nil
 	}
-	rs := t.modes[modeFor(f.id)]
-	if rs != nil && !t.modeNoted {
-		t.modeNoted = true
-		sc.warn.add(t.spec.sheet, t.spec.fuel.col, int(t.rowNums[i]), SevInfo, CodeReadAs, quoteText(v.text)+
-			" in a fleet: road gasoline's CH4 and N2O are given by technology (IPCC 2006 Vol 2 Ch 3 Table 3.2.2); read as light-duty vehicles of 1995 or later (mode "+
-			roadModeGasoline+"), as \""+ruleCalls(rs)+"\"")
+	mode := sc.roadModeOf(f.id)
+	switch mode {
+	case roadMode:
+		return nil
+	case "":
+		mode = stationaryMode
+	}
+	rs := t.modes[mode]
+	if t.modeNoted == nil {
+		t.modeNoted = map[string]bool{}
+	}
+	if rs != nil && !t.modeNoted[mode] {
+		t.modeNoted[mode] = true
+		msg := quoteText(v.text) + " in a fleet: road gasoline's CH4 and N2O are given by technology (IPCC 2006 Vol 2 Ch 3 Table 3.2.2); read as light-duty vehicles of 1995 or later (mode " +
+			roadModeGasoline + "), as \"" + ruleCalls(rs) + "\""
+		if mode == stationaryMode {
+			msg = quoteText(v.text) + " in a fleet: pack " + sc.e.DefaultPackName() + " has no road CH4 and N2O for " + f.id + ", so its rows take those of stationary combustion, as \"" + ruleCalls(rs) + "\""
+		}
+		sc.warn.add(t.spec.sheet, t.spec.fuel.col, int(t.rowNums[i]), SevInfo, CodeReadAs, msg)
 	}
 	return rs
 }

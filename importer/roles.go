@@ -53,8 +53,8 @@ func (d *detector) assignRoles(t *tableSpec) {
 			score += 2
 		case h.Any(tables.HintFuelWeak):
 			score += 0.5
-		case share < 0.4:
-			continue
+		case share < 0.4 && frac(c.st.notFuel, c.st.text) < 0.6:
+			continue // (a column of energy carriers, electricity among them, is a utility log's)
 		}
 		if h.Any(tables.HintRate|tables.HintGroup|tables.HintKey) && !h.Any(tables.HintFuel) {
 			score -= 2

@@ -165,8 +165,10 @@ func (t *table) allRules() []*rule {
 			out = append(out, rs.rules...)
 		}
 	}
-	if rs := t.modes[roadModeGasoline]; rs != nil && t.modeNoted {
-		out = append(out, rs.rules...)
+	for _, m := range []string{roadModeGasoline, stationaryMode} {
+		if rs := t.modes[m]; rs != nil && t.modeNoted[m] {
+			out = append(out, rs.rules...)
+		}
 	}
 	return out
 }

@@ -32,7 +32,7 @@ type table struct {
 	alts      map[carrier]*ruleSet // rules of rows of purchased energy (rowrules.go)
 	noted     map[carrier]bool     // carriers whose reading was said in a finding
 	modes     map[string]*ruleSet  // rules of a fleet's rows by road mode (fleet.go)
-	modeNoted bool
+	modeNoted map[string]bool
 	merges    []rangeRef
 
 	// Results (see evaluate).

@@ -1,0 +1,48 @@
+package main
+
+import (
+	"encoding/json"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// TestAnnotateGridFlag: --grid names the grid of purchased electricity
+// rows; an unknown grid is refused naming it.
+func TestAnnotateGridFlag(t *testing.T) {
+	dir := t.TempDir()
+	in := filepath.Join(dir, "site.csv")
+	if err := os.WriteFile(in, []byte("Energy,Quantity,Unit\nElectricity,2000,kWh\nDiesel,100,L\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	rep := filepath.Join(dir, "r.json")
+	code, out, errs := runCLI(t, "annotate", in, "-o", filepath.Join(dir, "out.csv"), "--grid", "UK", "--report", rep)
+	if code != 0 {
+		t.Fatalf("exit %d: %s %s", code, out, errs)
+	}
+	if !strings.Contains(out, `tCO2e = electricity_co2e(quantity, unit, "gb")`) {
+		t.Errorf("rules do not show the grid:\n%s", out)
+	}
+	data, err := os.ReadFile(rep)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var r struct {
+		ByFuel map[string]map[string]float64 `json:"by_fuel"`
+	}
+	if err := json.Unmarshal(data, &r); err != nil {
+		t.Fatal(err)
+	}
+	// UK 2025: 0.177 kg CO2e/kWh (UK Government GHG Conversion Factors for
+	// Company Reporting 2025, UK electricity): 2000 kWh = 0.354 t.
+	if got := r.ByFuel["Scope 2: electricity"]["tCO2e"]; math.Abs(got-0.354) > 1e-9 {
+		t.Errorf("electricity %.9g t CO2e, want 0.354", got)
+	}
+
+	code, _, errs = runCLI(t, "annotate", in, "-o", filepath.Join(dir, "out2.csv"), "--grid", "Atlantis")
+	if code != 1 || !strings.Contains(errs, `grid "Atlantis"`) {
+		t.Errorf("--grid Atlantis: exit %d, stderr %q", code, errs)
+	}
+}
