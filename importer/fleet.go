@@ -55,7 +55,8 @@ func (lx *lexicon) roadModeOf(id string) string {
 var fleetWords = []string{"fleet", "vehicle", "vehicles", "car", "cars", "van", "vans", "truck", "trucks", "lorry", "lorries", "mileage", "motor pool"}
 
 // fleetEvidence marks t as a fleet log when a column header names vehicles
-// (registration, odometer) or a title or the sheet name speaks of a fleet;
+// or distances driven (registration, odometer, VMT) or a title or the sheet
+// name speaks of a fleet;
 // t.mobile says where, for the findings.
 func (d *detector) fleetEvidence(t *tableSpec) {
 	if _, ok := d.sc.e.Function("mobile_co2e"); !ok {
@@ -74,7 +75,7 @@ func (d *detector) fleetEvidence(t *tableSpec) {
 		}
 	}()
 	for _, c := range t.cols {
-		if c.st.hint.Any(tables.HintVehicle) && c.role != roleQuantity {
+		if c.st.hint.Any(tables.HintVehicle|tables.HintDistance) && c.role != roleQuantity {
 			t.mobile = "the column " + quoteText(c.hdr.Text)
 			return
 		}
@@ -201,8 +202,8 @@ func (sc *scanCtx) rowMode(t *table, i int) *ruleSet {
 	if v.kind != kText {
 		return nil
 	}
-	f := sc.fuel(v.text)
-	if f.err != nil {
+	f := sc.fuelName(v.text) // "Unleaded Premium": the fuel inside a phrase
+	if f.kind != nameFuel {
 		return nil
 	}
 	mode := sc.roadModeOf(f.id)
