@@ -70,7 +70,9 @@ func TestRealWorldBuildingsGrid(t *testing.T) {
 	path := filepath.Join("..", "testdata", "realworld", "sf_existing_buildings_energy_performance_report_first600.csv")
 	rep := scanFile(t, path, Options{Grid: "CAMX"})
 	var kWh, kBtu float64
-	for h, v := range columnSums(t, path, func(h string) bool { return strings.Contains(h, "Grid Purchase (kWh)") || strings.Contains(h, "District Steam Use") }) {
+	for h, v := range columnSums(t, path, func(h string) bool {
+		return strings.Contains(h, "Grid Purchase (kWh)") || strings.Contains(h, "District Steam Use")
+	}) {
 		if strings.Contains(h, "kWh") {
 			kWh += v
 		} else {
