@@ -94,10 +94,11 @@ func optional(p Param, def string) Param { p.Optional, p.Default = true, def; re
 func catalogFamilies() []func(e *Engine) []*Function {
 	return []func(e *Engine) []*Function{
 		coreFunctions,
-		gridFunctions,
+		buildoutFunctions,
+		mobileFunctions,
 		refrigerantFunctions,
 		fugitiveFunctions,
-		mobileFunctions,
+		gridFunctions,
 	}
 }
 
@@ -111,7 +112,7 @@ func buildCatalog(e *Engine) []*Function {
 	return fs
 }
 
-// coreFunctions declares the fuel, atmosphere, build-out, GWP and unit
+// coreFunctions declares the fuel, atmosphere, GWP and unit
 // functions of the first release.
 func coreFunctions(e *Engine) []*Function {
 	packNames := e.PackNames()
@@ -120,13 +121,9 @@ func coreFunctions(e *Engine) []*Function {
 	amount := paramNum("amount", "the unit given in unit", "quantity of fuel used")
 	amountUnit := Param{Name: "unit", Type: typeString, Unit: "unit string", Doc: "unit of amount: energy (GJ, MWh, MMBtu HHV...), mass (t, kg, short_ton...) or volume (L, gal, m3, scf...)", kind: kindAmountUnit}
 	gwpSet := optional(paramStr("gwp_set", "IPCC assessment whose GWP-100 values weight CH4 and N2O", e.gwpSets()...), DefaultGWPSet).with(kindGWPSet)
-	af := optional(paramNum("airborne_fraction", "fraction", "share of emitted CO2 that stays in the atmosphere, in (0, 1]; 1 converts mass to concentration only"), "1")
-	tech := paramStr("tech", "technology", e.technologies()...).with(kindTech)
-	cf := optional(paramNum("capacity_factor", "fraction", "average output / rated capacity over a 365-day year, in (0, 1]"), "technology default")
-	life := optional(paramNum("lifetime_years", "yr", "economic lifetime in 365-day years"), "technology default")
+	af := optional(paramNum("airborne_fraction", "fraction", "share of emitted CO2 that stays in the atmosphere, in (0, 1]; 1 converts mass to concentration only; the long-run observed airborne fraction is about 0.44 (Global Carbon Budget)"), "1")
 	combustion := []string{"IPCC 2006 Guidelines Vol 2 Ch 1 Tables 1.2-1.4", "IPCC 2006 Guidelines Vol 2 Ch 2 Table 2.2", "US EPA GHG Emission Factors Hub 2025 Table 1"}
 	sectors := []string{"IPCC 2006 Guidelines Vol 2 Ch 2 Tables 2.3-2.5"}
-	lifecycle := []string{"IPCC AR5 WG3 Annex III Table A.III.2"}
 	gcb := []string{"Global Carbon Budget (Friedlingstein et al.): 1 ppm CO2 = 2.124 GtC"}
 
 	fs := []*Function{
@@ -159,16 +156,6 @@ func coreFunctions(e *Engine) []*Function {
 		{Name: "gtc_from_ppm", Doc: "Mass of carbon (GtC) in a given amount of atmospheric CO2 (ppm).",
 			ResultUnit: "GtC", Params: []Param{paramNum("ppm", "ppm", "atmospheric CO2 mole fraction")},
 			Example: `gtc_from_ppm(1)`, ExampleResult: 2.124, Sources: gcb, call: callGtCFromPPM},
-		{Name: "lifecycle_intensity", Doc: "Life-cycle greenhouse-gas intensity of electricity from a technology.",
-			ResultUnit: "g CO2e/kWh", Params: []Param{tech, optional(paramStr("stat", "statistic of the published range", "min", "median", "max"), "median").with(kindStat)},
-			Example: `lifecycle_intensity("wind_onshore")`, ExampleResult: 11, Sources: lifecycle, call: callLifecycle},
-		{Name: "embodied_per_mw", Doc: "Embodied (non-combustion) emissions of 1 MW of new capacity over its lifetime: (life-cycle - direct) g/kWh x 1000 x capacity_factor x 8760 h x lifetime / 1e6.",
-			ResultUnit: "t CO2e/MW", Params: []Param{tech, cf, life},
-			Example: `embodied_per_mw("wind_onshore", 0.3, 25)`, ExampleResult: 722.7, Sources: lifecycle, call: callEmbodiedPerMW},
-		{Name: "embodied", Doc: "Embodied emissions of new capacity: embodied_per_mw x capacity.",
-			ResultUnit: "t CO2e", Params: []Param{tech, paramNum("capacity", "the unit given in unit", "capacity to build"),
-				Param{Name: "unit", Type: typeString, Unit: "unit string", Doc: "power unit of capacity (kW, MW, MWp, GW...)", kind: kindPowerUnit}, cf, life},
-			Example: `embodied("pv_utility", 100, "MW", 0.2, 25)`, ExampleResult: 48 * 1000 * 0.2 * 8760 * 25 / 1e6 * 100, Sources: lifecycle, call: callEmbodied},
 		{Name: "gwp", Doc: "Global warming potential over 100 years of a gas or refrigerant blend in an IPCC assessment; a blend's is the mass-weighted sum of its components' (ASHRAE Standard 34 compositions).",
 			ResultUnit: "", Params: []Param{gasParam(e), gwpSetParam(e, "IPCC assessment whose GWP-100 value is returned")},
 			Example: `gwp("R-410A", "ar4")`, ExampleResult: 0.5*675 + 0.5*3500, Sources: []string{"IPCC AR4 WG1 Ch 2 Table 2.14", "IPCC AR5 WG1 Ch 8 Table 8.A.1", "IPCC AR6 WG1 Ch 7 Tables 7.15 and 7.SM.7", "ANSI/ASHRAE Standard 34 (blend compositions)"}, call: callGWP},

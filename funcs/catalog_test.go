@@ -10,10 +10,11 @@ import (
 func TestCatalogExamples(t *testing.T) {
 	e := newTestEngine(t)
 	want := []string{"fuel_co2", "fuel_co2e", "fuel_carbon", "fuel_energy", "co2_from_carbon", "carbon_from_co2", "ppm_from_gtc",
-		"ppm_from_co2", "gtc_from_ppm", "lifecycle_intensity", "embodied_per_mw", "embodied", "gwp", "to_unit",
-		"electricity_co2e", "electricity_co2", "electricity_losses_co2e", "heat_co2e",
+		"ppm_from_co2", "gtc_from_ppm", "gwp", "to_unit", "lifecycle_intensity", "lifecycle_part", "embodied_per_mw", "embodied",
+		"vehicle_embodied", "battery_embodied", "building_embodied",
+		"mobile_co2", "mobile_co2e",
 		"refrigerant_co2e", "fugitive_co2e", "refrigerant_leak_rate",
-		"mobile_co2", "mobile_co2e"}
+		"electricity_co2e", "electricity_co2", "electricity_losses_co2e", "heat_co2e"}
 	var got []string
 	for _, f := range e.Functions() {
 		got = append(got, f.Name)

@@ -31,6 +31,13 @@ func TestHubTableRows(t *testing.T) {
 		{"jet_kerosene", "gal", 9.75, 0.41, 0.08, [3]int{2, 2, 2}}, // Kerosene-Type Jet Fuel
 		{"lubricants", "gal", 10.69, 0.43, 0.09, [3]int{2, 2, 2}},
 		{"waste_oil", "gal", 10.21, 0.41, 0.08, [3]int{2, 2, 2}}, // Used Oil
+		{"naphtha", "gal", 8.50, 0.38, 0.08, [3]int{2, 2, 2}},    // Naphtha (<401 deg F)
+		{"ethane", "gal", 4.05, 0.20, 0.04, [3]int{2, 2, 2}},
+		{"bitumen", "gal", 11.91, 0.47, 0.09, [3]int{2, 2, 2}},                  // Asphalt and Road Oil
+		{"other_petroleum_products", "gal", 10.59, 0.42, 0.08, [3]int{2, 2, 2}}, // Other Oil (>401 deg F)
+		{"tires", "short_ton", 2407, 896, 118, [3]int{0, 0, 0}},
+		{"plastics", "short_ton", 2850, 1216, 160, [3]int{0, 0, 0}},
+		{"biogas", "scf", 0.034106, 0.002096, 0.000413, [3]int{6, 6, 6}}, // Other Biomass Gases
 	} {
 		r := call(t, e, `fuel_co2("`+c.fuel+`", 1, "`+c.unit+`", "epa2025")`)
 		gcv := e.packs.lookup("epa2025", c.fuel, "gcv").Value
@@ -44,7 +51,7 @@ func TestHubTableRows(t *testing.T) {
 		}
 	}
 	// Wood and landfill gas keep their biogenic handling: CO2 is a memo item.
-	for _, f := range []string{"wood", "landfill_gas"} {
+	for _, f := range []string{"wood", "landfill_gas", "biogas"} {
 		r := call(t, e, `fuel_co2e("`+f+`", 1, "MMBtu HHV", "ar5", "epa2025")`)
 		if !hasNote(r, "CO2 from "+f+" is biogenic") {
 			t.Errorf("%s: %q", f, r.Notes)
@@ -60,7 +67,7 @@ func TestHubTableRows(t *testing.T) {
 func TestBothPacksAnswer(t *testing.T) {
 	e := newTestEngine(t)
 	for _, f := range []string{"jet_kerosene", "crude_oil", "petroleum_coke", "wood", "peat", "coal_coke", "coking_coal", "lubricants",
-		"waste_oil", "refinery_gas", "blast_furnace_gas", "coke_oven_gas", "landfill_gas"} {
+		"waste_oil", "refinery_gas", "blast_furnace_gas", "coke_oven_gas", "landfill_gas", "naphtha", "ethane", "bitumen", "other_petroleum_products", "biogas"} {
 		for _, p := range []string{"ipcc2006", "epa2025"} {
 			if _, err := evalExpr(e, `fuel_co2e("`+f+`", 1, "TJ", "ar5", "`+p+`")`); err != nil {
 				t.Errorf("%s in %s: %v", f, p, err)
@@ -77,6 +84,7 @@ func TestNewIPCCRows(t *testing.T) {
 	for id, co2 := range map[string]float64{
 		"coal_coke": 107000, "lubricants": 73300, "waste_oil": 73300, "refinery_gas": 57600,
 		"blast_furnace_gas": 260000, "coke_oven_gas": 44400, "landfill_gas": 54600,
+		"naphtha": 73300, "ethane": 61600, "bitumen": 80700, "other_petroleum_products": 73300, "biogas": 54600,
 	} {
 		cc := e.packs.lookup("ipcc2006", id, "carbon_content").Value
 		if math.Abs(cc*44/12*1000-co2)/co2 > 0.005 {

@@ -22,28 +22,28 @@ func gridFunctions(e *Engine) []*Function {
 	unit := Param{Name: "unit", Type: typeString, Unit: "unit string", Doc: "energy unit of amount (kWh, MWh, GWh, GJ, MMBtu...)", kind: kindEnergyUnit}
 	grid := paramStr("grid", "grid id or name: us, us_camx (eGRID subregion), eu27, de, fr, pl (EU member states), gb, \"Germany\", \"eGRID SRVC\", or the id of a user's supplier or residual-mix row (fluecell grids lists them)").checked(checkGrid)
 	method := optional(paramStr("method", "Scope 2 method: location (grid average) or market (supplier or residual-mix row)", MethodLocation, MethodMarket), MethodLocation).checked(checkMethod)
-	year := optional(paramNum("year", "yr", "data year of the grid factor"), "latest loaded for the grid")
+	year := optional(paramNum("year", "yr", "data year of the grid factor; 0 means the latest loaded"), "latest loaded for the grid")
 	gwpSet := optional(paramStr("gwp_set", "IPCC assessment whose GWP-100 values weight CH4 and N2O", e.gwpSets()...), DefaultGWPSet).with(kindGWPSet)
 	carrier := optional(paramStr("carrier", "what was purchased", "steam", "hot_water", "heat", "chilled_water"), "steam").checked(checkCarrier)
 	set := optional(paramStr("set", "set of published heat factors", e.grids.heatSets()...), defaultHeatSet).checked(checkHeatSet)
-	scope2 := []string{"US EPA eGRID2024 (EPA GHG Emission Factors Hub 2026 Table 6)", "US EPA eGRID2023 Summary Tables Table 1",
-		"European Environment Agency, GHG emission intensity of electricity generation", "UK Government GHG Conversion Factors for Company Reporting 2025",
+	scope2 := []string{"US EPA eGRID2022, CO2 total output emission rates by subregion",
+		"European Environment Agency, CO2 and GHG emission intensity of electricity generation", "UK Government GHG Conversion Factors for Company Reporting 2023",
 		"GHG Protocol Scope 2 Guidance (2015)"}
 	return []*Function{
 		{Name: "electricity_co2e", Doc: "Scope 2 CO2e of electricity consumed: amount x the grid's rate (CO2, plus CH4 and N2O x GWP where the source gives them). Location-based by default; market-based takes a supplier or residual-mix row.",
 			ResultUnit: "t CO2e", Params: []Param{amount, unit, grid, method, year, gwpSet},
-			Example: `electricity_co2e(1000, "MWh", "us_camx", "location", 2024)`, ExampleResult: (403.6 + 0.025*28 + 0.003*265) * 0.45359237,
+			Example: `electricity_co2e(1000, "MWh", "gb", "location", 2023)`, ExampleResult: 207.07,
 			Sources: scope2, call: callElectricity(true)},
 		{Name: "electricity_co2", Doc: "Scope 2 CO2 of electricity consumed: amount x the grid's CO2 rate.",
 			ResultUnit: "t CO2", Params: []Param{amount, unit, grid, method, year},
-			Example: `electricity_co2(1000, "MWh", "gb")`, ExampleResult: 174.89, Sources: scope2, call: callElectricity(false)},
+			Example: `electricity_co2(1000, "MWh", "us_camx")`, ExampleResult: 497.443 * 0.45359237, Sources: scope2, call: callElectricity(false)},
 		{Name: "electricity_losses_co2e", Doc: "CO2e of the transmission and distribution losses attributable to electricity consumed (reported apart from Scope 2, as Scope 3 category 3): the source's T&D factor, or consumption x loss/(1 - loss) x the grid's rate.",
 			ResultUnit: "t CO2e", Params: []Param{amount, unit, grid, year, gwpSet},
-			Example: `electricity_losses_co2e(1000, "MWh", "gb")`, ExampleResult: 18.53, Sources: scope2, call: callLosses},
+			Example: `electricity_losses_co2e(1000, "MWh", "gb", 2023)`, ExampleResult: 17.92, Sources: scope2, call: callLosses},
 		{Name: "heat_co2e", Doc: "Scope 2 CO2e of purchased steam, hot water or cooling from a published default, whose assumption (boiler fuel and efficiency) is named in the notes.",
 			ResultUnit: "t CO2e", Params: []Param{amount, unit, carrier, set, gwpSet},
 			Example: `heat_co2e(1000, "MMBtu")`, ExampleResult: 66.33 + 1.25*28/1000 + 0.125*265/1000,
-			Sources: []string{"US EPA GHG Emission Factors Hub (2025) Table 7 Steam and Heat", "UK Government GHG Conversion Factors for Company Reporting 2025, Heat and steam"}, call: callHeat},
+			Sources: []string{"US EPA GHG Emission Factors Hub (2025) Table 7 Steam and Heat", "UK Government GHG Conversion Factors for Company Reporting 2023, Heat and steam"}, call: callHeat},
 	}
 }
 
@@ -77,14 +77,14 @@ func energyAmount(fn, s string) (units.Unit, error) {
 	return u, nil
 }
 
-// optYear reads the year argument: 0 when left out, else a whole year.
+// optYear reads the year argument: 0 when left out or 0 (the latest), else a whole year.
 func optYear(a argList, i int) (int, error) {
 	v, given, err := a.optNum(i)
-	if err != nil || !given {
+	if err != nil || !given || v == 0 {
 		return 0, err
 	}
 	if v != math.Trunc(v) || v < 1900 || v > 2200 {
-		return 0, &Error{Code: CodeBadArgument, Func: a.fn.Name, Param: "year", Msg: "year must be a whole year such as 2024, got " + FormatNumber(v)}
+		return 0, &Error{Code: CodeBadArgument, Func: a.fn.Name, Param: "year", Msg: "year must be a whole year such as 2024 (or 0 for the latest), got " + FormatNumber(v)}
 	}
 	return int(v), nil
 }
@@ -106,6 +106,10 @@ func (e *Engine) pickEdition(fn string, g *gridEntry, year int, ok func(*gridEdi
 		return nil, nil, &Error{Code: CodeMissingFactor, Func: fn, Param: "grid", Msg: "grid " + g.id + " (" + g.name + ") has no " + what + e.gridsWith(ok)}
 	}
 	if year == 0 {
+		if newest := g.editions[0]; newest.year > cands[0].year {
+			return cands[0], []string{"the " + newest.yearText() + " set (" + newest.set + ") gives no " + what + " for " + g.id +
+				"; the latest that does is " + cands[0].yearText()}, nil
+		}
 		return cands[0], nil, nil
 	}
 	for _, ed := range cands {

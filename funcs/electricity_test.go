@@ -17,30 +17,38 @@ func TestElectricityReference(t *testing.T) {
 		expr, source string
 		want         float64
 	}{
-		// US EPA GHG Emission Factors Hub (2026) Table 6 (eGRID2024), total output rates, lb/MWh.
-		{`electricity_co2(1000, "MWh", "us_camx", "location", 2024)`, "Hub 2026 Table 6 CAMX CO2 403.6", 403.6 * lbToKg},
-		{`electricity_co2(1, "GWh", "us")`, "Hub 2026 Table 6 US average CO2 747.9", 747.9 * lbToKg},
-		{`electricity_co2e(1000, "MWh", "us_erct", "location", 2024)`, "Hub 2026 Table 6 ERCT 700.7 / 0.040 / 0.006, AR5 28/265",
-			(700.7 + 0.040*28 + 0.006*265) * lbToKg},
-		{`electricity_co2e(1000, "MWh", "us_prms", "location", 2024, "ar4")`, "Hub 2026 Table 6 PRMS 1594.5 / 0.085 / 0.014, AR4 25/298",
-			(1594.5 + 0.085*25 + 0.014*298) * lbToKg},
-		// US EPA eGRID2023 Summary Tables rev 2, Table 1: CO2e total output rate as published (AR5).
-		{`electricity_co2e(1000, "MWh", "us_nyup", "location", 2023)`, "eGRID2023 Table 1 NYUP CO2e 242.8", 242.8 * lbToKg},
-		{`electricity_co2(1000, "MWh", "us_srmw", "location", 2023)`, "eGRID2023 Table 1 SRMW CO2 1239.8", 1239.8 * lbToKg},
-		{`electricity_co2e(1000, "MWh", "us_srmw", "location", 2023, "ar6")`, "eGRID2023 Table 1 SRMW 1239.8 / 0.132 / 0.019, AR6 27.9/273",
-			(1239.8 + 0.132*27.9 + 0.019*273) * lbToKg},
-		{`electricity_co2e(1000, "MWh", "us", "location", 2023)`, "eGRID2023 US CO2e 770.9", 770.9 * lbToKg},
-		// UK GHG Conversion Factors 2025, UK electricity: electricity generated, kg CO2e/kWh.
-		{`electricity_co2e(1000, "MWh", "gb")`, "UK 2025 electricity generated 0.177 kg CO2e/kWh", 177},
-		{`electricity_co2(1000, "MWh", "gb")`, "UK 2025 electricity generated, kg CO2e of CO2 0.17489", 174.89},
-		{`electricity_co2e(1000, "MWh", "gb", "location", 2025, "ar6")`, "UK 2025 split 0.17489 + 0.0009/28x27.9 + 0.00122/265x273",
-			174.89 + 0.9/28*27.9 + 1.22/265*273},
-		// European Environment Agency, GHG emission intensity of electricity generation, g CO2e/kWh.
-		{`electricity_co2e(1000, "MWh", "pl")`, "EEA 2022 Poland 681 g CO2e/kWh", 681},
-		{`electricity_co2e(1000, "MWh", "fr")`, "EEA 2022 France 74 g CO2e/kWh", 74},
-		{`electricity_co2e(500, "kWh", "se")`, "EEA 2022 Sweden 8 g CO2e/kWh", 0.004},
+		// US EPA eGRID2022, CO2 total output emission rate by eGRID subregion (lb/MWh), EPA data file
+		// USEPA/ggcapdthemes data-raw/CO2_total_output_emission_rate_by_eGRID_subregion_2022.csv.
+		{`electricity_co2(1000, "MWh", "us_camx", "location", 2022)`, "eGRID2022 CAMX CO2 497.443", 497.443 * lbToKg},
+		{`electricity_co2(1, "GWh", "us")`, "eGRID2022 US CO2 823.149", 823.149 * lbToKg},
+		{`electricity_co2e(1000, "MWh", "us_erct")`, "eGRID2022 ERCT CO2 771.083 (CO2 only: CH4 and N2O not included)", 771.083 * lbToKg},
+		{`electricity_co2e(1000, "MWh", "us_prms", "location", 2022, "ar4")`, "eGRID2022 PRMS CO2 1593.481 (CO2 only, any GWP set)", 1593.481 * lbToKg},
+		// UK Government GHG Conversion Factors 2023, flat file v1.1 (Factors by Category rows 2850-2853),
+		// UK electricity: electricity generated, kg CO2e/kWh; the split is stated with AR5 (28, 265).
+		{`electricity_co2e(1000, "MWh", "gb", "location", 2023)`, "UK 2023 electricity generated 0.20707 kg CO2e/kWh", 207.07},
+		{`electricity_co2e(1000, "MWh", "gb")`, "UK 2023 electricity generated 0.20707 kg CO2e/kWh (latest)", 207.07},
+		{`electricity_co2(1000, "MWh", "gb")`, "UK 2023 electricity generated, kg CO2e of CO2 0.20496", 204.96},
+		{`electricity_co2e(1000, "MWh", "gb", "location", 2023, "ar6")`, "UK 2023 split 0.20496 + 0.0009/28x27.9 + 0.00122/265x273",
+			204.96 + 0.9/28*27.9 + 1.22/265*273},
+		// EEA CO2 emission intensity of electricity generation (2017 data set), 2014, g CO2/kWh,
+		// as transcribed in quintel/documentation (Table 1); CO2 only.
+		{`electricity_co2e(1000, "MWh", "pl")`, "EEA 2014 Poland 670.6 g CO2/kWh", 670.6},
+		{`electricity_co2(1000, "MWh", "fr")`, "EEA 2014 France 34.8 g CO2/kWh", 34.8},
+		{`electricity_co2e(500, "kWh", "se")`, "EEA 2014 Sweden 10.5 g CO2/kWh", 0.00525},
+		{`electricity_co2e(1000, "MWh", "gb", "location", 2014)`, "EEA 2014 United Kingdom 388.8 g CO2/kWh", 388.8},
 		{`electricity_co2e(1, "GWh", "eu27")`, "EEA assessment 2020: EU-27 2018 281 g CO2e/kWh", 281},
-		{`electricity_co2e(3.6, "TJ", "de")`, "EEA 2022 Germany 368 g CO2e/kWh; 3.6 TJ = 1 GWh", 368},
+		{`electricity_co2e(3.6, "TJ", "de")`, "EEA 2014 Germany 424.9 g CO2/kWh; 3.6 TJ = 1 GWh", 424.9},
+		// Australian National Greenhouse Accounts Factors 2024, scope 2 (EF2), kg CO2-e/kWh,
+		// read in the Hugging Face dataset Programmer-RD-AI/national-greenhouse-accounts-factors-2024.
+		{`electricity_co2e(1000, "MWh", "Victoria")`, "NGA 2024 Victoria 0.77", 770},
+		{`electricity_co2e(1000, "MWh", "Australian Capital Territory")`, "NGA 2024 NSW and ACT 0.66", 660},
+		{`electricity_co2e(1000, "MWh", "Tasmania")`, "NGA 2024 Tasmania 0.15", 150},
+		{`electricity_co2e(1, "GWh", "Australia")`, "NGA 2024 national average 0.63", 630},
+		// Canada NIR 1990-2019 (2021) Annex 13, electricity intensity by province, g CO2 eq/kWh.
+		{`electricity_co2e(1000, "MWh", "Alberta")`, "NIR 2021 Annex 13 Alberta 2019 670", 670},
+		{`electricity_co2e(1000, "MWh", "Alberta", "location", 2018)`, "NIR 2021 Annex 13 Alberta 2018 690", 690},
+		{`electricity_co2e(1000, "MWh", "Québec", "location", 2017)`, "NIR 2021 Annex 13 Quebec 2017 1.4", 1.4},
+		{`electricity_co2e(1, "GWh", "CAN")`, "NIR 2021 Annex 13 Canada 2019 120", 120},
 	}
 	for _, tc := range tests {
 		r, err := evalExpr(e, tc.expr)
@@ -54,44 +62,78 @@ func TestElectricityReference(t *testing.T) {
 	}
 }
 
-// TestElectricityWorkedExample: 1000 MWh in eGRID subregion SRVC, data year 2024.
-// Hub 2026 Table 6 SRVC: CO2 637.4, CH4 0.047, N2O 0.007 lb/MWh. With AR5
-// (CH4 28, N2O 265): 637.4 + 1.316 + 1.855 = 640.571 lb CO2e/MWh; x 1000 MWh =
-// 640 571 lb = 290.5588... t CO2e.
+// TestElectricityWorkedExample: 1000 MWh in eGRID subregion SRVC, data year 2022.
+// eGRID2022 SRVC CO2 total output rate 622.987 lb/MWh (EPA data file
+// USEPA/ggcapdthemes data-raw/CO2_total_output_emission_rate_by_eGRID_subregion_2022.csv);
+// x 1000 MWh = 622 987 lb = 282.5826... t CO2. The set gives CO2 only, so CO2e is CO2 with a note.
 func TestElectricityWorkedExample(t *testing.T) {
 	e := newTestEngine(t)
-	r := call(t, e, `electricity_co2e(1000, "MWh", "eGRID SRVC", "location", 2024)`)
-	if !near(r.Value, 640571*lbToKg/1000, 1e-12) || r.Unit != "t CO2e" {
-		t.Errorf("SRVC: %v %s, want %v t CO2e", r.Value, r.Unit, 640571*lbToKg/1000)
+	r := call(t, e, `electricity_co2e(1000, "MWh", "eGRID SRVC", "location", 2022)`)
+	if !near(r.Value, 622987*lbToKg/1000, 1e-12) || r.Unit != "t CO2e" {
+		t.Errorf("SRVC: %v %s, want %v t CO2e", r.Value, r.Unit, 622987*lbToKg/1000)
 	}
-	for _, part := range []string{"grid us_srvc", "location-based", "data year 2024", "Hub (2026) Table 6", "CH4 x 28 + N2O x 265", `"eGRID SRVC" read as us_srvc`} {
+	for _, part := range []string{"grid us_srvc", "location-based", "data year 2022", "eGRID2022", "the source gives CO2 only", `"eGRID SRVC" read as us_srvc`} {
 		if !hasNote(r, part) {
 			t.Errorf("notes %q lack %q", r.Notes, part)
 		}
 	}
-	keys := strings.Join(r.FactorKeys(), " ")
-	for _, k := range []string{"egrid2024/us_srvc/grid_co2", "egrid2024/us_srvc/grid_ch4", "egrid2024/us_srvc/grid_n2o", "common/ch4/gwp100_ar5"} {
-		if !strings.Contains(keys, k) {
-			t.Errorf("sources %s lack %s", keys, k)
-		}
+	if keys := strings.Join(r.FactorKeys(), " "); !strings.Contains(keys, "egrid2022/us_srvc/grid_co2") {
+		t.Errorf("sources %s lack egrid2022/us_srvc/grid_co2", keys)
 	}
-	// The default year is the latest loaded: 2024 for eGRID subregions.
+	// The default year, and year 0, is the latest loaded: 2022 for eGRID subregions.
 	if d := call(t, e, `electricity_co2e(1000, "MWh", "us_srvc")`); d.Value != r.Value {
-		t.Errorf("default year gives %v, 2024 gives %v", d.Value, r.Value)
+		t.Errorf("default year gives %v, 2022 gives %v", d.Value, r.Value)
+	}
+	if d := call(t, e, `electricity_co2e(1000, "MWh", "us_srvc", "location", 0, "ar5")`); d.Value != r.Value {
+		t.Errorf("year 0 gives %v, 2022 gives %v", d.Value, r.Value)
+	}
+	if id, ok := e.LookupGrid("SRVC"); !ok || id != "us_srvc" {
+		t.Errorf("LookupGrid(SRVC) = %q, %v", id, ok)
+	}
+	if _, ok := e.LookupGrid("diesel"); ok {
+		t.Error("LookupGrid(diesel) reads as a grid")
 	}
 }
 
-// TestElectricityLosses: UK T&D factor as published, and eGRID's grid gross
-// loss applied as consumption x r / (1 - r) x the generation rate.
+// laterSetRows is a later UK set that states CO2e only, and an eGRID-style set
+// with a grid loss rate (both invented for these tests).
+const laterSetRows = `pack,id,quantity,value,unit,source,from_memory
+uk2030,gb,grid_co2e,0.1,kg CO2e/kWh,"later UK set stating CO2e only (invented for this test)",false
+lossy2022,us_camx,grid_co2,500,lb CO2/MWh,"subregion rate (invented for this test)",false
+lossy2022,us_camx,grid_loss_rate,0.05,1,"grid gross loss (invented for this test)",false
+`
+
+// TestElectricityLatestWithData: a later set that states CO2e only leaves CO2
+// to the latest set that gives it (UK conversion factors 2023, kg CO2e of CO2
+// 0.20496), said in a note.
+func TestElectricityLatestWithData(t *testing.T) {
+	e, err := New(WithFactorData("later.csv", []byte(laterSetRows)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := call(t, e, `electricity_co2(1000, "MWh", "gb")`)
+	if !near(r.Value, 204.96, 1e-12) || !hasNote(r, "the 2030 set (uk2030) gives no location-based CO2 factor for gb; the latest that does is 2023") {
+		t.Errorf("gb CO2: %v %q", r.Value, r.Notes)
+	}
+	if r := call(t, e, `electricity_co2e(1000, "MWh", "gb")`); !near(r.Value, 100, 1e-12) {
+		t.Errorf("gb CO2e 2030: %v", r.Value)
+	}
+}
+
+// TestElectricityLosses: UK T&D factor as published, and a grid loss rate
+// applied as consumption x r / (1 - r) x the generation rate.
 func TestElectricityLosses(t *testing.T) {
-	e := newTestEngine(t)
-	// UK conversion factors 2025, Transmission and distribution: T&D- UK electricity 0.01853 kg CO2e/kWh.
-	if r := call(t, e, `electricity_losses_co2e(1000, "MWh", "United Kingdom")`); !near(r.Value, 18.53, 1e-12) || !hasNote(r, "Scope 3 category 3") {
+	e, err := New(WithFactorData("later.csv", []byte(laterSetRows)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	// UK conversion factors 2023 (flat file row 3411), T&D- UK electricity 0.01792 kg CO2e/kWh.
+	if r := call(t, e, `electricity_losses_co2e(1000, "MWh", "United Kingdom", 2023)`); !near(r.Value, 17.92, 1e-12) || !hasNote(r, "Scope 3 category 3") || !hasNote(r, "data year 2023") {
 		t.Errorf("gb losses %v %q", r.Value, r.Notes)
 	}
-	// Hub 2026 Table 6 CAMX: 403.6 / 0.025 / 0.003 lb/MWh, grid gross loss 4.4 %.
-	want := (403.6 + 0.025*28 + 0.003*265) * lbToKg * 0.044 / 0.956
-	if r := call(t, e, `electricity_losses_co2e(1000, "MWh", "us_camx")`); !near(r.Value, want, 1e-12) || !hasNote(r, "0.044 / (1 - 0.044)") {
+	// Invented set: 500 lb CO2/MWh, loss rate 5 %: 1000 MWh x 0.05 / 0.95 x 500 lb.
+	want := 500 * lbToKg * 0.05 / 0.95
+	if r := call(t, e, `electricity_losses_co2e(1000, "MWh", "us_camx", 2022)`); !near(r.Value, want, 1e-12) || !hasNote(r, "0.05 / (1 - 0.05)") {
 		t.Errorf("CAMX losses %v, want %v; %q", r.Value, want, r.Notes)
 	}
 }
@@ -116,14 +158,14 @@ func TestElectricityMarket(t *testing.T) {
 	if r := call(t, e, `electricity_co2e(1000, "MWh", "Germany", "market")`); !near(r.Value, 600, 1e-12) {
 		t.Errorf("residual mix de: %v", r.Value)
 	}
-	if r := call(t, e, `electricity_co2e(1000, "MWh", "de")`); !near(r.Value, 368, 1e-12) {
+	if r := call(t, e, `electricity_co2e(1000, "MWh", "de")`); !near(r.Value, 424.9, 1e-12) {
 		t.Errorf("location de with a market row loaded: %v", r.Value)
 	}
 	if r := call(t, e, `electricity_co2(1000, "MWh", "pl", "market")`); !near(r.Value, 700, 1e-12) {
 		t.Errorf("market CO2 pl: %v", r.Value)
 	}
 	// No market row for fr: the grid average, said in a note.
-	if r := call(t, e, `electricity_co2e(1000, "MWh", "fr", "market")`); !near(r.Value, 74, 1e-12) || !hasNote(r, "location-based grid average is used") {
+	if r := call(t, e, `electricity_co2e(1000, "MWh", "fr", "market")`); !near(r.Value, 34.8, 1e-12) || !hasNote(r, "location-based grid average is used") {
 		t.Errorf("fr market fallback: %v %q", r.Value, r.Notes)
 	}
 	if _, err := evalExpr(e, `electricity_co2e(1000, "MWh", "de", "market", 2025)`); err == nil ||
@@ -135,7 +177,7 @@ func TestElectricityMarket(t *testing.T) {
 		t.Errorf("location on a supplier row: %v", err)
 	}
 	// User grid sets are not fuel packs.
-	if ps := e.PackNames(); slices.Contains(ps, "supplier2025") || slices.Contains(ps, "egrid2024") || slices.Contains(ps, "residual2024") {
+	if ps := e.PackNames(); slices.Contains(ps, "supplier2025") || slices.Contains(ps, "egrid2022") || slices.Contains(ps, "residual2024") {
 		t.Errorf("pack names %v list grid sets", ps)
 	}
 	gi, err := e.ResolveGrid("Brightvolt green")
@@ -144,20 +186,42 @@ func TestElectricityMarket(t *testing.T) {
 	}
 }
 
+// TestElectricityUndatedRow: a supplier row without a pack column applies to every
+// pack; it is one undated market-based edition named by its file, used for any year
+// with a note, and it never turns a grid average into a market factor.
+func TestElectricityUndatedRow(t *testing.T) {
+	rows := "id,quantity,value,unit,source\nde,market_co2e,0.45,kg CO2e/kWh,\"supplier statement (invented for this test)\"\n"
+	e, err := New(WithFactorData("supplier.csv", []byte(rows)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := call(t, e, `electricity_co2e(1000, "MWh", "de", "market", 2024)`)
+	if !near(r.Value, 450, 1e-12) || !hasNote(r, "user set supplier.csv") || !hasNote(r, "states no year; it is used for 2024") {
+		t.Errorf("undated supplier row: %v %q", r.Value, r.Notes)
+	}
+	if r := call(t, e, `electricity_co2e(1000, "MWh", "de")`); !near(r.Value, 424.9, 1e-12) || !hasNote(r, "European Environment Agency") {
+		t.Errorf("location de: %v %q", r.Value, r.Notes)
+	}
+	if g, _ := e.ResolveGrid("de"); !slices.Equal(g.Years, []int{2014}) || !slices.Equal(g.Methods, []string{MethodLocation, MethodMarket}) {
+		t.Errorf("de: %+v", g)
+	}
+}
+
 // TestElectricityBadInputs: every bad input names its parameter and what is accepted.
 func TestElectricityBadInputs(t *testing.T) {
 	e := newTestEngine(t)
 	tests := []struct{ expr, param, msg string }{
-		{`electricity_co2e(1000, "MWh", "Germny")`, "grid", `unknown grid "Germny" (did you mean germany (de)?): accepted are at, be, bg,`},
-		{`electricity_co2e(1000, "MWh", "atlantis")`, "grid", `unknown grid "atlantis": accepted are at, be, bg, cy, cz, de,`},
-		{`electricity_co2e(1000, "MWh", "us", "location", 2019)`, "year", `grid us has no location-based factor for 2019: available years are 2024, 2023`},
-		{`electricity_co2e(1000, "MWh", "us", "location", 2024.5)`, "year", `year must be a whole year such as 2024, got 2024.5`},
-		{`electricity_co2(1000, "MWh", "de")`, "grid", `grid de (Germany) has a CO2e rate only, no CO2 rate: use electricity_co2e`},
+		{`electricity_co2e(1000, "MWh", "Germny")`, "grid", `unknown grid "Germny" (did you mean germany (de)?): accepted are at, au, au_nsw,`},
+		{`electricity_co2e(1000, "MWh", "atlantis")`, "grid", `unknown grid "atlantis": accepted are at, au, au_nsw,`},
+		{`electricity_co2e(1000, "MWh", "us", "location", 2019)`, "year", `grid us has no location-based factor for 2019: available years are 2022`},
+		{`electricity_co2e(1000, "MWh", "ca_on", "location", 2016)`, "year", `grid ca_on has no location-based factor for 2016: available years are 2019, 2018, 2017`},
+		{`electricity_co2e(1000, "MWh", "us", "location", 2024.5)`, "year", `year must be a whole year such as 2024 (or 0 for the latest), got 2024.5`},
+		{`electricity_co2(1000, "MWh", "au_vic")`, "grid", `grid au_vic (Victoria) has a CO2e rate only, no CO2 rate: use electricity_co2e`},
 		{`electricity_co2e(1000, "t", "us")`, "unit", `unit "t" is a mass, but an energy is needed here`},
 		{`electricity_co2e(1000, "MWh HHV", "us")`, "unit", `delivered energy has no heating-value basis: write "MWh" without HHV`},
 		{`electricity_co2e(1000, "MWh", "us", "residual")`, "method", `unknown method "residual": accepted are location, market`},
-		{`electricity_co2e(1000, "MWh", "us", "location", 2024, "ar9")`, "gwp_set", `unknown GWP set "ar9": accepted are ar4, ar5, ar6`},
-		{`electricity_losses_co2e(1000, "MWh", "de")`, "grid", `grid de (Germany) has no transmission and distribution loss data; grids with it: gb, us,`},
+		{`electricity_co2e(1000, "MWh", "us", "location", 2022, "ar9")`, "gwp_set", `unknown GWP set "ar9": accepted are ar4, ar5, ar6`},
+		{`electricity_losses_co2e(1000, "MWh", "de")`, "grid", `grid de (Germany) has no transmission and distribution loss data; grids with it: gb`},
 	}
 	for _, tc := range tests {
 		_, err := evalExpr(e, tc.expr)
@@ -178,9 +242,10 @@ func TestResolveGrid(t *testing.T) {
 	for name, want := range map[string]string{
 		"de": "de", "DE": "de", "Germany": "de", "DEU": "de", "Deutschland": "de",
 		"United Kingdom": "gb", "UK": "gb", "Great Britain": "gb", "GB": "gb", "GBR": "gb",
-		"CAMX": "us_camx", "eGRID CAMX": "us_camx", "eGRID2023 CAMX": "us_camx", "US-CAMX": "us_camx", "WECC California": "us_camx",
+		"CAMX": "us_camx", "eGRID CAMX": "us_camx", "eGRID2022 CAMX": "us_camx", "US-CAMX": "us_camx", "WECC California": "us_camx",
 		"SRVC": "us_srvc", "SERC Virginia/Carolinas": "us_srvc", "subregion: SRVC": "us_srvc",
 		"U.S.": "us", "USA": "us", "United States": "us", "US average": "us",
+		"Australia": "au", "South West Interconnected System": "au_wa_swis", "NSW": "au_nsw", "AU-SA": "au_sa",
 		"EU-27": "eu27", "European Union": "eu27", "EL": "gr", "Czech Republic": "cz", "España": "es",
 	} {
 		gi, err := e.ResolveGrid(name)
@@ -189,8 +254,22 @@ func TestResolveGrid(t *testing.T) {
 		}
 	}
 	_, err := e.ResolveGrid("Norway")
-	if fe, ok := AsError(err); !ok || fe.Param != "grid" || !strings.Contains(fe.Msg, "accepted are at, be,") {
+	if fe, ok := AsError(err); !ok || fe.Param != "grid" || !strings.Contains(fe.Msg, "accepted are at, au,") {
 		t.Errorf("Norway: %v", err)
+	}
+}
+
+// TestGridQuantityNames: the cheap test agrees with the declared quantities.
+func TestGridQuantityNames(t *testing.T) {
+	for q := range gridQuantities() {
+		if !isGridQuantity(q) {
+			t.Errorf("%s declared but not recognised", q)
+		}
+	}
+	for _, q := range []string{"co2_ef", "grid", "grid_co2x", "lifecycle", "heat_", "gwp100_ar5"} {
+		if isGridQuantity(q) {
+			t.Errorf("%s recognised as a grid quantity", q)
+		}
 	}
 }
 
@@ -198,18 +277,19 @@ func TestResolveGrid(t *testing.T) {
 func TestGrids(t *testing.T) {
 	e := newTestEngine(t)
 	gs := e.Grids()
-	// 27 eGRID subregions + US, 27 EU member states + EU-27, UK.
-	if len(gs) != 57 {
-		t.Errorf("%d grids, want 57", len(gs))
+	// 27 eGRID subregions + US, 27 EU member states + EU-27, UK, Australia + 7 NGA state rows,
+	// Canada + 13 provinces and territories.
+	if len(gs) != 79 {
+		t.Errorf("%d grids, want 79", len(gs))
 	}
 	byID := map[string]GridInfo{}
 	for _, g := range gs {
 		byID[g.ID] = g
 	}
-	if g := byID["us_camx"]; g.Name != "WECC California (CAMX)" || !slices.Equal(g.Years, []int{2023, 2024}) || !g.Losses || len(g.Sources) != 2 {
+	if g := byID["us_camx"]; g.Name != "WECC California (CAMX)" || !slices.Equal(g.Years, []int{2022}) || g.Losses || len(g.Sources) != 1 {
 		t.Errorf("us_camx: %+v", g)
 	}
-	if g := byID["gb"]; !slices.Equal(g.Years, []int{2025}) || !g.Losses || !slices.Equal(g.Methods, []string{MethodLocation}) {
+	if g := byID["gb"]; !slices.Equal(g.Years, []int{2014, 2023}) || !g.Losses || !slices.Equal(g.Methods, []string{MethodLocation}) || len(g.Sources) != 2 {
 		t.Errorf("gb: %+v", g)
 	}
 	if g := byID["pl"]; g.Name != "Poland" || g.Losses {
@@ -222,7 +302,7 @@ func TestGrids(t *testing.T) {
 	if _, err := e.Factors("", ""); err != nil {
 		t.Error(err)
 	}
-	if _, err := evalExpr(e, `fuel_co2("natural_gas", 1000, "GJ", "egrid2024")`); err == nil || !strings.Contains(err.Error(), `unknown pack "egrid2024"`) {
+	if _, err := evalExpr(e, `fuel_co2("natural_gas", 1000, "GJ", "egrid2022")`); err == nil || !strings.Contains(err.Error(), `unknown pack "egrid2022"`) {
 		t.Errorf("a grid set as fuel pack: %v", err)
 	}
 }

@@ -32,16 +32,9 @@ func (e *Engine) resolveTech(fn, s string) (id, note string, err error) {
 }
 
 func callLifecycle(e *Engine, c *callCtx, a argList) (float64, string, error) {
-	ts, err := a.str(0)
+	tech, err := e.techArg(c, a, 0)
 	if err != nil {
 		return 0, "", err
-	}
-	tech, note, err := e.resolveTech(a.fn.Name, ts)
-	if err != nil {
-		return 0, "", err
-	}
-	if note != "" {
-		c.note(note)
 	}
 	stat, err := a.optStr(1, "median")
 	if err != nil {
@@ -49,47 +42,123 @@ func callLifecycle(e *Engine, c *callCtx, a argList) (float64, string, error) {
 	}
 	f := e.packs.lookup(CommonPack, tech, "lifecycle")
 	c.use(f)
-	switch strings.ToLower(strings.TrimSpace(stat)) {
-	case "median", "":
-		return f.Value, "", nil
-	case "min":
-		if f.Low == nil {
-			return 0, "", &Error{Code: CodeMissingFactor, Func: a.fn.Name, Param: "stat", Msg: "no published minimum for " + tech}
-		}
-		return *f.Low, "", nil
-	case "max":
-		if f.High == nil {
-			return 0, "", &Error{Code: CodeMissingFactor, Func: a.fn.Name, Param: "stat", Msg: "no published maximum for " + tech}
-		}
-		return *f.High, "", nil
-	}
-	return 0, "", &Error{Code: CodeBadArgument, Func: a.fn.Name, Param: "stat", Msg: "unknown statistic " + quote(stat) + ": accepted are min, median, max"}
+	v, err := statValue(f, stat, a.fn.Name, tech)
+	return v, "", err
 }
 
-// embodiedPerMW computes t CO2e per MW for the arguments at indexes
-// tech, cf and lifetime of a.
-func (e *Engine) embodiedPerMW(c *callCtx, a argList, techI, cfI, lifeI int) (float64, error) {
-	ts, err := a.str(techI)
+// techArg resolves the technology argument at index i and notes how a name
+// other than an id was read.
+func (e *Engine) techArg(c *callCtx, a argList, i int) (string, error) {
+	ts, err := a.str(i)
 	if err != nil {
-		return 0, err
+		return "", err
 	}
 	tech, note, err := e.resolveTech(a.fn.Name, ts)
 	if err != nil {
-		return 0, err
+		return "", err
 	}
 	if note != "" {
 		c.note(note)
 	}
-	lc := e.packs.lookup(CommonPack, tech, "lifecycle")
-	c.use(lc)
-	direct := 0.0
-	if d := e.packs.lookup(CommonPack, tech, "direct"); d != nil {
-		direct = d.Value
-		c.use(d)
-		c.note("embodied = life-cycle median " + FormatNumber(lc.Value) + " - direct median " + FormatNumber(d.Value) + " g CO2e/kWh")
-	} else {
-		c.note("no direct (combustion) intensity is published for " + tech + ": the whole life-cycle median " + FormatNumber(lc.Value) + " g CO2e/kWh counts as embodied")
+	return tech, nil
+}
+
+// statValue is the median (value), min (low) or max (high) of a row. A row
+// without the published bound asked for, or an unknown statistic, is an error
+// of parameter stat.
+func statValue(f *Factor, stat, fn, id string) (float64, error) {
+	switch strings.ToLower(strings.TrimSpace(stat)) {
+	case "median", "":
+		return f.Value, nil
+	case "min":
+		if f.Low == nil {
+			return 0, &Error{Code: CodeMissingFactor, Func: fn, Param: "stat", Msg: "no published minimum for " + id}
+		}
+		return *f.Low, nil
+	case "max":
+		if f.High == nil {
+			return 0, &Error{Code: CodeMissingFactor, Func: fn, Param: "stat", Msg: "no published maximum for " + id}
+		}
+		return *f.High, nil
 	}
+	return 0, &Error{Code: CodeBadArgument, Func: fn, Param: "stat", Msg: "unknown statistic " + quote(stat) + ": accepted are min, median, max"}
+}
+
+// lifecycleParts are the parts of a life-cycle intensity, after the columns of
+// IPCC AR5 WG3 Annex III Table A.III.2, and the quantity of each.
+func lifecycleParts() []string {
+	return []string{"direct", "infrastructure", "biogenic_albedo", "methane", "total"}
+}
+
+func partQuantity(part string) (string, bool) {
+	p := strings.ToLower(strings.TrimSpace(part))
+	switch p {
+	case "total":
+		return "lifecycle", true
+	case "direct", "infrastructure", "biogenic_albedo", "methane":
+		return p, true
+	}
+	return "", false
+}
+
+func checkPart(_ *Engine, s string) error {
+	if _, ok := partQuantity(s); !ok {
+		return &Error{Code: CodeBadArgument, Param: "part", Msg: "unknown part " + quote(s) + ": accepted are " + strings.Join(lifecycleParts(), ", ")}
+	}
+	return nil
+}
+
+func callLifecyclePart(e *Engine, c *callCtx, a argList) (float64, string, error) {
+	tech, err := e.techArg(c, a, 0)
+	if err != nil {
+		return 0, "", err
+	}
+	ps, err := a.str(1)
+	if err != nil {
+		return 0, "", err
+	}
+	if err := checkPart(e, ps); err != nil {
+		return 0, "", withFunc(err, a.fn.Name)
+	}
+	q, _ := partQuantity(ps)
+	stat, err := a.optStr(2, "median")
+	if err != nil {
+		return 0, "", err
+	}
+	f := e.packs.lookup(CommonPack, tech, q)
+	if f == nil {
+		return 0, "", &Error{Code: CodeMissingFactor, Func: a.fn.Name, Param: "part",
+			Msg: "the common pack has no " + ps + " part for " + tech + " (IPCC AR5 WG3 Annex III Table A.III.2); add the row with --factors, or use lifecycle_intensity for the total"}
+	}
+	c.use(f)
+	v, err := statValue(f, stat, a.fn.Name, tech+" "+ps)
+	return v, "", err
+}
+
+// embodiedPerMW computes t CO2e per MW for the arguments at indexes tech, cf,
+// lifetime and stat of a: the infrastructure & supply-chain intensity (IPCC AR5
+// WG3 Annex III Table A.III.2) times the lifetime output of 1 MW.
+func (e *Engine) embodiedPerMW(c *callCtx, a argList, techI, cfI, lifeI, statI int) (float64, error) {
+	tech, err := e.techArg(c, a, techI)
+	if err != nil {
+		return 0, err
+	}
+	infra := e.packs.lookup(CommonPack, tech, "infrastructure")
+	if infra == nil {
+		return 0, &Error{Code: CodeMissingFactor, Func: a.fn.Name, Param: "tech",
+			Msg: "no infrastructure & supply-chain intensity for " + tech + " in the common pack (IPCC AR5 WG3 Annex III Table A.III.2 gives none here): " +
+				"its life-cycle intensity (lifecycle_intensity) mixes in fuel supply, so it is not used as embodied; add an infrastructure row with --factors"}
+	}
+	c.use(infra)
+	stat, err := a.optStr(statI, "median")
+	if err != nil {
+		return 0, err
+	}
+	g, err := statValue(infra, stat, a.fn.Name, tech+" infrastructure")
+	if err != nil {
+		return 0, err
+	}
+	c.note("embodied = infrastructure & supply-chain intensity " + FormatNumber(g) + " g CO2e/kWh (" + statName(stat) + "); combustion and fuel-supply methane are not embodied")
 	cf, given, err := a.optNum(cfI)
 	if err != nil {
 		return 0, err
@@ -121,11 +190,11 @@ func (e *Engine) embodiedPerMW(c *callCtx, a argList, techI, cfI, lifeI int) (fl
 		return 0, &Error{Code: CodeBadArgument, Func: a.fn.Name, Param: "lifetime_years", Msg: "must lie in (0, 200] years, got " + FormatNumber(life)}
 	}
 	// g/kWh x 1000 kWh/MWh x cf x 8760 h x years / 1e6 g/t = t CO2e per MW
-	return (lc.Value - direct) * 1000 * cf * hoursPerYear * life / 1e6, nil
+	return g * 1000 * cf * hoursPerYear * life / 1e6, nil
 }
 
 func callEmbodiedPerMW(e *Engine, c *callCtx, a argList) (float64, string, error) {
-	v, err := e.embodiedPerMW(c, a, 0, 1, 2)
+	v, err := e.embodiedPerMW(c, a, 0, 1, 2, 3)
 	return v, "", err
 }
 
@@ -145,9 +214,17 @@ func callEmbodied(e *Engine, c *callCtx, a argList) (float64, string, error) {
 	if err != nil {
 		return 0, "", withFunc(unitError("unit", err), a.fn.Name)
 	}
-	perMW, err := e.embodiedPerMW(c, a, 0, 3, 4)
+	perMW, err := e.embodiedPerMW(c, a, 0, 3, 4, 5)
 	if err != nil {
 		return 0, "", err
 	}
 	return perMW * capacity * u.SIFloat() / 1e6, "", nil
+}
+
+// statName names a statistic for notes: "median" when left out.
+func statName(stat string) string {
+	if s := strings.ToLower(strings.TrimSpace(stat)); s != "" {
+		return s
+	}
+	return "median"
 }

@@ -15,8 +15,8 @@ type Engine struct {
 	packs       *packSet
 	fuels       *fuelIndex
 	techs       *techIndex
-	grids       *gridIndex
 	gases       *gasIndex
+	grids       *gridIndex
 	catalog     *catalogIndex
 	defaultPack string
 
@@ -106,14 +106,14 @@ func New(opts ...Option) (*Engine, error) {
 	if e.techs, err = newTechIndex(e.technologies()); err != nil {
 		return nil, packError(err)
 	}
-	if e.grids, err = buildGridIndex(ps); err != nil {
-		return nil, packError(err)
-	}
 	tables, err := embeddedGasTables()
 	if err != nil {
 		return nil, packError(err)
 	}
 	if e.gases, err = newGasIndex(ps, tables); err != nil {
+		return nil, packError(err)
+	}
+	if e.grids, err = buildGridIndex(ps); err != nil {
 		return nil, packError(err)
 	}
 	e.catalog = newCatalogIndex(buildCatalog(e))

@@ -77,6 +77,13 @@ func builtinFuels() []Fuel {
 		{ID: "coke_oven_gas", Name: "coke oven gas", Family: "gas"},
 		{ID: "landfill_gas", Name: "landfill gas", Family: "gas", Biogenic: true},
 		{ID: "municipal_solid_waste", Name: "municipal solid waste"},
+		{ID: "naphtha", Name: "naphtha", Family: "oil"},
+		{ID: "ethane", Name: "ethane", Family: "gas"},
+		{ID: "bitumen", Name: "bitumen (asphalt)", Family: "oil", Aliases: []string{"asphalt", "asphalt and road oil", "road oil"}},
+		{ID: "other_petroleum_products", Name: "other petroleum products", Family: "oil", Aliases: []string{"other oil", "other oils"}},
+		{ID: "tires", Name: "tires (tire-derived fuel)", Aliases: []string{"tyres", "waste tires", "waste tyres", "tire-derived fuel", "tyre-derived fuel"}},
+		{ID: "plastics", Name: "plastics", Aliases: []string{"waste plastics"}},
+		{ID: "biogas", Name: "biogas (other biomass gases)", Family: "gas", Biogenic: true, Aliases: []string{"other biogas", "other biomass gases", "digester gas", "sludge gas"}},
 	}
 }
 

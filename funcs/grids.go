@@ -16,7 +16,7 @@ import (
 // losses, purchased heat). They are loaded like any pack (data/grid_*.csv, a
 // user's --factors file, a workbook's factor sheet) but are not fuel packs: the
 // pack parameter of the fuel functions never lists them. A set's data year is
-// the four digits that end its name (egrid2024, eea2022, uk2025); a user set
+// the four digits that end its name (egrid2022, eea2014, uk2023); a user set
 // without them is undated and serves any year.
 //
 // Quantities, per unit of delivered energy (no heating-value basis):
@@ -46,10 +46,27 @@ func gridQuantities() map[string]quantitySpec {
 	return m
 }
 
-// isGridQuantity reports whether q belongs to grid sets.
+// isGridQuantity reports whether q belongs to grid sets (the names of
+// gridQuantities, without building the map).
 func isGridQuantity(q string) bool {
-	_, ok := gridQuantities()[q]
-	return ok
+	switch q {
+	case "grid_loss_rate", "boiler_efficiency", "source_gwp100":
+		return true
+	}
+	stream, gas, ok := strings.Cut(q, "_")
+	if !ok {
+		return false
+	}
+	switch stream {
+	case "grid", "market", "td", "heat":
+	default:
+		return false
+	}
+	switch gas {
+	case "co2", "ch4", "n2o", "co2e", "ch4_co2e", "n2o_co2e":
+		return true
+	}
+	return false
 }
 
 // gridOnly reports whether a pack is a grid set: every row is a grid quantity.
@@ -58,7 +75,10 @@ func isGridQuantity(q string) bool {
 func (p *pack) gridOnly() bool {
 	embedded := false
 	for _, f := range p.rows {
-		embedded = embedded || strings.HasPrefix(f.File, "embedded:")
+		if strings.HasPrefix(f.File, "embedded:") {
+			embedded = true
+			break
+		}
 	}
 	n := 0
 	for _, f := range p.rows {
@@ -128,16 +148,18 @@ type GridInfo struct {
 // builtinSetTitle describes the embedded grid sets.
 func builtinSetTitle(set string) string {
 	switch set {
-	case "egrid2024":
-		return "US EPA eGRID2024, as published in the EPA GHG Emission Factors Hub (2026) Table 6"
-	case "egrid2023":
-		return "US EPA eGRID2023 Summary Tables rev 2 (2025) Table 1"
-	case "eea2022":
-		return "European Environment Agency, GHG emission intensity of electricity generation, 2022"
+	case "egrid2022":
+		return "US EPA eGRID2022, CO2 total output emission rates by subregion"
+	case "eea2014":
+		return "European Environment Agency, CO2 emission intensity of electricity generation (2017 data set), 2014"
 	case "eea2018":
 		return "European Environment Agency, GHG emission intensity of electricity generation (assessment of 2020), 2018"
-	case "uk2025":
-		return "UK Government GHG Conversion Factors for Company Reporting 2025"
+	case "uk2023":
+		return "UK Government GHG Conversion Factors for Company Reporting 2023"
+	case "canir2021_2017", "canir2021_2018", "canir2021_2019":
+		return "Environment and Climate Change Canada, National Inventory Report 1990-2019 (2021) Annex 13, " + set[len(set)-4:]
+	case "nga2024":
+		return "Australian National Greenhouse Accounts Factors 2024"
 	case "epahub2025":
 		return "US EPA GHG Emission Factors Hub (2025)"
 	}
@@ -166,62 +188,68 @@ func newGridIndex(ps *packSet, vocab []gridName) (*gridIndex, error) {
 		names = append(names, n)
 	}
 	sort.Strings(names)
-	seen := map[string]bool{} // id + signature of the rows' file:line
+	// A row a user file gave to every pack (empty pack column) is copied into
+	// each: it appears under the same file and line more than once.
+	copies := map[string]int{}
+	for _, pn := range names {
+		for k, f := range ps.packs[pn].rows {
+			if isGridQuantity(k.quantity) {
+				copies[f.File+":"+strconv.Itoa(f.Line)]++
+			}
+		}
+	}
+	type groupKey struct{ set, id string }
+	groups := map[groupKey]*gridEdition{}
+	var order []groupKey
 	for _, pn := range names {
 		p := ps.packs[pn]
+		gridSet := p.gridOnly()
 		gwp := map[string]*Factor{}
-		byID := map[string]map[string]*Factor{}
 		for k, f := range p.rows {
-			if !isGridQuantity(k.quantity) {
-				continue
-			}
-			if k.quantity == "source_gwp100" {
+			if k.quantity == "source_gwp100" && copies[f.File+":"+strconv.Itoa(f.Line)] == 1 {
 				gwp[k.id] = f
-				continue
 			}
-			if byID[k.id] == nil {
-				byID[k.id] = map[string]*Factor{}
-			}
-			byID[k.id][k.quantity] = f
 		}
-		for id, rows := range byID {
-			var sig []string
-			for _, f := range rows {
-				sig = append(sig, f.File+":"+strconv.Itoa(f.Line))
-			}
-			sort.Strings(sig)
-			key := id + "|" + strings.Join(sig, ",")
-			if seen[key] {
+		for k, f := range p.rows {
+			if !isGridQuantity(k.quantity) || k.quantity == "source_gwp100" {
 				continue
 			}
-			seen[key] = true
-			ed := &gridEdition{set: pn, year: setYear(pn), rows: rows, gwp: gwp}
-			if !p.gridOnly() { // rows given to every pack: name them by their file
-				for _, f := range rows {
-					ed.set = f.File
-					break
-				}
-				ed.year = 0
+			key, year, setGWP := groupKey{pn, k.id}, setYear(pn), gwp
+			if copies[f.File+":"+strconv.Itoa(f.Line)] > 1 || !gridSet { // name them by their file
+				key, year, setGWP = groupKey{f.File, k.id}, 0, nil
 			}
-			ix.titles[ed.set] = builtinSetTitle(ed.set)
-			if ix.titles[ed.set] == "" {
-				ix.titles[ed.set] = "user set " + ed.set
+			ed := groups[key]
+			if ed == nil {
+				ed = &gridEdition{set: key.set, year: year, rows: map[string]*Factor{}, gwp: setGWP}
+				groups[key] = ed
+				order = append(order, key)
 			}
-			if ed.has("heat") {
-				if ix.heat[ed.set] == nil {
-					ix.heat[ed.set] = map[string]*gridEdition{}
-				}
-				ix.heat[ed.set][id] = ed
-				continue
-			}
-			g := ix.grids[id]
-			if g == nil {
-				g = &gridEntry{id: id, name: id}
-				ix.grids[id] = g
-				ix.ids = append(ix.ids, id)
-			}
-			g.editions = append(g.editions, ed)
+			ed.rows[k.quantity] = f
 		}
+	}
+	for _, key := range order {
+		ed, id := groups[key], key.id
+		if ed.gwp == nil {
+			ed.gwp = map[string]*Factor{}
+		}
+		ix.titles[ed.set] = builtinSetTitle(ed.set)
+		if ix.titles[ed.set] == "" {
+			ix.titles[ed.set] = "user set " + ed.set
+		}
+		if ed.has("heat") {
+			if ix.heat[ed.set] == nil {
+				ix.heat[ed.set] = map[string]*gridEdition{}
+			}
+			ix.heat[ed.set][id] = ed
+			continue
+		}
+		g := ix.grids[id]
+		if g == nil {
+			g = &gridEntry{id: id, name: id}
+			ix.grids[id] = g
+			ix.ids = append(ix.ids, id)
+		}
+		g.editions = append(g.editions, ed)
 	}
 	sort.Strings(ix.ids)
 	for _, g := range ix.grids {
@@ -337,6 +365,10 @@ func (e *Engine) ResolveGrid(name string) (GridInfo, error) {
 	return e.grids.info(e.grids.grids[id]), nil
 }
 
+// LookupGrid is the cheap test of ResolveGrid: the grid id a name reads as, and
+// whether it reads as one, without building an error message.
+func (e *Engine) LookupGrid(name string) (string, bool) { return e.grids.resolve(name) }
+
 // Grids describes every grid with rows loaded, sorted by id.
 func (e *Engine) Grids() []GridInfo {
 	out := make([]GridInfo, 0, len(e.grids.ids))
@@ -347,7 +379,7 @@ func (e *Engine) Grids() []GridInfo {
 }
 
 func (ix *gridIndex) info(g *gridEntry) GridInfo {
-	gi := GridInfo{ID: g.id, Name: g.name}
+	gi := GridInfo{ID: g.id, Name: g.name, Sources: []string{}, Years: []int{}, Methods: []string{}}
 	years := map[int]bool{}
 	methods := map[string]bool{}
 	for _, ed := range g.editions {

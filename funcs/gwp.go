@@ -7,11 +7,10 @@ import (
 )
 
 // gwpSets lists the GWP sets present in the loaded packs (ar4, ar5, ar6 and
-// any a user pack adds), sorted. The list is computed once per engine; callers
-// must not modify it.
+// any a user pack adds), sorted, as a new slice.
 func (e *Engine) gwpSets() []string {
 	if e.gases != nil {
-		return e.gases.sets
+		return append([]string(nil), e.gases.sets...)
 	}
 	return gwpSetsOf(e.packs)
 }
@@ -39,13 +38,14 @@ func (e *Engine) resolveGWPSet(s string) (string, error) {
 	if set == "" {
 		return DefaultGWPSet, nil
 	}
-	for _, known := range e.gwpSets() {
+	sets := e.gwpSets()
+	for _, known := range sets {
 		if set == known {
 			return set, nil
 		}
 	}
-	msg := "unknown GWP set " + quote(s) + ": accepted are " + strings.Join(e.gwpSets(), ", ")
-	if sug := suggestFrom(set, e.gwpSets()); sug != "" {
+	msg := "unknown GWP set " + quote(s) + ": accepted are " + strings.Join(sets, ", ")
+	if sug := suggestFrom(set, sets); sug != "" {
 		msg += " (did you mean " + sug + "?)"
 	}
 	return "", &Error{Code: CodeBadArgument, Param: "gwp_set", Msg: msg}

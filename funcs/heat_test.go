@@ -13,13 +13,17 @@ func TestHeatReference(t *testing.T) {
 		want         float64
 	}{
 		// US EPA GHG Emission Factors Hub (2025) Table 7 Steam and Heat: 66.33 kg CO2, 1.250 g CH4,
-		// 0.125 g N2O per mmBtu (natural gas boiler at 80 % efficiency).
+		// 0.125 g N2O per mmBtu (natural gas boiler at 80 % efficiency), which is 40 CFR 98 Subpart C
+		// Table C-1 (53.06 kg CO2/mmBtu) and Table C-2 (1.0 g CH4, 0.10 g N2O per mmBtu) / 0.80.
 		{`heat_co2e(1000, "MMBtu")`, "Hub Table 7, AR5 28/265", 66.33 + 1.25*28/1000 + 0.125*265/1000},
 		{`heat_co2e(1000, "MMBtu", "hot_water", "epahub2025", "ar4")`, "Hub Table 7, AR4 25/298", 66.33 + 1.25*25/1000 + 0.125*298/1000},
 		{`heat_co2e(293.07107017222, "kWh", "steam")`, "Hub Table 7; 1 MMBtu = 293.07107017222 kWh", (66.33 + 1.25*28/1000 + 0.125*265/1000) / 1000},
-		// UK GHG Conversion Factors 2025, Heat and steam: district heat and steam 0.17529 kg CO2e/kWh.
-		{`heat_co2e(1000, "MWh", "heat", "uk2025")`, "UK 2025 district heat and steam", 175.29},
-		{`heat_co2e(1000, "MWh", "District heating", "UK2025")`, "UK 2025 district heat and steam", 175.29},
+		// UK GHG Conversion Factors 2023 flat file v1.1 (rows 3238-3241), Heat and steam: district heat
+		// and steam 0.17965 kg CO2e/kWh (AR5 total); CO2 0.17791, CH4 0.00122 and N2O 0.00052 as CO2e.
+		{`heat_co2e(1000, "MWh", "heat", "uk2023")`, "UK 2023 district heat and steam", 179.65},
+		{`heat_co2e(1000, "MWh", "District heating", "UK2023")`, "UK 2023 district heat and steam", 179.65},
+		{`heat_co2e(1000, "MWh", "heat", "uk2023", "ar6")`, "UK 2023 split reweighted to AR6 27.9/273",
+			177.91 + 1.22/28*27.9 + 0.52/265*273},
 	}
 	for _, tc := range tests {
 		r, err := evalExpr(e, tc.expr)
@@ -36,8 +40,8 @@ func TestHeatReference(t *testing.T) {
 	if !hasNote(r, "natural gas at 80 % thermal efficiency") || !hasNote(r, "boiler efficiency 80 %") {
 		t.Errorf("EPA steam notes %q", r.Notes)
 	}
-	r = call(t, e, `heat_co2e(10, "GJ", "heat", "uk2025")`)
-	if !hasNote(r, "Heat and steam: district heat and steam") || !hasNote(r, "as its publication states it") {
+	r = call(t, e, `heat_co2e(10, "GJ", "heat", "uk2023")`)
+	if !hasNote(r, "Heat and steam: District heat and steam") || !hasNote(r, "as its publication states it") {
 		t.Errorf("UK heat notes %q", r.Notes)
 	}
 }
@@ -61,7 +65,7 @@ func TestHeatBadInputs(t *testing.T) {
 	tests := []struct{ expr, param, msg string }{
 		{`heat_co2e(1000, "kWh", "chilled_water")`, "carrier", "set epahub2025 has no factor for chilled_water; no loaded set publishes one: load your own row (id chilled_water, quantity heat_co2e"},
 		{`heat_co2e(1000, "kWh", "plasma")`, "carrier", `unknown carrier "plasma": accepted are steam, hot_water, heat, chilled_water`},
-		{`heat_co2e(1000, "kWh", "steam", "uk2024")`, "set", `unknown heat set "uk2024": accepted are epahub2025, uk2025 (did you mean uk2025?)`},
+		{`heat_co2e(1000, "kWh", "steam", "uk2024")`, "set", `unknown heat set "uk2024": accepted are epahub2025, uk2023 (did you mean uk2023?)`},
 		{`heat_co2e(1000, "lb", "steam")`, "unit", `unit "lb" is a mass, but an energy is needed here`},
 	}
 	for _, tc := range tests {

@@ -22,6 +22,7 @@ var sectorTable = map[string]map[string][2]float64{
 var sectorGroup = map[string]string{
 	"crude_oil": "oil", "motor_gasoline": "oil", "jet_kerosene": "oil", "other_kerosene": "oil", "gas_diesel_oil": "oil",
 	"residual_fuel_oil": "oil", "petroleum_coke": "oil", "aviation_gasoline": "oil", "lubricants": "oil", "ethanol": "oil", "biodiesel": "oil",
+	"naphtha": "oil", "bitumen": "oil", "other_petroleum_products": "oil", "ethane": "gas", "biogas": "gas",
 	"lpg": "gas", "natural_gas": "gas", "refinery_gas": "gas", "landfill_gas": "gas",
 	"anthracite": "coal", "coking_coal": "coal", "other_bituminous_coal": "coal", "sub_bituminous_coal": "coal", "lignite": "coal", "coal_coke": "coal",
 	"peat": "peat", "wood": "wood",

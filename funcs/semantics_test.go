@@ -143,9 +143,9 @@ func TestCarbonAndGWP(t *testing.T) {
 
 func TestEmbodied(t *testing.T) {
 	e := newTestEngine(t)
-	// (820 - 760) g/kWh x 1000 x 0.8 x 8760 x 40 / 1e6 (AR5 WG3 Annex III Table A.III.2)
+	// 12 g/kWh infrastructure & supply chain x 1000 x 0.8 x 8760 x 40 / 1e6 (AR5 WG3 Annex III Table A.III.2)
 	r := call(t, e, `embodied_per_mw("coal_pc", 0.8, 40)`)
-	if !near(r.Value, 60*1000*0.8*8760*40/1e6, 1e-12) || !hasNote(r, "life-cycle median 820 - direct median 760") {
+	if !near(r.Value, 12*1000*0.8*8760*40/1e6, 1e-12) || !hasNote(r, "infrastructure & supply-chain intensity 12 g CO2e/kWh") {
 		t.Errorf("coal: %v %q", r.Value, r.Notes)
 	}
 	a := call(t, e, `embodied("pv_utility", 250, "MWp")`)

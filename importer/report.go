@@ -26,6 +26,9 @@ type Report struct {
 	Sheets []SheetInfo `json:"sheets"`
 	// Packs are the factor packs of the engine used, with their versions.
 	Packs []PackVersion `json:"packs"`
+	// BuildPlan is what the build-plan tables add to the atmosphere; nil
+	// without a computed build-plan row.
+	BuildPlan *BuildPlanTotal `json:"build_plan,omitempty"`
 	// Mapping is the mapping file the tables were read with (Options.Mapping).
 	Mapping *MappingRef `json:"mapping,omitempty"`
 	// Output is the path written by Annotate ("" for Scan).
@@ -36,6 +39,27 @@ type Report struct {
 type Totals struct {
 	TCO2  float64 `json:"tCO2"`
 	TCO2e float64 `json:"tCO2e"`
+}
+
+// BuildPlanTotal is the embodied total of the build-plan tables, with the range
+// the rows' factors carry, as carbon and as atmospheric CO2. CO2e is counted
+// as CO2 for GtC and ppm: a screening figure of what building the plan adds.
+type BuildPlanTotal struct {
+	TCO2e float64 `json:"tCO2e"`
+	// Low and High: every row at its factor's published minimum or maximum;
+	// absent when a row's factor has no published range.
+	Low  *float64 `json:"tCO2e_low,omitempty"`
+	High *float64 `json:"tCO2e_high,omitempty"`
+	GtC  float64  `json:"GtC"`
+	// PPM is the rise in atmospheric CO2 if all of it stayed there
+	// (AirborneFraction 1); PPMObserved at the long-run observed airborne
+	// fraction (ObservedAirborneFraction, Global Carbon Budget).
+	PPM                      float64 `json:"ppm"`
+	AirborneFraction         float64 `json:"airborne_fraction"`
+	PPMObserved              float64 `json:"ppm_observed"`
+	ObservedAirborneFraction float64 `json:"observed_airborne_fraction"`
+	// RangeNote says why a range is missing.
+	RangeNote string `json:"range_note,omitempty"`
 }
 
 // Warning is one finding at one cell.

@@ -304,6 +304,7 @@ func (res *ScanResult) finish() error {
 	if rep.Warnings == nil {
 		rep.Warnings = []Warning{}
 	}
+	rep.BuildPlan = res.buildPlanTotal()
 	res.Report = rep
 	if err := res.checkMapping(); err != nil {
 		return err

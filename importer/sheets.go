@@ -92,6 +92,15 @@ func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
 		}
 	}
 	row++
+	if bp := rep.BuildPlan; bp != nil {
+		// GtC and ppm of a plan are small numbers: three significant figures
+		sciFmt := "0.000E+00"
+		sci, err := f.NewStyle(&excelize.Style{CustomNumFmt: &sciFmt})
+		if err != nil {
+			return excelErr(res.Path, "sheet "+name, err)
+		}
+		row = writeBuildPlanBlock(set, st, sci, row, bp)
+	}
 
 	fuels := map[string]*sum{}
 	for _, t := range res.sc.tables {
@@ -356,4 +365,104 @@ func (res *ScanResult) readingNotes() []string {
 	}
 	out = append(out, "numbers stored as text are read where they are unambiguous (1,250.5) and flagged; a row with an unusable cell gets no number (see "+SheetWarnings+")")
 	return out
+}
+
+// buildPlanTotal sums the embodied tCO2e of the build-plan tables, with the
+// range of each technology's published minimum and maximum (infrastructure &
+// supply chain, IPCC AR5 WG3 Annex III Table A.III.2), as GtC and ppm. It is
+// nil when no build-plan row was computed.
+func (res *ScanResult) buildPlanTotal() *BuildPlanTotal {
+	var bp *BuildPlanTotal
+	low, high := 0.0, 0.0
+	var unranged []string
+	for _, t := range res.sc.tables {
+		if t.spec.kind != kindBuildPlan || t.copyOf != nil || t.computed == 0 {
+			continue
+		}
+		if bp == nil {
+			bp = &BuildPlanTotal{AirborneFraction: 1, ObservedAirborneFraction: funcs.ObservedAirborneFraction}
+		}
+		for _, k := range t.fuelOrd {
+			s := t.byFuel[k]
+			bp.TCO2e += s.TCO2e
+			lo, hi, ok := res.embodiedRange(k)
+			if !ok || len(res.sc.userRules) > 0 {
+				unranged = append(unranged, k)
+				continue
+			}
+			low += s.TCO2e * lo
+			high += s.TCO2e * hi
+		}
+	}
+	if bp == nil {
+		return nil
+	}
+	switch {
+	case len(res.sc.userRules) > 0:
+		bp.RangeNote = "no range: the rules were given, and the spread of their factors is not known here"
+	case len(unranged) > 0:
+		bp.RangeNote = "no range: no published minimum and maximum for " + strings.Join(unranged, ", ")
+	default:
+		bp.Low, bp.High = &low, &high
+	}
+	if r, err := res.e.CallValues("carbon_from_co2", bp.TCO2e); err == nil {
+		bp.GtC = r.Value / 1e9
+	}
+	if r, err := res.e.CallValues("ppm_from_co2", bp.TCO2e, "t"); err == nil {
+		bp.PPM = r.Value
+	}
+	if r, err := res.e.CallValues("ppm_from_co2", bp.TCO2e, "t", bp.ObservedAirborneFraction); err == nil {
+		bp.PPMObserved = r.Value
+	}
+	return bp
+}
+
+// embodiedRange is the ratio of a technology's published minimum and maximum
+// infrastructure & supply-chain intensity to its median: the factor by which a
+// build-plan row's median result scales to its low and high.
+func (res *ScanResult) embodiedRange(tech string) (lo, hi float64, ok bool) {
+	med, err := res.e.CallValues("lifecycle_part", tech, "infrastructure")
+	if err != nil || med.Value <= 0 {
+		return 0, 0, false
+	}
+	mn, err := res.e.CallValues("lifecycle_part", tech, "infrastructure", "min")
+	if err != nil {
+		return 0, 0, false
+	}
+	mx, err := res.e.CallValues("lifecycle_part", tech, "infrastructure", "max")
+	if err != nil {
+		return 0, 0, false
+	}
+	return mn.Value / med.Value, mx.Value / med.Value, true
+}
+
+// writeBuildPlanBlock writes the build plan's total with its range, as GtC and
+// as ppm at the stated airborne fractions, from row on; it returns the next
+// free row.
+func writeBuildPlanBlock(set func(string, any, int), st *styles, sci, row int, bp *BuildPlanTotal) int {
+	set(cellRef(1, row), "Build plan in the atmosphere (embodied emissions of what the plan builds)", st.head)
+	row++
+	for i, h := range []string{"", "median", "low", "high"} {
+		set(cellRef(1+i, row), h, st.head)
+	}
+	row++
+	line := func(label string, v float64, style int) {
+		set(cellRef(1, row), label, 0)
+		set(cellRef(2, row), v, style)
+		if bp.Low != nil && bp.High != nil && bp.TCO2e != 0 {
+			set(cellRef(3, row), v*(*bp.Low)/bp.TCO2e, style)
+			set(cellRef(4, row), v*(*bp.High)/bp.TCO2e, style)
+		}
+		row++
+	}
+	line("tCO2e", bp.TCO2e, st.num)
+	line("GtC (CO2e counted as CO2, x 12/44)", bp.GtC, sci)
+	line("ppm CO2, airborne fraction "+funcs.FormatNumber(bp.AirborneFraction)+" (all of it stays: mass to concentration, 2.124 GtC per ppm)", bp.PPM, sci)
+	line("ppm CO2, airborne fraction "+funcs.FormatNumber(bp.ObservedAirborneFraction)+" (long-run observed share that stays, Global Carbon Budget)", bp.PPMObserved, sci)
+	note := "low and high: every row at its technology's published minimum and maximum (IPCC AR5 WG3 Annex III Table A.III.2). Screening estimates."
+	if bp.RangeNote != "" {
+		note = bp.RangeNote + ". Screening estimates."
+	}
+	set(cellRef(1, row), note, st.note)
+	return row + 2
 }

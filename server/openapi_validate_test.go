@@ -171,6 +171,10 @@ func TestOpenAPIValidatesAnswers(t *testing.T) {
 		{name: "factors epa diesel", base: plain.URL, target: "/v1/factors?pack=epa2025&fuel=diesel", status: 200, request: true},
 		{name: "factors 400", base: plain.URL, target: "/v1/factors?pack=nope", status: 400, request: true},
 		{name: "factors 401", base: tok.URL, target: "/v1/factors", status: 401},
+		{name: "grids", base: plain.URL, target: "/v1/grids", status: 200, request: true},
+		{name: "grids one", base: plain.URL, target: "/v1/grids?grid=eGRID%20CAMX", status: 200, request: true},
+		{name: "grids 400", base: plain.URL, target: "/v1/grids?grid=atlantis", status: 400, request: true},
+		{name: "grids 401", base: tok.URL, target: "/v1/grids", status: 401},
 		{name: "units", base: plain.URL, target: "/v1/units", status: 200, request: true},
 		{name: "units 400", base: plain.URL, target: "/v1/units?dim=energy", status: 400},
 		{name: "units 401", base: tok.URL, target: "/v1/units", status: 401},
@@ -184,7 +188,7 @@ func TestOpenAPIValidatesAnswers(t *testing.T) {
 		add(c)
 	}
 	// conditional GETs of the pages
-	for _, p := range []string{"/v1/functions", "/v1/functions/gwp", "/v1/factors", "/v1/units", "/openapi.yaml", "/healthz"} {
+	for _, p := range []string{"/v1/functions", "/v1/functions/gwp", "/v1/factors", "/v1/grids", "/v1/units", "/openapi.yaml", "/healthz"} {
 		add(apiCase{name: p + " 304", base: plain.URL, target: p, header: map[string]string{"If-None-Match": get(t, plain.URL+p).Header.Get("ETag")}, status: 304, request: true})
 	}
 

@@ -99,6 +99,7 @@ func (s *Server) routes() *gin.Engine {
 	api.GET("/v1/functions", s.noQuery, s.functions)
 	api.GET("/v1/functions/:name", s.noQuery, s.function)
 	api.GET("/v1/factors", s.factors)
+	api.GET("/v1/grids", s.grids)
 	api.GET("/v1/units", s.noQuery, s.units)
 	api.GET("/openapi.yaml", s.openapi)
 	api.GET("/metrics", gin.WrapH(promhttp.HandlerFor(s.metrics.reg, promhttp.HandlerOpts{})))

@@ -117,7 +117,7 @@ func TestFactorsFlag(t *testing.T) {
 
 func TestListings(t *testing.T) {
 	code, out, _ := runCLI(t, "functions")
-	if code != 0 || !strings.Contains(out, "fuel_co2e(fuel, amount, unit [, gwp_set [, pack]]) -> t CO2e") || !strings.Contains(out, "example: to_unit(1, \"MMBtu\", \"GJ\") = 1.05505585262") {
+	if code != 0 || !strings.Contains(out, "fuel_co2e(fuel, amount, unit [, gwp_set [, pack [, sector]]]) -> t CO2e") || !strings.Contains(out, "example: to_unit(1, \"MMBtu\", \"GJ\") = 1.05505585262") {
 		t.Errorf("functions:\n%s", out)
 	}
 	code, out, _ = runCLI(t, "functions", "--json", "gwp")

@@ -28,6 +28,7 @@ type catalog struct {
 	prefixes   []prefix             // written magnitude words ("thousand", "'000")
 	siPrefixes []siPrefix           // SI prefixes, for readSI
 	siBases    []prefixBase         // SI symbols, for readSI
+	siByLast   [256][]uint8         // indexes into siBases by the last byte of the symbol
 	notes      map[string]string    // lower-cased spellings read by convention: their note
 	scaled     map[scaledKey]uint16 // declared units equal to a magnitude times another unit (kgal)
 }
@@ -155,6 +156,7 @@ func build(defs []unitDef, ambs []ambiguity) *catalog {
 			c.notes[strings.ToLower(sp)] = sn.note
 		}
 	}
+	c.indexSIBases()
 	c.buildRatios()
 	c.order = make([]uint16, 0, len(c.units)-1)
 	for id := 1; id < len(c.units); id++ {

@@ -82,7 +82,10 @@ func (r siReading) name() string {
 // readSI reads s as an SI symbol: one of prefixBases, with or without an SI prefix. ok is
 // false when s is none. It does not allocate.
 func (c *catalog) readSI(s string) (r siReading, ok bool) {
-	for i := range c.siBases {
+	if s == "" {
+		return siReading{}, false
+	}
+	for _, i := range c.siByLast[s[len(s)-1]] {
 		b := &c.siBases[i]
 		if !strings.HasSuffix(s, b.sym) {
 			continue
@@ -131,4 +134,12 @@ func (c *catalog) prefixTrap(n string, id uint16) *ambiguity {
 	}
 	u := c.units[id]
 	return &ambiguity{refused: r.name(), alts: []alt{{u.Symbol, u.Name}}}
+}
+
+// indexSIBases fills c.siByLast: the indexes into c.siBases by the last byte of the symbol.
+func (c *catalog) indexSIBases() {
+	for i, b := range c.siBases {
+		last := b.sym[len(b.sym)-1]
+		c.siByLast[last] = append(c.siByLast[last], uint8(i))
+	}
 }
