@@ -79,7 +79,7 @@ func TestRealWorldBuildingsGrid(t *testing.T) {
 			kBtu += v
 		}
 	}
-	const lbPerMWh = (403.6 + 0.025*28 + 0.003*265)
+	const lbPerMWh = 497.443
 	want := kWh/1000*lbPerMWh*kgPerLb/1000 + kBtu/1000*steamTPerMM
 	if got := rep.ByFuel["Scope 2: purchased energy"].TCO2e; !near(got, want) {
 		t.Errorf("Scope 2 %.9g t CO2e, want %.9g (%.0f kWh, %.0f kBtu of steam)", got, want, kWh, kBtu)

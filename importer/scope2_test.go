@@ -9,20 +9,20 @@ import (
 )
 
 // Published factors the checks below use:
-//   - Germany 2022: 368 g CO2e/kWh (European Environment Agency, GHG
-//     emission intensity of electricity generation, data set
-//     co2-emission-intensity-15, 2022);
-//   - United Kingdom 2025: 0.177 kg CO2e/kWh (UK Government GHG Conversion
-//     Factors for Company Reporting 2025, UK electricity);
-//   - France 2022: 74 g CO2e/kWh (EEA, as above);
+//   - Germany: 424.9 g CO2/kWh, France: 34.8 g CO2/kWh (European
+//     Environment Agency, CO2 emission intensity of electricity generation
+//     by Member State, 2014 values; CO2 only);
+//   - United Kingdom: 0.20707 kg CO2e/kWh (UK Government GHG Conversion
+//     Factors for Company Reporting 2023, UK electricity: electricity
+//     generated);
 //   - purchased steam: 66.33 kg CO2, 1.25 g CH4 and 0.125 g N2O per MMBtu
 //     (US EPA GHG Emission Factors Hub 2025, Table 7 Steam and Heat), CH4
 //     and N2O weighted by 28 and 265 (IPCC AR5 WG1 Table 8.7, the default
 //     GWP set).
 const (
-	deKgPerKWh  = 0.368
-	frKgPerKWh  = 0.074
-	gbKgPerKWh  = 0.177
+	deKgPerKWh  = 0.4249
+	frKgPerKWh  = 0.0348
+	gbKgPerKWh  = 0.20707
 	steamTPerMM = (66.33 + 1.25e-3*28 + 0.125e-3*265) / 1000
 )
 

@@ -33,14 +33,15 @@ func TestAnnotateGrid(t *testing.T) {
 		return r.Status, rep, r.Body
 	}
 
-	// Germany 2022: 368 g CO2e/kWh (European Environment Agency, GHG
-	// emission intensity of electricity generation, 2022): 10 000 kWh = 3.68 t.
+	// Germany: 424.9 g CO2/kWh (European Environment Agency, CO2 emission
+	// intensity of electricity generation by Member State, 2014 values):
+	// 10 000 kWh = 4.249 t.
 	status, rep, body := get("&grid=Germany")
 	if status != 200 || rep.Computed != 2 {
 		t.Fatalf("grid=Germany: %d, computed %d: %.300s", status, rep.Computed, body)
 	}
-	if got := rep.ByFuel["Scope 2: electricity"]["tCO2e"]; math.Abs(got-3.68) > 1e-9 {
-		t.Errorf("electricity %.9g t CO2e, want 3.68", got)
+	if got := rep.ByFuel["Scope 2: electricity"]["tCO2e"]; math.Abs(got-4.249) > 1e-9 {
+		t.Errorf("electricity %.9g t CO2e, want 4.249", got)
 	}
 
 	status, rep, body = get("")

@@ -35,10 +35,10 @@ func TestAnnotateGridFlag(t *testing.T) {
 	if err := json.Unmarshal(data, &r); err != nil {
 		t.Fatal(err)
 	}
-	// UK 2025: 0.177 kg CO2e/kWh (UK Government GHG Conversion Factors for
-	// Company Reporting 2025, UK electricity): 2000 kWh = 0.354 t.
-	if got := r.ByFuel["Scope 2: electricity"]["tCO2e"]; math.Abs(got-0.354) > 1e-9 {
-		t.Errorf("electricity %.9g t CO2e, want 0.354", got)
+	// UK: 0.20707 kg CO2e/kWh (UK Government GHG Conversion Factors for
+	// Company Reporting 2023, UK electricity): 2000 kWh = 0.41414 t.
+	if got := r.ByFuel["Scope 2: electricity"]["tCO2e"]; math.Abs(got-0.41414) > 1e-9 {
+		t.Errorf("electricity %.9g t CO2e, want 0.41414", got)
 	}
 
 	code, _, errs = runCLI(t, "annotate", in, "-o", filepath.Join(dir, "out2.csv"), "--grid", "Atlantis")
