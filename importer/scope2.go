@@ -130,8 +130,8 @@ func (d *detector) titleGrid(t *tableSpec, titles []string) {
 func (sc *scanCtx) scope2Terms(t *tableSpec) []string {
 	var out []string
 	for _, c := range t.scope2 {
-		if c.hdr.UnitErr != nil || c.unitIdent == "" {
-			continue
+		if c.hdr.UnitErr != nil || c.unitIdent == "" || c.hdr.Unit.Dim != units.Energy {
+			continue // (a power, "kW" for kWh: said at the header, the column left out)
 		}
 		if call := sc.carrierCall(t, c.carrier, scaled(c), c.unitIdent, "co2e"); call != "" {
 			out = append(out, call)
@@ -172,6 +172,15 @@ func (sc *scanCtx) scope2Findings(t *table) {
 			continue
 		}
 		hr := spec.headerRow
+		if c.hdr.Unit.Dim != units.Energy {
+			msg := "a power, not an energy"
+			if _, err := units.ParseAs(c.hdr.UnitText, units.Energy); err != nil {
+				msg = err.Error()
+			}
+			sc.warn.add(spec.sheet, c.col, hr, SevError, units.CodeDimension, msg+" (in the header "+quoteText(c.hdr.Text)+
+				"): purchased energy is an amount of energy, such as kWh; the column is left out of the totals")
+			continue
+		}
 		switch {
 		case c.carrier == carrierElectricity && !spec.grid.known():
 			at := sc.gridUnknown(spec.sheet, c.col, hr, quoteText(c.hdr.Text))

@@ -184,3 +184,19 @@ func TestBadGridOption(t *testing.T) {
 		t.Fatalf("err = %v, want an input error naming the grid", err)
 	}
 }
+
+// TestElectricityInKW: "kW" where kWh was meant is a unit-dimension error at
+// the header; the column is left out and the row's gas still counts.
+func TestElectricityInKW(t *testing.T) {
+	rep := scanWith(t, "kw.xlsx", "Meters", [][]any{
+		{"Month", "Electricity consumption (kW)", "Natural gas (GJ)"},
+		{"Jan", 1200, 50},
+		{"Feb", 1100, 40},
+	}, Options{Grid: "DE"})
+	if w := wantFinding(t, rep, "Meters", "B1", SevError, "unit-dimension"); !strings.Contains(w.Message, "did you mean kWh?") {
+		t.Errorf("B1: %q", w.Message)
+	}
+	if rep.Computed != 2 || rep.ByFuel["Scope 2: electricity"].TCO2e != 0 {
+		t.Errorf("computed %d rows, Scope 2 %v; want the gas of both rows and no electricity", rep.Computed, rep.ByFuel)
+	}
+}
