@@ -56,39 +56,40 @@ var fleetWords = []string{"fleet", "vehicle", "vehicles", "car", "cars", "van", 
 
 // fleetEvidence marks t as a fleet log when a column header names vehicles
 // or distances driven (registration, odometer, VMT) or a title or the sheet
-// name speaks of a fleet;
-// t.mobile says where, for the findings.
+// name speaks of a fleet; t.mobile says where, for the findings. Fuels the
+// pack has no road CH4 and N2O for stay stationary (t.stationary).
 func (d *detector) fleetEvidence(t *tableSpec) {
 	if _, ok := d.sc.e.Function("mobile_co2e"); !ok {
 		return
 	}
-	defer func() {
-		if t.mobile == "" {
-			return
+	t.mobile = d.fleetWhy(t)
+	if t.mobile == "" {
+		return
+	}
+	t.stationary = map[string]bool{}
+	for _, id := range append([]string{t.ctxFuel}, wideFuels(t)...) {
+		if id != "" && d.lx.roadModeOf(id) == "" {
+			t.stationary[id] = true
 		}
-		// Fuels the pack has no road CH4 and N2O for stay stationary.
-		t.stationary = map[string]bool{}
-		for _, id := range append([]string{t.ctxFuel}, wideFuels(t)...) {
-			if id != "" && d.lx.roadModeOf(id) == "" {
-				t.stationary[id] = true
-			}
-		}
-	}()
+	}
+}
+
+// fleetWhy names the evidence that t is a fleet's; "" when there is none.
+func (d *detector) fleetWhy(t *tableSpec) string {
 	for _, c := range t.cols {
 		if c.st.hint.Any(tables.HintVehicle|tables.HintDistance) && c.role != roleQuantity {
-			t.mobile = "the column " + quoteText(c.hdr.Text)
-			return
+			return "the column " + quoteText(c.hdr.Text)
 		}
 	}
-	for _, s := range append(append([]string(nil), t.titles...), d.sheet) {
+	for _, s := range t.titles {
 		if len(s) <= 120 && hasWord(words(s), fleetWords...) {
-			t.mobile = "the title " + quoteText(s)
-			if s == d.sheet {
-				t.mobile = "the sheet name " + quoteText(s)
-			}
-			return
+			return "the title " + quoteText(s)
 		}
 	}
+	if hasWord(words(d.sheet), fleetWords...) {
+		return "the sheet name " + quoteText(d.sheet)
+	}
+	return ""
 }
 
 // wideFuels lists the fuels of t's per-fuel columns.
@@ -258,8 +259,10 @@ func (sc *scanCtx) fleetFindings(t *table) {
 }
 
 // sectorValue reads a sector cell as fuel_co2e names it ("Commercial /
-// institutional" gives commercial), with a finding where it names none.
+// institutional" gives commercial). A cell naming no stationary sector
+// ("Transportation") takes fuel_co2e's default, said once per text.
 func (sc *scanCtx) sectorValue(t *table, c *column, v *cellVal, r int) (any, bool) {
+	text := cell{kind: v.kind, num: v.num, text: v.text}.display()
 	switch {
 	case v.kind == kEmpty && !v.noCache, v.kind == kText && strings.TrimSpace(v.text) == "":
 		return "", true // fuel_co2e's default sector
@@ -268,7 +271,7 @@ func (sc *scanCtx) sectorValue(t *table, c *column, v *cellVal, r int) (any, boo
 			return s, true
 		}
 	}
-	sc.warn.add(t.spec.sheet, c.col, r, SevError, CodeRuleError, quoteText(cell{kind: v.kind, num: v.num, text: v.text}.display())+
-		" names no sector: write one of "+strings.Join(sectors[:], ", ")+"; row not computed")
-	return nil, false
+	sc.warn.addOnce("sector|"+t.spec.sheet+"|"+colName(c.col)+"|"+strings.ToLower(strings.TrimSpace(text)), t.spec.sheet, c.col, r, SevInfo, CodeReadAs,
+		quoteText(text)+" names no sector of stationary combustion ("+strings.Join(sectors[:], ", ")+"): rows that say so take fuel_co2e's default, energy industries")
+	return "", true
 }

@@ -53,19 +53,27 @@ func TestFleetLog(t *testing.T) {
 }
 
 // TestSectorColumn: a sector column chooses each row's stationary CH4 and
-// N2O; an empty sector cell takes fuel_co2e's default (energy).
+// N2O; an empty sector cell, or one naming no stationary sector, takes
+// fuel_co2e's default (energy), the latter with a finding. Natural gas in
+// residential combustion has the same CH4 and N2O as commercial (Table 2.5:
+// 5 and 0.1 kg/TJ).
 func TestSectorColumn(t *testing.T) {
 	rep := scanWith(t, "sites.xlsx", "Gas", [][]any{
 		{"Site", "Sector", "Fuel", "Amount", "Unit"},
 		{"Library", "Commercial/Institutional", "Natural gas", 1000, "GJ"},
 		{"Plant", "", "Natural gas", 2000, "GJ"},
+		{"Depot", "Transportation", "Natural gas", 500, "GJ"},
+		{"Flats", "Residential", "Natural gas", 300, "GJ"},
 	}, Options{})
-	want := 1*co2eTJ(56100, 5, 0.1) + 2*co2eTJ(56100, 1, 0.1)
+	want := 1.3*co2eTJ(56100, 5, 0.1) + 2.5*co2eTJ(56100, 1, 0.1)
 	if got := rep.Totals.TCO2e; !near(got, want) {
 		t.Errorf("total %.9g t CO2e, want %.9g; rules %v findings %s", got, want, rep.Rules, listFindings(rep))
 	}
 	if got := columnAt(t, rep.Tables[0], "B1"); got.Role != "sector" {
 		t.Errorf("B1 role %q, want sector", got.Role)
+	}
+	if w := wantFinding(t, rep, "Gas", "B4", SevInfo, CodeReadAs); !strings.Contains(w.Message, "energy industries") {
+		t.Errorf("B4: %q", w.Message)
 	}
 }
 
