@@ -62,8 +62,9 @@ func (lx *lexicon) readCarrier(s string) carrier {
 		return carrierNone // "Electricity price", "Power generation"
 	}
 	switch {
-	case hasWord(ws, "solar", "wind", "pv", "photovoltaic", "hydro", "nuclear", "geothermal", "generated", "generation", "export", "exported", "sold"):
-		return carrierNone
+	case hasWord(ws, "solar", "wind", "pv", "photovoltaic", "hydro", "nuclear", "geothermal", "generated", "generation", "export", "exported", "sold",
+		"cogen", "cogeneration", "chp", "onsite", "self"):
+		return carrierNone // made on site: its fuel is the emission, not the energy
 	case hasPhrase(ws, "chilled water", "district cooling") || hasWord(ws, "chw", "cooling"):
 		return carrierCooling
 	case hasWord(ws, "steam", "pur"):

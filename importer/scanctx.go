@@ -26,8 +26,9 @@ type scanCtx struct {
 	sheetOrd  map[string]int
 	missed    []string // identifiers of a header that lacked a rule's variables
 	missedAt  string
-	mapRun    *mappingRun // what the scan did with opt.Mapping (mappingapply.go)
-	gridAt    string      // the cell of the grid-unknown finding, once per scan (grid.go)
+	mapRun    *mappingRun      // what the scan did with opt.Mapping (mappingapply.go)
+	gridAt    string           // the cell of the grid-unknown finding, once per scan (grid.go)
+	heatOK    map[carrier]bool // whether heat_co2e has a default for a carrier (scope2.go)
 	provenance
 
 	*lexicon // how texts read (fuels, units, technologies, headers)

@@ -156,11 +156,25 @@ func (sc *scanCtx) carrierCall(t *tableSpec, c carrier, amount, unit, gas string
 		}
 		return gridFunc + "(" + amount + ", " + unit + ", " + t.grid.arg() + ")"
 	default:
-		if _, ok := sc.e.Function(heatFunc); !ok {
+		if !sc.heatFactor(c) {
 			return ""
 		}
 		return heatFunc + "(" + amount + ", " + unit + ", " + quoteRuleString(c.heatArg()) + ")"
 	}
+}
+
+// heatFactor reports whether the engine has a default factor for purchased
+// heat of carrier c (none is published for cooling in the default set).
+func (sc *scanCtx) heatFactor(c carrier) bool {
+	if ok, seen := sc.heatOK[c]; seen {
+		return ok
+	}
+	_, err := sc.e.CallValues(heatFunc, 1.0, "MMBtu", c.heatArg())
+	if sc.heatOK == nil {
+		sc.heatOK = map[carrier]bool{}
+	}
+	sc.heatOK[c] = err == nil
+	return err == nil
 }
 
 // scope2Findings records, at the header of each purchased-energy column,
