@@ -200,3 +200,28 @@ func TestElectricityInKW(t *testing.T) {
 		t.Errorf("computed %d rows, Scope 2 %v; want the gas of both rows and no electricity", rep.Computed, rep.ByFuel)
 	}
 }
+
+// TestCarriersWithoutFactor: chilled water, for which the default set
+// publishes no factor, is left out with a reason per row, not an error;
+// electricity from the site's own cogeneration is not purchased.
+func TestCarriersWithoutFactor(t *testing.T) {
+	rep := scanWith(t, "campus.xlsx", "Utilities", [][]any{
+		{"Utility", "Value", "Unit"},
+		{"Natural gas", 100, "GJ"},
+		{"Chilled Water", 40, "MMBtu"},
+		{"Cogen Electricity", 9000, "kWh"},
+		{"Natural gas", 120, "GJ"},
+	}, Options{Grid: "DE"})
+	if w := wantFinding(t, rep, "Utilities", "A3", SevInfo, CodeNotComputed); !strings.Contains(w.Message, "no factor") {
+		t.Errorf("A3: %q", w.Message)
+	}
+	if w := wantFinding(t, rep, "Utilities", "A4", SevInfo, CodeNotComputed); !strings.Contains(w.Message, "not a fuel burned on site") {
+		t.Errorf("A4: %q", w.Message)
+	}
+	if n := rep.Count(SevError); n != 0 {
+		t.Errorf("%d errors: %s", n, listFindings(rep))
+	}
+	if _, ok := rep.ByFuel["Scope 2: electricity"]; ok {
+		t.Errorf("cogeneration counted as purchased electricity: %v", rep.ByFuel)
+	}
+}
