@@ -7,7 +7,8 @@ import (
 )
 
 // TestGridsRoute: GET /v1/grids lists the grids; ?grid= reads a name as analysts write it
-// and lists that grid's rows (US EPA GHG Emission Factors Hub 2026 Table 6: CAMX 403.6 lb CO2/MWh).
+// and lists that grid's rows (US EPA eGRID2022, CAMX CO2 total output rate 497.443 lb/MWh, in EPA's
+// data file USEPA/ggcapdthemes data-raw/CO2_total_output_emission_rate_by_eGRID_subregion_2022.csv).
 func TestGridsRoute(t *testing.T) {
 	ts := startServer(t, Config{})
 	r := get(t, ts.URL+"/v1/grids")
@@ -21,7 +22,7 @@ func TestGridsRoute(t *testing.T) {
 		t.Fatalf("grids: %d %.300s", r.Status, r.Body)
 	}
 	r = get(t, ts.URL+"/v1/grids?grid=eGRID%20CAMX")
-	if r.Status != 200 || !strings.Contains(r.Body, `"id":"us_camx"`) || !strings.Contains(r.Body, `"factor":"egrid2024/us_camx/grid_co2","pack":"egrid2024","id":"us_camx","quantity":"grid_co2","value":403.6`) {
+	if r.Status != 200 || !strings.Contains(r.Body, `"id":"us_camx"`) || !strings.Contains(r.Body, `"factor":"egrid2022/us_camx/grid_co2","pack":"egrid2022","id":"us_camx","quantity":"grid_co2","value":497.443`) {
 		t.Errorf("grids CAMX: %d %.600s", r.Status, r.Body)
 	}
 	r = get(t, ts.URL+"/v1/grids?grid=atlantis")
