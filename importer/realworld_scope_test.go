@@ -14,7 +14,7 @@ import (
 // detection.
 
 // columnSums sums the numbers of the CSV columns whose header satisfies
-// pick, keyed by the header.
+// pick (thousands commas allowed), keyed by the header.
 func columnSums(t *testing.T, path string, pick func(header string) bool) map[string]float64 {
 	t.Helper()
 	f, err := os.Open(path)
@@ -31,7 +31,8 @@ func columnSums(t *testing.T, path string, pick func(header string) bool) map[st
 		}
 		for _, rec := range recs[1:] {
 			if j < len(rec) {
-				if x, err := strconv.ParseFloat(strings.TrimSpace(rec[j]), 64); err == nil {
+				// "1,058,318.40": the file's thousands commas
+				if x, err := strconv.ParseFloat(strings.ReplaceAll(strings.TrimSpace(rec[j]), ",", ""), 64); err == nil {
 					out[h] += x
 				}
 			}
@@ -91,5 +92,27 @@ func TestRealWorldBuildingsGrid(t *testing.T) {
 	}
 	if rep.Computed != base.Computed {
 		t.Errorf("computed %d rows with a grid, %d without", rep.Computed, base.Computed)
+	}
+}
+
+// TestRealWorldProvinceGrid: Calgary's corporate buildings give their
+// province ("Alberta") in a column, which is read as each row's grid:
+// Scope 2 is the kWh x Alberta's 670 g CO2e/kWh (Environment and Climate
+// Change Canada, National Inventory Report 1990-2019, Part 3 Annex 13,
+// 2019) plus district hot water x the EPA GHG Emission Factors Hub 2025
+// Table 7 steam and heat factor, without any option.
+func TestRealWorldProvinceGrid(t *testing.T) {
+	path := filepath.Join("..", "testdata", "realworld", "calgary_corporate_building_energy_benchmarking_2019-2023.csv")
+	rep := scanFile(t, path, Options{})
+	if got := columnAt(t, rep.Tables[0], "F1"); got.Header != "Province" || got.Role != "grid" {
+		t.Fatalf("F1 = %+v, want the grid column Province", got)
+	}
+	sums := columnSums(t, path, func(h string) bool {
+		return h == "Electricity Use - Grid Purchase (kWh)" || h == "District Hot Water Use (GJ)"
+	})
+	const gjPerMMBtu = 1.05505585262 // 1 Btu = 1055.05585262 J (International Table Btu, NIST SP 811)
+	want := sums["Electricity Use - Grid Purchase (kWh)"]*0.670/1000 + sums["District Hot Water Use (GJ)"]/gjPerMMBtu*steamTPerMM
+	if got := rep.ByFuel["Scope 2: purchased energy"].TCO2e; !near(got, want) {
+		t.Errorf("Scope 2 %.9g t CO2e, want %.9g (%v)", got, want, sums)
 	}
 }
