@@ -324,8 +324,11 @@ func (sc *scanCtx) ruleError(t *table, i int, r *rule, err error) {
 		case funcs.CodeMissingFactor:
 			code = CodeFactorMissing
 		case funcs.CodeBadArgument:
-			if fe.Param == "tech" {
+			switch fe.Param {
+			case "tech":
 				code = CodeTechUnknown
+			case "grid":
+				code = CodeGridUnknown // a grid name of a cell the grid sets do not know
 			}
 		}
 		if v, ok := r.paramVar[fe.Param]; ok {

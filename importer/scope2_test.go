@@ -225,3 +225,22 @@ func TestCarriersWithoutFactor(t *testing.T) {
 		t.Errorf("cogeneration counted as purchased electricity: %v", rep.ByFuel)
 	}
 }
+
+// TestGridColumnLongTable: in a long table a country column gives the grid
+// of each electricity row; a country without grid factors is an error at
+// its cell.
+func TestGridColumnLongTable(t *testing.T) {
+	rep := scanWith(t, "group.xlsx", "Energy", [][]any{
+		{"Site", "Country", "Energy", "Quantity", "Unit"},
+		{"Works A", "Germany", "Electricity", 1000, "kWh"},
+		{"Works B", "France", "Electricity", 2000, "kWh"},
+		{"Works A", "Germany", "Natural gas", 10, "GJ"},
+		{"Works C", "Atlantis", "Electricity", 500, "kWh"},
+	}, Options{})
+	if got, want := rep.ByFuel["Scope 2: electricity"].TCO2e, (1000*deKgPerKWh+2000*frKgPerKWh)/1000; !near(got, want) {
+		t.Errorf("electricity %.9g t CO2e, want %.9g; rules %v findings %s", got, want, rep.Rules, listFindings(rep))
+	}
+	if w := wantFinding(t, rep, "Energy", "B5", SevError, CodeGridUnknown); !strings.Contains(w.Message, `"Atlantis"`) {
+		t.Errorf("B5: %q", w.Message)
+	}
+}
