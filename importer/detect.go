@@ -91,7 +91,8 @@ type tableSpec struct {
 	rateTitle string  // a title stating prices or rates ("Dollars per Million Btu")
 
 	// Purchased energy (scope2.go): the grid of its electricity, from a
-	// column, the mapping, the options or the title (ctxGrid).
+	// column, the mapping, the options or a title or header (ctxGrid, and
+	// ctxGridFrom saying which).
 	grid        gridChoice
 	gridCol     *column
 	ctxGrid     string

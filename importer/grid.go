@@ -97,7 +97,7 @@ func (d *detector) chooseGrid(t *tableSpec) {
 		return
 	}
 	if t.ctxGrid != "" {
-		t.grid = gridChoice{name: t.ctxGrid, from: "the title " + quoteText(t.ctxGridFrom)}
+		t.grid = gridChoice{name: t.ctxGrid, from: t.ctxGridFrom}
 	}
 }
 

@@ -105,12 +105,14 @@ func (d *detector) titleGrid(t *tableSpec, titles []string) {
 	if !t.hasCarriers() {
 		return
 	}
-	var cands []string
+	var cands, from []string
 	for _, c := range t.scope2 {
-		cands = append(cands, c.hdr.Base)
+		cands, from = append(cands, c.hdr.Base), append(from, "the header "+quoteText(c.hdr.Text))
 	}
-	cands = append(cands, titles...)
-	for _, s := range cands {
+	for _, s := range titles {
+		cands, from = append(cands, s), append(from, "the title "+quoteText(s))
+	}
+	for k, s := range cands {
 		for _, sep := range []string{",", " - ", " – ", ":", "(", " in "} {
 			i := strings.LastIndex(s, sep)
 			if i < 0 {
@@ -118,7 +120,7 @@ func (d *detector) titleGrid(t *tableSpec, titles []string) {
 			}
 			tail := strings.Trim(strings.TrimSpace(s[i+len(sep):]), "()")
 			if id := d.lx.gridName(tail); tail != "" && len(words(tail)) <= 3 && id != "" {
-				t.ctxGrid, t.ctxGridFrom = id, s
+				t.ctxGrid, t.ctxGridFrom = id, from[k]
 				return
 			}
 		}

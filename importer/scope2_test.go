@@ -244,3 +244,18 @@ func TestGridColumnLongTable(t *testing.T) {
 		t.Errorf("B5: %q", w.Message)
 	}
 }
+
+// TestGridInHeader: "Electricity use, Germany (kWh)" names its grid.
+func TestGridInHeader(t *testing.T) {
+	rep := scanWith(t, "header.xlsx", "Meters", [][]any{
+		{"Month", "Electricity use, Germany (kWh)"},
+		{"Jan", 1000},
+		{"Feb", 1500},
+	}, Options{})
+	if got, want := rep.Totals.TCO2e, 2500*deKgPerKWh/1000; !near(got, want) {
+		t.Errorf("total %.9g t CO2e, want %.9g; findings %s", got, want, listFindings(rep))
+	}
+	if w := wantFinding(t, rep, "Meters", "B1", SevInfo, CodeReadAs); !strings.Contains(w.Message, `the header "Electricity use, Germany (kWh)"`) {
+		t.Errorf("B1: %q", w.Message)
+	}
+}
