@@ -54,6 +54,9 @@ func (d *detector) assignScope2(t *tableSpec) {
 		}
 		c.role, c.carrier = roleCarrier, cr
 		t.scope2 = append(t.scope2, c)
+		// The workbook's own carbon figures then mix Scope 1 and 2, on a
+		// grid factor of their own: they are not compared (checkExisting).
+		t.partial = true
 	}
 }
 
