@@ -100,7 +100,8 @@ func (sc *scanCtx) evaluate(t *table) error {
 			continue
 		}
 		if spec.kind == kindCharge {
-			sc.warn.add(sheet, spec.charge.col, rowNum, SevInfo, CodeNotComputed, chargeReason(spec))
+			msg, col := chargeReason(spec)
+			sc.warn.add(sheet, col, rowNum, SevInfo, CodeNotComputed, msg)
 			continue
 		}
 		if len(t.rules) == 0 && len(spec.scope2) > 0 {

@@ -83,27 +83,45 @@ func (d *detector) assignRefrigerant(t *tableSpec) {
 	// gas) is the mass of the gas column's gases.
 	t.ctxFuel, t.ctxFrom, t.ctxCol = "", "", 0
 	if q := t.qty; q != nil {
-		if d.massColumn(t, q) && !hasWord(words(q.hdr.Base), "charge", "capacity", "nameplate") {
+		if d.massColumn(t, q) && !chargeHeader(q) {
 			return
 		}
 		q.role, t.qty = roleNone, nil
 	}
-	var charge *column
+	// A mass added or lost (top-up, leak), else an amount that is no charge
+	// held ("Quantity (kg)").
+	for _, h := range []tables.Hint{tables.HintFugitive, tables.HintQty} {
+		for _, c := range t.cols {
+			if c.role == roleNone && (c.st.nonEmpty == 0 || c.numeric) && c.st.hint.Any(h) && d.massColumn(t, c) && !chargeHeader(c) {
+				c.role, t.qty = roleQuantity, c
+				return
+			}
+		}
+	}
+	d.findCharge(t)
+}
+
+// findCharge sets t.charge to the column of the mass each piece of
+// equipment holds ("Full charge (kg)"), for a gas table without a mass
+// released.
+func (d *detector) findCharge(t *tableSpec) {
 	for _, c := range t.cols {
 		if c.role != roleNone || c.st.nonEmpty > 0 && !c.numeric || !d.massColumn(t, c) {
 			continue
 		}
-		ws := words(c.hdr.Base)
-		switch h := c.st.hint; {
-		case h.Any(tables.HintFugitive) && t.qty == nil:
-			c.role, t.qty = roleQuantity, c
-		case hasWord(ws, "charge", "capacity", "nameplate", "holding", "installed", "inventory") && charge == nil:
-			charge = c
+		if chargeHeader(c) {
+			t.charge = c
+			return
 		}
 	}
-	if t.qty == nil && charge != nil {
-		t.charge = charge
-	}
+}
+
+// chargeHeader reports a header naming the mass equipment holds ("Full
+// charge", "Nameplate capacity"), not a mass released ("Recharge" is one
+// word, and released).
+func chargeHeader(c *column) bool {
+	ws := words(c.hdr.Base)
+	return hasWord(ws, "charge", "capacity", "nameplate", "holding", "installed", "inventory") && !c.st.hint.Any(tables.HintFugitive)
 }
 
 // massColumn reports a column whose amounts are masses: its header unit,
@@ -138,8 +156,9 @@ func refrigerantRule(t *tableSpec) string {
 	return "tCO2e = " + refrigerantFunc + "(" + t.gas.ident + ", " + scaled(t.qty) + ", " + unit + ")"
 }
 
-// chargeReason is the reason of each row of an inventory of charges.
-func chargeReason(t *tableSpec) string {
-	return "not computed: " + quoteText(t.charge.hdr.Text) + " is the refrigerant the equipment holds, not what leaked; " +
-		"the emission is the mass topped up or recovered short over the year (add a column such as \"Top-up (kg)\") or an estimate from a leak rate"
+// chargeReason is the reason of each row of an inventory of charges, and
+// the column it is said at.
+func chargeReason(t *tableSpec) (string, int) {
+	const how = "the emission is the mass topped up or recovered short over the year (add a column such as \"Top-up (kg)\") or an estimate from a leak rate"
+	return "not computed: " + quoteText(t.charge.hdr.Text) + " is the refrigerant the equipment holds, not what leaked; " + how, t.charge.col
 }

@@ -80,3 +80,16 @@ func TestRefrigerantUnknownGas(t *testing.T) {
 	}
 	wantFinding(t, rep, "Leaks", "A4", SevError, CodeRuleError)
 }
+
+// TestRefrigerantQuantityColumn: "Quantity (kg)" beside a refrigerant
+// column is the mass released; a charge beside it is not read.
+func TestRefrigerantQuantityColumn(t *testing.T) {
+	rep := scanWith(t, "service.xlsx", "Service log", [][]any{
+		{"Asset", "Gas", "Full charge (kg)", "Quantity (kg)"},
+		{"AC-1", "R-410A", 4, 0.5},
+		{"AC-2", "R-410A", 6, 1.5},
+	}, Options{})
+	if got, want := rep.Totals.TCO2e, 2*gwpR410A/1000; !near(got, want) {
+		t.Errorf("total %.9g t CO2e, want %.9g; rules %v findings %s", got, want, rep.Rules, listFindings(rep))
+	}
+}

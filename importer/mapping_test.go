@@ -299,7 +299,7 @@ func TestMappingValidation(t *testing.T) {
 		{"header row text", `{"fluecell_mapping": 1, "tables": [{"sheet": "Fuel log", "header_row": "3"}]}`,
 			`tables[0].header_row: expected a whole number, found text "3"`},
 		{"kind", `{"fluecell_mapping": 1, "tables": [{"sheet": "Fuel log", "header_row": 3, "kind": "log"}]}`,
-			`tables[0].kind: unknown kind "log": accepted are fuel-log, wide, fuel-by-period, build-plan, refrigerant and custom`},
+			`tables[0].kind: unknown kind "log": accepted are fuel-log, wide, fuel-by-period, build-plan, refrigerant, refrigerant-charge and custom`},
 		{"unit", table(`{"column": "D", "header": "Litres", "role": "quantity", "unit": "ton"}`),
 			`tables[0].columns[0].unit: `},
 		{"unit on a fuel", table(`{"column": "C", "header": "Fuel", "role": "fuel", "unit": "L"}`),

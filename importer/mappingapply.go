@@ -129,6 +129,9 @@ func (run *mappingRun) apply(d *detector, t *tableSpec, mt *mapTable) error {
 		}
 	}
 	t.ctxFuel, t.ctxFrom, t.ctxUnit = mt.fuel, "mapping "+run.m.ref.Path, mt.unit
+	if t.gas != nil && t.qty == nil {
+		d.findCharge(t) // an inventory of charges: the column of what is held
+	}
 	ok := d.decideKind(t)
 	switch {
 	case mt.kind != "" && t.kind != mt.kind:
@@ -263,6 +266,8 @@ func kindNeeds(kind string) string {
 		return "a build-plan needs a technology column and a capacity column"
 	case kindRefrigerant:
 		return "a refrigerant table needs a gas column and a quantity column of the mass released"
+	case kindCharge:
+		return "a refrigerant-charge table needs a gas column and no quantity column"
 	}
 	return "a custom table is read only with --rule"
 }

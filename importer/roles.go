@@ -380,7 +380,7 @@ func (d *detector) decideKind(t *tableSpec) bool {
 				Message: "no unit for " + quoteText(t.qty.hdr.Text) + ": add a unit column or write the unit in the header, e.g. " + quoteText(t.qty.hdr.Base+" (kg)") + "; no row is computed"}
 		}
 	case t.gas != nil && t.charge != nil:
-		t.kind = kindCharge
+		t.kind = kindCharge // gases held: nothing released to compute
 	case (t.fuel != nil || t.ctxFuel != "") && t.qty != nil:
 		t.kind = kindFuelLog
 		if t.unit == nil && t.qty.hdr.UnitText == "" {
