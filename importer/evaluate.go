@@ -135,6 +135,8 @@ func (sc *scanCtx) evaluate(t *table) error {
 			clear(vars)
 			clear(good)
 		}
+		// Energy delivered (electricity, steam) has no heating-value basis.
+		sc.delivered = rs.key != ""
 		for _, b := range rs.binds {
 			if t.omitted(i, b) {
 				vars[b.name], good[b.name] = nil, false

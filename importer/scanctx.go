@@ -29,6 +29,7 @@ type scanCtx struct {
 	mapRun    *mappingRun      // what the scan did with opt.Mapping (mappingapply.go)
 	gridAt    string           // the cell of the grid-unknown finding, once per scan (grid.go)
 	heatOK    map[carrier]bool // whether heat_co2e has a default for a carrier (scope2.go)
+	delivered bool             // the row being read is purchased energy: its units have no basis
 	provenance
 
 	*lexicon // how texts read (fuels, units, technologies, headers)

@@ -68,6 +68,9 @@ func TestElectricityRowsWithGrid(t *testing.T) {
 	if w := wantFinding(t, rep, "Energy", "A5", SevInfo, CodeReadAs); !strings.Contains(w.Message, "grid de from --grid") {
 		t.Errorf("A5: %q, want the grid and where it came from", w.Message)
 	}
+	if _, ok := findingAt(rep, "Energy", "C6", CodeUnitBasis); ok {
+		t.Errorf("a basis note at the steam row's MMBtu: delivered energy has no basis; %s", listFindings(rep))
+	}
 	for _, w := range rep.Warnings {
 		if w.Code == CodeGridUnknown {
 			t.Errorf("grid-unknown with a grid: %+v", w)

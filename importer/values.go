@@ -177,7 +177,7 @@ func (sc *scanCtx) checkUnit(t *table, c *column, s string, col, r int, power bo
 		sc.warn.add(sheet, col, r, SevError, units.CodeDimension, notComputed(msg))
 		return units.Unit{}, false
 	}
-	if u.Dim == units.Energy && sc.packBasis != units.NoBasis {
+	if u.Dim == units.Energy && sc.packBasis != units.NoBasis && !sc.delivered {
 		key := "basis|" + sheet + "|" + colName(c.col) + "|" + s
 		switch {
 		case u.Basis != units.NoBasis && u.Basis != sc.packBasis:
