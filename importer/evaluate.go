@@ -255,9 +255,11 @@ func (sc *scanCtx) headerWarnings(t *table) {
 		}
 		if used[c] && c.hdr.UnitText != "" {
 			power := c.role == roleCapacity
+			sc.delivered = c.role == roleCarrier
 			if _, ok := sc.checkUnit(t, c, c.hdr.UnitText, c.col, hr, power); !ok {
 				c.unitBad = true
 			}
+			sc.delivered = false
 		}
 		if c.role == roleWideFuel && c.fuelAlias && !sameName(c.hdr.Base, c.fuelID) {
 			sc.warn.add(sheet, c.col, hr, SevInfo, CodeFuelAlias, quoteText(c.hdr.Base)+" read as "+c.fuelID)
