@@ -46,3 +46,22 @@ func TestAnnotateGridFlag(t *testing.T) {
 		t.Errorf("--grid Atlantis: exit %d, stderr %q", code, errs)
 	}
 }
+
+// TestBatchGridFingerprint: a batch run with another --grid annotates its
+// workbooks again; the same grid leaves them up to date.
+func TestBatchGridFingerprint(t *testing.T) {
+	in, out := t.TempDir(), filepath.Join(t.TempDir(), "out")
+	if err := os.WriteFile(filepath.Join(in, "site.csv"), []byte("Energy,Quantity,Unit\nElectricity,2000,kWh\nElectricity,2500,kWh\nDiesel,100,L\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct{ grid, want string }{
+		{"UK", "1 written"},
+		{"UK", "1 up to date"},
+		{"DE", "1 written"},
+	} {
+		code, stdout, errs := runCLI(t, "batch", in, out, "--grid", c.grid)
+		if code != 0 || !strings.Contains(stdout+errs, c.want) {
+			t.Errorf("batch --grid %s: exit %d, want %q in %s %s", c.grid, code, c.want, stdout, errs)
+		}
+	}
+}

@@ -46,7 +46,7 @@ func cmdBatch(ctx context.Context, s stdio, args []string) int {
 	opt := af.options()
 	cfg := batch.Config{
 		InDir: pos[0], OutDir: pos[1], Jobs: *jobs, Shard: shard,
-		Fingerprint: strings.Join(append(append([]string{"fluecell " + version, "packs " + e.Version(), "pack " + af.pack, "sheet " + af.sheet}, af.rules...), af.fingerprint()...), "\n"),
+		Fingerprint: strings.Join(append(append([]string{"fluecell " + version, "packs " + e.Version(), "pack " + af.pack, "sheet " + af.sheet, "grid " + af.grid}, af.rules...), af.fingerprint()...), "\n"),
 		Annotate: func(ctx context.Context, in, out string) (batch.Outcome, error) {
 			rep, err := importer.Annotate(ctx, e, in, out, opt)
 			if err != nil {
