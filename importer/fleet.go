@@ -37,16 +37,20 @@ const stationaryMode = "stationary"
 
 // roadModeOf is the road mode of a fuel id when the engine's default pack
 // has mobile CH4 and N2O for it in that mode, else "" (cached).
-func (lx *lexicon) roadModeOf(id string) string {
-	if m, ok := lx.modes[id]; ok {
+func (lx *lexicon) roadModeOf(id string) string { return lx.roadModeOfName(id, id) }
+
+// roadModeOfName is roadModeOf for a fuel as a cell names it: a blend
+// ("E-85") has its components' factors, which the pack may lack.
+func (lx *lexicon) roadModeOfName(name, id string) string {
+	if m, ok := lx.modes[name]; ok {
 		return m
 	}
 	m := modeFor(id)
-	if _, err := lx.e.CallValues("mobile_co2e", id, 1.0, "GJ", m); err != nil {
+	if _, err := lx.e.CallValues("mobile_co2e", name, 1.0, "GJ", m); err != nil {
 		m = ""
 	}
 	if len(lx.modes) < maxCache {
-		lx.modes[id] = m
+		lx.modes[name] = m
 	}
 	return m
 }
@@ -207,7 +211,7 @@ func (sc *scanCtx) rowMode(t *table, i int) *ruleSet {
 	if f.kind != nameFuel {
 		return nil
 	}
-	mode := sc.roadModeOf(f.id)
+	mode := sc.roadModeOfName(f.name, f.id)
 	switch mode {
 	case roadMode:
 		return nil
@@ -223,7 +227,7 @@ func (sc *scanCtx) rowMode(t *table, i int) *ruleSet {
 		msg := quoteText(v.text) + " in a fleet: road gasoline's CH4 and N2O are given by technology (IPCC 2006 Vol 2 Ch 3 Table 3.2.2); read as light-duty vehicles of 1995 or later (mode " +
 			roadModeGasoline + "), as \"" + ruleCalls(rs) + "\""
 		if mode == stationaryMode {
-			msg = quoteText(v.text) + " in a fleet: pack " + sc.e.DefaultPackName() + " has no road CH4 and N2O for " + f.id + ", so its rows take those of stationary combustion, as \"" + ruleCalls(rs) + "\""
+			msg = quoteText(v.text) + " in a fleet: pack " + sc.e.DefaultPackName() + " has no road CH4 and N2O for it, so rows of fuels without them take those of stationary combustion, as \"" + ruleCalls(rs) + "\""
 		}
 		sc.warn.add(t.spec.sheet, t.spec.fuel.col, int(t.rowNums[i]), SevInfo, CodeReadAs, msg)
 	}
