@@ -102,3 +102,21 @@ func TestMappingSector(t *testing.T) {
 		t.Errorf("err = %v, want the unknown sector named", err)
 	}
 }
+
+// TestFleetBlendFallsBack: E-85, whose ethanol has no road CH4 and N2O in
+// the default pack, is computed as stationary combustion with a finding,
+// not left out.
+func TestFleetBlendFallsBack(t *testing.T) {
+	rep := scanWith(t, "fleet.xlsx", "Fuel cards", [][]any{
+		{"Vehicle", "Fuel", "Litres"},
+		{"Van 1", "Diesel", 60},
+		{"Car 7", "E-85", 30},
+		{"Van 1", "Diesel", 50},
+	}, Options{})
+	if rep.Computed != 3 {
+		t.Errorf("computed %d rows, want 3; findings %s", rep.Computed, listFindings(rep))
+	}
+	if w := wantFinding(t, rep, "Fuel cards", "B3", SevInfo, CodeReadAs); !strings.Contains(w.Message, "stationary combustion") {
+		t.Errorf("B3: %q", w.Message)
+	}
+}
