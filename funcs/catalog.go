@@ -99,6 +99,7 @@ func catalogFamilies() []func(e *Engine) []*Function {
 		refrigerantFunctions,
 		fugitiveFunctions,
 		gridFunctions,
+		vehicleDistanceFunctions,
 	}
 }
 

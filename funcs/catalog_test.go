@@ -14,7 +14,8 @@ func TestCatalogExamples(t *testing.T) {
 		"vehicle_embodied", "battery_embodied", "building_embodied",
 		"mobile_co2", "mobile_co2e",
 		"refrigerant_co2e", "fugitive_co2e", "refrigerant_leak_rate",
-		"electricity_co2e", "electricity_co2", "electricity_losses_co2e", "heat_co2e"}
+		"electricity_co2e", "electricity_co2", "electricity_losses_co2e", "heat_co2e",
+		"vehicle_co2e"}
 	var got []string
 	for _, f := range e.Functions() {
 		got = append(got, f.Name)

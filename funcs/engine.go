@@ -17,6 +17,7 @@ type Engine struct {
 	techs       *techIndex
 	gases       *gasIndex
 	grids       *gridIndex
+	vehNames    *vehicleIndex // distance-table vehicles and their names
 	catalog     *catalogIndex
 	defaultPack string
 
@@ -114,6 +115,9 @@ func New(opts ...Option) (*Engine, error) {
 		return nil, packError(err)
 	}
 	if e.grids, err = buildGridIndex(ps); err != nil {
+		return nil, packError(err)
+	}
+	if e.vehNames, err = newVehicleIndex(ps); err != nil {
 		return nil, packError(err)
 	}
 	e.catalog = newCatalogIndex(buildCatalog(e))

@@ -98,7 +98,7 @@ func TestCallErrors(t *testing.T) {
 		code string
 		want string
 	}{
-		{"fuel_co3", nil, CodeUnknownFunction, `unknown function "fuel_co3" (did you mean fuel_co2?); functions are battery_embodied, building_embodied, carbon_from_co2, co2_from_carbon, electricity_co2, electricity_co2e, electricity_losses_co2e, embodied, embodied_per_mw, fuel_carbon, fuel_co2, fuel_co2e, fuel_energy, fugitive_co2e, gtc_from_ppm, gwp, heat_co2e, lifecycle_intensity, lifecycle_part, mobile_co2, mobile_co2e, ppm_from_co2, ppm_from_gtc, refrigerant_co2e, refrigerant_leak_rate, to_unit, vehicle_embodied`},
+		{"fuel_co3", nil, CodeUnknownFunction, `unknown function "fuel_co3" (did you mean fuel_co2?); functions are battery_embodied, building_embodied, carbon_from_co2, co2_from_carbon, electricity_co2, electricity_co2e, electricity_losses_co2e, embodied, embodied_per_mw, fuel_carbon, fuel_co2, fuel_co2e, fuel_energy, fugitive_co2e, gtc_from_ppm, gwp, heat_co2e, lifecycle_intensity, lifecycle_part, mobile_co2, mobile_co2e, ppm_from_co2, ppm_from_gtc, refrigerant_co2e, refrigerant_leak_rate, to_unit, vehicle_co2e, vehicle_embodied`},
 		{"fuel_co2", map[string]string{"fuel": "diesel", "unit": "L"}, CodeBadArgument, `fuel_co2: amount: missing required parameter amount (number: quantity of fuel used)`},
 		{"fuel_co2", map[string]string{"fuel": "diesel", "amount": "1,5", "unit": "L"}, CodeBadArgument, `fuel_co2: amount must be a number with "." as decimal separator, got "1,5"`},
 		{"fuel_co2", map[string]string{"fuel": "diesel", "amount": "NaN", "unit": "L"}, CodeBadArgument, `fuel_co2: amount must be a number with "." as decimal separator, got "NaN"`},

@@ -88,7 +88,7 @@ func anyAmount() []units.Dimension { return []units.Dimension{units.Energy, unit
 // quantityFamilies are the quantities declared beside the functions that use
 // them (each in its own file), after the core ones of coreQuantity.
 func quantityFamilies() []map[string]quantitySpec {
-	return []map[string]quantitySpec{buildoutQuantities(), sectorQuantities(), mobileQuantities(), fugitiveQuantities(), gridQuantities()}
+	return []map[string]quantitySpec{buildoutQuantities(), sectorQuantities(), mobileQuantities(), fugitiveQuantities(), gridQuantities(), distanceQuantities()}
 }
 
 // specFor returns the spec of a quantity name: a core quantity, then one of
