@@ -30,11 +30,12 @@ const (
 	roleCarrier       // one column of purchased energy: "Electricity (kWh)", "Steam (MMBtu)" (scope2.go)
 	roleGas           // refrigerant or other fugitive gas names: R-410A, HFC-134a (fugitive.go)
 	roleSector        // the sector where a row's fuel is burned: energy, commercial (fleet.go)
+	roleVehicle       // vehicle types of distance-based rows: "Medium petrol car" (distance.go)
 )
 
 func (r role) String() string {
 	return [...]string{"", "fuel", "quantity", "unit", "fuel-column", "technology", "capacity",
-		"capacity-factor", "lifetime", "existing-carbon", "group", "period", "date", "grid", "purchased-energy", "gas", "sector"}[r]
+		"capacity-factor", "lifetime", "existing-carbon", "group", "period", "date", "grid", "purchased-energy", "gas", "sector", "vehicle"}[r]
 }
 
 // Table kinds.
@@ -103,6 +104,10 @@ type tableSpec struct {
 	// Refrigerant logs (fugitive.go): the gas column, and a charge held
 	// where no mass released is given.
 	gas, charge *column
+
+	// Distance-based vehicle rows (distance.go): the vehicle type column;
+	// the distance is qty.
+	vehicle *column
 
 	// Combustion (fleet.go): a fleet's evidence (mobile combustion), or the
 	// sector column and the sector arguments of fuel_co2e.

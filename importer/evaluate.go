@@ -452,6 +452,13 @@ func (sc *scanCtx) rowTotals(t *table, i int, vars map[string]any, wideK map[*co
 					key = f.id
 				}
 			}
+		} else if spec.vehicle != nil {
+			if s, ok := vars[spec.vehicle.ident].(string); ok {
+				key = strings.TrimSpace(s)
+				if id := sc.vehicleName(s); id != "" {
+					key = id
+				}
+			}
 		} else if spec.gas != nil {
 			if s, ok := vars[spec.gas.ident].(string); ok {
 				key = strings.TrimSpace(s)

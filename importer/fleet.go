@@ -241,6 +241,11 @@ func (sc *scanCtx) fleetFindings(t *table) {
 	if len(sc.userRules) > 0 || len(t.rules) == 0 {
 		return
 	}
+	if spec.kind == kindDistance {
+		sc.warn.add(spec.sheet, spec.qty.col, spec.headerRow, SevInfo, CodeReadAs, quoteText(spec.qty.hdr.Text)+" read as distances driven by the vehicle types of "+
+			quoteText(spec.vehicle.hdr.Text)+": the distance-based method (vehicle_co2e); where the fuel bought is known, it is the better basis (mobile_co2e)")
+		return
+	}
 	col := spec.firstCol
 	switch {
 	case spec.qty != nil:

@@ -235,6 +235,8 @@ func whyRole(c *column) string {
 		return "its values name refrigerants or other fugitive gases"
 	case roleSector:
 		return "the header says sector; its values name sectors"
+	case roleVehicle:
+		return "its values name vehicle types"
 	}
 	switch {
 	case c.partOf != nil:

@@ -190,6 +190,8 @@ func (run *mappingRun) setRole(lx *lexicon, path string, t *tableSpec, c *column
 		t.gas = c
 	case roleSector:
 		t.sector = c
+	case roleVehicle:
+		t.vehicle = c
 	case roleCarrier:
 		if c.carrier = lx.carrierOf(c.hdr.Base); c.carrier == carrierNone {
 			c.carrier = carrierElectricity // the mapping says it is bought energy; a header naming no carrier is electricity
@@ -249,7 +251,7 @@ func clearRoles(t *tableSpec) {
 	t.fuel, t.qty, t.unit, t.group = nil, nil, nil, nil
 	t.tech, t.capacity, t.cf, t.life = nil, nil, nil, nil
 	t.wide, t.periods, t.existing, t.when = nil, nil, nil, nil
-	t.gridCol, t.scope2, t.gas, t.charge, t.sector = nil, nil, nil, nil, nil
+	t.gridCol, t.scope2, t.gas, t.charge, t.sector, t.vehicle = nil, nil, nil, nil, nil, nil
 	t.headerErr = nil
 }
 
@@ -268,6 +270,8 @@ func kindNeeds(kind string) string {
 		return "a refrigerant table needs a gas column and a quantity column of the mass released"
 	case kindCharge:
 		return "a refrigerant-charge table needs a gas column and no quantity column"
+	case kindDistance:
+		return "a vehicle-distance table needs a vehicle column and a quantity column of distances"
 	}
 	return "a custom table is read only with --rule"
 }

@@ -42,9 +42,9 @@ func (p *mapParser) table(v any, at string) (mapTable, error) {
 		return t, err
 	}
 	switch t.kind {
-	case "", kindFuelLog, kindWide, kindPeriods, kindBuildPlan, kindRefrigerant, kindCharge, kindCustom:
+	case "", kindFuelLog, kindWide, kindPeriods, kindBuildPlan, kindRefrigerant, kindCharge, kindDistance, kindCustom:
 	default:
-		return t, p.fail(at+".kind", "unknown kind %q: accepted are %s, %s, %s, %s, %s, %s and %s", t.kind, kindFuelLog, kindWide, kindPeriods, kindBuildPlan, kindRefrigerant, kindCharge, kindCustom)
+		return t, p.fail(at+".kind", "unknown kind %q: accepted are %s, %s, %s, %s, %s, %s, %s and %s", t.kind, kindFuelLog, kindWide, kindPeriods, kindBuildPlan, kindRefrigerant, kindCharge, kindDistance, kindCustom)
 	}
 	if f, err := p.optStr(obj, "fuel", at); err != nil {
 		return t, err

@@ -220,6 +220,7 @@ func (d *detector) assignRoles(t *tableSpec) {
 	d.findGridCol(t)
 	// Refrigerant logs: gas names and a mass added or lost.
 	d.assignRefrigerant(t)
+	d.assignDistance(t)
 	d.findSectorCol(t)
 	// Amount columns left out (steam in pounds, unknown names with a unit).
 	for _, c := range t.cols {
@@ -373,6 +374,12 @@ func fuelHeader(ws []string) bool {
 // can use (no roles, and no user rule whose variables it has).
 func (d *detector) decideKind(t *tableSpec) bool {
 	switch {
+	case t.vehicle != nil && t.qty != nil:
+		t.kind = kindDistance
+		if t.unit == nil && t.qty.hdr.UnitText == "" {
+			t.headerErr = &Warning{Sheet: t.sheet, Cell: cellRef(t.qty.col, t.headerRow), Severity: SevError, Code: CodeUnitUnknown,
+				Message: "no unit for " + quoteText(t.qty.hdr.Text) + ": add a unit column or write the unit in the header, e.g. " + quoteText(t.qty.hdr.Base+" (km)") + "; no row is computed"}
+		}
 	case t.gas != nil && t.qty != nil:
 		t.kind = kindRefrigerant
 		if t.unit == nil && t.qty.hdr.UnitText == "" {

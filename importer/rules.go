@@ -186,6 +186,11 @@ func proposeRules(t *tableSpec, scope2 []string) []string {
 			return []string{r}
 		}
 		return nil
+	case kindDistance:
+		if r := distanceRule(t); r != "" && t.headerErr == nil {
+			return []string{r}
+		}
+		return nil
 	case kindBuildPlan:
 		if t.headerErr != nil {
 			return nil

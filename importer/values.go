@@ -166,8 +166,11 @@ func (sc *scanCtx) checkUnit(t *table, c *column, s string, col, r int, power bo
 	}
 	u := res.u
 	want := []units.Dimension{units.Energy, units.Mass, units.Volume}
-	if power {
+	switch {
+	case power:
 		want = []units.Dimension{units.Power}
+	case t.spec.kind == kindDistance:
+		want = []units.Dimension{units.Length} // km or miles driven
 	}
 	if _, err := units.ParseAs(s, want...); err != nil {
 		msg := err.Error()
