@@ -32,6 +32,7 @@ func (d *detector) titleContext(t *tableSpec, above []row) {
 		}
 		texts = append(texts, cells...)
 	}
+	t.titles = texts
 	for _, s := range texts {
 		if len(s) > 300 || len(strings.Fields(s)) > 14 {
 			continue // a note, not a title: its units speak of something else

@@ -26,11 +26,16 @@ const (
 	roleGroup         // site, region, department...: totals by it
 	rolePeriod        // one period per column (Jan, Feb... or 2024, 2025) of the row's fuel
 	roleWhen          // the date or period of a row (YYYYMM, Date): annual rows among monthly ones are left out
+	roleGrid          // the country or grid region of each row: its electricity grid (scope2.go)
+	roleCarrier       // one column of purchased energy: "Electricity (kWh)", "Steam (MMBtu)" (scope2.go)
+	roleGas           // refrigerant or other fugitive gas names: R-410A, HFC-134a (fugitive.go)
+	roleSector        // the sector where a row's fuel is burned: energy, commercial (fleet.go)
+	roleVehicle       // vehicle types of distance-based rows: "Medium petrol car" (distance.go)
 )
 
 func (r role) String() string {
 	return [...]string{"", "fuel", "quantity", "unit", "fuel-column", "technology", "capacity",
-		"capacity-factor", "lifetime", "existing-carbon", "group", "period", "date"}[r]
+		"capacity-factor", "lifetime", "existing-carbon", "group", "period", "date", "grid", "purchased-energy", "gas", "sector", "vehicle"}[r]
 }
 
 // Table kinds.
@@ -56,6 +61,8 @@ type column struct {
 	numStyle   numStyle // how its numbers stored as text are written (decimal point or comma)
 	styleGuess bool     // numStyle comes from values that only lean one way: said in a finding
 	fuelAlias  bool
+	carrier    carrier // roleCarrier: the energy bought
+	gallonText string  // a bare gallon of the header read as imperial, as the mapping says (gallons.go)
 	carbon     carbonCol
 	numeric    bool // values are mostly numbers
 	unitBad    bool // the header unit cannot be used for this column's role
@@ -83,6 +90,31 @@ type tableSpec struct {
 	when      *column // the date or period of each row of a long table (YYYYMM, Date)
 	output    bool    // the title speaks of generation: amounts in Wh are electricity made, not fuel burned
 	rateTitle string  // a title stating prices or rates ("Dollars per Million Btu")
+
+	// Purchased energy (scope2.go): the grid of its electricity, from a
+	// column, the mapping, the options or a title or header (ctxGrid, and
+	// ctxGridFrom saying which).
+	grid        gridChoice
+	gridCol     *column
+	ctxGrid     string
+	ctxGridFrom string
+	scope2      []*column // columns of purchased energy (roleCarrier)
+	titles      []string  // the title rows above the header
+
+	// Refrigerant logs (fugitive.go): the gas column, and a charge held
+	// where no mass released is given.
+	gas, charge *column
+
+	// Distance-based vehicle rows (distance.go): the vehicle type column;
+	// the distance is qty.
+	vehicle *column
+
+	// Combustion (fleet.go): a fleet's evidence (mobile combustion), or the
+	// sector column and the sector arguments of fuel_co2e.
+	mobile     string
+	stationary map[string]bool // fuels of a fleet without road CH4 and N2O in the pack
+	sector     *column
+	sectorArgs string
 
 	// The columns with a role (nil when absent).
 	fuel, qty, unit, group   *column
@@ -406,6 +438,11 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 	}
 	d.assignRoles(t)
 	d.applyMapping(t)
+	d.fleetEvidence(t)
+	d.chooseSector(t)
+	d.imperialHeaders(t)
+	d.titleGrid(t, t.titles)
+	d.chooseGrid(t)
 	if !d.decideKind(t) {
 		if _, seen := sc.skipWhy[d.sheet]; !seen {
 			sc.skipWhy[d.sheet] = whyNot(t)

@@ -166,8 +166,14 @@ func wantTCO2(t *testing.T, what string, got, want float64) {
 // of the computed column named col ("tCO2") of the table on sheet, by row.
 func annotatedColumn(t *testing.T, path, sheet, col string) map[int]float64 {
 	t.Helper()
+	return annotatedColumnOpt(t, path, sheet, col, Options{})
+}
+
+// annotatedColumnOpt is annotatedColumn with options.
+func annotatedColumnOpt(t *testing.T, path, sheet, col string, opt Options) map[int]float64 {
+	t.Helper()
 	out := filepath.Join(t.TempDir(), "out-"+filepath.Base(path))
-	rep, err := Annotate(context.Background(), testEngine(t), path, out, Options{})
+	rep, err := Annotate(context.Background(), testEngine(t), path, out, opt)
 	if err != nil {
 		t.Fatalf("Annotate: %v", err)
 	}

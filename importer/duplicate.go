@@ -21,7 +21,7 @@ func (t *table) rowSigs() []uint64 {
 	var cols []int
 	for s, c := range t.slots {
 		switch c.role {
-		case roleFuel, roleUnit, roleQuantity, roleWideFuel, rolePeriod, roleTech, roleCapacity, roleWhen:
+		case roleFuel, roleUnit, roleQuantity, roleWideFuel, rolePeriod, roleTech, roleCapacity, roleWhen, roleCarrier:
 			cols = append(cols, s)
 		}
 	}

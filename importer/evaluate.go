@@ -35,6 +35,9 @@ func (sc *scanCtx) evaluate(t *table) error {
 	t.byFuel, t.byGroup = map[string]*sum{}, map[string]*sum{}
 	t.decideStyles()
 	sc.headerWarnings(t)
+	sc.scope2Findings(t)
+	sc.fleetFindings(t)
+	sc.gallonHeaders(t)
 	if spec.ctxFuel != "" && spec.fuel == nil && spec.qty != nil {
 		// No fuel column: every row is the fuel the title, sheet or file
 		// name gives. A title is the table's own word; a sheet or file
@@ -59,18 +62,9 @@ func (sc *scanCtx) evaluate(t *table) error {
 	}
 
 	// The variables rows give, each once.
-	var binds []*binding
-	seen := map[string]bool{}
-	for _, r := range t.rules {
-		for _, b := range r.vars {
-			if !seen[b.name] {
-				seen[b.name] = true
-				binds = append(binds, b)
-			}
-		}
-	}
-	good := make(map[string]bool, len(binds))
-	vars := make(map[string]any, len(binds))
+	main := t.mainRules()
+	good := make(map[string]bool, len(main.binds))
+	vars := make(map[string]any, len(main.binds))
 	srcIndex := map[srcKey]int32{}
 	samples := map[string][]sample{}
 	wideK := sc.wideFactors(t)
@@ -105,6 +99,18 @@ func (sc *scanCtx) evaluate(t *table) error {
 				" (the error at "+spec.headerErr.Cell+")")
 			continue
 		}
+		if spec.kind == kindCharge {
+			msg, col := chargeReason(spec)
+			sc.warn.add(sheet, col, rowNum, SevInfo, CodeNotComputed, msg)
+			continue
+		}
+		if len(t.rules) == 0 && len(spec.scope2) > 0 {
+			// Only purchased energy that cannot be computed: each row says so.
+			c := spec.scope2[0]
+			sc.warn.add(sheet, c.col, rowNum, SevInfo, CodeNotComputed, "not computed: "+quoteText(c.hdr.Text)+" is purchased "+c.carrier.String()+
+				" (Scope 2) and no factor applies (see the findings at its header, "+cellRef(c.col, spec.headerRow)+")")
+			continue
+		}
 		if again != nil && again[i] > 0 {
 			c := t.spec.fuel
 			msg := "the same " + quoteText(t.val(i, t.slotOf[c.col]).text) + " again, in another unit: counted once, from row " + itoa(again[i])
@@ -121,7 +127,17 @@ func (sc *scanCtx) evaluate(t *table) error {
 				quoteText(cell{kind: v.kind, num: v.num, text: v.text}.display())+"): not computed, so the year is not counted twice")
 			continue
 		}
-		for _, b := range binds {
+		rs, skip := sc.rowRules(t, main, i)
+		if skip {
+			continue
+		}
+		if rs != main {
+			clear(vars)
+			clear(good)
+		}
+		// Energy delivered (electricity, steam) has no heating-value basis.
+		sc.delivered = rs.key != ""
+		for _, b := range rs.binds {
 			if t.omitted(i, b) {
 				vars[b.name], good[b.name] = nil, false
 				continue
@@ -132,12 +148,13 @@ func (sc *scanCtx) evaluate(t *table) error {
 		if forest != nil {
 			t.maskRow(i, forest, vars)
 		}
-		all := len(t.rules) > 0
+		all := len(rs.rules) > 0
 		var key srcKey
 		nk := 0
 		var long []*funcs.Factor
 		rowNotes = rowNotes[:0]
-		for ri, r := range t.rules {
+		for k, r := range rs.rules {
+			ri := rs.at[k]
 			r = sc.variantFor(t, r, i, good)
 			ok := true
 			for _, b := range r.vars {
@@ -178,8 +195,10 @@ func (sc *scanCtx) evaluate(t *table) error {
 		if all {
 			t.computed++
 		}
-		sc.rowTotals(t, i, rowNum, vars, wideK)
-		sc.collectSamples(t, i, rowNum, vars, samples)
+		sc.rowTotals(t, i, vars, wideK, rs.key)
+		if rs == main {
+			sc.collectSamples(t, i, rowNum, vars, samples)
+		}
 		sc.checkExisting(t, i, rowNum)
 	}
 	sc.checkOutliers(sheet, samples)
@@ -224,9 +243,9 @@ func (sc *scanCtx) headerWarnings(t *table) {
 		}
 	}
 	for _, c := range spec.cols {
-		if c.hdr.UnitErr != nil && (used[c] || c.role == roleWideFuel || c.role == roleQuantity || c.role == roleCapacity) {
+		if c.hdr.UnitErr != nil && (used[c] || c.role == roleWideFuel || c.role == roleCarrier || c.role == roleQuantity || c.role == roleCapacity) {
 			msg := c.hdr.UnitErr.Msg + " (in the header " + quoteText(c.hdr.Text) + ")"
-			if c.role == roleWideFuel {
+			if c.role == roleWideFuel || c.role == roleCarrier {
 				msg += "; the column is left out of the totals"
 			} else {
 				msg += "; no row is computed from it"
@@ -236,9 +255,11 @@ func (sc *scanCtx) headerWarnings(t *table) {
 		}
 		if used[c] && c.hdr.UnitText != "" {
 			power := c.role == roleCapacity
+			sc.delivered = c.role == roleCarrier
 			if _, ok := sc.checkUnit(t, c, c.hdr.UnitText, c.col, hr, power); !ok {
 				c.unitBad = true
 			}
+			sc.delivered = false
 		}
 		if c.role == roleWideFuel && c.fuelAlias && !sameName(c.hdr.Base, c.fuelID) {
 			sc.warn.add(sheet, c.col, hr, SevInfo, CodeFuelAlias, quoteText(c.hdr.Base)+" read as "+c.fuelID)
@@ -246,7 +267,7 @@ func (sc *scanCtx) headerWarnings(t *table) {
 		if c.role == roleWideFuel && c.hdr.UnitErr == nil && c.unitIdent != "" {
 			sc.gasKWh(sheet, c.col, hr, c.fuelID, c.hdr.Unit)
 		}
-		if c.styleGuess && (c.role == roleQuantity || c.role == roleWideFuel || c.role == rolePeriod || c.role == roleCapacity) {
+		if c.styleGuess && (c.role == roleQuantity || c.perColumn() || c.role == roleCapacity) {
 			sc.warn.add(sheet, c.col, hr, SevInfo, CodeValueTextNumber, "numbers stored as text in "+quoteText(c.hdr.Text)+" read with "+c.numStyle.String()+
 				": every such value there reads that way (\"20,523\" as 20523); set the column's number style in a mapping if they are decimals")
 		}
@@ -308,8 +329,11 @@ func (sc *scanCtx) ruleError(t *table, i int, r *rule, err error) {
 		case funcs.CodeMissingFactor:
 			code = CodeFactorMissing
 		case funcs.CodeBadArgument:
-			if fe.Param == "tech" {
+			switch fe.Param {
+			case "tech":
 				code = CodeTechUnknown
+			case "grid":
+				code = CodeGridUnknown // a grid name of a cell the grid sets do not know
 			}
 		}
 		if v, ok := r.paramVar[fe.Param]; ok {
@@ -346,6 +370,10 @@ func (sc *scanCtx) wideFactors(t *table) map[*column][2]float64 {
 		}
 		a, err1 := sc.e.CallValues("fuel_co2", c.fuelID, 1.0, c.hdr.UnitText)
 		b, err2 := sc.e.CallValues("fuel_co2e", c.fuelID, 1.0, c.hdr.UnitText)
+		if t.spec.mobile != "" {
+			a, err1 = sc.e.CallValues("mobile_co2", c.fuelID, 1.0, c.hdr.UnitText, modeFor(c.fuelID))
+			b, err2 = sc.e.CallValues("mobile_co2e", c.fuelID, 1.0, c.hdr.UnitText, modeFor(c.fuelID))
+		}
 		if err1 == nil && err2 == nil {
 			out[c] = [2]float64{a.Value, b.Value}
 		}
@@ -353,10 +381,12 @@ func (sc *scanCtx) wideFactors(t *table) map[*column][2]float64 {
 	return out
 }
 
-// rowTotals adds a row's numbers to the table's totals by fuel and group.
-func (sc *scanCtx) rowTotals(t *table, i, rowNum int, vars map[string]any, wideK map[*column][2]float64) {
-	var co2, co2e float64
-	has1, has2 := false, false
+// rowTotals adds a row's numbers to the table's totals by fuel and group;
+// key names the row's share in the totals by fuel when it is not its
+// fuel's (purchased energy).
+func (sc *scanCtx) rowTotals(t *table, i int, vars map[string]any, wideK map[*column][2]float64, key string) {
+	var co2, co2e, scope2 float64
+	has1, has2, has3 := false, false, false
 	for ri, r := range t.rules {
 		v := t.res[ri][i]
 		if math.IsNaN(v) {
@@ -367,28 +397,31 @@ func (sc *scanCtx) rowTotals(t *table, i, rowNum int, vars map[string]any, wideK
 			co2, has1 = v, true
 		case 2:
 			co2e, has2 = v, true
+		case 3:
+			scope2, has3 = v, true
 		}
 	}
-	if !has1 && !has2 {
+	if !has1 && !has2 && !has3 {
 		return
 	}
-	add := func(m map[string]*sum, ord *[]string, key string, a, b float64) {
+	add := func(m map[string]*sum, ord *[]string, key string, a, b float64, hasA, hasB bool) {
 		s := m[key]
 		if s == nil {
 			s = &sum{}
 			m[key] = s
 			*ord = append(*ord, key)
 		}
-		if has1 {
+		if hasA {
 			s.TCO2 += a
 		}
-		if has2 {
+		if hasB {
 			s.TCO2e += b
 		}
 		s.rows++
 	}
 	spec := t.spec
 	switch {
+	case !has1 && !has2:
 	case spec.kind == kindWide && wideK != nil:
 		for _, c := range spec.wide {
 			k, ok := wideK[c]
@@ -403,8 +436,10 @@ func (sc *scanCtx) rowTotals(t *table, i, rowNum int, vars map[string]any, wideK
 				d, _ := vars[periodDaysIdent].(float64)
 				x *= d / c.hdr.FlowDays
 			}
-			add(t.byFuel, &t.fuelOrd, c.fuelID, x*k[0], x*k[1])
+			add(t.byFuel, &t.fuelOrd, c.fuelID, x*k[0], x*k[1], has1, has2)
 		}
+	case key != "":
+		add(t.byFuel, &t.fuelOrd, key, co2, co2e, has1, has2)
 	default:
 		key := "(all rows)"
 		if spec.ctxFuel != "" {
@@ -417,6 +452,20 @@ func (sc *scanCtx) rowTotals(t *table, i, rowNum int, vars map[string]any, wideK
 					key = f.id
 				}
 			}
+		} else if spec.vehicle != nil {
+			if s, ok := vars[spec.vehicle.ident].(string); ok {
+				key = strings.TrimSpace(s)
+				if id := sc.vehicleName(s); id != "" {
+					key = id
+				}
+			}
+		} else if spec.gas != nil {
+			if s, ok := vars[spec.gas.ident].(string); ok {
+				key = strings.TrimSpace(s)
+				if id := sc.gasName(s); id != "" {
+					key = id
+				}
+			}
 		} else if spec.tech != nil {
 			if s, ok := vars[spec.tech.ident].(string); ok {
 				key = strings.TrimSpace(s)
@@ -425,7 +474,10 @@ func (sc *scanCtx) rowTotals(t *table, i, rowNum int, vars map[string]any, wideK
 				}
 			}
 		}
-		add(t.byFuel, &t.fuelOrd, key, co2, co2e)
+		add(t.byFuel, &t.fuelOrd, key, co2, co2e, has1, has2)
+	}
+	if has3 {
+		add(t.byFuel, &t.fuelOrd, scope2Key(spec), 0, scope2, false, true)
 	}
 	if g := spec.group; g != nil {
 		v := t.val(i, t.slotOf[g.col])
@@ -433,7 +485,7 @@ func (sc *scanCtx) rowTotals(t *table, i, rowNum int, vars map[string]any, wideK
 		if v.kind == kEmpty {
 			key = "(blank)"
 		}
-		add(t.byGroup, &t.groupOrd, key, co2, co2e)
+		add(t.byGroup, &t.groupOrd, key, co2, co2e+scope2, has1, has2 || has3)
 	}
 }
 
@@ -467,63 +519,13 @@ func (sc *scanCtx) variantFor(t *table, r *rule, i int, good map[string]bool) *r
 	return r
 }
 
-// annualRows marks the rows whose period is a whole year (YYYYMM with
-// month 13, the statistics' annual code) in a year that also has monthly
-// rows. nil when there are none.
-func (t *table) annualRows() []bool {
-	c := t.spec.when
-	if c == nil {
-		return nil
-	}
-	s := t.slotOf[c.col]
-	n := len(t.rowNums)
-	kind := make([]uint8, n) // 1 monthly, 2 annual
-	year := make([]int, n)
-	monthsOf := map[int]bool{} // years with monthly rows
-	monthly, yearly := false, false
-	for i := 0; i < n; i++ {
-		v := t.val(i, s)
-		x := v.num
-		if v.kind == kText {
-			f, ok, _ := textNumber(v.text)
-			if !ok {
-				continue
-			}
-			x = f
-		} else if v.kind != kNumber {
-			continue
-		}
-		if x != math.Trunc(x) {
-			continue
-		}
-		year[i] = int(x) / 100
-		switch {
-		case x >= 190001 && x <= 210013 && int(x)%100 == 13:
-			kind[i], yearly = 2, true
-		case x >= 190001 && x <= 210012 && int(x)%100 >= 1:
-			kind[i], monthly = 1, true
-			monthsOf[year[i]] = true
-		}
-	}
-	if !monthly || !yearly {
-		return nil
-	}
-	// An annual row stands for its year where no monthly rows do (the
-	// early years of a series often have annual figures only).
-	out := make([]bool, n)
-	for i, k := range kind {
-		out[i] = k == 2 && monthsOf[year[i]]
-	}
-	return out
-}
-
 // decideStyles decides each amount column's number style from all its
 // stored values (the sample that found the table may have held none
 // written as text).
 func (t *table) decideStyles() {
 	for s, c := range t.slots {
 		switch c.role {
-		case roleQuantity, roleWideFuel, rolePeriod, roleCapacity, roleCF, roleLifetime, roleExisting:
+		case roleQuantity, roleWideFuel, rolePeriod, roleCapacity, roleCF, roleLifetime, roleExisting, roleCarrier:
 		default:
 			continue
 		}
@@ -540,85 +542,4 @@ func (t *table) decideStyles() {
 			c.decideStyle()
 		}
 	}
-}
-
-// sameAgain marks the rows of a long table that repeat an earlier row's
-// fuel in another unit (statistics print "Distillate fuel oil consumed by
-// the industrial sector" once in billion Btu and once in thousand
-// barrels), or that are a part of another row ("... industrial sector
-// excluding refinery fuel"): the value is that other row's number, 0
-// elsewhere; part is set for the second kind. Rows agree when their fuel
-// text, group and date agree. nil when there are none.
-func (t *table) sameAgain() (rows []int, part []bool) {
-	spec := t.spec
-	// Only a table of series (one per period column, or rows dated by a
-	// period) repeats a series; a log repeats fuels on purpose.
-	if spec.fuel == nil || spec.unit == nil || spec.kind != kindPeriods && (spec.kind != kindFuelLog || spec.when == nil) {
-		return nil, nil
-	}
-	type first struct {
-		unit string
-		row  int
-	}
-	n := len(t.rowNums)
-	keys := make([]string, n)
-	isPart := make([]bool, n)
-	units := make([]string, n)
-	fs, us := t.slotOf[spec.fuel.col], t.slotOf[spec.unit.col]
-	whole := map[string]first{} // rows that are no part: key -> first such row
-	type normText struct {
-		text string
-		part bool
-	}
-	norm := map[string]normText{} // fuel texts repeat: each is normalised once
-	for i := 0; i < n; i++ {
-		f, u := t.val(i, fs), t.val(i, us)
-		if f.kind != kText || u.kind != kText {
-			continue
-		}
-		nt, ok := norm[f.text]
-		if !ok {
-			nt.text = strings.ToLower(strings.Join(strings.Fields(f.text), " "))
-			for _, w := range []string{" excluding ", " except ", " excl. "} {
-				if j := strings.Index(nt.text, w); j > 0 {
-					nt.text, nt.part = nt.text[:j], true
-					break
-				}
-			}
-			norm[f.text] = nt
-		}
-		text := nt.text
-		isPart[i] = nt.part
-		if spec.group != nil {
-			g := t.val(i, t.slotOf[spec.group.col])
-			text += "\x00" + strings.ToLower(strings.TrimSpace(cell{kind: g.kind, num: g.num, text: g.text}.display()))
-		}
-		if spec.when != nil {
-			w := t.val(i, t.slotOf[spec.when.col])
-			text += "\x00" + cell{kind: w.kind, num: w.num, text: w.text}.display()
-		}
-		keys[i], units[i] = text, strings.ToLower(strings.TrimSpace(u.text))
-		if _, ok := whole[text]; !ok && !isPart[i] {
-			whole[text] = first{units[i], int(t.rowNums[i])}
-		}
-	}
-	for i := 0; i < n; i++ {
-		if keys[i] == "" {
-			continue
-		}
-		w, ok := whole[keys[i]]
-		switch {
-		case !ok:
-			continue
-		case isPart[i]:
-		case w.row != int(t.rowNums[i]) && w.unit != units[i]:
-		default:
-			continue
-		}
-		if rows == nil {
-			rows, part = make([]int, n), make([]bool, n)
-		}
-		rows[i], part[i] = w.row, isPart[i]
-	}
-	return rows, part
 }

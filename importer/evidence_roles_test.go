@@ -216,8 +216,9 @@ func TestFuelName(t *testing.T) {
 	}
 }
 
-// TestFuelRowsNotComputed: in a fuel log, rows of aggregates, electricity
-// and steam are not computed, with a note at their own cell; a misspelt
+// TestFuelRowsNotComputed: in a fuel log, rows of aggregates and of
+// electricity without a grid are not computed, with a note at their own
+// cell (steam is computed as Scope 2); a misspelt
 // fuel is an error with a suggestion, not read as gas.
 func TestFuelRowsNotComputed(t *testing.T) {
 	rep, _ := scanRows(t, "tariffs.xlsx", "Bills", [][]any{
@@ -231,8 +232,12 @@ func TestFuelRowsNotComputed(t *testing.T) {
 		{"Natral gas", 70, "therms"},
 		{"Gas-oline", 10, "gal"},
 	})
-	for _, cell := range []string{"A4", "A5", "A6", "A7"} {
+	for _, cell := range []string{"A4", "A5", "A6"} {
 		wantFinding(t, rep, "Bills", cell, SevInfo, CodeNotComputed)
+	}
+	wantFinding(t, rep, "Bills", "A7", SevInfo, CodeReadAs) // steam: heat_co2e's default (scope2_test.go)
+	if w := wantFinding(t, rep, "Bills", "A6", SevWarning, CodeGridUnknown); !strings.Contains(w.Message, "--grid") {
+		t.Errorf("finding at A6 %q, want how to choose a grid", w.Message)
 	}
 	w := wantFinding(t, rep, "Bills", "A8", SevError, CodeFuelUnknown)
 	if !strings.Contains(w.Message, "did you mean natural_gas") {
@@ -244,8 +249,11 @@ func TestFuelRowsNotComputed(t *testing.T) {
 	gasoline := 10 * lPerGal / 1000 * gasolineRho / 1e6 * gasolineNCV * gasolineEF / kgPerTonne
 	wantTCO2(t, "natural_gas", rep.ByFuel["natural_gas"].TCO2, gasGrossT(300*1e5*jPerBtu))
 	wantTCO2(t, "motor_gasoline", rep.ByFuel["motor_gasoline"].TCO2, gasoline)
-	if len(rep.ByFuel) != 2 {
-		t.Errorf("by fuel %v, want natural_gas and motor_gasoline only", rep.ByFuel)
+	if got, want := rep.ByFuel["Scope 2: steam"].TCO2e, 50*steamTPerMM; !near(got, want) {
+		t.Errorf("steam %.9g t CO2e, want %.9g", got, want)
+	}
+	if len(rep.ByFuel) != 3 {
+		t.Errorf("by fuel %v, want natural_gas, motor_gasoline and steam only", rep.ByFuel)
 	}
 }
 

@@ -166,7 +166,7 @@ func TestHeaderOverRows(t *testing.T) {
 			if len(rep.ByFuel) != 2 {
 				t.Errorf("by fuel %v, want coal and gas only", rep.ByFuel)
 			}
-			if w := wantFinding(t, rep, "Commercial", "H"+hdr, SevInfo, CodeFuelUnknown); !strings.Contains(w.Message, "not a fuel burned on site") {
+			if w := wantFinding(t, rep, "Commercial", "H"+hdr, SevWarning, CodeGridUnknown); !strings.Contains(w.Message, "--grid") {
 				t.Errorf("H%s: %q", hdr, w.Message)
 			}
 		})

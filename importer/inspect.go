@@ -227,6 +227,16 @@ func whyRole(c *column) string {
 		return "the header names a site, region or other group"
 	case roleWhen:
 		return "the header names the date or period of the row"
+	case roleGrid:
+		return "the header names a country or region; its values are grids"
+	case roleCarrier:
+		return "the header names purchased " + c.carrier.String() + " and an energy unit"
+	case roleGas:
+		return "its values name refrigerants or other fugitive gases"
+	case roleSector:
+		return "the header says sector; its values name sectors"
+	case roleVehicle:
+		return "its values name vehicle types"
 	}
 	switch {
 	case c.partOf != nil:

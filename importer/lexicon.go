@@ -22,6 +22,12 @@ type lexicon struct {
 	techs map[string]techRes
 	hdrs  map[string]headerInfo
 	names map[string]fuelRef
+	// carriers and grids cache the readings of purchased energy (carrier.go, grid.go).
+	carriers map[string]carrier
+	grids    map[string]string
+	gases    map[string]string // fugitive gas names (fugitive.go)
+	modes    map[string]string // road modes by fuel id (fleet.go)
+	vehicles map[string]string // vehicle types of distance-based rows (distance.go)
 }
 
 // newLexicon returns an empty lexicon over the engine; an error means the
@@ -33,7 +39,7 @@ func newLexicon(e *funcs.Engine) (*lexicon, error) {
 		return nil, err
 	}
 	return &lexicon{e: e, vocab: vocab, fuels: map[string]fuelRes{}, units: map[string]unitRes{}, techs: map[string]techRes{},
-		hdrs: map[string]headerInfo{}, names: map[string]fuelRef{}}, nil
+		hdrs: map[string]headerInfo{}, names: map[string]fuelRef{}, carriers: map[string]carrier{}, grids: map[string]string{}, gases: map[string]string{}, modes: map[string]string{}, vehicles: map[string]string{}}, nil
 }
 
 // fuel resolves a fuel name through the engine, cached.

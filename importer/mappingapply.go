@@ -124,11 +124,14 @@ func (run *mappingRun) apply(d *detector, t *tableSpec, mt *mapTable) error {
 			return run.errorf(path, "%s (%s): role %q for a column outside the table %s:%s, which has no header there",
 				where(t, mc.col), mc.at, roleLabel(mc.role), cellRef(t.firstCol, t.headerRow), cellRef(t.lastCol, t.headerRow))
 		}
-		if err := run.setRole(path, t, c, mt, &mc); err != nil {
+		if err := run.setRole(d.lx, path, t, c, mt, &mc); err != nil {
 			return err
 		}
 	}
 	t.ctxFuel, t.ctxFrom, t.ctxUnit = mt.fuel, "mapping "+run.m.ref.Path, mt.unit
+	if t.gas != nil && t.qty == nil {
+		d.findCharge(t) // an inventory of charges: the column of what is held
+	}
 	ok := d.decideKind(t)
 	switch {
 	case mt.kind != "" && t.kind != mt.kind:
@@ -144,9 +147,10 @@ func (run *mappingRun) apply(d *detector, t *tableSpec, mt *mapTable) error {
 	return nil
 }
 
-// setRole gives column c the mapped role, unit and fuel; path is the
+// setRole gives column c the mapped role, unit and fuel (lx reads a
+// purchased-energy header); path is the
 // workbook's, for errors.
-func (run *mappingRun) setRole(path string, t *tableSpec, c *column, mt *mapTable, mc *mapCol) error {
+func (run *mappingRun) setRole(lx *lexicon, path string, t *tableSpec, c *column, mt *mapTable, mc *mapCol) error {
 	c.role = mc.role
 	switch mc.role {
 	case roleFuel:
@@ -180,10 +184,23 @@ func (run *mappingRun) setRole(path string, t *tableSpec, c *column, mt *mapTabl
 		t.periods = append(t.periods, c)
 	case roleWhen:
 		t.when = c
+	case roleGrid:
+		t.gridCol = c
+	case roleGas:
+		t.gas = c
+	case roleSector:
+		t.sector = c
+	case roleVehicle:
+		t.vehicle = c
+	case roleCarrier:
+		if c.carrier = lx.carrierOf(c.hdr.Base); c.carrier == carrierNone {
+			c.carrier = carrierElectricity // the mapping says it is bought energy; a header naming no carrier is electricity
+		}
+		t.scope2 = append(t.scope2, c)
 	default:
 		return run.errorf(path, "%s (%s): role %q cannot be given by a mapping", where(t, c.col), mc.at, roleLabel(mc.role))
 	}
-	if mc.role != roleQuantity && mc.role != roleWideFuel && mc.role != roleCapacity {
+	if mc.role != roleQuantity && mc.role != roleWideFuel && mc.role != roleCapacity && mc.role != roleCarrier {
 		return nil
 	}
 	switch {
@@ -229,11 +246,12 @@ func setHeaderUnit(c *column, unit string) {
 // clearRoles takes every role off t's columns.
 func clearRoles(t *tableSpec) {
 	for _, c := range t.cols {
-		c.role, c.fuelID, c.fuelAlias, c.partOf, c.carbon = roleNone, "", false, nil, carbonCol{}
+		c.role, c.fuelID, c.fuelAlias, c.partOf, c.carbon, c.carrier = roleNone, "", false, nil, carbonCol{}, carrierNone
 	}
 	t.fuel, t.qty, t.unit, t.group = nil, nil, nil, nil
 	t.tech, t.capacity, t.cf, t.life = nil, nil, nil, nil
 	t.wide, t.periods, t.existing, t.when = nil, nil, nil, nil
+	t.gridCol, t.scope2, t.gas, t.charge, t.sector, t.vehicle = nil, nil, nil, nil, nil, nil
 	t.headerErr = nil
 }
 
@@ -248,6 +266,12 @@ func kindNeeds(kind string) string {
 		return "a fuel-by-period table needs a fuel column and period columns"
 	case kindBuildPlan:
 		return "a build-plan needs a technology column and a capacity column"
+	case kindRefrigerant:
+		return "a refrigerant table needs a gas column and a quantity column of the mass released"
+	case kindCharge:
+		return "a refrigerant-charge table needs a gas column and no quantity column"
+	case kindDistance:
+		return "a vehicle-distance table needs a vehicle column and a quantity column of distances"
 	}
 	return "a custom table is read only with --rule"
 }

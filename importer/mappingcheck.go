@@ -18,7 +18,7 @@ type mapParser struct {
 }
 
 func (p *mapParser) table(v any, at string) (mapTable, error) {
-	obj, err := p.object(v, at, "sheet", "header_row", "kind", "fuel", "unit", "columns")
+	obj, err := p.object(v, at, "sheet", "header_row", "kind", "fuel", "unit", "grid", "sector", "gallons", "columns")
 	if err != nil {
 		return mapTable{}, err
 	}
@@ -42,9 +42,9 @@ func (p *mapParser) table(v any, at string) (mapTable, error) {
 		return t, err
 	}
 	switch t.kind {
-	case "", kindFuelLog, kindWide, kindPeriods, kindBuildPlan, kindCustom:
+	case "", kindFuelLog, kindWide, kindPeriods, kindBuildPlan, kindRefrigerant, kindCharge, kindDistance, kindCustom:
 	default:
-		return t, p.fail(at+".kind", "unknown kind %q: accepted are %s, %s, %s, %s and %s", t.kind, kindFuelLog, kindWide, kindPeriods, kindBuildPlan, kindCustom)
+		return t, p.fail(at+".kind", "unknown kind %q: accepted are %s, %s, %s, %s, %s, %s, %s and %s", t.kind, kindFuelLog, kindWide, kindPeriods, kindBuildPlan, kindRefrigerant, kindCharge, kindDistance, kindCustom)
 	}
 	if f, err := p.optStr(obj, "fuel", at); err != nil {
 		return t, err
@@ -57,6 +57,15 @@ func (p *mapParser) table(v any, at string) (mapTable, error) {
 		return t, err
 	}
 	if err := p.unit(t.unit, at+".unit"); err != nil {
+		return t, err
+	}
+	if t.grid, err = p.grid(obj, at); err != nil {
+		return t, err
+	}
+	if t.sector, err = p.sector(obj, at); err != nil {
+		return t, err
+	}
+	if t.gallons, err = p.gallons(obj, at); err != nil {
 		return t, err
 	}
 	list, ok := obj["columns"].([]any)
@@ -74,7 +83,7 @@ func (p *mapParser) table(v any, at string) (mapTable, error) {
 			return t, p.fail(c.at+".column", "column %s is mapped twice (first at %s): keep one", colName(c.col), first)
 		}
 		byCol[c.col] = c.at
-		if c.role != roleNone && c.role != roleWideFuel && c.role != rolePeriod && c.role != roleExisting {
+		if c.role != roleNone && c.role != roleWideFuel && c.role != rolePeriod && c.role != roleExisting && c.role != roleCarrier {
 			if first := byRole[c.role]; first != 0 {
 				return t, p.fail(c.at+".role", "a second %q column (the first is %s): a table has one", c.role, colName(first))
 			}
@@ -116,7 +125,7 @@ func (p *mapParser) column(v any, at string) (mapCol, error) {
 	if c.role, ok = roleByName(name); !ok {
 		return c, p.fail(at+".role", "unknown role %q: accepted are none, %s", name, strings.Join(roleNames(), ", "))
 	}
-	amount := c.role == roleQuantity || c.role == roleWideFuel || c.role == roleCapacity
+	amount := c.role == roleQuantity || c.role == roleWideFuel || c.role == roleCapacity || c.role == roleCarrier
 	if c.unit, err = p.optStr(obj, "unit", at); err != nil {
 		return c, err
 	}

@@ -38,10 +38,18 @@ const maxMappingBytes = 16 << 20
 //	 "tables": [{"sheet": "Fuel log", "header_row": 4, "kind": "fuel-log",
 //	             "columns": [{"column": "B", "header": "Fuel", "role": "fuel"},
 //	                         {"column": "C", "header": "Litres", "role": "quantity", "unit": "L"}]}],
-//	 "names": {"Unl 87": "motor_gasoline"}}
+//	 "names": {"Unl 87": "motor_gasoline"},
+//	 "grid": "DE"}
 type MappingFile struct {
 	Version int           `json:"fluecell_mapping"`
 	Tables  []MappedTable `json:"tables"`
+	// Grid is the electricity grid of the workbook's purchased electricity
+	// (a country or grid id accepted by electricity_co2e); a table's own
+	// "grid" wins over it.
+	Grid string `json:"grid,omitempty"`
+	// Gallons says which gallon a bare "gallons" means in the workbook:
+	// "us" (the default) or "imperial"; a table's own entry wins.
+	Gallons string `json:"gallons,omitempty"`
 	// Names maps a fuel cell's exact text to a fuel id; it is consulted
 	// before the engine's own names and aliases.
 	Names map[string]string `json:"names"`
@@ -58,7 +66,14 @@ type MappedTable struct {
 	// Fuel is the fuel of every row of a table without a fuel column.
 	Fuel string `json:"fuel,omitempty"`
 	// Unit is the unit of every amount whose header states none.
-	Unit    string         `json:"unit,omitempty"`
+	Unit string `json:"unit,omitempty"`
+	// Grid is the electricity grid of the table's purchased electricity.
+	Grid string `json:"grid,omitempty"`
+	// Sector is the sector of its stationary combustion (energy,
+	// manufacturing, commercial, residential), for CH4 and N2O.
+	Sector string `json:"sector,omitempty"`
+	// Gallons is "us" or "imperial": the gallon of a bare "gallons".
+	Gallons string         `json:"gallons,omitempty"`
 	Columns []MappedColumn `json:"columns"`
 }
 
@@ -81,9 +96,11 @@ type MappingRef struct {
 // Mapping is a checked mapping file, ready for Options.Mapping. It is not
 // changed by use: one Mapping may serve many concurrent scans.
 type Mapping struct {
-	ref    MappingRef
-	tables []mapTable
-	names  map[string]string // cell text -> fuel id
+	ref     MappingRef
+	tables  []mapTable
+	names   map[string]string // cell text -> fuel id
+	grid    string            // the workbook's grid
+	gallons string            // "us" or "imperial"; "" = us
 }
 
 type mapTable struct {
@@ -93,6 +110,9 @@ type mapTable struct {
 	kind      string
 	fuel      string // fuel id
 	unit      string
+	grid      string
+	sector    string
+	gallons   string
 	cols      []mapCol
 }
 
@@ -151,7 +171,7 @@ func ParseMapping(e *funcs.Engine, name string, data []byte) (*Mapping, error) {
 	sum := sha256.Sum256(data)
 	m := &Mapping{ref: MappingRef{Path: name, SHA256: hex.EncodeToString(sum[:])}, names: map[string]string{}}
 	p := &mapParser{e: e, fail: fail}
-	root, err := p.object(doc, "", "fluecell_mapping", "tables", "names")
+	root, err := p.object(doc, "", "fluecell_mapping", "tables", "names", "grid", "gallons")
 	if err != nil {
 		return nil, err
 	}
@@ -182,6 +202,12 @@ func ParseMapping(e *funcs.Engine, name string, data []byte) (*Mapping, error) {
 			seen[key] = t.at
 			m.tables = append(m.tables, t)
 		}
+	}
+	if m.grid, err = p.grid(root, ""); err != nil {
+		return nil, err
+	}
+	if m.gallons, err = p.gallons(root, ""); err != nil {
+		return nil, err
 	}
 	if v, ok := root["names"]; ok {
 		obj, ok := v.(map[string]any)
@@ -235,7 +261,7 @@ func (f *MappingFile) encode(b *bytes.Buffer) {
 			b.WriteString(",")
 		}
 		fmt.Fprintf(b, "\n    {\"sheet\": %s, \"header_row\": %d", js(t.Sheet), t.HeaderRow)
-		for _, kv := range [][2]string{{"kind", t.Kind}, {"fuel", t.Fuel}, {"unit", t.Unit}} {
+		for _, kv := range [][2]string{{"kind", t.Kind}, {"fuel", t.Fuel}, {"unit", t.Unit}, {"grid", t.Grid}, {"sector", t.Sector}, {"gallons", t.Gallons}} {
 			if kv[1] != "" {
 				fmt.Fprintf(b, ", %q: %s", kv[0], js(kv[1]))
 			}
@@ -273,5 +299,11 @@ func (f *MappingFile) encode(b *bytes.Buffer) {
 	if len(keys) > 0 {
 		b.WriteString("\n  ")
 	}
-	b.WriteString("}\n}\n")
+	b.WriteString("}")
+	for _, kv := range [][2]string{{"grid", f.Grid}, {"gallons", f.Gallons}} {
+		if kv[1] != "" {
+			fmt.Fprintf(b, ",\n  %q: %s", kv[0], js(kv[1]))
+		}
+	}
+	b.WriteString("\n}\n")
 }

@@ -13,6 +13,13 @@ type Options struct {
 	// get the roles, units and fuels it gives; its names are read before
 	// the engine's. A workbook that no longer fits it is an error.
 	Mapping *Mapping
+	// Grid is the electricity grid of purchased electricity rows and
+	// columns (Scope 2, location-based) where neither a column of the
+	// table nor the mapping names one: a country or grid id accepted by
+	// electricity_co2e ("DE", "Germany", "UK", an eGRID subregion such as
+	// "CAMX"). "" = none: such rows are not computed, and a finding of
+	// code grid-unknown at the first of them says how to choose one.
+	Grid string
 	// Pack is the factor pack used by calls that name none ("" = the
 	// engine's default pack).
 	Pack string

@@ -98,6 +98,8 @@ const (
 	CodeTechUnknown      = "tech-unknown"   // a build plan names an unknown technology
 	CodeRuleError        = "rule-error"     // a rule failed on this row for another reason
 	CodeNotComputed      = "not-computed"   // a row or column left out on purpose: a total, a price, electricity
+	CodeGridUnknown      = "grid-unknown"   // purchased electricity and no grid to compute it with: how to choose one
+	CodeReadAs           = "read-as"        // how a table was read: its grid, sector, vehicle mode, US gallons
 )
 
 // TableInfo describes one detected table.

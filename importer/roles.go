@@ -53,8 +53,8 @@ func (d *detector) assignRoles(t *tableSpec) {
 			score += 2
 		case h.Any(tables.HintFuelWeak):
 			score += 0.5
-		case share < 0.4:
-			continue
+		case share < 0.4 && frac(c.st.notFuel, c.st.text) < 0.6:
+			continue // (a column of energy carriers, electricity among them, is a utility log's)
 		}
 		if h.Any(tables.HintRate|tables.HintGroup|tables.HintKey) && !h.Any(tables.HintFuel) {
 			score -= 2
@@ -215,7 +215,14 @@ func (d *detector) assignRoles(t *tableSpec) {
 			t.periods = ps
 		}
 	}
-	// Amount columns left out (electricity, steam, unknown names with a unit).
+	// Purchased energy (electricity, steam) and the grid of its rows.
+	d.assignScope2(t)
+	d.findGridCol(t)
+	// Refrigerant logs: gas names and a mass added or lost.
+	d.assignRefrigerant(t)
+	d.assignDistance(t)
+	d.findSectorCol(t)
+	// Amount columns left out (steam in pounds, unknown names with a unit).
 	for _, c := range t.cols {
 		if !taken(c) && c.numeric && c.hdr.UnitText != "" && isQuantityDim(c.hdr.Unit) && !c.st.hint.Any(tables.HintRate|tables.HintCount) {
 			t.partial = true
@@ -367,6 +374,20 @@ func fuelHeader(ws []string) bool {
 // can use (no roles, and no user rule whose variables it has).
 func (d *detector) decideKind(t *tableSpec) bool {
 	switch {
+	case t.vehicle != nil && t.qty != nil:
+		t.kind = kindDistance
+		if t.unit == nil && t.qty.hdr.UnitText == "" {
+			t.headerErr = &Warning{Sheet: t.sheet, Cell: cellRef(t.qty.col, t.headerRow), Severity: SevError, Code: CodeUnitUnknown,
+				Message: "no unit for " + quoteText(t.qty.hdr.Text) + ": add a unit column or write the unit in the header, e.g. " + quoteText(t.qty.hdr.Base+" (km)") + "; no row is computed"}
+		}
+	case t.gas != nil && t.qty != nil:
+		t.kind = kindRefrigerant
+		if t.unit == nil && t.qty.hdr.UnitText == "" {
+			t.headerErr = &Warning{Sheet: t.sheet, Cell: cellRef(t.qty.col, t.headerRow), Severity: SevError, Code: CodeUnitUnknown,
+				Message: "no unit for " + quoteText(t.qty.hdr.Text) + ": add a unit column or write the unit in the header, e.g. " + quoteText(t.qty.hdr.Base+" (kg)") + "; no row is computed"}
+		}
+	case t.gas != nil && t.charge != nil:
+		t.kind = kindCharge // gases held: nothing released to compute
 	case (t.fuel != nil || t.ctxFuel != "") && t.qty != nil:
 		t.kind = kindFuelLog
 		if t.unit == nil && t.qty.hdr.UnitText == "" {
@@ -379,7 +400,7 @@ func (d *detector) decideKind(t *tableSpec) bool {
 			t.headerErr = &Warning{Sheet: t.sheet, Cell: cellRef(t.periods[0].col, t.headerRow), Severity: SevError, Code: CodeUnitUnknown,
 				Message: "no unit for the amounts by period: add a unit column (L, kWh, t...) beside " + quoteText(t.fuel.hdr.Text) + "; no row is computed"}
 		}
-	case len(t.wide) > 0:
+	case len(t.wide) > 0 || len(t.scope2) > 0:
 		t.kind = kindWide
 	case t.tech != nil && t.capacity != nil:
 		t.kind = kindBuildPlan

@@ -113,7 +113,7 @@ type rule struct {
 	run      *funcs.Runner
 	vars     []*binding
 	paramVar map[string]string // catalog parameter name -> variable passed to it
-	total    int               // 1: sums into tCO2, 2: into tCO2e, 0: neither
+	total    int               // 1: sums into tCO2, 2: into tCO2e, 3: into tCO2e as Scope 2 (scope2.go), 0: neither
 	// optional are trailing optional arguments (capacity factor, lifetime
 	// of a build plan) that a row may leave empty; variants[k] is the rule
 	// with only the first k of them, so that the defaults apply.
@@ -131,47 +131,41 @@ type binding struct {
 	days     bool // periodDaysIdent: the days of the row's period (flow.go)
 }
 
-// proposeRules writes rules for a table from its roles.
-func proposeRules(t *tableSpec) []string {
+// proposeRules writes rules for a table from its roles; scope2 are the
+// calls of a wide table's purchased energy (scope2Terms).
+func proposeRules(t *tableSpec, scope2 []string) []string {
 	switch t.kind {
 	case kindFuelLog:
 		if t.headerErr != nil {
 			return nil
 		}
-		unit := ""
-		switch {
-		case t.qty.unitIdent != "" && t.qty.hdr.UnitErr == nil && t.unit != nil && !unitColumnFor(t.unit, t.qty):
-			// The amount's own header unit ("Total Fuel MMBtu") wins over a
-			// unit column whose units are never it (gallons, Mcf: another
-			// column's).
-			unit = t.qty.unitIdent
-		case t.unit != nil:
-			unit = t.unit.ident
-		case t.qty.unitIdent != "":
-			unit = t.qty.unitIdent
-		default:
+		unit := fuelLogUnit(t)
+		if unit == "" {
 			return nil
 		}
-		fuel := "\"" + t.ctxFuel + "\""
+		fuel, id := "\""+t.ctxFuel+"\"", t.ctxFuel
 		if t.fuel != nil {
-			fuel = t.fuel.ident
+			fuel, id = t.fuel.ident, ""
 		}
-		args := fuel + ", " + scaled(t.qty) + ", " + unit
-		return []string{"tCO2 = fuel_co2(" + args + ")", "tCO2e = fuel_co2e(" + args + ")"}
+		co2, co2e := combustionCalls(t, fuel, id, scaled(t.qty), unit)
+		return []string{"tCO2 = " + co2, "tCO2e = " + co2e}
 	case kindWide:
 		var co2, co2e []string
 		for _, c := range t.wide {
 			if c.hdr.UnitErr != nil || c.unitIdent == "" {
 				continue
 			}
-			args := "\"" + c.fuelID + "\", " + scaled(c) + ", " + c.unitIdent
-			co2 = append(co2, "fuel_co2("+args+")")
-			co2e = append(co2e, "fuel_co2e("+args+")")
+			a, b := combustionCalls(t, "\""+c.fuelID+"\"", c.fuelID, scaled(c), c.unitIdent)
+			co2, co2e = append(co2, a), append(co2e, b)
 		}
-		if len(co2) == 0 {
-			return nil
+		var out []string
+		if len(co2) > 0 {
+			out = []string{"tCO2 = " + strings.Join(co2, " + "), "tCO2e = " + strings.Join(co2e, " + ")}
 		}
-		return []string{"tCO2 = " + strings.Join(co2, " + "), "tCO2e = " + strings.Join(co2e, " + ")}
+		if len(scope2) > 0 {
+			out = append(out, scope2Column+" = "+strings.Join(scope2, " + "))
+		}
+		return out
 	case kindPeriods:
 		if t.headerErr != nil {
 			return nil
@@ -187,6 +181,16 @@ func proposeRules(t *tableSpec) []string {
 			co2e = append(co2e, "fuel_co2e("+args+")")
 		}
 		return []string{"tCO2 = " + strings.Join(co2, " + "), "tCO2e = " + strings.Join(co2e, " + ")}
+	case kindRefrigerant:
+		if r := refrigerantRule(t); r != "" && t.headerErr == nil {
+			return []string{r}
+		}
+		return nil
+	case kindDistance:
+		if r := distanceRule(t); r != "" && t.headerErr == nil {
+			return []string{r}
+		}
+		return nil
 	case kindBuildPlan:
 		if t.headerErr != nil {
 			return nil
@@ -214,6 +218,21 @@ func proposeRules(t *tableSpec) []string {
 		return []string{"tCO2e = embodied(" + args + ")"}
 	}
 	return nil
+}
+
+// fuelLogUnit is the identifier giving a fuel log's unit: its unit column
+// or the amount's header unit; "" when it has neither.
+func fuelLogUnit(t *tableSpec) string {
+	switch {
+	case t.qty.unitIdent != "" && t.qty.hdr.UnitErr == nil && t.unit != nil && !unitColumnFor(t.unit, t.qty):
+		// The amount's own header unit ("Total Fuel MMBtu") wins over a
+		// unit column whose units are never it (gallons, Mcf: another
+		// column's).
+		return t.qty.unitIdent
+	case t.unit != nil:
+		return t.unit.ident
+	}
+	return t.qty.unitIdent
 }
 
 // scaled is a column's identifier, times its header's scale ("'000 L").
@@ -253,7 +272,7 @@ func (sc *scanCtx) compileRules(t *table) error {
 			srcs = append(srcs, r.src)
 		}
 	} else {
-		srcs = proposeRules(t.spec)
+		srcs = proposeRules(t.spec, sc.scope2Terms(t.spec))
 	}
 	idents := identList(t.spec)
 	for _, src := range srcs {
@@ -275,6 +294,8 @@ func (sc *scanCtx) compileRules(t *table) error {
 			r.total = 1
 		case "tco2e":
 			r.total = 2
+		case strings.ToLower(scope2Column):
+			r.total = 3
 		}
 		for _, v := range p.Variables() {
 			r.vars = append(r.vars, t.bind(v))
@@ -286,7 +307,7 @@ func (sc *scanCtx) compileRules(t *table) error {
 		}
 		t.rules = append(t.rules, r)
 	}
-	return nil
+	return sc.compileRowRules(t)
 }
 
 // buildPlanVariants compiles the build-plan rule without its trailing

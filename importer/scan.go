@@ -83,6 +83,9 @@ func scan(ctx context.Context, e *funcs.Engine, path string, opt Options, calc f
 	if err != nil {
 		return nil, err
 	}
+	if _, err := CheckGrid(e, opt.Grid); err != nil {
+		return nil, err
+	}
 	res := &ScanResult{Path: path, sheetCells: map[string]int{}}
 	lim := opt.limits()
 	if kind == fmtCSV {
@@ -259,7 +262,7 @@ func (res *ScanResult) finish() error {
 			info.Columns = append(info.Columns, ColumnInfo{Cell: cellRef(c.col, spec.headerRow), Header: c.hdr.Text, Ident: c.ident,
 				HeaderUnit: c.hdr.UnitText, Role: c.role.String()})
 		}
-		for _, r := range t.rules {
+		for _, r := range t.allRules() {
 			info.Rules = append(info.Rules, r.src)
 			if !seenRule[r.src] {
 				seenRule[r.src] = true

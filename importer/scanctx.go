@@ -26,7 +26,10 @@ type scanCtx struct {
 	sheetOrd  map[string]int
 	missed    []string // identifiers of a header that lacked a rule's variables
 	missedAt  string
-	mapRun    *mappingRun // what the scan did with opt.Mapping (mappingapply.go)
+	mapRun    *mappingRun      // what the scan did with opt.Mapping (mappingapply.go)
+	gridAt    string           // the cell of the grid-unknown finding, once per scan (grid.go)
+	heatOK    map[carrier]bool // whether heat_co2e has a default for a carrier (scope2.go)
+	delivered bool             // the row being read is purchased energy: its units have no basis
 	provenance
 
 	*lexicon // how texts read (fuels, units, technologies, headers)

@@ -29,6 +29,10 @@ type table struct {
 	days      []float64 // per row, the days of its period, for flows (flow.go); nil without flows
 	copyOf    *table    // the table whose rows this one repeats (duplicate.go); its results are dropped
 	rules     []*rule
+	alts      map[carrier]*ruleSet // rules of rows of purchased energy (rowrules.go)
+	noted     map[carrier]bool     // carriers whose reading was said in a finding
+	modes     map[string]*ruleSet  // rules of a fleet's rows by road mode (fleet.go)
+	modeNoted map[string]bool
 	merges    []rangeRef
 
 	// Results (see evaluate).

@@ -42,7 +42,9 @@ func (sc *scanCtx) value(t *table, i int, b *binding) (any, bool) {
 		return sc.unitValue(t, c, v, r)
 	case roleTech:
 		return sc.techValue(t, c, v, r)
-	case roleQuantity, roleWideFuel, rolePeriod, roleCapacity, roleCF, roleLifetime, roleExisting:
+	case roleSector:
+		return sc.sectorValue(t, c, v, r)
+	case roleQuantity, roleWideFuel, rolePeriod, roleCapacity, roleCF, roleLifetime, roleExisting, roleCarrier:
 		return sc.numberValue(t, c, v, r)
 	}
 	if c.numeric {
@@ -149,7 +151,7 @@ func (sc *scanCtx) unitValue(t *table, c *column, v *cellVal, r int) (any, bool)
 		return nil, false
 	}
 	t.noteUnit(c, u, r)
-	return s, true
+	return sc.gallonUnit(t, c.col, r, s), true
 }
 
 // checkUnit parses a unit for a quantity (energy, mass or volume) or, with
@@ -164,8 +166,11 @@ func (sc *scanCtx) checkUnit(t *table, c *column, s string, col, r int, power bo
 	}
 	u := res.u
 	want := []units.Dimension{units.Energy, units.Mass, units.Volume}
-	if power {
+	switch {
+	case power:
 		want = []units.Dimension{units.Power}
+	case t.spec.kind == kindDistance:
+		want = []units.Dimension{units.Length} // km or miles driven
 	}
 	if _, err := units.ParseAs(s, want...); err != nil {
 		msg := err.Error()
@@ -175,7 +180,7 @@ func (sc *scanCtx) checkUnit(t *table, c *column, s string, col, r int, power bo
 		sc.warn.add(sheet, col, r, SevError, units.CodeDimension, notComputed(msg))
 		return units.Unit{}, false
 	}
-	if u.Dim == units.Energy && sc.packBasis != units.NoBasis {
+	if u.Dim == units.Energy && sc.packBasis != units.NoBasis && !sc.delivered {
 		key := "basis|" + sheet + "|" + colName(c.col) + "|" + s
 		switch {
 		case u.Basis != units.NoBasis && u.Basis != sc.packBasis:
@@ -251,11 +256,11 @@ func (sc *scanCtx) numberValue(t *table, c *column, v *cellVal, r int) (any, boo
 				" (decimal comma): store it as a number; row not computed")
 			return nil, false
 		default:
-			if (c.role == roleWideFuel || c.role == rolePeriod) && isDash(v.text) {
+			if c.perColumn() && isDash(v.text) {
 				return 0.0, true
 			}
 			if tables.Missing(v.text) {
-				if c.role == roleWideFuel || c.role == rolePeriod {
+				if c.perColumn() {
 					// One fuel of the row not given: the row's other fuels still count.
 					sc.warn.add(sheet, c.col, r, SevInfo, CodeNotComputed, quoteText(v.text)+": the source gives no value here; counted as none of this fuel, the row's other amounts still count")
 					return 0.0, true
@@ -280,7 +285,7 @@ func (sc *scanCtx) numberValue(t *table, c *column, v *cellVal, r int) (any, boo
 			break
 		}
 		switch c.role {
-		case roleWideFuel, rolePeriod:
+		case roleWideFuel, rolePeriod, roleCarrier:
 			return 0.0, true
 		case roleQuantity, roleCapacity:
 			sc.warn.add(sheet, c.col, r, SevWarning, CodeValueNotNumber, "no "+strings.ToLower(c.hdr.Base)+" given: row not computed")
@@ -298,7 +303,7 @@ func (sc *scanCtx) numberValue(t *table, c *column, v *cellVal, r int) (any, boo
 	if c.hdr.Percent && c.role != roleCF {
 		x /= 100
 	}
-	if x < 0 && (c.role == roleQuantity || c.role == roleWideFuel || c.role == rolePeriod || c.role == roleCapacity) {
+	if x < 0 && (c.role == roleQuantity || c.perColumn() || c.role == roleCapacity) {
 		sc.warn.add(sheet, c.col, r, SevWarning, CodeValueNegative, "negative "+strings.ToLower(c.hdr.Base)+" "+funcs.FormatNumber(x)+
 			" (a return or a correction?): computed, giving negative emissions")
 	}

@@ -86,9 +86,9 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	q := r.URL.Query()
 	for k := range q {
 		switch k {
-		case "rule", "sheet", "pack", "name", "report", "token":
+		case "rule", "sheet", "pack", "grid", "name", "report", "token":
 		default:
-			h.fail(w, badRequest(k, "unknown parameter "+quoteParam(k)+": /v1/annotate takes rule, sheet, pack, name and report=json"))
+			h.fail(w, badRequest(k, "unknown parameter "+quoteParam(k)+": /v1/annotate takes rule, sheet, pack, grid, name and report=json"))
 			return
 		}
 	}
@@ -104,6 +104,13 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	opt := h.cfg.Options
 	opt.Rules = append(append([]string(nil), opt.Rules...), q["rule"]...)
 	opt.Sheet = q.Get("sheet")
+	if g := q.Get("grid"); g != "" {
+		if _, err := importer.CheckGrid(h.e, g); err != nil {
+			h.fail(w, badRequest("grid", err.Error()))
+			return
+		}
+		opt.Grid = g
+	}
 	if p := q.Get("pack"); p != "" {
 		if _, err := h.e.Factors(p, ""); err != nil {
 			h.fail(w, fromFuncs(err, false))

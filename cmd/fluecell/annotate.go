@@ -23,7 +23,7 @@ import (
 const exitFailOn = 3
 
 func cmdAnnotate(ctx context.Context, s stdio, args []string) int {
-	fs := newFlags("annotate", "annotate IN.xlsx|IN.xlsm|IN.xls|IN.csv [-o OUT] [--rule 'COLUMN = EXPR']... [--sheet S] [--report R.json] [--pack P] [--factors F]... [--fail-on warning|error]", s.err, true)
+	fs := newFlags("annotate", "annotate IN.xlsx|IN.xlsm|IN.xls|IN.csv [-o OUT] [--rule 'COLUMN = EXPR']... [--sheet S] [--report R.json] [--pack P] [--grid G] [--factors F]... [--fail-on warning|error]", s.err, true)
 	out := fs.String("o", "", "write the annotated workbook to `OUT` (default: IN with .carbon before the extension; a legacy .xls, read through LibreOffice, gives .carbon.xlsx)")
 	report := fs.String("report", "", "also write the report as JSON to `R.json` (- for standard output)")
 	failOn := fs.String("fail-on", "", "exit with code 3 when a finding of this `severity` or worse exists: warning or error (the output is still written)")
@@ -147,16 +147,18 @@ type annotateFlags struct {
 	mappingFlag
 	rules listFlag
 	sheet string
+	grid  string
 }
 
 func (f *annotateFlags) register(fs *flag.FlagSet) {
 	f.engineFlags.register(fs)
 	fs.Var(&f.rules, "rule", "compute a column: `'COLUMN = EXPR'` over the header identifiers, e.g. 'tCO2e = fuel_co2e(fuel, quantity, unit)'; repeatable (default: rules proposed from each table's columns)")
 	fs.StringVar(&f.sheet, "sheet", "", "look for tables on sheet `S` only")
+	fs.StringVar(&f.grid, "grid", "", "electricity `GRID` of purchased electricity rows and columns (Scope 2, location-based) where no column or mapping names one: a country or grid id, e.g. DE, Germany, UK, CAMX (see fluecell functions electricity_co2e)")
 	f.mappingFlag.register(fs)
 }
 
 // options are the importer options the flags give.
 func (f *annotateFlags) options() importer.Options {
-	return importer.Options{Rules: f.rules, Sheet: f.sheet, Pack: f.pack, FactorFiles: append([]string{}, f.factors...), Mapping: f.loaded}
+	return importer.Options{Rules: f.rules, Sheet: f.sheet, Pack: f.pack, Grid: f.grid, FactorFiles: append([]string{}, f.factors...), Mapping: f.loaded}
 }

@@ -27,11 +27,18 @@ const (
 	HintNotFuel                   // an energy carrier not burned on site: electricity, steam
 	HintOutput                    // electricity generated, not fuel burned: generation, generated
 	HintSupply                    // production, trade or stocks of a fuel, not fuel burned: production, imports
+	HintArea                      // the country or grid region of a row: country, egrid subregion
+	HintGas                       // a refrigerant or other fugitive gas: refrigerant, gas type
+	HintFugitive                  // refrigerant added or lost: top-up, recharge, leak
+	HintVehicle                   // a vehicle or fleet record: vehicle, registration, odometer
+	HintDistance                  // a distance driven: distance, mileage, km driven
+	HintSector                    // the sector of a combustion row: sector, end use
 )
 
 var hintNames = map[string]Hint{"qty": HintQty, "rate": HintRate, "count": HintCount, "fuel": HintFuel,
 	"fuelweak": HintFuelWeak, "unit": HintUnit, "tech": HintTech, "capacity": HintCapacity, "total": HintTotal,
-	"period": HintPeriod, "key": HintKey, "group": HintGroup, "notfuel": HintNotFuel, "output": HintOutput, "supply": HintSupply}
+	"period": HintPeriod, "key": HintKey, "group": HintGroup, "notfuel": HintNotFuel, "output": HintOutput, "supply": HintSupply,
+	"area": HintArea, "gas": HintGas, "fugitive": HintFugitive, "vehicle": HintVehicle, "distance": HintDistance, "sector": HintSector}
 
 //go:embed vocab.csv
 var vocabCSV string

@@ -1,0 +1,85 @@
+package importer
+
+import "github.com/fluecell/fluecell/importer/tables"
+
+// carrier is energy bought rather than burned on site (Scope 2):
+// electricity from a grid, or steam, hot water and cooling from a
+// district network.
+type carrier uint8
+
+const (
+	carrierNone carrier = iota
+	carrierElectricity
+	carrierSteam
+	carrierHeat    // hot water, district heat
+	carrierCooling // chilled water, district cooling
+)
+
+func (c carrier) String() string {
+	return [...]string{"", "electricity", "steam", "hot water", "cooling"}[c]
+}
+
+// heatArg is the carrier argument of heat_co2e for c.
+func (c carrier) heatArg() string {
+	switch c {
+	case carrierSteam:
+		return "steam"
+	case carrierHeat:
+		return "hot_water"
+	case carrierCooling:
+		return "chilled_water"
+	}
+	return ""
+}
+
+// byTotal is the key of a carrier's rows in the totals by fuel.
+func (c carrier) byTotal() string { return "Scope 2: " + c.String() }
+
+// carrierOf reads the purchased energy a text names ("Electricity",
+// "Elec kWh", "District steam", "Chilled Water"); carrierNone for fuels,
+// for energy generated on site (solar, wind) and for anything else.
+func (lx *lexicon) carrierOf(s string) carrier {
+	if c, ok := lx.carriers[s]; ok {
+		return c
+	}
+	c := lx.readCarrier(s)
+	if len(lx.carriers) < maxCache {
+		lx.carriers[s] = c
+	}
+	return c
+}
+
+func (lx *lexicon) readCarrier(s string) carrier {
+	if lx.fuel(s).err == nil {
+		return carrierNone // "Heating oil", "Power station coal": fuels
+	}
+	ws := words(s)
+	if len(ws) == 0 || len(ws) > 8 {
+		return carrierNone
+	}
+	h := lx.vocab.Hints(ws)
+	if h.Any(tables.HintRate|tables.HintOutput|tables.HintSupply) && !h.Any(tables.HintQty) {
+		return carrierNone // "Electricity price", "Power generation"
+	}
+	switch {
+	case hasWord(ws, "solar", "wind", "pv", "photovoltaic", "hydro", "nuclear", "geothermal", "generated", "generation", "export", "exported", "sold",
+		"cogen", "cogeneration", "chp", "onsite", "self"):
+		return carrierNone // made on site: its fuel is the emission, not the energy
+	case hasPhrase(ws, "chilled water", "district cooling") || hasWord(ws, "chw", "cooling"):
+		return carrierCooling
+	case hasWord(ws, "steam", "pur"):
+		return carrierSteam
+	case hasPhrase(ws, "hot water", "district heat", "district heating", "heat network") || hasWord(ws, "heat") && len(ws) <= 3:
+		return carrierHeat
+	case hasWord(ws, "electricity", "electric", "elec", "electrical") || hasWord(ws, "power", "grid") && lx.fewUnknown(ws):
+		return carrierElectricity
+	}
+	return carrierNone
+}
+
+// perColumn reports a column of amounts, one kind per column (a fuel, a
+// period, purchased energy), whose empty or dashed cells count as none
+// while the row's other columns still count.
+func (c *column) perColumn() bool {
+	return c.role == roleWideFuel || c.role == rolePeriod || c.role == roleCarrier
+}
