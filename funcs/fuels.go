@@ -125,45 +125,6 @@ func (e *Engine) NotFuelName(name string) (desc string, ok bool) {
 	return m.entry.row.desc, true
 }
 
-// editDistance is the Levenshtein distance between a and b, counted in runes.
-func editDistance(a, b string) int {
-	ra, rb := []rune(a), []rune(b)
-	prev := make([]int, len(rb)+1)
-	cur := make([]int, len(rb)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(ra); i++ {
-		cur[0] = i
-		for j := 1; j <= len(rb); j++ {
-			cost := 1
-			if ra[i-1] == rb[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(rb)]
-}
-
-// suggestFrom returns the element of options closest to s by edit distance,
-// or "" if none is within a third of the length of s.
-func suggestFrom(s string, options []string) string {
-	best, bestD := "", 1<<30
-	ls := strings.ToLower(s)
-	for _, o := range options {
-		if d := editDistance(ls, strings.ToLower(o)); d < bestD {
-			best, bestD = o, d
-		}
-	}
-	limit := max(1, min(4, len(s)/3))
-	if bestD <= limit {
-		return best
-	}
-	return ""
-}
-
 func quote(s string) string {
 	if len(s) > 80 {
 		s = s[:77] + "..."
