@@ -4,6 +4,7 @@ import (
 	"errors"
 	"net/http"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/fluecell/fluecell/funcs"
 )
@@ -73,6 +74,20 @@ func oneLine(s string) string {
 		}
 		return r
 	}, strings.ToValidUTF8(s, "\ufffd"))
+}
+
+// cutText cuts s to at most n bytes at a character boundary, marking the cut with "…"
+// (which the n bytes include). Invalid UTF-8 is left to oneLine.
+func cutText(s string, n int) string {
+	if len(s) <= n {
+		return s
+	}
+	const mark = "…"
+	cut := max(n-len(mark), 0)
+	for cut > 0 && !utf8.RuneStart(s[cut]) {
+		cut--
+	}
+	return s[:cut] + mark
 }
 
 func internalError(cause error) *apiError {

@@ -82,6 +82,16 @@ func (s *Server) evalCSV(ctx context.Context, c *gin.Context) {
 		s.abort(c, fromFuncs(err, false))
 		return
 	}
+	if ctx.Err() != nil {
+		s.abort(c, s.timedOut())
+		return
+	}
+	reads := make([]bool, len(header)) // the columns the expression reads
+	for _, v := range p.Variables() {
+		if i, ok := cols[v]; ok {
+			reads[i] = true
+		}
+	}
 	run := p.NewRunner()
 	vars := make(map[string]any, len(header))
 	var out bytes.Buffer
@@ -103,18 +113,29 @@ func (s *Server) evalCSV(ctx context.Context, c *gin.Context) {
 			s.abort(c, s.tooManyRows(n+1))
 			return
 		}
-		if n%256 == 255 && ctx.Err() != nil {
+		// before every row: one row may cost milliseconds (many calls on long texts)
+		if ctx.Err() != nil {
 			s.abort(c, s.timedOut())
 			return
 		}
+		long := -1
 		for i, cell := range rec {
 			if v, isNum := funcs.ParseNumber(cell); isNum {
 				vars[header[i]] = v
 			} else {
 				vars[header[i]] = cell
+				if reads[i] && len(cell) > maxTextValue && long < 0 {
+					long = i
+				}
 			}
 		}
 		copy(line, rec)
+		if long >= 0 {
+			badRows++
+			line[len(header)] = inlinePrefix + "column " + header[long] + " holds " + longText(len(rec[long]))
+			_ = w.Write(line)
+			continue
+		}
 		res, err := run.Run(vars)
 		if err != nil {
 			ae := fromFuncs(err, false)
@@ -123,7 +144,7 @@ func (s *Server) evalCSV(ctx context.Context, c *gin.Context) {
 				return
 			}
 			badRows++
-			line[len(header)] = inlinePrefix + ae.Msg
+			line[len(header)] = inlinePrefix + cutText(ae.Msg, maxRowMessage)
 		} else {
 			okRows++
 			line[len(header)] = funcs.FormatNumber(res.Value)
