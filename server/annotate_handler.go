@@ -44,8 +44,21 @@ type AnnotateConfig struct {
 	// system's temporary folder); each request's files are removed when it
 	// ends.
 	TempDir string
-	Logger  *slog.Logger
+	// UploadGrace and MinUploadRate bound how slowly an upload may arrive:
+	// the whole body must be in within UploadGrace plus one second per
+	// MinUploadRate bytes received (defaults 30 s and 16 KiB/s), else the
+	// answer is 408. An upload is read in full before it waits for a turn,
+	// so slow clients hold no turn.
+	UploadGrace   time.Duration
+	MinUploadRate int64 // bytes per second
+	Logger        *slog.Logger
 }
+
+// Defaults of AnnotateConfig's upload pace.
+const (
+	DefaultUploadGrace   = 30 * time.Second
+	DefaultMinUploadRate = 16 << 10
+)
 
 // AnnotateHandler returns the handler of POST /v1/annotate, to be set as
 // Config.Annotate. The body is the workbook (.xlsx, .xlsm or CSV, by
@@ -60,6 +73,12 @@ func AnnotateHandler(e *funcs.Engine, cfg AnnotateConfig) http.Handler {
 	}
 	if cfg.Timeout <= 0 {
 		cfg.Timeout = 5 * time.Minute
+	}
+	if cfg.UploadGrace <= 0 {
+		cfg.UploadGrace = DefaultUploadGrace
+	}
+	if cfg.MinUploadRate <= 0 {
+		cfg.MinUploadRate = DefaultMinUploadRate
 	}
 	if cfg.Logger == nil {
 		cfg.Logger = slog.New(slog.NewTextHandler(io.Discard, nil))
@@ -112,20 +131,15 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 		opt.Pack = p
 	}
 
-	select {
-	case h.turns <- struct{}{}:
-		defer func() { <-h.turns }()
-	case <-ctx.Done():
-		h.fail(w, &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout, Msg: "the server is busy annotating other workbooks; try again later"})
-		return
-	}
-
+	// The upload is read in full first, at a minimum pace; only then does it
+	// wait for a turn: a slow client holds a connection, never a turn.
 	dir, err := os.MkdirTemp(h.cfg.TempDir, "fluecell-annotate-")
 	if err != nil {
 		h.fail(w, internalError(err))
 		return
 	}
 	defer os.RemoveAll(dir)
+	r.Body = &pacedBody{r: r.Body, rc: rc, start: time.Now(), grace: h.cfg.UploadGrace, rate: h.cfg.MinUploadRate, end: deadline}
 	name, ext, body, apiErr := uploadedWorkbook(r, q.Get("name"))
 	if apiErr != nil {
 		h.fail(w, apiErr)
@@ -134,6 +148,15 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	in := filepath.Join(dir, "upload"+ext)
 	if apiErr := spool(in, body); apiErr != nil {
 		h.fail(w, apiErr)
+		return
+	}
+	_ = rc.SetReadDeadline(time.Time{}) // the body is read; nothing more is expected
+
+	select {
+	case h.turns <- struct{}{}:
+		defer func() { <-h.turns }()
+	case <-ctx.Done():
+		h.fail(w, &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout, Msg: "the server is busy annotating other workbooks; try again later"})
 		return
 	}
 	out := importer.DefaultOutput(in) // a legacy .xls comes back as .xlsx
@@ -277,6 +300,10 @@ func uploadError(err error, msg string) *apiError {
 	var mbe *http.MaxBytesError
 	if errors.As(err, &mbe) {
 		return tooLarge(mbe.Limit)
+	}
+	var slow *slowUpload
+	if errors.As(err, &slow) {
+		return &apiError{Status: http.StatusRequestTimeout, Code: codeTimeout, Msg: slow.Error()}
 	}
 	if errors.Is(err, os.ErrDeadlineExceeded) || errors.Is(err, context.DeadlineExceeded) {
 		return &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout, Msg: "the upload did not arrive within the server's time limit"}
