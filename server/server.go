@@ -20,6 +20,7 @@ type Server struct {
 	cfg     Config
 	engine  *funcs.Engine
 	log     *slog.Logger
+	logs    *logBudget // bounds the request log
 	router  *gin.Engine
 	metrics *metrics
 	answers *cache[*answer]  // GET /v1/fn answers by function and raw query
@@ -54,7 +55,7 @@ func New(cfg Config, e *funcs.Engine, logger *slog.Logger) (*Server, error) {
 	if logger == nil {
 		logger = slog.New(slog.DiscardHandler)
 	}
-	s := &Server{cfg: cfg, engine: e, log: logger}
+	s := &Server{cfg: cfg, engine: e, log: logger, logs: newLogBudget(cfg.LogBytesPerSecond)}
 	s.answers = newCache[*answer](cfg.CacheEntries)
 	s.progs = newCache[*program](programCacheEntries)
 	s.hdr = headerValues{noStore: []string{"no-store"}, fnCache: []string{"public, max-age=" + fnMaxAge},
