@@ -2,7 +2,9 @@ package funcs
 
 import (
 	"slices"
+	"strconv"
 	"strings"
+	"unicode/utf8"
 )
 
 // Fuel describes a canonical fuel id: its display name, the family used for
@@ -125,9 +127,15 @@ func (e *Engine) NotFuelName(name string) (desc string, ok bool) {
 	return m.entry.row.desc, true
 }
 
+// quote writes a name from the user for a message: in double quotes, control characters and
+// invalid UTF-8 escaped (a newline shows as \n), a name over 80 bytes cut between characters.
 func quote(s string) string {
 	if len(s) > 80 {
-		s = s[:77] + "..."
+		cut := 77
+		for cut > 0 && !utf8.RuneStart(s[cut]) {
+			cut--
+		}
+		s = s[:cut] + "..."
 	}
-	return `"` + s + `"`
+	return strconv.Quote(s)
 }

@@ -107,7 +107,7 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 		switch k {
 		case "rule", "sheet", "pack", "name", "report", "token":
 		default:
-			h.fail(w, badRequest(k, "unknown parameter "+quoteParam(k)+": /v1/annotate takes rule, sheet, pack, name and report=json"))
+			h.fail(w, badRequest(k, "unknown parameter "+quoteText(k)+": /v1/annotate takes rule, sheet, pack, name and report=json"))
 			return
 		}
 	}
@@ -117,7 +117,7 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	case "json":
 		asReport = true
 	default:
-		h.fail(w, badRequest("report", "report="+quoteParam(v)+": the only accepted value is json"))
+		h.fail(w, badRequest("report", "report="+quoteText(v)+": the only accepted value is json"))
 		return
 	}
 	opt := h.cfg.Options
@@ -187,7 +187,7 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	}
 	w.Header().Set("Content-Type", ctype)
 	w.Header().Set("Cache-Control", "no-store")
-	w.Header().Set("Content-Disposition", mime.FormatMediaType("attachment", map[string]string{"filename": importer.DefaultOutput(name)}))
+	w.Header().Set("Content-Disposition", mime.FormatMediaType("attachment", map[string]string{"filename": safeFileName(importer.DefaultOutput(name))}))
 	if fi, err := f.Stat(); err == nil {
 		w.Header().Set("Content-Length", strconv.FormatInt(fi.Size(), 10))
 	}
@@ -205,7 +205,7 @@ func uploadedWorkbook(r *http.Request, nameParam string) (name, ext string, body
 	ct := r.Header.Get("Content-Type")
 	mt, params, perr := mime.ParseMediaType(ct)
 	if ct != "" && perr != nil {
-		return "", "", nil, &apiError{Status: http.StatusUnsupportedMediaType, Code: codeMediaType, Msg: "unreadable Content-Type " + quoteParam(ct)}
+		return "", "", nil, &apiError{Status: http.StatusUnsupportedMediaType, Code: codeMediaType, Msg: "unreadable Content-Type " + quoteText(ct)}
 	}
 	name = nameParam
 	body = r.Body
@@ -239,7 +239,7 @@ func uploadedWorkbook(r *http.Request, nameParam string) (name, ext string, body
 		mt = ""
 	default:
 		return "", "", nil, &apiError{Status: http.StatusUnsupportedMediaType, Code: codeMediaType,
-			Msg: "Content-Type " + quoteParam(mt) + " is not a workbook: send " + typeXLSX + ", " + typeXLSM + ", text/csv or multipart/form-data with a part file"}
+			Msg: "Content-Type " + quoteText(mt) + " is not a workbook: send " + typeXLSX + ", " + typeXLSM + ", text/csv or multipart/form-data with a part file"}
 	}
 	name = filepath.Base(strings.ReplaceAll(name, "\\", "/"))
 	ext = strings.ToLower(filepath.Ext(name))
@@ -349,11 +349,4 @@ func (h *annotateHandler) fail(w http.ResponseWriter, e *apiError) {
 	w.Header().Set("Cache-Control", "no-store")
 	w.WriteHeader(e.Status)
 	json.NewEncoder(w).Encode(e.body())
-}
-
-func quoteParam(s string) string {
-	if len(s) > 64 {
-		s = s[:64] + "..."
-	}
-	return `"` + oneLine(s) + `"`
 }

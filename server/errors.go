@@ -3,8 +3,8 @@ package server
 import (
 	"errors"
 	"net/http"
+	"strconv"
 	"strings"
-	"unicode/utf8"
 
 	"github.com/fluecell/fluecell/funcs"
 )
@@ -83,11 +83,17 @@ func cutText(s string, n int) string {
 		return s
 	}
 	const mark = "…"
-	cut := max(n-len(mark), 0)
-	for cut > 0 && !utf8.RuneStart(s[cut]) {
-		cut--
-	}
-	return s[:cut] + mark
+	return cutBytes(s, max(n-len(mark), 0)) + mark
+}
+
+// maxQuotedText bounds a client's text quoted in a message.
+const maxQuotedText = 64
+
+// quoteText quotes a client's text (a parameter name, a value, a header) for a message: cut
+// to maxQuotedText bytes between characters, in double quotes, with control characters and
+// invalid UTF-8 escaped (a newline shows as \n).
+func quoteText(s string) string {
+	return strconv.Quote(cutText(s, maxQuotedText))
 }
 
 func internalError(cause error) *apiError {

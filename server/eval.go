@@ -97,7 +97,7 @@ func (s *Server) evalMode(r *http.Request) (csvMode bool, e *apiError) {
 		var err error
 		if mt, _, err = mime.ParseMediaType(ct); err != nil {
 			return false, &apiError{Status: http.StatusUnsupportedMediaType, Code: codeMediaType, Param: "Content-Type",
-				Msg: "Content-Type " + strconv.Quote(ct) + " is malformed: send application/json, or text/csv with ?expr=…"}
+				Msg: "Content-Type " + quoteText(ct) + " is malformed: send application/json, or text/csv with ?expr=…"}
 		}
 	}
 	switch mt {
@@ -109,7 +109,7 @@ func (s *Server) evalMode(r *http.Request) (csvMode bool, e *apiError) {
 		return strings.Contains(r.URL.RawQuery, "expr="), nil
 	}
 	return false, &apiError{Status: http.StatusUnsupportedMediaType, Code: codeMediaType, Param: "Content-Type",
-		Msg: "Content-Type " + strconv.Quote(mt) + " is not read here: send application/json ({\"expr\": …, \"vars\": {…}} or {\"expr\": …, \"rows\": […]}), or text/csv with ?expr=…&as=COLUMN"}
+		Msg: "Content-Type " + quoteText(mt) + " is not read here: send application/json ({\"expr\": …, \"vars\": {…}} or {\"expr\": …, \"rows\": […]}), or text/csv with ?expr=…&as=COLUMN"}
 }
 
 func tooLarge(limit int64) *apiError {

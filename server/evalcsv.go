@@ -68,13 +68,13 @@ func (s *Server) evalCSV(ctx context.Context, c *gin.Context) {
 			return
 		}
 		if _, dup := cols[h]; dup {
-			s.abort(c, badRequest("body", "CSV header names column "+strconv.Quote(h)+" twice: names must be unique"))
+			s.abort(c, badRequest("body", "CSV header names column "+quoteText(h)+" twice: names must be unique"))
 			return
 		}
 		cols[h] = i
 	}
 	if _, dup := cols[as]; dup {
-		s.abort(c, badRequest("as", "the CSV already has a column "+strconv.Quote(as)+": choose another name with as="))
+		s.abort(c, badRequest("as", "the CSV already has a column "+quoteText(as)+": choose another name with as="))
 		return
 	}
 	p, err := s.compile(src, header)
