@@ -26,6 +26,9 @@ const (
 	typeXLSX = "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet"
 	typeXLSM = "application/vnd.ms-excel.sheet.macroEnabled.12"
 	typeCSV  = "text/csv"
+	// mime.ParseMediaType lower-cases media types (they are case-insensitive): requests are
+	// matched against this form of typeXLSM.
+	typeXLSMFolded = "application/vnd.ms-excel.sheet.macroenabled.12"
 )
 
 // AnnotateConfig configures AnnotateHandler.
@@ -233,7 +236,7 @@ func uploadedWorkbook(r *http.Request, nameParam string) (name, ext string, body
 				break
 			}
 		}
-	case typeXLSX, typeXLSM, typeCSV, "application/vnd.ms-excel", "application/octet-stream", "":
+	case typeXLSX, typeXLSMFolded, typeCSV, "application/vnd.ms-excel", "application/octet-stream", "":
 	case "application/x-www-form-urlencoded":
 		// what curl --data-binary sends by default: the body decides
 		mt = ""
@@ -247,7 +250,7 @@ func uploadedWorkbook(r *http.Request, nameParam string) (name, ext string, body
 	case ".xlsx", ".xlsm", ".csv", ".xls":
 	default:
 		switch mt {
-		case typeXLSM:
+		case typeXLSMFolded:
 			ext = ".xlsm"
 		case typeCSV:
 			ext = ".csv"
