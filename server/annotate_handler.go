@@ -44,8 +44,9 @@ type AnnotateConfig struct {
 	// minutes); past it the answer is 503.
 	Timeout time.Duration
 	// TempDir holds the uploads and outputs while a request runs ("" = the
-	// system's temporary folder); each request's files are removed when it
-	// ends.
+	// system's temporary folder), in TempDir/fluecell-spool/PID.START/; each
+	// request's files are removed when it ends, and what a crashed or
+	// stopped server left there is removed when AnnotateHandler is called.
 	TempDir string
 	// UploadGrace and MinUploadRate bound how slowly an upload may arrive:
 	// the whole body must be in within UploadGrace plus one second per
@@ -86,13 +87,41 @@ func AnnotateHandler(e *funcs.Engine, cfg AnnotateConfig) http.Handler {
 	if cfg.Logger == nil {
 		cfg.Logger = slog.New(slog.NewTextHandler(io.Discard, nil))
 	}
-	return &annotateHandler{e: e, cfg: cfg, turns: make(chan struct{}, cfg.Concurrent)}
+	h := &annotateHandler{e: e, cfg: cfg, turns: make(chan struct{}, cfg.Concurrent)}
+	spool, removed, err := newSpoolRoot(cfg.TempDir, 2*cfg.Timeout+time.Minute)
+	if err != nil {
+		cfg.Logger.Warn("annotate: uploads go straight into the temporary folder", "err", err)
+	} else {
+		h.spool = spool
+	}
+	if removed > 0 {
+		cfg.Logger.Info("annotate: removed uploads left by servers no longer running", "folders", removed)
+	}
+	return h
 }
 
 type annotateHandler struct {
 	e     *funcs.Engine
 	cfg   AnnotateConfig
 	turns chan struct{}
+	spool *spoolRoot // nil: folders are made in TempDir itself
+}
+
+// Close removes the handler's spool folder, with whatever requests still running have in it;
+// the server calls it once it has stopped.
+func (h *annotateHandler) Close() error {
+	if h.spool == nil {
+		return nil
+	}
+	return h.spool.close()
+}
+
+// requestDir makes the folder of one request's files.
+func (h *annotateHandler) requestDir() (string, error) {
+	if h.spool != nil {
+		return h.spool.request()
+	}
+	return os.MkdirTemp(h.cfg.TempDir, legacySpoolPrefix)
 }
 
 func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
@@ -136,7 +165,7 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 
 	// The upload is read in full first, at a minimum pace; only then does it
 	// wait for a turn: a slow client holds a connection, never a turn.
-	dir, err := os.MkdirTemp(h.cfg.TempDir, "fluecell-annotate-")
+	dir, err := h.requestDir()
 	if err != nil {
 		h.fail(w, internalError(err))
 		return

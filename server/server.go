@@ -159,6 +159,14 @@ func (s *Server) Serve(ctx context.Context, l net.Listener) error {
 	<-done
 	if err != nil {
 		_ = hs.Close()
+	}
+	if c, ok := s.cfg.Annotate.(interface{ Close() error }); ok {
+		// the uploads of requests still running past the grace go with their folder
+		if cerr := c.Close(); cerr != nil {
+			s.log.Warn("removing the annotation spool folder", "err", cerr)
+		}
+	}
+	if err != nil {
 		return fmt.Errorf("server: shutdown: %w", err)
 	}
 	s.log.Info("stopped")

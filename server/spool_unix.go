@@ -1,0 +1,15 @@
+//go:build unix
+
+package server
+
+import (
+	"errors"
+	"syscall"
+)
+
+// processRunning reports whether a process with this id exists (signal 0 checks without
+// sending anything; EPERM means it exists under another user).
+func processRunning(pid int) bool {
+	err := syscall.Kill(pid, 0)
+	return err == nil || errors.Is(err, syscall.EPERM)
+}
