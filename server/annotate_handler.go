@@ -139,7 +139,7 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 		switch k {
 		case "rule", "sheet", "pack", "name", "report", "token":
 		default:
-			h.fail(w, badRequest(k, "unknown parameter "+quoteText(k)+": /v1/annotate takes rule, sheet, pack, name and report=json"))
+			h.fail(w, r, badRequest(k, "unknown parameter "+quoteText(k)+": /v1/annotate takes rule, sheet, pack, name and report=json"))
 			return
 		}
 	}
@@ -149,7 +149,7 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	case "json":
 		asReport = true
 	default:
-		h.fail(w, badRequest("report", "report="+quoteText(v)+": the only accepted value is json"))
+		h.fail(w, r, badRequest("report", "report="+quoteText(v)+": the only accepted value is json"))
 		return
 	}
 	opt := h.cfg.Options
@@ -157,7 +157,7 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	opt.Sheet = q.Get("sheet")
 	if p := q.Get("pack"); p != "" {
 		if _, err := h.e.Factors(p, ""); err != nil {
-			h.fail(w, fromFuncs(err, false))
+			h.fail(w, r, fromFuncs(err, false))
 			return
 		}
 		opt.Pack = p
@@ -167,19 +167,19 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	// wait for a turn: a slow client holds a connection, never a turn.
 	dir, err := h.requestDir()
 	if err != nil {
-		h.fail(w, internalError(err))
+		h.fail(w, r, internalError(err))
 		return
 	}
 	defer os.RemoveAll(dir)
 	r.Body = &pacedBody{r: r.Body, rc: rc, start: time.Now(), grace: h.cfg.UploadGrace, rate: h.cfg.MinUploadRate, end: deadline}
 	name, ext, body, apiErr := uploadedWorkbook(r, q.Get("name"))
 	if apiErr != nil {
-		h.fail(w, apiErr)
+		h.fail(w, r, apiErr)
 		return
 	}
 	in := filepath.Join(dir, "upload"+ext)
 	if apiErr := spool(in, body); apiErr != nil {
-		h.fail(w, apiErr)
+		h.fail(w, r, apiErr)
 		return
 	}
 	_ = rc.SetReadDeadline(time.Time{}) // the body is read; nothing more is expected
@@ -188,13 +188,13 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	case h.turns <- struct{}{}:
 		defer func() { <-h.turns }()
 	case <-ctx.Done():
-		h.fail(w, &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout, Msg: "the server is busy annotating other workbooks; try again later"})
+		h.fail(w, r, &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout, Msg: "the server is busy annotating other workbooks; try again later"})
 		return
 	}
 	out := importer.DefaultOutput(in) // a legacy .xls comes back as .xlsx
 	rep, err := importer.Annotate(ctx, h.e, in, out, opt)
 	if err != nil {
-		h.fail(w, importerError(err, ctx))
+		h.fail(w, r, importerError(err, ctx, dir))
 		return
 	}
 	if asReport {
@@ -206,7 +206,7 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	}
 	f, err := os.Open(out)
 	if err != nil {
-		h.fail(w, internalError(err))
+		h.fail(w, r, internalError(err))
 		return
 	}
 	defer f.Close()
@@ -343,42 +343,17 @@ func uploadError(err error, msg string) *apiError {
 	return badRequest("body", msg)
 }
 
-// importerError maps an annotation failure to its answer. The temporary
-// paths are the server's business: messages leave them out.
-func importerError(err error, ctx context.Context) *apiError {
-	var ie *importer.Error
-	if !errors.As(err, &ie) {
-		if fe, ok := funcs.AsError(err); ok {
-			return fromFuncs(fe, false)
-		}
-		return internalError(err)
+func (h *annotateHandler) fail(w http.ResponseWriter, r *http.Request, e *apiError) {
+	if !reportOutcome(r, e) && e.cause != nil {
+		h.cfg.Logger.Error("annotate", "status", e.Status, "err", cutText(e.cause.Error(), maxLoggedCause))
 	}
-	msg := ie.Msg
-	switch ie.Code {
-	case importer.ErrTooLarge:
-		return &apiError{Status: http.StatusRequestEntityTooLarge, Code: codeTooLarge, Msg: oneLine(msg)}
-	case importer.ErrCancelled:
-		if ctx.Err() == context.DeadlineExceeded {
-			return &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout, Msg: "the annotation ran past the server's time limit"}
-		}
-		return &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout, Msg: "the request ended before the annotation did"}
-	case importer.ErrIO, importer.ErrInternal:
-		return internalError(err)
-	}
-	out := &apiError{Status: http.StatusBadRequest, Code: "workbook-" + ie.Code, Msg: oneLine(msg)}
-	if first, _, multi := strings.Cut(msg, "\n"); multi {
-		// a rule's compile error: the expression and a caret on lines of their own
-		out.Msg, out.Detail = oneLine(first), strings.ToValidUTF8(msg, "\ufffd")
-	}
-	return out
-}
-
-func (h *annotateHandler) fail(w http.ResponseWriter, e *apiError) {
-	if e.Status >= 500 && e.cause != nil {
-		h.cfg.Logger.Error("annotate", "err", e.cause)
+	body, err := marshalJSON(e.body())
+	if err != nil {
+		body = []byte(`{"error":"` + internalErrorMessage + `","code":"internal"}`)
 	}
 	w.Header().Set("Content-Type", "application/json; charset=utf-8")
 	w.Header().Set("Cache-Control", "no-store")
+	w.Header().Set("Content-Length", strconv.Itoa(len(body)))
 	w.WriteHeader(e.Status)
-	json.NewEncoder(w).Encode(e.body())
+	_, _ = w.Write(body)
 }

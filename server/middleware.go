@@ -53,8 +53,12 @@ func (s *Server) writeFnError(c *gin.Context, f format, inline bool, e *apiError
 	c.Data(status, f.contentType(), body)
 }
 
-// recoverPanics turns a panic in a handler into a 500 with a JSON error (no stack trace),
-// logged once with its stack.
+// panicKey marks, in the gin context, a request whose handler panicked.
+const panicKey = "fluecell.panic"
+
+// recoverPanics turns a panic in a handler into a 500 with a JSON error (never a stack
+// trace). It runs inside observe, which counts the 500 and logs it once, with the panic and
+// its stack as the cause.
 func (s *Server) recoverPanics(c *gin.Context) {
 	defer func() {
 		v := recover()
@@ -64,14 +68,12 @@ func (s *Server) recoverPanics(c *gin.Context) {
 		if v == http.ErrAbortHandler {
 			panic(v)
 		}
-		stack := cutText(string(debug.Stack()), maxLoggedCause)
-		if ok, _ := s.logs.allow(logNotable, logLineOverhead+len(stack)); ok {
-			s.log.Error("panic while answering a request", "method", c.Request.Method,
-				"path", cutText(redactPath(c.Request.URL.EscapedPath(), s.cfg.Token), maxLoggedText),
-				"panic", cutText(fmt.Sprint(v), maxLoggedText), "stack", stack)
-		}
-		if !c.Writer.Written() {
-			s.abort(c, internalError(fmt.Errorf("panic: %v", v)))
+		e := internalError(fmt.Errorf("panic: %v\n%s", v, debug.Stack()))
+		c.Set(panicKey, true)
+		if c.Writer.Written() {
+			c.Set(errKey, e) // the answer had begun: it stays cut short
+		} else {
+			s.abort(c, e)
 		}
 		c.Abort()
 	}()
@@ -144,7 +146,11 @@ func (s *Server) observe(c *gin.Context) {
 	if skipped[logNotable] > 0 {
 		attrs = append(attrs, slog.Int64("skipped_errors", skipped[logNotable]))
 	}
-	s.log.LogAttrs(ctx, level, "request", attrs...)
+	line := "request"
+	if c.GetBool(panicKey) {
+		line = "panic while answering a request"
+	}
+	s.log.LogAttrs(ctx, level, line, attrs...)
 }
 
 // cors answers preflight requests and sets the CORS headers for the configured origins.

@@ -91,7 +91,7 @@ func (s *Server) routes() *gin.Engine {
 	r.HandleMethodNotAllowed = true
 	r.ForwardedByClientIP = false
 	_ = r.SetTrustedProxies(nil)
-	r.Use(s.recoverPanics, s.drainRefused, s.observe, s.cors)
+	r.Use(s.drainRefused, s.observe, s.recoverPanics, s.cors)
 	r.GET("/healthz", s.healthz)
 
 	api := r.Group("", s.authorize)
