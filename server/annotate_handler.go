@@ -3,8 +3,8 @@ package server
 import (
 	"bufio"
 	"context"
-	"encoding/json"
 	"errors"
+	"fmt"
 	"io"
 	"log/slog"
 	"mime"
@@ -198,10 +198,7 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	if asReport {
-		rep.Output = ""
-		w.Header().Set("Content-Type", "application/json; charset=utf-8")
-		w.Header().Set("Cache-Control", "no-store")
-		json.NewEncoder(w).Encode(rep)
+		h.writeReport(w, r, rep)
 		return
 	}
 	f, err := os.Open(out)
@@ -341,6 +338,24 @@ func uploadError(err error, msg string) *apiError {
 		return &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout, Msg: "the upload did not arrive within the server's time limit"}
 	}
 	return badRequest("body", msg)
+}
+
+// writeReport answers the report as JSON. It is encoded before anything is written: a report
+// that cannot be encoded (a non-finite total) is a 500 with a JSON message, never a 200 with
+// an empty body.
+func (h *annotateHandler) writeReport(w http.ResponseWriter, r *http.Request, rep *importer.Report) {
+	rep.Output = "" // a path on the server
+	body, err := marshalJSON(rep)
+	if err != nil {
+		h.fail(w, r, internalError(fmt.Errorf("encoding the report: %w", err)))
+		return
+	}
+	body = append(body, '\n')
+	w.Header().Set("Content-Type", "application/json; charset=utf-8")
+	w.Header().Set("Cache-Control", "no-store")
+	w.Header().Set("Content-Length", strconv.Itoa(len(body)))
+	w.WriteHeader(http.StatusOK)
+	_, _ = w.Write(body)
 }
 
 func (h *annotateHandler) fail(w http.ResponseWriter, r *http.Request, e *apiError) {
