@@ -55,7 +55,11 @@ type AnnotateConfig struct {
 	// so slow clients hold no turn.
 	UploadGrace   time.Duration
 	MinUploadRate int64 // bytes per second
-	Logger        *slog.Logger
+	// MaxUploads bounds the uploads being received at once (default 8 per
+	// turn, at least 16): one more is refused with 503 before it is read,
+	// which bounds the spool folder to MaxUploads times the upload limit.
+	MaxUploads int
+	Logger     *slog.Logger
 }
 
 // Defaults of AnnotateConfig's upload pace.
@@ -87,7 +91,10 @@ func AnnotateHandler(e *funcs.Engine, cfg AnnotateConfig) http.Handler {
 	if cfg.Logger == nil {
 		cfg.Logger = slog.New(slog.NewTextHandler(io.Discard, nil))
 	}
-	h := &annotateHandler{e: e, cfg: cfg, turns: make(chan struct{}, cfg.Concurrent)}
+	if cfg.MaxUploads <= 0 {
+		cfg.MaxUploads = max(8*cfg.Concurrent, 16)
+	}
+	h := &annotateHandler{e: e, cfg: cfg, turns: make(chan struct{}, cfg.Concurrent), uploads: make(chan struct{}, cfg.MaxUploads)}
 	spool, removed, err := newSpoolRoot(cfg.TempDir, 2*cfg.Timeout+time.Minute)
 	if err != nil {
 		cfg.Logger.Warn("annotate: uploads go straight into the temporary folder", "err", err)
@@ -101,10 +108,11 @@ func AnnotateHandler(e *funcs.Engine, cfg AnnotateConfig) http.Handler {
 }
 
 type annotateHandler struct {
-	e     *funcs.Engine
-	cfg   AnnotateConfig
-	turns chan struct{}
-	spool *spoolRoot // nil: folders are made in TempDir itself
+	e       *funcs.Engine
+	cfg     AnnotateConfig
+	turns   chan struct{}
+	uploads chan struct{} // one per upload being received or annotated
+	spool   *spoolRoot    // nil: folders are made in TempDir itself
 }
 
 // Close removes the handler's spool folder, with whatever requests still running have in it;
@@ -165,6 +173,14 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 
 	// The upload is read in full first, at a minimum pace; only then does it
 	// wait for a turn: a slow client holds a connection, never a turn.
+	select {
+	case h.uploads <- struct{}{}:
+		defer func() { <-h.uploads }()
+	default:
+		h.fail(w, r, &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout,
+			Msg: "the server is receiving " + strconv.Itoa(h.cfg.MaxUploads) + " other workbooks; try again later"})
+		return
+	}
 	dir, err := h.requestDir()
 	if err != nil {
 		h.fail(w, r, internalError(err))
