@@ -111,9 +111,10 @@ func (s *Server) observe(c *gin.Context) {
 	var msg, cause string
 	if v, ok := c.Get(errKey); ok {
 		if e, ok := v.(*apiError); ok {
-			msg = cutText(redactText(e.Msg, s.cfg.Token), maxLoggedText)
+			u := c.Request.URL
+			msg = cutText(redactText(e.Msg, s.cfg.Token, u.EscapedPath(), u.RawQuery), maxLoggedText)
 			if e.cause != nil {
-				cause = cutText(redactText(e.cause.Error(), s.cfg.Token), maxLoggedCause)
+				cause = cutText(redactText(e.cause.Error(), s.cfg.Token, u.EscapedPath(), u.RawQuery), maxLoggedCause)
 			}
 		}
 	}

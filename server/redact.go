@@ -131,10 +131,29 @@ func redactForms(s, token string) string {
 	return s
 }
 
-// redactText replaces the configured token in a message for the log.
-func redactText(s, token string) string {
-	if token == "" || !strings.Contains(s, token) {
-		return s
+// paramSecrets returns the values of token-like parameters in s (parameters separated by any
+// of seps), as written and unescaped: a message that quotes the URL must not show them.
+func paramSecrets(s, seps string) []string {
+	var out []string
+	for _, part := range strings.FieldsFunc(s, func(r rune) bool { return strings.ContainsRune(seps, r) }) {
+		if k, v, ok := strings.Cut(part, "="); ok && v != "" && tokenLike(k) {
+			out = append(out, unescapings(v)...)
+		}
 	}
-	return strings.ReplaceAll(s, token, redacted)
+	return out
+}
+
+// redactText replaces, in a message for the log, the configured token and the values of the
+// token-like parameters of the request's path and query.
+func redactText(s, token, path, rawQuery string) string {
+	secrets := append(paramSecrets(path, "/;"), paramSecrets(rawQuery, "&;")...)
+	if token != "" {
+		secrets = append(secrets, token)
+	}
+	for _, v := range secrets {
+		if v != "" && strings.Contains(s, v) {
+			s = strings.ReplaceAll(s, v, redacted)
+		}
+	}
+	return s
 }

@@ -81,4 +81,14 @@ func TestTokenNeverLogged(t *testing.T) {
 	if n := strings.Count(logs, `"msg":"request"`); n != 13 {
 		t.Errorf("%d request lines, want 13:\n%s", n, logs)
 	}
+
+	// without a configured token, token-like parameters are redacted in the path, the query
+	// and the messages that quote them
+	open := startServer(t, Config{})
+	get(t, open.URL+"/v1/fn/co2_from_carbon;access_token=Other-Secret-1?mass=12")
+	get(t, open.URL+"/v1/fn/co2_from_carbon?mass=12&Token=Other-Secret-2")
+	get(t, open.URL+"/v1/functions?api_key=Other-Secret-3")
+	if logs := open.logs.String(); strings.Contains(logs, "Other-Secret") {
+		t.Errorf("the log holds a credential:\n%s", logs)
+	}
 }
