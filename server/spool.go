@@ -37,6 +37,15 @@ func newSpoolRoot(tempDir string, staleAfter time.Duration) (*spoolRoot, int, er
 	if err := os.MkdirAll(base, 0o700); err != nil {
 		return nil, 0, fmt.Errorf("annotate: spool folder: %w", err)
 	}
+	// in a shared temporary folder, the spool folder must be ours: not a link, not writable
+	// by others (someone else's folder would receive our uploads, and see us remove in it)
+	fi, err := os.Lstat(base)
+	if err != nil {
+		return nil, 0, fmt.Errorf("annotate: spool folder: %w", err)
+	}
+	if !fi.IsDir() || !ownedByUs(fi) || fi.Mode().Perm()&0o022 != 0 {
+		return nil, 0, fmt.Errorf("annotate: spool folder %s is not a folder of this user's that only it can write to", base)
+	}
 	removed := removeStale(tempDir, base, time.Now().Add(-staleAfter))
 	dir := filepath.Join(base, strconv.Itoa(os.Getpid())+"."+strconv.FormatInt(time.Now().UnixNano(), 10))
 	if err := os.Mkdir(dir, 0o700); err != nil && !errors.Is(err, fs.ErrExist) {

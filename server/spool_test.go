@@ -88,3 +88,39 @@ func TestStaleSpoolRemoved(t *testing.T) {
 		t.Errorf("the spool folder outlived the server: %v", err)
 	}
 }
+
+// TestSpoolFolderMustBeOurs: a spool folder that is a link, or that others may write to, is
+// not used (nor cleaned): uploads go to per-request folders in the temporary folder instead.
+func TestSpoolFolderMustBeOurs(t *testing.T) {
+	for _, setup := range []func(t *testing.T, tmp string){
+		func(t *testing.T, tmp string) {
+			elsewhere := t.TempDir()
+			mkfile(t, filepath.Join(elsewhere, strconv.Itoa(deadPID(t))+".1", "keep.txt"), time.Hour)
+			if err := os.Symlink(elsewhere, filepath.Join(tmp, spoolDirName)); err != nil {
+				t.Skip(err)
+			}
+		},
+		func(t *testing.T, tmp string) {
+			dir := filepath.Join(tmp, spoolDirName)
+			mkfile(t, filepath.Join(dir, strconv.Itoa(deadPID(t))+".1", "keep.txt"), time.Hour)
+			if err := os.Chmod(dir, 0o777); err != nil {
+				t.Fatal(err)
+			}
+		},
+	} {
+		tmp := t.TempDir()
+		setup(t, tmp)
+		h := AnnotateHandler(newEngine(t), AnnotateConfig{TempDir: tmp}).(*annotateHandler)
+		if h.spool != nil {
+			t.Errorf("the spool folder %s was used", filepath.Join(tmp, spoolDirName))
+		}
+		if kept, _ := filepath.Glob(filepath.Join(tmp, spoolDirName, "*", "keep.txt")); len(kept) != 1 {
+			t.Errorf("a folder in someone else's spool folder was removed")
+		}
+		dir, err := h.requestDir()
+		if err != nil || filepath.Dir(dir) != tmp {
+			t.Errorf("request folder %s (%v), want one in %s", dir, err, tmp)
+		}
+		os.RemoveAll(dir)
+	}
+}

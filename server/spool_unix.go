@@ -4,6 +4,8 @@ package server
 
 import (
 	"errors"
+	"io/fs"
+	"os"
 	"syscall"
 )
 
@@ -12,4 +14,10 @@ import (
 func processRunning(pid int) bool {
 	err := syscall.Kill(pid, 0)
 	return err == nil || errors.Is(err, syscall.EPERM)
+}
+
+// ownedByUs reports whether a file belongs to the user running the server.
+func ownedByUs(fi fs.FileInfo) bool {
+	st, ok := fi.Sys().(*syscall.Stat_t)
+	return ok && int(st.Uid) == os.Geteuid()
 }
