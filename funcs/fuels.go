@@ -2,6 +2,7 @@ package funcs
 
 import (
 	"slices"
+	"strconv"
 	"strings"
 	"unicode/utf8"
 )
@@ -126,54 +127,15 @@ func (e *Engine) NotFuelName(name string) (desc string, ok bool) {
 	return m.entry.row.desc, true
 }
 
-// editDistance is the Levenshtein distance between a and b, counted in runes.
-func editDistance(a, b string) int {
-	ra, rb := []rune(a), []rune(b)
-	prev := make([]int, len(rb)+1)
-	cur := make([]int, len(rb)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(ra); i++ {
-		cur[0] = i
-		for j := 1; j <= len(rb); j++ {
-			cost := 1
-			if ra[i-1] == rb[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(rb)]
-}
-
-// suggestFrom returns the element of options closest to s by edit distance,
-// or "" if none is within a third of the length of s.
-func suggestFrom(s string, options []string) string {
-	best, bestD := "", 1<<30
-	ls := strings.ToLower(s)
-	for _, o := range options {
-		if d := editDistance(ls, strings.ToLower(o)); d < bestD {
-			best, bestD = o, d
-		}
-	}
-	limit := max(1, min(4, len(s)/3))
-	if bestD <= limit {
-		return best
-	}
-	return ""
-}
-
-// quote quotes s for a message, cut to 77 bytes and "..." when longer
-// than 80, never inside a UTF-8 character.
+// quote writes a name from the user for a message: in double quotes, control characters and
+// invalid UTF-8 escaped (a newline shows as \n), a name over 80 bytes cut between characters.
 func quote(s string) string {
 	if len(s) > 80 {
-		n := 77
-		for n > 0 && !utf8.RuneStart(s[n]) {
-			n--
+		cut := 77
+		for cut > 0 && !utf8.RuneStart(s[cut]) {
+			cut--
 		}
-		s = s[:n] + "..."
+		s = s[:cut] + "..."
 	}
-	return `"` + s + `"`
+	return strconv.Quote(s)
 }

@@ -15,5 +15,9 @@ func (s *Server) annotate(c *gin.Context) {
 		return
 	}
 	c.Request.Body = http.MaxBytesReader(c.Writer, c.Request.Body, s.cfg.MaxUploadBytes)
-	s.cfg.Annotate.ServeHTTP(c.Writer, c.Request)
+	r, outcome := withOutcome(c.Request)
+	s.cfg.Annotate.ServeHTTP(c.Writer, r)
+	if outcome.err != nil {
+		c.Set(errKey, outcome.err) // logged on the request's line
+	}
 }

@@ -3,8 +3,8 @@ package server
 import (
 	"bufio"
 	"context"
-	"encoding/json"
 	"errors"
+	"fmt"
 	"io"
 	"log/slog"
 	"mime"
@@ -26,6 +26,9 @@ const (
 	typeXLSX = "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet"
 	typeXLSM = "application/vnd.ms-excel.sheet.macroEnabled.12"
 	typeCSV  = "text/csv"
+	// mime.ParseMediaType lower-cases media types (they are case-insensitive): requests are
+	// matched against this form of typeXLSM.
+	typeXLSMFolded = "application/vnd.ms-excel.sheet.macroenabled.12"
 )
 
 // AnnotateConfig configures AnnotateHandler.
@@ -41,11 +44,29 @@ type AnnotateConfig struct {
 	// minutes); past it the answer is 503.
 	Timeout time.Duration
 	// TempDir holds the uploads and outputs while a request runs ("" = the
-	// system's temporary folder); each request's files are removed when it
-	// ends.
+	// system's temporary folder), in TempDir/fluecell-spool/PID.START/; each
+	// request's files are removed when it ends, and what a crashed or
+	// stopped server left there is removed when AnnotateHandler is called.
 	TempDir string
-	Logger  *slog.Logger
+	// UploadGrace and MinUploadRate bound how slowly an upload may arrive:
+	// the whole body must be in within UploadGrace plus one second per
+	// MinUploadRate bytes received (defaults 30 s and 16 KiB/s), else the
+	// answer is 408. An upload is read in full before it waits for a turn,
+	// so slow clients hold no turn.
+	UploadGrace   time.Duration
+	MinUploadRate int64 // bytes per second
+	// MaxUploads bounds the uploads being received at once (default 8 per
+	// turn, at least 16): one more is refused with 503 before it is read,
+	// which bounds the spool folder to MaxUploads times the upload limit.
+	MaxUploads int
+	Logger     *slog.Logger
 }
+
+// Defaults of AnnotateConfig's upload pace.
+const (
+	DefaultUploadGrace   = 30 * time.Second
+	DefaultMinUploadRate = 16 << 10
+)
 
 // AnnotateHandler returns the handler of POST /v1/annotate, to be set as
 // Config.Annotate. The body is the workbook (.xlsx, .xlsm or CSV, by
@@ -61,16 +82,54 @@ func AnnotateHandler(e *funcs.Engine, cfg AnnotateConfig) http.Handler {
 	if cfg.Timeout <= 0 {
 		cfg.Timeout = 5 * time.Minute
 	}
+	if cfg.UploadGrace <= 0 {
+		cfg.UploadGrace = DefaultUploadGrace
+	}
+	if cfg.MinUploadRate <= 0 {
+		cfg.MinUploadRate = DefaultMinUploadRate
+	}
 	if cfg.Logger == nil {
 		cfg.Logger = slog.New(slog.NewTextHandler(io.Discard, nil))
 	}
-	return &annotateHandler{e: e, cfg: cfg, turns: make(chan struct{}, cfg.Concurrent)}
+	if cfg.MaxUploads <= 0 {
+		cfg.MaxUploads = max(8*cfg.Concurrent, 16)
+	}
+	h := &annotateHandler{e: e, cfg: cfg, turns: make(chan struct{}, cfg.Concurrent), uploads: make(chan struct{}, cfg.MaxUploads)}
+	spool, removed, err := newSpoolRoot(cfg.TempDir, 2*cfg.Timeout+time.Minute)
+	if err != nil {
+		cfg.Logger.Warn("annotate: uploads go straight into the temporary folder", "err", err)
+	} else {
+		h.spool = spool
+	}
+	if removed > 0 {
+		cfg.Logger.Info("annotate: removed uploads left by servers no longer running", "folders", removed)
+	}
+	return h
 }
 
 type annotateHandler struct {
-	e     *funcs.Engine
-	cfg   AnnotateConfig
-	turns chan struct{}
+	e       *funcs.Engine
+	cfg     AnnotateConfig
+	turns   chan struct{}
+	uploads chan struct{} // one per upload being received or annotated
+	spool   *spoolRoot    // nil: folders are made in TempDir itself
+}
+
+// Close removes the handler's spool folder, with whatever requests still running have in it;
+// the server calls it once it has stopped.
+func (h *annotateHandler) Close() error {
+	if h.spool == nil {
+		return nil
+	}
+	return h.spool.close()
+}
+
+// requestDir makes the folder of one request's files.
+func (h *annotateHandler) requestDir() (string, error) {
+	if h.spool != nil {
+		return h.spool.request()
+	}
+	return os.MkdirTemp(h.cfg.TempDir, legacySpoolPrefix)
 }
 
 func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
@@ -88,7 +147,7 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 		switch k {
 		case "rule", "sheet", "pack", "grid", "name", "report", "token":
 		default:
-			h.fail(w, badRequest(k, "unknown parameter "+quoteParam(k)+": /v1/annotate takes rule, sheet, pack, grid, name and report=json"))
+			h.fail(w, r, badRequest(k, "unknown parameter "+quoteText(k)+": /v1/annotate takes rule, sheet, pack, grid, name and report=json"))
 			return
 		}
 	}
@@ -98,7 +157,7 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	case "json":
 		asReport = true
 	default:
-		h.fail(w, badRequest("report", "report="+quoteParam(v)+": the only accepted value is json"))
+		h.fail(w, r, badRequest("report", "report="+quoteText(v)+": the only accepted value is json"))
 		return
 	}
 	opt := h.cfg.Options
@@ -106,59 +165,68 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	opt.Sheet = q.Get("sheet")
 	if g := q.Get("grid"); g != "" {
 		if _, err := importer.CheckGrid(h.e, g); err != nil {
-			h.fail(w, badRequest("grid", err.Error()))
+			h.fail(w, r, badRequest("grid", err.Error()))
 			return
 		}
 		opt.Grid = g
 	}
 	if p := q.Get("pack"); p != "" {
 		if _, err := h.e.Factors(p, ""); err != nil {
-			h.fail(w, fromFuncs(err, false))
+			h.fail(w, r, fromFuncs(err, false))
 			return
 		}
 		opt.Pack = p
 	}
 
+	// The upload is read in full first, at a minimum pace; only then does it
+	// wait for a turn: a slow client holds a connection, never a turn.
 	select {
-	case h.turns <- struct{}{}:
-		defer func() { <-h.turns }()
-	case <-ctx.Done():
-		h.fail(w, &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout, Msg: "the server is busy annotating other workbooks; try again later"})
+	case h.uploads <- struct{}{}:
+		defer func() { <-h.uploads }()
+	default:
+		h.fail(w, r, &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout,
+			Msg: "the server is receiving " + strconv.Itoa(h.cfg.MaxUploads) + " other workbooks; try again later"})
 		return
 	}
-
-	dir, err := os.MkdirTemp(h.cfg.TempDir, "fluecell-annotate-")
+	dir, err := h.requestDir()
 	if err != nil {
-		h.fail(w, internalError(err))
+		h.fail(w, r, internalError(err))
 		return
 	}
 	defer os.RemoveAll(dir)
+	r.Body = &pacedBody{r: r.Body, rc: rc, start: time.Now(), grace: h.cfg.UploadGrace, rate: h.cfg.MinUploadRate, end: deadline}
 	name, ext, body, apiErr := uploadedWorkbook(r, q.Get("name"))
 	if apiErr != nil {
-		h.fail(w, apiErr)
+		h.fail(w, r, apiErr)
 		return
 	}
 	in := filepath.Join(dir, "upload"+ext)
 	if apiErr := spool(in, body); apiErr != nil {
-		h.fail(w, apiErr)
+		h.fail(w, r, apiErr)
+		return
+	}
+	_ = rc.SetReadDeadline(time.Time{}) // the body is read; nothing more is expected
+
+	select {
+	case h.turns <- struct{}{}:
+		defer func() { <-h.turns }()
+	case <-ctx.Done():
+		h.fail(w, r, &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout, Msg: "the server is busy annotating other workbooks; try again later"})
 		return
 	}
 	out := importer.DefaultOutput(in) // a legacy .xls comes back as .xlsx
 	rep, err := importer.Annotate(ctx, h.e, in, out, opt)
 	if err != nil {
-		h.fail(w, importerError(err, ctx))
+		h.fail(w, r, importerError(err, ctx, dir))
 		return
 	}
 	if asReport {
-		rep.Output = ""
-		w.Header().Set("Content-Type", "application/json; charset=utf-8")
-		w.Header().Set("Cache-Control", "no-store")
-		json.NewEncoder(w).Encode(rep)
+		h.writeReport(w, r, rep)
 		return
 	}
 	f, err := os.Open(out)
 	if err != nil {
-		h.fail(w, internalError(err))
+		h.fail(w, r, internalError(err))
 		return
 	}
 	defer f.Close()
@@ -171,13 +239,13 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	}
 	w.Header().Set("Content-Type", ctype)
 	w.Header().Set("Cache-Control", "no-store")
-	w.Header().Set("Content-Disposition", mime.FormatMediaType("attachment", map[string]string{"filename": importer.DefaultOutput(name)}))
+	w.Header().Set("Content-Disposition", mime.FormatMediaType("attachment", map[string]string{"filename": safeFileName(importer.DefaultOutput(name))}))
 	if fi, err := f.Stat(); err == nil {
 		w.Header().Set("Content-Length", strconv.FormatInt(fi.Size(), 10))
 	}
-	if _, err := io.Copy(w, f); err != nil {
-		h.cfg.Logger.Warn("annotate: writing the answer", "err", err)
-	}
+	// A client gone mid-answer shows on the request's line (its bytes); no line of its own,
+	// which a crowd of such clients would turn into an unbounded log.
+	_, _ = io.Copy(w, f)
 }
 
 // uploadedWorkbook finds the workbook in the request: the body itself, or the
@@ -189,7 +257,7 @@ func uploadedWorkbook(r *http.Request, nameParam string) (name, ext string, body
 	ct := r.Header.Get("Content-Type")
 	mt, params, perr := mime.ParseMediaType(ct)
 	if ct != "" && perr != nil {
-		return "", "", nil, &apiError{Status: http.StatusUnsupportedMediaType, Code: codeMediaType, Msg: "unreadable Content-Type " + quoteParam(ct)}
+		return "", "", nil, &apiError{Status: http.StatusUnsupportedMediaType, Code: codeMediaType, Msg: "unreadable Content-Type " + quoteText(ct)}
 	}
 	name = nameParam
 	body = r.Body
@@ -217,13 +285,13 @@ func uploadedWorkbook(r *http.Request, nameParam string) (name, ext string, body
 				break
 			}
 		}
-	case typeXLSX, typeXLSM, typeCSV, "application/vnd.ms-excel", "application/octet-stream", "":
+	case typeXLSX, typeXLSMFolded, typeCSV, "application/vnd.ms-excel", "application/octet-stream", "":
 	case "application/x-www-form-urlencoded":
 		// what curl --data-binary sends by default: the body decides
 		mt = ""
 	default:
 		return "", "", nil, &apiError{Status: http.StatusUnsupportedMediaType, Code: codeMediaType,
-			Msg: "Content-Type " + quoteParam(mt) + " is not a workbook: send " + typeXLSX + ", " + typeXLSM + ", text/csv or multipart/form-data with a part file"}
+			Msg: "Content-Type " + quoteText(mt) + " is not a workbook: send " + typeXLSX + ", " + typeXLSM + ", text/csv or multipart/form-data with a part file"}
 	}
 	name = filepath.Base(strings.ReplaceAll(name, "\\", "/"))
 	ext = strings.ToLower(filepath.Ext(name))
@@ -231,7 +299,7 @@ func uploadedWorkbook(r *http.Request, nameParam string) (name, ext string, body
 	case ".xlsx", ".xlsm", ".csv", ".xls":
 	default:
 		switch mt {
-		case typeXLSM:
+		case typeXLSMFolded:
 			ext = ".xlsm"
 		case typeCSV:
 			ext = ".csv"
@@ -285,55 +353,45 @@ func uploadError(err error, msg string) *apiError {
 	if errors.As(err, &mbe) {
 		return tooLarge(mbe.Limit)
 	}
+	var slow *slowUpload
+	if errors.As(err, &slow) {
+		return &apiError{Status: http.StatusRequestTimeout, Code: codeTimeout, Msg: slow.Error()}
+	}
 	if errors.Is(err, os.ErrDeadlineExceeded) || errors.Is(err, context.DeadlineExceeded) {
 		return &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout, Msg: "the upload did not arrive within the server's time limit"}
 	}
 	return badRequest("body", msg)
 }
 
-// importerError maps an annotation failure to its answer. The temporary
-// paths are the server's business: messages leave them out.
-func importerError(err error, ctx context.Context) *apiError {
-	var ie *importer.Error
-	if !errors.As(err, &ie) {
-		if fe, ok := funcs.AsError(err); ok {
-			return fromFuncs(fe, false)
-		}
-		return internalError(err)
+// writeReport answers the report as JSON. It is encoded before anything is written: a report
+// that cannot be encoded (a non-finite total) is a 500 with a JSON message, never a 200 with
+// an empty body.
+func (h *annotateHandler) writeReport(w http.ResponseWriter, r *http.Request, rep *importer.Report) {
+	rep.Output = "" // a path on the server
+	body, err := marshalJSON(rep)
+	if err != nil {
+		h.fail(w, r, internalError(fmt.Errorf("encoding the report: %w", err)))
+		return
 	}
-	msg := ie.Msg
-	switch ie.Code {
-	case importer.ErrTooLarge:
-		return &apiError{Status: http.StatusRequestEntityTooLarge, Code: codeTooLarge, Msg: oneLine(msg)}
-	case importer.ErrCancelled:
-		if ctx.Err() == context.DeadlineExceeded {
-			return &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout, Msg: "the annotation ran past the server's time limit"}
-		}
-		return &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout, Msg: "the request ended before the annotation did"}
-	case importer.ErrIO, importer.ErrInternal:
-		return internalError(err)
-	}
-	out := &apiError{Status: http.StatusBadRequest, Code: "workbook-" + ie.Code, Msg: oneLine(msg)}
-	if first, _, multi := strings.Cut(msg, "\n"); multi {
-		// a rule's compile error: the expression and a caret on lines of their own
-		out.Msg, out.Detail = oneLine(first), strings.ToValidUTF8(msg, "\ufffd")
-	}
-	return out
+	body = append(body, '\n')
+	w.Header().Set("Content-Type", "application/json; charset=utf-8")
+	w.Header().Set("Cache-Control", "no-store")
+	w.Header().Set("Content-Length", strconv.Itoa(len(body)))
+	w.WriteHeader(http.StatusOK)
+	_, _ = w.Write(body)
 }
 
-func (h *annotateHandler) fail(w http.ResponseWriter, e *apiError) {
-	if e.Status >= 500 && e.cause != nil {
-		h.cfg.Logger.Error("annotate", "err", e.cause)
+func (h *annotateHandler) fail(w http.ResponseWriter, r *http.Request, e *apiError) {
+	if !reportOutcome(r, e) && e.cause != nil {
+		h.cfg.Logger.Error("annotate", "status", e.Status, "err", cutText(e.cause.Error(), maxLoggedCause))
+	}
+	body, err := marshalJSON(e.body())
+	if err != nil {
+		body = []byte(`{"error":"` + internalErrorMessage + `","code":"internal"}`)
 	}
 	w.Header().Set("Content-Type", "application/json; charset=utf-8")
 	w.Header().Set("Cache-Control", "no-store")
+	w.Header().Set("Content-Length", strconv.Itoa(len(body)))
 	w.WriteHeader(e.Status)
-	json.NewEncoder(w).Encode(e.body())
-}
-
-func quoteParam(s string) string {
-	if len(s) > 64 {
-		s = s[:64] + "..."
-	}
-	return `"` + oneLine(s) + `"`
+	_, _ = w.Write(body)
 }

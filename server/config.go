@@ -56,6 +56,12 @@ type Config struct {
 	// limit, metrics and the request log; the handler writes its own answers, errors as
 	// application/json {"error": "...", "code": "..."} like every other route.
 	Annotate http.Handler
+	// LogBytesPerSecond bounds the request log (default 32 KiB/s, with bursts of
+	// logBurstSeconds). Errors (4xx, 5xx) and slow requests draw on three quarters of it,
+	// quick successes on a quarter; a line beyond the budget is skipped and counted, and the
+	// next line written says how many were skipped (skipped_successes, skipped_errors). The
+	// metrics count every request. Negative: no bound.
+	LogBytesPerSecond int64
 	// Version is the program version reported by /healthz.
 	Version string
 }
@@ -102,6 +108,9 @@ func (c Config) withDefaults() (Config, error) {
 		if *v == 0 {
 			*v = d
 		}
+	}
+	if c.LogBytesPerSecond == 0 {
+		c.LogBytesPerSecond = DefaultLogBytesPerSecond
 	}
 	dur(&c.EvalTimeout, DefaultEvalTimeout)
 	dur(&c.ReadHeaderTimeout, DefaultReadHeaderTimeout)

@@ -3,6 +3,7 @@ package server
 import (
 	"errors"
 	"net/http"
+	"strconv"
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs"
@@ -73,6 +74,26 @@ func oneLine(s string) string {
 		}
 		return r
 	}, strings.ToValidUTF8(s, "\ufffd"))
+}
+
+// cutText cuts s to at most n bytes at a character boundary, marking the cut with "…"
+// (which the n bytes include). Invalid UTF-8 is left to oneLine.
+func cutText(s string, n int) string {
+	if len(s) <= n {
+		return s
+	}
+	const mark = "…"
+	return cutBytes(s, max(n-len(mark), 0)) + mark
+}
+
+// maxQuotedText bounds a client's text quoted in a message.
+const maxQuotedText = 64
+
+// quoteText quotes a client's text (a parameter name, a value, a header) for a message: cut
+// to maxQuotedText bytes between characters, in double quotes, with control characters and
+// invalid UTF-8 escaped (a newline shows as \n).
+func quoteText(s string) string {
+	return strconv.Quote(cutText(s, maxQuotedText))
 }
 
 func internalError(cause error) *apiError {

@@ -97,7 +97,7 @@ func (s *Server) evalMode(r *http.Request) (csvMode bool, e *apiError) {
 		var err error
 		if mt, _, err = mime.ParseMediaType(ct); err != nil {
 			return false, &apiError{Status: http.StatusUnsupportedMediaType, Code: codeMediaType, Param: "Content-Type",
-				Msg: "Content-Type " + strconv.Quote(ct) + " is malformed: send application/json, or text/csv with ?expr=…"}
+				Msg: "Content-Type " + quoteText(ct) + " is malformed: send application/json, or text/csv with ?expr=…"}
 		}
 	}
 	switch mt {
@@ -109,7 +109,7 @@ func (s *Server) evalMode(r *http.Request) (csvMode bool, e *apiError) {
 		return strings.Contains(r.URL.RawQuery, "expr="), nil
 	}
 	return false, &apiError{Status: http.StatusUnsupportedMediaType, Code: codeMediaType, Param: "Content-Type",
-		Msg: "Content-Type " + strconv.Quote(mt) + " is not read here: send application/json ({\"expr\": …, \"vars\": {…}} or {\"expr\": …, \"rows\": […]}), or text/csv with ?expr=…&as=COLUMN"}
+		Msg: "Content-Type " + quoteText(mt) + " is not read here: send application/json ({\"expr\": …, \"vars\": {…}} or {\"expr\": …, \"rows\": […]}), or text/csv with ?expr=…&as=COLUMN"}
 }
 
 func tooLarge(limit int64) *apiError {
@@ -241,6 +241,14 @@ func (s *Server) evalJSON(ctx context.Context, c *gin.Context) {
 			s.abort(c, fromFuncs(err, false))
 			return
 		}
+		if e := checkVarTexts(p, vars); e != nil {
+			s.abort(c, e)
+			return
+		}
+		if ctx.Err() != nil {
+			s.abort(c, s.timedOut())
+			return
+		}
 		res, err := p.Eval(vars)
 		if err != nil {
 			s.metrics.evalRows.WithLabelValues("error").Inc()
@@ -282,6 +290,10 @@ func (s *Server) evalJSON(ctx context.Context, c *gin.Context) {
 		s.abort(c, fromFuncs(err, false))
 		return
 	}
+	if e := checkVarTexts(p, vars); e != nil {
+		s.abort(c, e)
+		return
+	}
 	out, e := s.runRows(ctx, p, vars, rows)
 	if e != nil {
 		s.abort(c, e)
@@ -303,9 +315,14 @@ func (s *Server) runRows(ctx context.Context, p *funcs.Program, vars map[string]
 	var notes []string
 	seenNote := map[string]bool{}
 	unitJSON := map[string][]byte{} // the few units of a request, encoded once
+	reads := make(map[string]bool, len(p.Variables()))
+	for _, v := range p.Variables() {
+		reads[v] = true
+	}
 	okRows, badRows := 0, 0
 	for i, row := range rows {
-		if i%256 == 255 && ctx.Err() != nil {
+		// before every row: one row may cost milliseconds (many calls on long texts)
+		if ctx.Err() != nil {
 			return nil, s.timedOut()
 		}
 		if i > 0 {
@@ -320,6 +337,9 @@ func (s *Server) runRows(ctx context.Context, p *funcs.Program, vars map[string]
 		why := ""
 		for k, v := range m {
 			val, w := varValue(v)
+			if w == "" && reads[k] {
+				w = textTooLong(val)
+			}
 			if w != "" {
 				why = "rows[" + strconv.Itoa(i) + "]." + k + " " + w
 				break
@@ -392,9 +412,41 @@ func (s *Server) runRows(ctx context.Context, p *funcs.Program, vars map[string]
 	return b.Bytes(), nil
 }
 
+// maxTextValue bounds a text value an expression reads (a fuel, unit, gas or grid name, a
+// sector...), as maxValueLen bounds a query value of GET /v1/fn: no name is that long, and
+// every call on a text costs time in proportion to its length.
+const maxTextValue = maxValueLen
+
+// textTooLong says why v cannot be read by an expression, or "" when it can.
+func textTooLong(v any) string {
+	if s, ok := v.(string); ok && len(s) > maxTextValue {
+		return "is " + longText(len(s))
+	}
+	return ""
+}
+
+// longText describes a text of n bytes, over maxTextValue.
+func longText(n int) string {
+	return "a text of " + strconv.Itoa(n) + " bytes: the longest text accepted is " + strconv.Itoa(maxTextValue) +
+		" bytes (names of fuels, units, gases and grids are far shorter)"
+}
+
+// checkVarTexts refuses a value of vars over maxTextValue that p reads.
+func checkVarTexts(p *funcs.Program, vars map[string]any) *apiError {
+	for _, name := range p.Variables() {
+		if why := textTooLong(vars[name]); why != "" {
+			return badRequest("vars."+name, "vars."+name+" "+why)
+		}
+	}
+	return nil
+}
+
+// maxRowMessage bounds the error message of one row (a message may quote the input).
+const maxRowMessage = 1024
+
 func writeRowError(b *bytes.Buffer, msg, code string) {
 	b.WriteString(`{"error":`)
-	writeJSONString(b, msg)
+	writeJSONString(b, cutText(msg, maxRowMessage))
 	b.WriteString(`,"code":`)
 	writeJSONString(b, code)
 	b.WriteByte('}')

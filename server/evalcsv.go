@@ -69,19 +69,29 @@ func (s *Server) evalCSV(ctx context.Context, c *gin.Context) {
 			return
 		}
 		if _, dup := cols[h]; dup {
-			s.abort(c, badRequest("body", "CSV header names column "+strconv.Quote(h)+" twice: names must be unique"))
+			s.abort(c, badRequest("body", "CSV header names column "+quoteText(h)+" twice: names must be unique"))
 			return
 		}
 		cols[h] = i
 	}
 	if _, dup := cols[as]; dup {
-		s.abort(c, badRequest("as", "the CSV already has a column "+strconv.Quote(as)+": choose another name with as="))
+		s.abort(c, badRequest("as", "the CSV already has a column "+quoteText(as)+": choose another name with as="))
 		return
 	}
 	p, err := s.compile(src, header)
 	if err != nil {
 		s.abort(c, fromFuncs(err, false))
 		return
+	}
+	if ctx.Err() != nil {
+		s.abort(c, s.timedOut())
+		return
+	}
+	reads := make([]bool, len(header)) // the columns the expression reads
+	for _, v := range p.Variables() {
+		if i, ok := cols[v]; ok {
+			reads[i] = true
+		}
 	}
 	run := p.NewRunner()
 	vars := make(map[string]any, len(header))
@@ -104,18 +114,29 @@ func (s *Server) evalCSV(ctx context.Context, c *gin.Context) {
 			s.abort(c, s.tooManyRows(n+1))
 			return
 		}
-		if n%256 == 255 && ctx.Err() != nil {
+		// before every row: one row may cost milliseconds (many calls on long texts)
+		if ctx.Err() != nil {
 			s.abort(c, s.timedOut())
 			return
 		}
+		long := -1
 		for i, cell := range rec {
 			if v, isNum := funcs.ParseNumber(cell); isNum {
 				vars[header[i]] = v
 			} else {
 				vars[header[i]] = cell
+				if reads[i] && len(cell) > maxTextValue && long < 0 {
+					long = i
+				}
 			}
 		}
 		copy(line, rec)
+		if long >= 0 {
+			badRows++
+			line[len(header)] = inlinePrefix + "column " + header[long] + " holds " + longText(len(rec[long]))
+			_ = w.Write(line)
+			continue
+		}
 		res, err := run.Run(vars)
 		if err != nil {
 			ae := fromFuncs(err, false)
@@ -124,7 +145,7 @@ func (s *Server) evalCSV(ctx context.Context, c *gin.Context) {
 				return
 			}
 			badRows++
-			line[len(header)] = inlinePrefix + ae.Msg
+			line[len(header)] = inlinePrefix + cutText(ae.Msg, maxRowMessage)
 		} else {
 			okRows++
 			line[len(header)] = funcs.FormatNumber(res.Value)

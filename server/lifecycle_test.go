@@ -119,6 +119,13 @@ func TestPanicIsA500(t *testing.T) {
 	if logs := ts.logs.String(); !strings.Contains(logs, "panic while answering") || !strings.Contains(logs, "goroutine") {
 		t.Errorf("log lacks the panic and stack:\n%s", logs)
 	}
+	// logged once, on the request's line, and counted
+	if logs := ts.logs.String(); strings.Count(logs, "boom") != 1 || strings.Count(logs, `"path":"/v1/annotate"`) != 1 {
+		t.Errorf("the panic is not logged exactly once:\n%s", logs)
+	}
+	if m := get(t, ts.URL+"/metrics"); !strings.Contains(m.Body, `fluecell_http_requests_total{method="POST",route="/v1/annotate",status="500"} 1`) {
+		t.Errorf("the 500 is not counted:\n%s", m.Body)
+	}
 	// the server goes on answering
 	if r := get(t, ts.URL+"/healthz"); r.Status != 200 {
 		t.Errorf("after a panic: %d", r.Status)

@@ -53,7 +53,12 @@ func (s *Server) writeFnError(c *gin.Context, f format, inline bool, e *apiError
 	c.Data(status, f.contentType(), body)
 }
 
-// recoverPanics turns a panic in a handler into a logged 500; the client sees no stack trace.
+// panicKey marks, in the gin context, a request whose handler panicked.
+const panicKey = "fluecell.panic"
+
+// recoverPanics turns a panic in a handler into a 500 with a JSON error (never a stack
+// trace). It runs inside observe, which counts the 500 and logs it once, with the panic and
+// its stack as the cause.
 func (s *Server) recoverPanics(c *gin.Context) {
 	defer func() {
 		v := recover()
@@ -63,18 +68,22 @@ func (s *Server) recoverPanics(c *gin.Context) {
 		if v == http.ErrAbortHandler {
 			panic(v)
 		}
-		s.log.Error("panic while answering a request", "method", c.Request.Method, "path", c.Request.URL.Path,
-			"panic", fmt.Sprint(v), "stack", string(debug.Stack()))
-		if !c.Writer.Written() {
-			s.abort(c, internalError(fmt.Errorf("panic: %v", v)))
+		e := internalError(fmt.Errorf("panic: %v\n%s", v, debug.Stack()))
+		c.Set(panicKey, true)
+		if c.Writer.Written() {
+			c.Set(errKey, e) // the answer had begun: it stays cut short
+		} else {
+			s.abort(c, e)
 		}
 		c.Abort()
 	}()
 	c.Next()
 }
 
-// observe logs one line per request and records its metrics. The query is logged with the
-// token's value replaced; headers are not logged.
+// observe records the metrics of every request and logs one line per request within the
+// log's budget (Config.LogBytesPerSecond): errors and slow requests are notable, quick
+// successes routine. The path and query are logged with every token-like value replaced;
+// headers are not logged.
 func (s *Server) observe(c *gin.Context) {
 	start := time.Now()
 	c.Next()
@@ -93,50 +102,56 @@ func (s *Server) observe(c *gin.Context) {
 	if !s.log.Enabled(ctx, level) {
 		return
 	}
+	kind := logRoutine
+	if status >= 400 || d >= slowRequest {
+		kind = logNotable
+	}
+	path := cutText(redactPath(c.Request.URL.EscapedPath(), s.cfg.Token), maxLoggedText)
+	query := redactQuery(c.Request.URL.RawQuery, s.cfg.Token)
+	var msg, cause string
+	if v, ok := c.Get(errKey); ok {
+		if e, ok := v.(*apiError); ok {
+			u := c.Request.URL
+			msg = cutText(redactText(e.Msg, s.cfg.Token, u.EscapedPath(), u.RawQuery), maxLoggedText)
+			if e.cause != nil {
+				cause = cutText(redactText(e.cause.Error(), s.cfg.Token, u.EscapedPath(), u.RawQuery), maxLoggedCause)
+			}
+		}
+	}
+	ok, skipped := s.logs.allow(kind, logLineOverhead+len(path)+len(query)+len(msg)+len(cause)+len(c.Request.RemoteAddr))
+	if !ok {
+		return
+	}
 	size := max(c.Writer.Size(), 0)
-	attrs := make([]slog.Attr, 0, 10)
+	attrs := make([]slog.Attr, 0, 12)
 	attrs = append(attrs,
 		slog.String("method", c.Request.Method),
-		slog.String("path", c.Request.URL.Path))
-	if q := c.Request.URL.RawQuery; q != "" {
-		attrs = append(attrs, slog.String("query", redactQuery(q)))
+		slog.String("path", path))
+	if query != "" {
+		attrs = append(attrs, slog.String("query", query))
 	}
 	attrs = append(attrs,
 		slog.Int("status", status),
 		slog.Int("bytes", size),
 		slog.Duration("duration", d),
 		slog.String("remote", c.Request.RemoteAddr))
-	if v, ok := c.Get(errKey); ok {
-		if e, ok := v.(*apiError); ok {
-			attrs = append(attrs, slog.String("error", e.Msg))
-			if e.cause != nil {
-				attrs = append(attrs, slog.String("cause", e.cause.Error()))
-			}
-		}
+	if msg != "" {
+		attrs = append(attrs, slog.String("error", msg))
 	}
-	s.log.LogAttrs(ctx, level, "request", attrs...)
-}
-
-// maxLoggedQuery bounds the query text of one log line.
-const maxLoggedQuery = 1024
-
-// redactQuery returns a raw query with the value of every token parameter replaced by
-// REDACTED (however its name is %-escaped), cut to maxLoggedQuery bytes.
-func redactQuery(raw string) string {
-	if strings.Contains(raw, "oken") || strings.Contains(raw, "%") {
-		parts := strings.Split(raw, "&")
-		for i, p := range parts {
-			k, _, _ := strings.Cut(p, "=")
-			if name, err := url.QueryUnescape(k); err == nil && name == paramToken {
-				parts[i] = k + "=REDACTED"
-			}
-		}
-		raw = strings.Join(parts, "&")
+	if cause != "" {
+		attrs = append(attrs, slog.String("cause", cause))
 	}
-	if len(raw) > maxLoggedQuery {
-		raw = raw[:maxLoggedQuery] + "…"
+	if skipped[logRoutine] > 0 {
+		attrs = append(attrs, slog.Int64("skipped_successes", skipped[logRoutine]))
 	}
-	return raw
+	if skipped[logNotable] > 0 {
+		attrs = append(attrs, slog.Int64("skipped_errors", skipped[logNotable]))
+	}
+	line := "request"
+	if c.GetBool(panicKey) {
+		line = "panic while answering a request"
+	}
+	s.log.LogAttrs(ctx, level, line, attrs...)
 }
 
 // cors answers preflight requests and sets the CORS headers for the configured origins.

@@ -73,6 +73,7 @@ func TestOpenAPIValidatesAnswers(t *testing.T) {
 	wbTok := startServer(t, Config{Token: "tk", Annotate: AnnotateHandler(e, AnnotateConfig{})})
 	wbSmall := startServer(t, Config{MaxUploadBytes: 512, Annotate: AnnotateHandler(e, AnnotateConfig{})})
 	wbSlow := startServer(t, Config{Annotate: AnnotateHandler(e, AnnotateConfig{Timeout: time.Nanosecond})})
+	wbPace := startServer(t, Config{Annotate: AnnotateHandler(e, AnnotateConfig{UploadGrace: time.Nanosecond, MinUploadRate: 1 << 40})})
 
 	var cases []apiCase
 	add := func(c apiCase) {
@@ -154,6 +155,7 @@ func TestOpenAPIValidatesAnswers(t *testing.T) {
 		{name: "annotate 401", base: wbTok.URL, method: http.MethodPost, target: "/v1/annotate", header: typeX, body: xlsx, status: 401, request: true},
 		{name: "annotate 413", base: wbSmall.URL, method: http.MethodPost, target: "/v1/annotate", header: typeX, body: xlsx, status: 413, request: true},
 		{name: "annotate 415", base: wb.URL, method: http.MethodPost, target: "/v1/annotate", header: map[string]string{"Content-Type": "image/png"}, body: "\x89PNG", status: 415},
+		{name: "annotate 408", base: wbPace.URL, method: http.MethodPost, target: "/v1/annotate", header: typeX, body: xlsx, status: 408, request: true},
 		{name: "annotate 503", base: wbSlow.URL, method: http.MethodPost, target: "/v1/annotate", header: typeX, body: xlsx, status: 503, request: true},
 	} {
 		add(c)

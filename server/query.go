@@ -71,17 +71,17 @@ func parseFnQuery(raw string) (fnQuery, *apiError) {
 		}
 		key, err := url.QueryUnescape(rawKey)
 		if err != nil {
-			fail(badRequest("query", "query parameter name "+strconv.Quote(rawKey)+" has a malformed %-escape; write %XX with two hex digits (ENCODEURL in a sheet does this)"))
+			fail(badRequest("query", "query parameter name "+quoteText(rawKey)+" has a malformed %-escape; write %XX with two hex digits (ENCODEURL in a sheet does this)"))
 			continue
 		}
 		val, err := url.QueryUnescape(rawVal)
 		if err != nil {
-			fail(badRequest(key, "query parameter "+key+" has a malformed %-escape in "+strconv.Quote(rawVal)+"; write spaces as %20 or +, and other characters as %XX (ENCODEURL in a sheet does this)"))
+			fail(badRequest(key, "query parameter "+key+" has a malformed %-escape in "+quoteText(rawVal)+"; write spaces as %20 or +, and other characters as %XX (ENCODEURL in a sheet does this)"))
 			continue
 		}
 		switch {
 		case key == "":
-			fail(badRequest("query", "query parameter without a name ("+strconv.Quote(part)+"); write name=value"))
+			fail(badRequest("query", "query parameter without a name ("+quoteText(part)+"); write name=value"))
 			continue
 		case len(val) > maxValueLen:
 			fail(badRequest(key, "query parameter "+key+" is "+strconv.Itoa(len(val))+" bytes long; the limit is "+strconv.Itoa(maxValueLen)))
@@ -101,7 +101,7 @@ func parseFnQuery(raw string) (fnQuery, *apiError) {
 		case paramFormat:
 			f, ok := parseFormat(val)
 			if !ok {
-				fail(badRequest(paramFormat, "format "+strconv.Quote(val)+" is not known: accepted are text (the default), json, csv, xml"))
+				fail(badRequest(paramFormat, "format "+quoteText(val)+" is not known: accepted are text (the default), json, csv, xml"))
 				continue
 			}
 			q.format = f
@@ -113,7 +113,7 @@ func parseFnQuery(raw string) (fnQuery, *apiError) {
 			case "", "status":
 				q.inline = false
 			default:
-				fail(badRequest(paramErrors, "errors "+strconv.Quote(val)+" is not known: accepted are status (the default: an error is a 4xx answer) and inline (a 200 answer reading #ERROR: message)"))
+				fail(badRequest(paramErrors, "errors "+quoteText(val)+" is not known: accepted are status (the default: an error is a 4xx answer) and inline (a 200 answer reading #ERROR: message)"))
 			}
 			continue
 		}

@@ -20,6 +20,7 @@ type Server struct {
 	cfg     Config
 	engine  *funcs.Engine
 	log     *slog.Logger
+	logs    *logBudget // bounds the request log
 	router  *gin.Engine
 	metrics *metrics
 	answers *cache[*answer]  // GET /v1/fn answers by function and raw query
@@ -54,7 +55,7 @@ func New(cfg Config, e *funcs.Engine, logger *slog.Logger) (*Server, error) {
 	if logger == nil {
 		logger = slog.New(slog.DiscardHandler)
 	}
-	s := &Server{cfg: cfg, engine: e, log: logger}
+	s := &Server{cfg: cfg, engine: e, log: logger, logs: newLogBudget(cfg.LogBytesPerSecond)}
 	s.answers = newCache[*answer](cfg.CacheEntries)
 	s.progs = newCache[*program](programCacheEntries)
 	s.hdr = headerValues{noStore: []string{"no-store"}, fnCache: []string{"public, max-age=" + fnMaxAge},
@@ -90,7 +91,7 @@ func (s *Server) routes() *gin.Engine {
 	r.HandleMethodNotAllowed = true
 	r.ForwardedByClientIP = false
 	_ = r.SetTrustedProxies(nil)
-	r.Use(s.recoverPanics, s.observe, s.cors)
+	r.Use(s.drainRefused, s.observe, s.recoverPanics, s.cors)
 	r.GET("/healthz", s.healthz)
 
 	api := r.Group("", s.authorize)
@@ -158,6 +159,14 @@ func (s *Server) Serve(ctx context.Context, l net.Listener) error {
 	<-done
 	if err != nil {
 		_ = hs.Close()
+	}
+	if c, ok := s.cfg.Annotate.(interface{ Close() error }); ok {
+		// the uploads of requests still running past the grace go with their folder
+		if cerr := c.Close(); cerr != nil {
+			s.log.Warn("removing the annotation spool folder", "err", cerr)
+		}
+	}
+	if err != nil {
 		return fmt.Errorf("server: shutdown: %w", err)
 	}
 	s.log.Info("stopped")
