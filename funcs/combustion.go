@@ -98,6 +98,9 @@ func (e *Engine) buildPlan(key planKey) (*plan, error) {
 		return e.blendPlan(key, m)
 	}
 	p := &plan{}
+	if fuel.NonEnergy {
+		p.notes = append(p.notes, nonEnergyNote(fuel))
+	}
 	if fuel.Family == "gas" {
 		if n := units.GasVolumeNote(u); n != "" {
 			p.notes = append(p.notes, n)
@@ -227,6 +230,13 @@ func (e *Engine) biogenicFraction(packName string, fuel *Fuel) *big.Rat {
 		return big.NewRat(1, 1)
 	}
 	return new(big.Rat)
+}
+
+// nonEnergyNote warns that the fuel is mostly used as a product, so that a
+// result computed for it counts only what was in fact burned.
+func nonEnergyNote(fuel *Fuel) string {
+	return fuel.ID + " is mostly used as a product, not burned (IPCC 2006 Vol 3 Ch 5, non-energy products): " +
+		"compute only the amount burned as fuel"
 }
 
 func biogenicNote(fuel *Fuel, bio *big.Rat) string {

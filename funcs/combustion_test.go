@@ -147,3 +147,28 @@ func TestEverydayVolumes(t *testing.T) {
 		t.Errorf("energy amount with a gas note: %q", r.Notes)
 	}
 }
+
+// TestNonEnergyNote: bitumen and lubricants are mostly used as materials
+// (IPCC 2006 Vol 3 Ch 5); a result computed for them says so.
+func TestNonEnergyNote(t *testing.T) {
+	e := newTestEngine(t)
+	for _, fuel := range []string{"asphalt", "lubricants"} {
+		r, err := e.CallValues("fuel_co2", fuel, 1.0, "t")
+		if err != nil {
+			t.Fatal(err)
+		}
+		ok := false
+		for _, n := range r.Notes {
+			ok = ok || strings.Contains(n, "mostly used as a product, not burned")
+		}
+		if !ok {
+			t.Errorf("%s: no non-energy note in %q", fuel, r.Notes)
+		}
+	}
+	r, _ := e.CallValues("fuel_co2", "diesel", 1.0, "t")
+	for _, n := range r.Notes {
+		if strings.Contains(n, "not burned") {
+			t.Errorf("diesel got the non-energy note %q", n)
+		}
+	}
+}

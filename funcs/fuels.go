@@ -10,12 +10,16 @@ import (
 // Fuel describes a canonical fuel id: its display name, the family used for
 // heating-value basis conversions, and whether its CO2 is biogenic.
 type Fuel struct {
-	ID       string   `json:"id"`
-	Name     string   `json:"name"`
-	Family   string   `json:"family,omitempty"` // coal, oil or gas; "" when no NCV/GCV ratio applies
-	Biogenic bool     `json:"biogenic"`         // CO2 is reported separately (memo item), not in totals
-	Aliases  []string `json:"aliases,omitempty"`
-	Custom   bool     `json:"custom,omitempty"` // defined only by a user pack
+	ID       string `json:"id"`
+	Name     string `json:"name"`
+	Family   string `json:"family,omitempty"` // coal, oil or gas; "" when no NCV/GCV ratio applies
+	Biogenic bool   `json:"biogenic"`         // CO2 is reported separately (memo item), not in totals
+	// NonEnergy marks a product used mostly as a material, not burned (lubricants,
+	// bitumen): its use is reported under industrial processes and product use
+	// (IPCC 2006 Vol 3 Ch 5), so a record of its consumption is no fuel burned.
+	NonEnergy bool     `json:"non_energy,omitempty"`
+	Aliases   []string `json:"aliases,omitempty"`
+	Custom    bool     `json:"custom,omitempty"` // defined only by a user pack
 	// within is a fuel this one is a kind of, whose rows a pack without rows of its own
 	// lends it (propane within lpg: IPCC 2006 Table 1.2 has no propane row).
 	within string
@@ -72,7 +76,7 @@ func builtinFuels() []Fuel {
 		{ID: "biodiesel", Name: "biodiesel", Biogenic: true},
 		{ID: "renewable_diesel", Name: "renewable diesel (hydrotreated vegetable oil)", Biogenic: true},
 		{ID: "coal_coke", Name: "coke oven coke", Family: "coal", Aliases: []string{"coke oven coke", "metallurgical coke", "lignite coke"}},
-		{ID: "lubricants", Name: "lubricants", Family: "oil", Aliases: []string{"lubricating oil", "lube oil"}},
+		{ID: "lubricants", Name: "lubricants", Family: "oil", NonEnergy: true, Aliases: []string{"lubricating oil", "lube oil"}},
 		{ID: "waste_oil", Name: "waste oils", Family: "oil", Aliases: []string{"waste oils", "used oil"}},
 		{ID: "refinery_gas", Name: "refinery gas (fuel gas)", Family: "gas", Aliases: []string{"refinery fuel gas", "still gas"}},
 		{ID: "blast_furnace_gas", Name: "blast furnace gas", Family: "gas"},
@@ -81,7 +85,7 @@ func builtinFuels() []Fuel {
 		{ID: "municipal_solid_waste", Name: "municipal solid waste"},
 		{ID: "naphtha", Name: "naphtha", Family: "oil"},
 		{ID: "ethane", Name: "ethane", Family: "gas"},
-		{ID: "bitumen", Name: "bitumen (asphalt)", Family: "oil", Aliases: []string{"asphalt", "asphalt and road oil", "road oil"}},
+		{ID: "bitumen", Name: "bitumen (asphalt)", Family: "oil", NonEnergy: true, Aliases: []string{"asphalt", "asphalt and road oil", "road oil"}},
 		{ID: "other_petroleum_products", Name: "other petroleum products", Family: "oil", Aliases: []string{"other oil", "other oils"}},
 		{ID: "tires", Name: "tires (tire-derived fuel)", Aliases: []string{"tyres", "waste tires", "waste tyres", "tire-derived fuel", "tyre-derived fuel"}},
 		{ID: "plastics", Name: "plastics", Aliases: []string{"waste plastics"}},

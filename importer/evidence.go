@@ -117,6 +117,8 @@ type fuelRef struct {
 	alias bool
 	same  bool   // the text is the fuel id itself, written otherwise ("Natural Gas"): no alias note
 	why   string // for nameNotFuel, nameAggregate, nameRate: the word that decided
+	// nonEnergy: a fuel id whose use is mostly as a material (see funcs.Fuel.NonEnergy)
+	nonEnergy bool
 }
 
 // decideStyle sets the column's number style from its numbers stored as

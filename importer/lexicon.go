@@ -49,7 +49,7 @@ func (lx *lexicon) fuel(s string) fuelRes {
 	}
 	var r fuelRes
 	if m, ok := lx.e.LookupFuel(s); ok {
-		r = fuelRes{id: m.Fuel.ID, alias: m.Alias, bio: m.Fuel.Biogenic}
+		r = fuelRes{id: m.Fuel.ID, alias: m.Alias, bio: m.Fuel.Biogenic, nonEnergy: m.Fuel.NonEnergy}
 	} else {
 		r.err = errNotAFuel // the message is built only for a cell that reports it (fuelMessage)
 	}
@@ -172,6 +172,10 @@ func (lx *lexicon) fuelName(s string) fuelRef {
 		return r
 	}
 	r := lx.readFuelName(s)
+	if r.kind == nameFuel && lx.fuel(r.id).nonEnergy {
+		// "Asphalt and road oil", "Lubricants": consumption of a material.
+		r = fuelRef{kind: nameNotFuel, nonEnergy: true, why: r.id + ", a product used as a material, not burned (IPCC 2006 Vol 3 Ch 5, non-energy products)"}
+	}
 	r.same = r.kind == nameFuel && sameName(s, r.id)
 	if len(lx.names) < maxCache {
 		lx.names[s] = r

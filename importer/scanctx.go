@@ -48,7 +48,9 @@ type fuelRes struct {
 	id    string
 	alias bool
 	bio   bool // biogenic: its CO2 is a memo item, never in the fossil totals
-	err   error
+	// nonEnergy: a product used as a material (lubricants, bitumen), not a fuel burned
+	nonEnergy bool
+	err       error
 }
 
 type unitRes struct {

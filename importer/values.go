@@ -110,6 +110,9 @@ func (sc *scanCtx) fuelValue(t *table, c *column, v *cellVal, r int) (any, bool)
 
 // notFuelHint says what to do about a row that names no fuel burned on site.
 func notFuelHint(fr fuelRef) string {
+	if fr.nonEnergy {
+		return " (if some of it was burned as fuel, compute that amount with a rule over fuel_co2 or fuel_co2e)"
+	}
 	if fr.kind == nameNotFuel {
 		return " (electricity, heat and steam bought are Scope 2 and need a grid or supplier factor; fluecell computes fuels burned on site)"
 	}
