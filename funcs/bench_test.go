@@ -90,3 +90,19 @@ func TestRowAllocations(t *testing.T) {
 		t.Errorf("%v allocations per row, want at most 4", allocs)
 	}
 }
+
+// The functions of purchased energy, transport and refrigerants on the same
+// per-row path (literal names, the amount a variable), for their ratio to
+// BenchmarkRowBaseline and BenchmarkRowFuelCO2e.
+func BenchmarkRowElectricityCO2e(b *testing.B) {
+	benchRun(b, `electricity_co2e(q, "MWh", "us_camx") + fuel_co2e(fuel, 0, unit) * 0`)
+}
+func BenchmarkRowMobileCO2e(b *testing.B) {
+	benchRun(b, `mobile_co2e("diesel", q, "L", "road") + fuel_co2e(fuel, 0, unit) * 0`)
+}
+func BenchmarkRowVehicleCO2e(b *testing.B) {
+	benchRun(b, `vehicle_co2e(q, "km", "car_petrol_medium") + fuel_co2e(fuel, 0, unit) * 0`)
+}
+func BenchmarkRowRefrigerantCO2e(b *testing.B) {
+	benchRun(b, `refrigerant_co2e("R-404A", q, "kg") + fuel_co2e(fuel, 0, unit) * 0`)
+}

@@ -237,95 +237,132 @@ func (e *Engine) describeEdition(g *gridEntry, ed *gridEdition, method string) s
 
 func callElectricity(withCO2e bool) func(e *Engine, c *callCtx, a argList) (float64, string, error) {
 	return func(e *Engine, c *callCtx, a argList) (float64, string, error) {
-		fn := a.fn.Name
 		amount, err := a.num(0)
 		if err != nil {
 			return 0, "", err
 		}
-		us, err := a.str(1)
-		if err != nil {
+		var key electricityKey
+		key.fn, key.co2e = a.fn.Name, withCO2e
+		if key.unit, err = a.str(1); err != nil {
 			return 0, "", err
 		}
-		u, err := energyAmount(fn, us)
-		if err != nil {
+		if key.grid, err = a.str(2); err != nil {
 			return 0, "", err
 		}
-		gs, err := a.str(2)
-		if err != nil {
+		if key.method, err = a.optStr(3, MethodLocation); err != nil {
 			return 0, "", err
 		}
-		id, ok := e.grids.resolve(gs)
-		if !ok {
-			return 0, "", withFunc(e.unknownGrid(gs), fn)
-		}
-		g := e.grids.grids[id]
-		ms, err := a.optStr(3, MethodLocation)
-		if err != nil {
+		if key.year, err = optYear(a, 4); err != nil {
 			return 0, "", err
 		}
-		method, err := parseMethod(ms)
-		if err != nil {
-			return 0, "", withFunc(err, fn)
-		}
-		year, err := optYear(a, 4)
-		if err != nil {
-			return 0, "", err
-		}
-		set := ""
 		if withCO2e {
-			gw, err := a.optStr(5, DefaultGWPSet)
-			if err != nil {
+			if key.gwp, err = a.optStr(5, DefaultGWPSet); err != nil {
 				return 0, "", err
 			}
-			if set, err = e.resolveGWPSet(gw); err != nil {
-				return 0, "", withFunc(err, fn)
-			}
 		}
-		if gridKey(gs) != strings.ReplaceAll(id, "_", " ") {
-			c.note("grid " + quote(gs) + " read as " + id)
-		}
-		stream := "grid"
-		what := "location-based factor"
-		if method == MethodMarket {
-			if g.has(func(ed *gridEdition) bool { return ed.has("market") }) {
-				stream, what = "market", "market-based factor (supplier or residual mix)"
-			} else if g.has(func(ed *gridEdition) bool { return ed.has("grid") }) {
-				c.note("no market-based factor (a supplier or residual-mix row, quantity market_co2e or market_co2) is loaded for " + id +
-					": the location-based grid average is used, the last step of the market-based hierarchy of the GHG Protocol Scope 2 Guidance (2015)")
-				method = MethodLocation
-			}
-		} else if !g.has(func(ed *gridEdition) bool { return ed.has("grid") }) && g.has(func(ed *gridEdition) bool { return ed.has("market") }) {
-			return 0, "", &Error{Code: CodeBadArgument, Func: fn, Param: "method", Msg: "grid " + id + " has market-based rows only (a supplier or residual mix): pass method \"market\""}
-		}
-		need := func(ed *gridEdition) bool { return ed.has(stream) }
-		if !withCO2e {
-			what = strings.Replace(what, "factor", "CO2 factor", 1)
-			need = func(ed *gridEdition) bool { return ed.rows[stream+"_co2"] != nil }
-		}
-		ed, notes, err := e.pickEdition(fn, g, year, need, what)
+		p, err := e.electricityPlan(key)
 		if err != nil {
-			if !withCO2e && year == 0 && g.has(func(ed *gridEdition) bool { return ed.has(stream) }) {
-				return 0, "", &Error{Code: CodeMissingFactor, Func: fn, Param: "grid", Msg: "grid " + id + " (" + g.name + ") has a CO2e rate only, no CO2 rate: use electricity_co2e"}
-			}
 			return 0, "", err
 		}
-		var r rate
-		if withCO2e {
-			if r, err = e.co2eRate(ed, stream, set); err != nil {
-				return 0, "", withFunc(err, fn)
-			}
-		} else {
-			r, _ = co2Rate(ed, stream)
-		}
-		c.use(r.factors...)
-		c.note(e.describeEdition(g, ed, method))
-		c.note(notes...)
-		c.note(r.notes...)
-		if withCO2e {
-			return r.tonnes(amount, u), "t CO2e", nil
-		}
-		return r.tonnes(amount, u), "t CO2", nil
+		c.use(p.factors...)
+		c.note(p.notes...)
+		return amount * p.num / p.den, p.unit, nil
 	}
+}
+
+// electricityKey identifies an electricity_co2(e) computation by its
+// arguments other than the amount, as given.
+type electricityKey struct {
+	fn, unit, grid, method, gwp string
+	year                        int
+	co2e                        bool
+}
+
+// electricityPlan is a cached electricity computation: result = amount x
+// num / den in unit (num/den exactly when both are integers below 2^53).
+type electricityPlan struct {
+	num, den float64
+	unit     string
+	factors  []*Factor
+	notes    []string
+}
+
+// electricityPlan resolves the grid, method, edition and rate of a call once
+// per distinct set of arguments; rows of a workbook then cost one lookup.
+func (e *Engine) electricityPlan(key electricityKey) (*electricityPlan, error) {
+	if p, ok := e.plans.Load(key); ok {
+		return p.(*electricityPlan), nil
+	}
+	fn, withCO2e := key.fn, key.co2e
+	u, err := energyAmount(fn, key.unit)
+	if err != nil {
+		return nil, err
+	}
+	id, ok := e.grids.resolve(key.grid)
+	if !ok {
+		return nil, withFunc(e.unknownGrid(key.grid), fn)
+	}
+	g := e.grids.grids[id]
+	method, err := parseMethod(key.method)
+	if err != nil {
+		return nil, withFunc(err, fn)
+	}
+	set := ""
+	if withCO2e {
+		if set, err = e.resolveGWPSet(key.gwp); err != nil {
+			return nil, withFunc(err, fn)
+		}
+	}
+	var pre []string
+	if gridKey(key.grid) != strings.ReplaceAll(id, "_", " ") {
+		pre = append(pre, "grid "+quote(key.grid)+" read as "+id)
+	}
+	stream := "grid"
+	what := "location-based factor"
+	if method == MethodMarket {
+		if g.has(func(ed *gridEdition) bool { return ed.has("market") }) {
+			stream, what = "market", "market-based factor (supplier or residual mix)"
+		} else if g.has(func(ed *gridEdition) bool { return ed.has("grid") }) {
+			pre = append(pre, "no market-based factor (a supplier or residual-mix row, quantity market_co2e or market_co2) is loaded for "+id+
+				": the location-based grid average is used, the last step of the market-based hierarchy of the GHG Protocol Scope 2 Guidance (2015)")
+			method = MethodLocation
+		}
+	} else if !g.has(func(ed *gridEdition) bool { return ed.has("grid") }) && g.has(func(ed *gridEdition) bool { return ed.has("market") }) {
+		return nil, &Error{Code: CodeBadArgument, Func: fn, Param: "method", Msg: "grid " + id + " has market-based rows only (a supplier or residual mix): pass method \"market\""}
+	}
+	need := func(ed *gridEdition) bool { return ed.has(stream) }
+	if !withCO2e {
+		what = strings.Replace(what, "factor", "CO2 factor", 1)
+		need = func(ed *gridEdition) bool { return ed.rows[stream+"_co2"] != nil }
+	}
+	ed, notes, err := e.pickEdition(fn, g, key.year, need, what)
+	if err != nil {
+		if !withCO2e && key.year == 0 && g.has(func(ed *gridEdition) bool { return ed.has(stream) }) {
+			return nil, &Error{Code: CodeMissingFactor, Func: fn, Param: "grid", Msg: "grid " + id + " (" + g.name + ") has a CO2e rate only, no CO2 rate: use electricity_co2e"}
+		}
+		return nil, err
+	}
+	var r rate
+	p := &electricityPlan{unit: "t CO2"}
+	if withCO2e {
+		if r, err = e.co2eRate(ed, stream, set); err != nil {
+			return nil, withFunc(err, fn)
+		}
+		p.unit = "t CO2e"
+	} else {
+		r, _ = co2Rate(ed, stream)
+	}
+	p.factors = r.factors
+	p.notes = append(append(append(pre, e.describeEdition(g, ed, method)), notes...), r.notes...)
+	k := new(big.Rat).Mul(u.SI(), r.k)
+	k.Quo(k, big.NewRat(1000, 1))
+	if num, den, ok := smallFraction(k); ok {
+		p.num, p.den = num, den // rounded once with the amount, as plan.apply
+	} else {
+		p.num, p.den = ratFloat(k), 1
+	}
+	e.cachePlan(key, p)
+	return p, nil
 }
 
 // has reports whether any edition satisfies ok.
