@@ -66,7 +66,7 @@ func Annotate(ctx context.Context, e *funcs.Engine, inPath, outPath string, opt 
 		if err := ctx.Err(); err != nil {
 			return nil, res.sc.cancelled()
 		}
-		if err := res.writeWorkbook(f); err != nil {
+		if err := res.writeWorkbook(f, readPath); err != nil {
 			return nil, err
 		}
 		err = writeAtomic(ctx, outPath, func(w io.Writer) error { return f.Write(w) })
