@@ -3,6 +3,11 @@ package importer
 import (
 	"archive/zip"
 	"fmt"
+	"strconv"
+	"strings"
+	"unicode/utf16"
+
+	"github.com/xuri/excelize/v2"
 )
 
 // CodeColumnsMoved is the finding of a table whose computed columns could
@@ -129,4 +134,35 @@ func (res *ScanResult) moveToSide(i int, t *table, why, sideName string) {
 		"; computed columns are never written over the workbook's cells, and this sheet is left untouched"
 	res.Report.Warnings = append(res.Report.Warnings, Warning{Sheet: t.spec.sheet, Cell: cellRef(t.spec.firstCol, t.spec.headerRow),
 		Severity: SevInfo, Code: CodeColumnsMoved, Message: msg})
+}
+
+// rewritable reports whether excelize can write into sheet: a name Excel
+// accepts (excelize refuses to touch any other) and a part it can load
+// (column widths, merged ranges and cells it can decode). why says what
+// is wrong when it cannot.
+func rewritable(f *excelize.File, sheet string) (why string, ok bool) {
+	if why := badSheetName(sheet); why != "" {
+		return "its sheet's name " + strconv.Quote(sheet) + " " + why, false
+	}
+	if _, err := f.GetCellValue(sheet, "A1"); err != nil {
+		return "its sheet's part cannot be rewritten (" + err.Error() + ")", false
+	}
+	return "", true
+}
+
+// badSheetName says why Excel would not accept name as a sheet name ("" when
+// it would): blank, longer than 31 characters, with one of : \ / ? * [ ],
+// or starting or ending with an apostrophe.
+func badSheetName(name string) string {
+	switch {
+	case strings.TrimSpace(name) == "":
+		return "is blank, which Excel does not accept"
+	case len(utf16.Encode([]rune(name))) > 31:
+		return "is longer than the 31 characters Excel accepts"
+	case strings.ContainsAny(name, ":\\/?*[]"):
+		return "holds one of : \\ / ? * [ ], which Excel does not accept in a sheet name"
+	case strings.HasPrefix(name, "'") || strings.HasSuffix(name, "'"):
+		return "starts or ends with an apostrophe, which Excel does not accept"
+	}
+	return ""
 }

@@ -10,12 +10,17 @@ import (
 // styles are the cell styles fluecell adds to a workbook.
 type styles struct {
 	num, int, head, title, note int
+	count                       int // the workbook's cell formats before fluecell's were added
 }
 
 func newStyles(f *excelize.File) (*styles, error) {
 	numFmt := "#,##0.000"
 	st := &styles{}
 	var err error
+	if st.num, err = f.NewStyle(&excelize.Style{CustomNumFmt: &numFmt}); err != nil {
+		return nil, err
+	}
+	st.count = st.num // NewStyle appends: the first new id is the number of existing formats
 	if st.num, err = f.NewStyle(&excelize.Style{CustomNumFmt: &numFmt}); err != nil {
 		return nil, err
 	}
@@ -63,7 +68,10 @@ func (res *ScanResult) writeWorkbook(f *excelize.File, readPath string) error {
 			}
 			var why string
 			var ok bool
-			if col, why, ok = placeInline(occ, t, k); !ok {
+			if col, why, ok = placeInline(occ, t, k); ok {
+				why, ok = rewritable(f, t.spec.sheet)
+			}
+			if !ok {
 				res.moveToSide(i, t, why, sideSheetName(side+1))
 			}
 		}
@@ -108,8 +116,8 @@ func (res *ScanResult) writeInline(f *excelize.File, t *table, st *styles, col i
 	t.outSheet, t.outCol = sheet, col
 	hr := t.spec.headerRow
 	head := st.head
-	if id, err := f.GetCellStyle(sheet, cellRef(t.spec.lastCol, hr)); err == nil && id != 0 {
-		head = id
+	if id, err := f.GetCellStyle(sheet, cellRef(t.spec.lastCol, hr)); err == nil && id > 0 && id < st.count {
+		head = id // the header's own style, when the workbook defines it
 	}
 	for j, r := range t.rules {
 		if err := f.SetCellStr(sheet, cellRef(col+j, hr), r.column); err != nil {

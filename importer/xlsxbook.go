@@ -16,7 +16,7 @@ type book struct {
 	folded map[string]*zip.File
 	sheets []sheetRef
 	sst    []string
-	limit  int64 // uncompressed bytes allowed per part
+	limit  int64 // uncompressed bytes allowed in all (each part: partLimit)
 }
 
 // sheetRef is one sheet of the workbook in tab order.
@@ -101,25 +101,28 @@ func (b *book) open(name string) (io.ReadCloser, error) {
 	if f == nil {
 		return nil, fmt.Errorf("part %s is missing from the zip", name)
 	}
-	if int64(f.UncompressedSize64) > b.limit || f.UncompressedSize64 > 1<<62 {
-		return nil, fmt.Errorf("part %s unpacks to %d bytes, over the limit of %d (zip-bomb protection)", name, f.UncompressedSize64, b.limit)
+	limit := partLimit(name, b.limit)
+	if int64(f.UncompressedSize64) > limit || f.UncompressedSize64 > 1<<62 {
+		return nil, partTooLarge(name, limit)
 	}
 	rc, err := f.Open()
 	if err != nil {
 		return nil, fmt.Errorf("part %s: %v (the zip is corrupt)", name, err)
 	}
-	return partReader{rc: rc, name: name}, nil
+	return partReader{rc: rc, lr: &limitedPart{r: rc, name: name, limit: limit}, name: name}, nil
 }
 
-// partReader names the part in read errors (corrupt deflate data, CRC).
+// partReader names the part in read errors (corrupt deflate data, CRC) and
+// counts what it inflates against the part's limit (see partLimit).
 type partReader struct {
 	rc   io.ReadCloser
+	lr   *limitedPart
 	name string
 }
 
 func (p partReader) Read(b []byte) (int, error) {
-	n, err := p.rc.Read(b)
-	if err != nil && err != io.EOF {
+	n, err := p.lr.Read(b)
+	if err != nil && err != io.EOF && !strings.Contains(err.Error(), "zip-bomb") {
 		err = fmt.Errorf("part %s: %v (the zip is corrupt or truncated)", p.name, err)
 	}
 	return n, err
