@@ -301,6 +301,7 @@ func (res *ScanResult) finish() error {
 	}
 	rep.BuildPlan = res.buildPlanTotal()
 	res.Report = rep
+	res.checkTotals() // a sum past the float64 range is marked, never +Inf
 	if err := res.checkMapping(); err != nil {
 		return err
 	}
