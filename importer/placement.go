@@ -37,8 +37,9 @@ type sheetOccupancy struct {
 
 // readOccupancy streams the sheet named sheet of the workbook at path with
 // the package reader and records, for each row in rows, its rightmost cell
-// with a value or a formula, and the merged ranges.
-func readOccupancy(path string, lim limits, sheet string, rows map[int]bool) (*sheetOccupancy, error) {
+// with a value or a formula, and the merged ranges. It honours sc's context.
+func readOccupancy(sc *scanCtx, path string, sheet string, rows map[int]bool) (*sheetOccupancy, error) {
+	lim := sc.lim
 	zr, err := zip.OpenReader(path)
 	if err != nil {
 		return nil, err
@@ -61,7 +62,12 @@ func readOccupancy(path string, lim limits, sheet string, rows map[int]bool) (*s
 		return nil, err
 	}
 	defer rd.close()
-	for {
+	for n := 1; ; n++ {
+		if n&4095 == 0 {
+			if err := sc.cancelled(); err != nil {
+				return nil, err
+			}
+		}
 		r, ok := rd.next()
 		if !ok {
 			break

@@ -62,9 +62,9 @@ func (res *ScanResult) writeWorkbook(f *excelize.File, readPath string) error {
 		k := len(t.rules) + 1
 		col := 0
 		if t.layout == LayoutInline {
-			occ, err := readOccupancy(readPath, res.sc.lim, t.spec.sheet, tableRows(t))
+			occ, err := readOccupancy(res.sc, readPath, t.spec.sheet, tableRows(t))
 			if err != nil {
-				return bookError(res.Path, err)
+				return bookError(res.Path, err) // an *Error (cancelled) passes as it is
 			}
 			var why string
 			var ok bool
