@@ -28,6 +28,18 @@ import (
 // from inPath and keep its extension (.xlsx, .xlsm or .csv; .xlsx for an
 // .xls input). Annotate is safe for concurrent use and honours ctx until
 // the output is renamed into place. Errors are *Error (see Scan).
+//
+// Computed columns are never written over a cell of the workbook: a table
+// whose rows reach the last columns of its sheet, whose sheet has more than
+// maxInlineMerges merged ranges, a name Excel does not accept or a part
+// excelize cannot load gets them in a side sheet, with a columns-moved
+// finding. Before excelize opens the workbook, every part but the
+// worksheets is inflated and counted against the limit of its kind
+// (partLimit), the parts excelize decodes first must be well-formed, and
+// the memory excelize would hold is estimated and bounded by
+// Options.MaxUnzippedBytes (checkPackage): over a limit is ErrTooLarge, a
+// malformed part ErrCorrupt naming it. A panic inside excelize is recovered
+// into ErrCorrupt, its stack kept out of the message.
 func Annotate(ctx context.Context, e *funcs.Engine, inPath, outPath string, opt Options) (rep *Report, err error) {
 	defer recoverInternal(&err, inPath)
 	defer func() {
