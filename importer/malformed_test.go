@@ -57,7 +57,7 @@ func malformations() []malformation {
 		{"sheet name NUL ref", func(t testing.TB, p bookParts) bookParts { return p.replace(t, partWB, `name="Log"`, `name="L&#0;g"`) }, "workbook part (xl/workbook.xml) is malformed"},
 		{"duplicate sheet names", func(t testing.TB, p bookParts) bookParts {
 			return p.replace(t, partWB, `</sheets>`, `<sheet name="Log" sheetId="2" r:id="rId1"></sheet></sheets>`)
-		}, ""},
+		}, "both refer to the part xl/worksheets/sheet1.xml"},
 		{"shared string invalid UTF-8", func(t testing.TB, p bookParts) bookParts {
 			return p.replace(t, partSST, `<t>diesel</t>`, "<t>die\xff\xfesel</t>")
 		}, "shared strings part (xl/sharedStrings.xml) is malformed"},
@@ -142,4 +142,20 @@ func TestMalformedWorkbooks(t *testing.T) {
 			f.Close()
 		})
 	}
+}
+
+// TestSheetsSharingAPart: a workbook part listing the same worksheet part
+// under thousands of sheet names would have it read once per name (a small
+// file, hours of work); two sheets never share a part in a valid
+// workbook, so it is refused, naming both sheets and the part.
+func TestSheetsSharingAPart(t *testing.T) {
+	p := logParts(t)
+	var b strings.Builder
+	for i := 2; i < 3000; i++ {
+		b.WriteString(`<sheet name="Copy ` + itoaT(i) + `" sheetId="` + itoaT(i) + `" r:id="rId1"></sheet>`)
+	}
+	path := p.replace(t, partWB, `</sheets>`, b.String()+`</sheets>`).write(t, t.TempDir(), "shared.xlsx")
+	_, err := Scan(context.Background(), testEngine(t), path, Options{})
+	checkRefusal(t, err, ErrCorrupt, `sheets "Log" and "Copy 2" both refer to the part xl/worksheets/sheet1.xml`)
+	annotateHostile(t, testEngine(t), path, Options{})
 }

@@ -175,6 +175,7 @@ func (b *book) readWorkbook(part string, byID map[string]relation) error {
 	}
 	defer rc.Close()
 	t := newXMLTok(rc)
+	byPart := map[string]string{} // part -> the first sheet naming it
 	for k := t.next(); k != tokEOF; k = t.next() {
 		if k != tokStart || !t.is("sheet") {
 			continue
@@ -188,6 +189,14 @@ func (b *book) readWorkbook(part string, byID map[string]relation) error {
 			if i := strings.LastIndexByte(r.typ, '/'); i >= 0 {
 				s.Kind = r.typ[i+1:]
 			}
+		}
+		if s.Part != "" {
+			// Two sheets never share a part; a workbook listing one part
+			// under many names would have it read once per name.
+			if first, dup := byPart[s.Part]; dup {
+				return fmt.Errorf("sheets %q and %q both refer to the part %s: the workbook part (%s) is malformed", first, s.Name, s.Part, part)
+			}
+			byPart[s.Part] = s.Name
 		}
 		b.sheets = append(b.sheets, s)
 	}
