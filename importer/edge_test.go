@@ -2,6 +2,7 @@ package importer
 
 import (
 	"context"
+	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -85,4 +86,25 @@ func toText(v any) string {
 		return itoaT(x)
 	}
 	return ""
+}
+
+// TestOccupancyReadOnce: the sheet is streamed for placement once, for
+// all its tables (a sheet of many small tables was streamed once per
+// table): the second look-up is served without the file.
+func TestOccupancyReadOnce(t *testing.T) {
+	dir := t.TempDir()
+	in := smallLog(t, filepath.Join(dir, "log.xlsx"))
+	res, err := Scan(context.Background(), testEngine(t), in, Options{})
+	must(t, err)
+	occs := map[string]*sheetOccupancy{}
+	first, err := res.occupancy(occs, in, "Log")
+	must(t, err)
+	if first.right[2] != 3 || first.right[1] != 3 {
+		t.Errorf("rightmost cells %v, want column C in rows 1 and 2", first.right)
+	}
+	must(t, os.Remove(in))
+	again, err := res.occupancy(occs, in, "Log")
+	if err != nil || again != first {
+		t.Fatalf("second look-up: %v (read again?)", err)
+	}
 }

@@ -96,8 +96,8 @@ func placeInline(occ *sheetOccupancy, t *table, k int) (col int, why string, ok 
 		return 0, fmt.Sprintf("its sheet has %d merged ranges, more than the %d rewritten in place", n, maxInlineMerges), false
 	}
 	used := max(t.maxUsed, t.spec.lastCol)
-	for _, c := range occ.right {
-		used = max(used, c)
+	for r := range tableRows(t) {
+		used = max(used, occ.right[r])
 	}
 	col = t.spec.lastCol + 1
 	if used > t.spec.lastCol {
@@ -117,6 +117,35 @@ func placeInline(occ *sheetOccupancy, t *table, k int) (col int, why string, ok 
 		return 0, fmt.Sprintf("its rows reach column %s, leaving no room for %d columns before the sheet's last column %s", colName(min(col, lastColumn+1)-1), k, colName(lastColumn)), false
 	}
 	return col, "", true
+}
+
+// take records columns up to last as occupied in the rows of t.
+func (occ *sheetOccupancy) take(t *table, last int) {
+	for r := range tableRows(t) {
+		occ.right[r] = max(occ.right[r], last)
+	}
+}
+
+// occupancy is the occupancy of sheet, read on first use with the rows of
+// every table on it whose columns may go beside it, and kept in occs.
+func (res *ScanResult) occupancy(occs map[string]*sheetOccupancy, readPath, sheet string) (*sheetOccupancy, error) {
+	if occ, ok := occs[sheet]; ok {
+		return occ, nil
+	}
+	rows := map[int]bool{}
+	for _, t := range res.sc.tables {
+		if t.spec.sheet == sheet && t.layout == LayoutInline {
+			for r := range tableRows(t) {
+				rows[r] = true
+			}
+		}
+	}
+	occ, err := readOccupancy(res.sc, readPath, sheet, rows)
+	if err != nil {
+		return nil, err
+	}
+	occs[sheet] = occ
+	return occ, nil
 }
 
 // tableRows is the set of rows the computed columns of t are written in:

@@ -50,6 +50,7 @@ func (res *ScanResult) writeWorkbook(f *excelize.File, readPath string) error {
 		return excelErr(res.Path, "styles", err)
 	}
 	side := 0
+	occs := map[string]*sheetOccupancy{} // per sheet, read once for all its tables
 	for i, t := range res.sc.tables {
 		if len(t.rules) == 0 || len(t.rowNums) == 0 {
 			continue
@@ -62,7 +63,7 @@ func (res *ScanResult) writeWorkbook(f *excelize.File, readPath string) error {
 		k := len(t.rules) + 1
 		col := 0
 		if t.layout == LayoutInline {
-			occ, err := readOccupancy(res.sc, readPath, t.spec.sheet, tableRows(t))
+			occ, err := res.occupancy(occs, readPath, t.spec.sheet)
 			if err != nil {
 				return bookError(res.Path, err) // an *Error (cancelled) passes as it is
 			}
@@ -70,6 +71,9 @@ func (res *ScanResult) writeWorkbook(f *excelize.File, readPath string) error {
 			var ok bool
 			if col, why, ok = placeInline(occ, t, k); ok {
 				why, ok = rewritable(f, t.spec.sheet)
+			}
+			if ok {
+				occ.take(t, col+k-1) // a table beside this one, in the same rows, goes further right
 			}
 			if !ok {
 				res.moveToSide(i, t, why, sideSheetName(side+1))
