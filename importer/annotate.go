@@ -96,7 +96,12 @@ func Annotate(ctx context.Context, e *funcs.Engine, inPath, outPath string, opt 
 		if err := res.writeWorkbook(f, readPath); err != nil {
 			return nil, namePart(err, readPath, inPath, lim)
 		}
-		err = writeAtomic(ctx, outPath, func(w io.Writer) error {
+		err = writeAtomic(ctx, outPath, func(w io.Writer) (err error) {
+			defer func() {
+				if r := recover(); r != nil { // the temporary file is removed: an error, not a panic, leaves writeAtomic
+					err = panicError(inPath, r)
+				}
+			}()
 			if err := f.Write(w); err != nil {
 				var pe *fs.PathError
 				if errors.As(err, &pe) {
