@@ -2,8 +2,10 @@ package importer
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"strings"
@@ -26,8 +28,25 @@ import (
 // from inPath and keep its extension (.xlsx, .xlsm or .csv; .xlsx for an
 // .xls input). Annotate is safe for concurrent use and honours ctx until
 // the output is renamed into place. Errors are *Error (see Scan).
+//
+// Computed columns are never written over a cell of the workbook: a table
+// whose rows reach the last columns of its sheet, whose sheet has more than
+// maxInlineMerges merged ranges, a name Excel does not accept or a part
+// excelize cannot load gets them in a side sheet, with a columns-moved
+// finding. Before excelize opens the workbook, every part but the
+// worksheets is inflated and counted against the limit of its kind
+// (partLimit), the parts excelize decodes first must be well-formed, and
+// the memory excelize would hold is estimated and bounded by
+// Options.MaxUnzippedBytes (checkPackage): over a limit is ErrTooLarge, a
+// malformed part ErrCorrupt naming it. A panic inside excelize is recovered
+// into ErrCorrupt, its stack kept out of the message.
 func Annotate(ctx context.Context, e *funcs.Engine, inPath, outPath string, opt Options) (rep *Report, err error) {
 	defer recoverInternal(&err, inPath)
+	defer func() {
+		if r := recover(); r != nil {
+			rep, err = nil, panicError(inPath, r)
+		}
+	}()
 	if err := checkOutPath(inPath, outPath); err != nil {
 		return nil, err
 	}
@@ -56,20 +75,42 @@ func Annotate(ctx context.Context, e *funcs.Engine, inPath, outPath string, opt 
 				return nil, newErr(ErrInput, inPath, "the workbook already has a sheet %q: it is an annotated output; annotate the original workbook instead", s)
 			}
 		}
-		f := fe.takeExcelize()
-		if f == nil {
-			if f, err = openExcelize(readPath, lim); err != nil {
-				return nil, &Error{Code: ErrCorrupt, Path: inPath, Msg: "cannot open the workbook for writing: " + err.Error(), Err: err}
+		loaded := sheetParts(readPath, lim, res.inlineSheets())
+		f := fe.takeExcelize() // opened to evaluate formulas: check it for writing too
+		if f != nil {
+			err = checkFile(readPath, lim, loaded, true)
+		} else {
+			f, err = openChecked(readPath, lim, loaded, true)
+		}
+		if err != nil {
+			if f != nil {
+				f.Close()
 			}
+			err.(*Error).Path = inPath
+			return nil, err
 		}
 		defer f.Close()
 		if err := ctx.Err(); err != nil {
 			return nil, res.sc.cancelled()
 		}
-		if err := res.writeWorkbook(f); err != nil {
-			return nil, err
+		if err := res.writeWorkbook(f, readPath); err != nil {
+			return nil, namePart(err, readPath, inPath, lim)
 		}
-		err = writeAtomic(ctx, outPath, func(w io.Writer) error { return f.Write(w) })
+		err = writeAtomic(ctx, outPath, func(w io.Writer) (err error) {
+			defer func() {
+				if r := recover(); r != nil { // the temporary file is removed: an error, not a panic, leaves writeAtomic
+					err = panicError(inPath, r)
+				}
+			}()
+			if err := f.Write(w); err != nil {
+				var pe *fs.PathError
+				if errors.As(err, &pe) {
+					return err
+				}
+				return namePart(excelErr(inPath, "the annotated workbook", err), readPath, inPath, lim)
+			}
+			return nil
+		})
 	}
 	if err != nil {
 		return nil, err
@@ -155,7 +196,37 @@ func writeAtomic(ctx context.Context, out string, write func(io.Writer) error) (
 	return nil
 }
 
-// excelErr wraps an excelize error while writing.
+// excelErr wraps an excelize error while adding to the workbook in memory:
+// excelize refuses something the workbook holds (a sheet name, a style, a
+// part it cannot decode), so it is the input's fault, not a failure to
+// write a file.
 func excelErr(path, what string, err error) error {
-	return &Error{Code: ErrIO, Path: path, Msg: fmt.Sprintf("cannot write %s: %v", what, err), Err: err}
+	return &Error{Code: ErrCorrupt, Path: path, Msg: fmt.Sprintf("cannot annotate the workbook: writing %s failed: %v; open the workbook in Excel or LibreOffice and save it again", what, err), Err: err}
+}
+
+// namePart names the malformed part behind a failure to write into the
+// workbook read from readPath, when there is one.
+func namePart(err error, readPath, inPath string, lim limits) error {
+	ie, ok := err.(*Error)
+	if !ok || ie.Code != ErrCorrupt || ie.Err == nil {
+		return err
+	}
+	if name, perr := firstMalformed(readPath, lim); name != "" {
+		e := malformedPart(name, perr)
+		e.Path, e.Err = inPath, ie.Err
+		return e
+	}
+	return err
+}
+
+// inlineSheets are the sheets with a table whose computed columns go beside
+// it: excelize loads them to write into them.
+func (res *ScanResult) inlineSheets() []string {
+	var out []string
+	for _, t := range res.sc.tables {
+		if t.layout == LayoutInline && len(t.rules) > 0 && len(t.rowNums) > 0 {
+			out = append(out, t.spec.sheet)
+		}
+	}
+	return out
 }

@@ -26,12 +26,9 @@ type csvInput struct {
 }
 
 func readCSV(path string, f *os.File, size int64, lim limits) (*csvInput, error) {
-	if size > lim.maxUnzipped {
-		return nil, newErr(ErrTooLarge, path, "the CSV file is %s, over the limit of %s", byteSize(size), byteSize(lim.maxUnzipped))
-	}
-	data, err := io.ReadAll(io.LimitReader(f, lim.maxUnzipped+1))
+	data, err := readCSVBytes(path, f, size, lim)
 	if err != nil {
-		return nil, &Error{Code: ErrIO, Path: path, Msg: "cannot read the file: " + err.Error(), Err: err}
+		return nil, err
 	}
 	in := &csvInput{}
 	switch {

@@ -132,14 +132,3 @@ func calcCell(f *excelize.File, sheet, ref string) (out string, ok bool) {
 	}
 	return v, true
 }
-
-// openExcelize opens a workbook with the zip-bomb limits; a panic inside
-// excelize is an error.
-func openExcelize(path string, lim limits) (f *excelize.File, err error) {
-	defer func() {
-		if r := recover(); r != nil {
-			f, err = nil, errors.New("excelize failed on the file")
-		}
-	}()
-	return excelize.OpenFile(path, excelize.Options{UnzipSizeLimit: lim.maxUnzipped})
-}

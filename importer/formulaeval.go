@@ -113,7 +113,7 @@ func (fe *formulaEval) excelize(sheet, ref string) (string, bool) {
 		return "", false
 	}
 	if fe.ex == nil {
-		f, err := openExcelize(fe.path, fe.lim)
+		f, err := openChecked(fe.path, fe.lim, nil, false)
 		if err != nil {
 			fe.exFailed = true
 			return "", false

@@ -44,6 +44,9 @@ func newLexicon(e *funcs.Engine) (*lexicon, error) {
 
 // fuel resolves a fuel name through the engine, cached.
 func (lx *lexicon) fuel(s string) fuelRes {
+	if longName(s) {
+		return fuelRes{err: errNotAFuel} // not looked up, not cached (names.go)
+	}
 	if r, ok := lx.fuels[s]; ok {
 		return r
 	}
@@ -64,6 +67,9 @@ func (lx *lexicon) fuel(s string) fuelRes {
 func (lx *lexicon) fuelMessage(s string) string {
 	if strings.TrimSpace(s) == "" {
 		return "no fuel given: write the fuel, e.g. natural_gas or diesel"
+	}
+	if longName(s) {
+		return longNameMessage(s)
 	}
 	_, _, err := lx.e.ResolveFuel(s)
 	fe, ok := funcs.AsError(err)
@@ -113,6 +119,9 @@ func (lx *lexicon) notAmount(s string) string { return lx.unit(s).notAmount }
 
 // tech resolves a technology name through lifecycle_intensity, cached.
 func (lx *lexicon) tech(s string) techRes {
+	if longName(s) {
+		return techRes{err: longTechError(s)} // not looked up, not cached (names.go)
+	}
 	if r, ok := lx.techs[s]; ok {
 		return r
 	}

@@ -180,6 +180,9 @@ func openZip(path string, f *os.File, size int64, lim limits) (*zip.Reader, erro
 			return nil, newErr(ErrTooLarge, path, "the workbook unpacks to more than %s, the limit (zip-bomb protection); raise it (Options.MaxUnzippedBytes) only for files you trust",
 				byteSize(lim.maxUnzipped))
 		}
+		if l := partLimit(zf.Name, lim.maxUnzipped); int64(zf.UncompressedSize64) > l {
+			return nil, &Error{Code: ErrTooLarge, Path: path, Msg: partTooLarge(zf.Name, l).Error()}
+		}
 		if zf.CompressedSize64 > 0 && zf.UncompressedSize64/zf.CompressedSize64 > uint64(lim.maxRatio) && zf.UncompressedSize64 > 16<<20 {
 			return nil, newErr(ErrTooLarge, path, "part %s would unpack %d times its packed size (%s), far beyond any real workbook (zip-bomb protection)",
 				zf.Name, zf.UncompressedSize64/zf.CompressedSize64, byteSize(int64(zf.UncompressedSize64)))

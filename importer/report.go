@@ -39,6 +39,10 @@ type Report struct {
 type Totals struct {
 	TCO2  float64 `json:"tCO2"`
 	TCO2e float64 `json:"tCO2e"`
+	// NotComputable says why the sum is not a number (it exceeds the
+	// float64 range); TCO2 and TCO2e are then 0 and encode as null
+	// (totals.go).
+	NotComputable string `json:"not_computable,omitempty"`
 }
 
 // BuildPlanTotal is the embodied total of the build-plan tables, with the range

@@ -3,11 +3,9 @@ package importer
 import (
 	"archive/zip"
 	"context"
-	"fmt"
 	"math"
 	"os"
 	"path/filepath"
-	"runtime/debug"
 	"strconv"
 	"strings"
 
@@ -52,7 +50,7 @@ func Scan(ctx context.Context, e *funcs.Engine, path string, opt Options) (res *
 // file) into an *Error, so that no input can crash a server or a batch.
 func recoverInternal(err *error, path string) {
 	if r := recover(); r != nil {
-		*err = &Error{Code: ErrInternal, Path: path, Msg: fmt.Sprintf("internal error while reading the file (please report it with the file): %v\n%s", r, debug.Stack())}
+		*err = panicError(path, r) // an input error naming the malformed part; the stack only in Err
 	}
 }
 
@@ -306,6 +304,7 @@ func (res *ScanResult) finish() error {
 	}
 	rep.BuildPlan = res.buildPlanTotal()
 	res.Report = rep
+	res.checkTotals() // a sum past the float64 range is marked, never +Inf
 	if err := res.checkMapping(); err != nil {
 		return err
 	}

@@ -76,8 +76,8 @@ func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
 	}
 	header("")
 	set(cellRef(1, row), "Total", 0)
-	set(cellRef(2, row), rep.Totals.TCO2, st.num)
-	set(cellRef(3, row), rep.Totals.TCO2e, st.num)
+	set(cellRef(2, row), summaryValue(rep.Totals.TCO2, &rep.Totals), st.num)
+	set(cellRef(3, row), summaryValue(rep.Totals.TCO2e, &rep.Totals), st.num)
 	set(cellRef(4, row), rep.Computed, st.int)
 	row++
 	if len(rep.Tables) > 1 {
@@ -85,8 +85,8 @@ func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
 		// embodied emissions are different things, whatever the grand total.
 		for _, tb := range rep.Tables {
 			set(cellRef(1, row), tb.Kind+" "+tb.Sheet+"!"+tb.Range, 0)
-			set(cellRef(2, row), tb.Totals.TCO2, st.num)
-			set(cellRef(3, row), tb.Totals.TCO2e, st.num)
+			set(cellRef(2, row), summaryValue(tb.Totals.TCO2, &tb.Totals), st.num)
+			set(cellRef(3, row), summaryValue(tb.Totals.TCO2e, &tb.Totals), st.num)
 			set(cellRef(4, row), tb.Computed, st.int)
 			row++
 		}
@@ -121,8 +121,8 @@ func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
 	fuelFirst := row
 	for _, s := range sortedSums(fuels) {
 		set(cellRef(1, row), s.key, 0)
-		set(cellRef(2, row), s.TCO2, st.num)
-		set(cellRef(3, row), s.TCO2e, st.num)
+		set(cellRef(2, row), summaryValue(s.TCO2, nil), st.num)
+		set(cellRef(3, row), summaryValue(s.TCO2e, nil), st.num)
 		set(cellRef(4, row), s.rows, st.int)
 		row++
 	}
@@ -140,8 +140,8 @@ func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
 		g := groupBlock{first: row}
 		for _, s := range sortedSums(t.byGroup) {
 			set(cellRef(1, row), s.key, 0)
-			set(cellRef(2, row), s.TCO2, st.num)
-			set(cellRef(3, row), s.TCO2e, st.num)
+			set(cellRef(2, row), summaryValue(s.TCO2, nil), st.num)
+			set(cellRef(3, row), summaryValue(s.TCO2e, nil), st.num)
 			set(cellRef(4, row), s.rows, st.int)
 			row++
 		}

@@ -10,12 +10,17 @@ import (
 // styles are the cell styles fluecell adds to a workbook.
 type styles struct {
 	num, int, head, title, note int
+	count                       int // the workbook's cell formats before fluecell's were added
 }
 
 func newStyles(f *excelize.File) (*styles, error) {
 	numFmt := "#,##0.000"
 	st := &styles{}
 	var err error
+	if st.num, err = f.NewStyle(&excelize.Style{CustomNumFmt: &numFmt}); err != nil {
+		return nil, err
+	}
+	st.count = st.num // NewStyle appends: the first new id is the number of existing formats
 	if st.num, err = f.NewStyle(&excelize.Style{CustomNumFmt: &numFmt}); err != nil {
 		return nil, err
 	}
@@ -37,13 +42,15 @@ func newStyles(f *excelize.File) (*styles, error) {
 }
 
 // writeWorkbook adds the computed columns and fluecell's sheets to f, which
-// holds the original workbook.
-func (res *ScanResult) writeWorkbook(f *excelize.File) error {
+// holds the original workbook read from readPath (the input, or the
+// converted copy of a legacy .xls).
+func (res *ScanResult) writeWorkbook(f *excelize.File, readPath string) error {
 	st, err := newStyles(f)
 	if err != nil {
 		return excelErr(res.Path, "styles", err)
 	}
 	side := 0
+	occs := map[string]*sheetOccupancy{} // per sheet, read once for all its tables
 	for i, t := range res.sc.tables {
 		if len(t.rules) == 0 || len(t.rowNums) == 0 {
 			continue
@@ -53,20 +60,34 @@ func (res *ScanResult) writeWorkbook(f *excelize.File) error {
 				return err
 			}
 		}
+		k := len(t.rules) + 1
+		col := 0
 		if t.layout == LayoutInline {
-			err = res.writeInline(f, t, st)
+			occ, err := res.occupancy(occs, readPath, t.spec.sheet)
+			if err != nil {
+				return bookError(res.Path, err) // an *Error (cancelled) passes as it is
+			}
+			var why string
+			var ok bool
+			if col, why, ok = placeInline(occ, t, k); ok {
+				why, ok = rewritable(f, t.spec.sheet)
+			}
+			if ok {
+				occ.take(t, col+k-1) // a table beside this one, in the same rows, goes further right
+			}
+			if !ok {
+				res.moveToSide(i, t, why, sideSheetName(side+1))
+			}
+		}
+		if t.layout == LayoutInline {
+			err = res.writeInline(f, t, st, col)
 		} else {
 			side++
-			name := SheetColumns
-			if side > 1 {
-				name += " " + strconv.Itoa(side)
-			}
-			err = res.writeSide(f, t, name, st)
+			err = res.writeSide(f, t, sideSheetName(side), st)
 		}
 		if err != nil {
 			return err
 		}
-		k := len(t.rules) + 1
 		first := t.outCol
 		last := first + k - 1
 		if t.layout == LayoutSideSheet {
@@ -83,38 +104,24 @@ func (res *ScanResult) writeWorkbook(f *excelize.File) error {
 	return res.writeSources(f, st)
 }
 
-// placeInline chooses the first column of the computed columns: right of
-// the table, or right of whatever else its rows hold, clear of merged cells.
-func placeInline(f *excelize.File, t *table, k int) int {
-	col := t.spec.lastCol + 1
-	if t.maxUsed > t.spec.lastCol {
-		col = t.maxUsed + 2
+// sideSheetName is the name of the n-th side sheet (1-based).
+func sideSheetName(n int) string {
+	if n > 1 {
+		return SheetColumns + " " + strconv.Itoa(n)
 	}
-	merges, _ := f.GetMergeCells(t.spec.sheet)
-	top, bottom := t.spec.headerRow, max(t.lastRow, t.spec.headerRow)
-	for moved := true; moved; {
-		moved = false
-		for _, m := range merges {
-			r, ok := parseRange(m.GetStartAxis() + ":" + m.GetEndAxis())
-			if !ok || r.r2 < top || r.r1 > bottom || r.c2 < col || r.c1 > col+k-1 {
-				continue
-			}
-			col, moved = r.c2+2, true
-		}
-	}
-	return min(col, 16384-k+1)
+	return SheetColumns
 }
 
-// writeInline writes the computed columns beside the table, in its sheet.
-func (res *ScanResult) writeInline(f *excelize.File, t *table, st *styles) error {
+// writeInline writes the computed columns beside the table, in its sheet,
+// from column col on (see placeInline).
+func (res *ScanResult) writeInline(f *excelize.File, t *table, st *styles, col int) error {
 	sheet := t.spec.sheet
 	k := len(t.rules) + 1
-	col := placeInline(f, t, k)
 	t.outSheet, t.outCol = sheet, col
 	hr := t.spec.headerRow
 	head := st.head
-	if id, err := f.GetCellStyle(sheet, cellRef(t.spec.lastCol, hr)); err == nil && id != 0 {
-		head = id
+	if id, err := f.GetCellStyle(sheet, cellRef(t.spec.lastCol, hr)); err == nil && id > 0 && id < st.count {
+		head = id // the header's own style, when the workbook defines it
 	}
 	for j, r := range t.rules {
 		if err := f.SetCellStr(sheet, cellRef(col+j, hr), r.column); err != nil {

@@ -16,7 +16,7 @@ type book struct {
 	folded map[string]*zip.File
 	sheets []sheetRef
 	sst    []string
-	limit  int64 // uncompressed bytes allowed per part
+	limit  int64 // uncompressed bytes allowed in all (each part: partLimit)
 }
 
 // sheetRef is one sheet of the workbook in tab order.
@@ -101,25 +101,28 @@ func (b *book) open(name string) (io.ReadCloser, error) {
 	if f == nil {
 		return nil, fmt.Errorf("part %s is missing from the zip", name)
 	}
-	if int64(f.UncompressedSize64) > b.limit || f.UncompressedSize64 > 1<<62 {
-		return nil, fmt.Errorf("part %s unpacks to %d bytes, over the limit of %d (zip-bomb protection)", name, f.UncompressedSize64, b.limit)
+	limit := partLimit(name, b.limit)
+	if int64(f.UncompressedSize64) > limit || f.UncompressedSize64 > 1<<62 {
+		return nil, partTooLarge(name, limit)
 	}
 	rc, err := f.Open()
 	if err != nil {
 		return nil, fmt.Errorf("part %s: %v (the zip is corrupt)", name, err)
 	}
-	return partReader{rc: rc, name: name}, nil
+	return partReader{rc: rc, lr: &limitedPart{r: rc, name: name, limit: limit}, name: name}, nil
 }
 
-// partReader names the part in read errors (corrupt deflate data, CRC).
+// partReader names the part in read errors (corrupt deflate data, CRC) and
+// counts what it inflates against the part's limit (see partLimit).
 type partReader struct {
 	rc   io.ReadCloser
+	lr   *limitedPart
 	name string
 }
 
 func (p partReader) Read(b []byte) (int, error) {
-	n, err := p.rc.Read(b)
-	if err != nil && err != io.EOF {
+	n, err := p.lr.Read(b)
+	if err != nil && err != io.EOF && !strings.Contains(err.Error(), "zip-bomb") {
 		err = fmt.Errorf("part %s: %v (the zip is corrupt or truncated)", p.name, err)
 	}
 	return n, err
@@ -172,6 +175,7 @@ func (b *book) readWorkbook(part string, byID map[string]relation) error {
 	}
 	defer rc.Close()
 	t := newXMLTok(rc)
+	byPart := map[string]string{} // part -> the first sheet naming it
 	for k := t.next(); k != tokEOF; k = t.next() {
 		if k != tokStart || !t.is("sheet") {
 			continue
@@ -185,6 +189,14 @@ func (b *book) readWorkbook(part string, byID map[string]relation) error {
 			if i := strings.LastIndexByte(r.typ, '/'); i >= 0 {
 				s.Kind = r.typ[i+1:]
 			}
+		}
+		if s.Part != "" {
+			// Two sheets never share a part; a workbook listing one part
+			// under many names would have it read once per name.
+			if first, dup := byPart[s.Part]; dup {
+				return fmt.Errorf("sheets %q and %q both refer to the part %s: the workbook part (%s) is malformed", first, s.Name, s.Part, part)
+			}
+			byPart[s.Part] = s.Name
 		}
 		b.sheets = append(b.sheets, s)
 	}

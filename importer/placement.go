@@ -1,0 +1,203 @@
+package importer
+
+import (
+	"archive/zip"
+	"fmt"
+	"strconv"
+	"strings"
+	"unicode/utf16"
+
+	"github.com/xuri/excelize/v2"
+)
+
+// CodeColumnsMoved is the finding of a table whose computed columns could
+// not be written beside it: its rows reach the last columns of the sheet,
+// so the columns would cover occupied cells, or its sheet has too many
+// merged ranges to rewrite in reasonable time. They are in a side sheet
+// instead, and the table's sheet is left untouched.
+const CodeColumnsMoved = "columns-moved"
+
+// maxInlineMerges is the largest number of merged ranges of a sheet that
+// gets computed columns written into it. excelize looks through every
+// merged range on each cell it writes (measured: 40 000 ranges and a few
+// thousand rows take tens of seconds), so a sheet with more gets its
+// columns in a side sheet.
+const maxInlineMerges = 2000
+
+// lastColumn is the last column of a worksheet (XFD).
+const lastColumn = 16384
+
+// sheetOccupancy is what a sheet holds where computed columns might go: the
+// rightmost occupied column (a value or a formula) of each row asked for,
+// and the sheet's merged ranges.
+type sheetOccupancy struct {
+	right  map[int]int
+	merges []rangeRef
+}
+
+// readOccupancy streams the sheet named sheet of the workbook at path with
+// the package reader and records, for each row in rows, its rightmost cell
+// with a value or a formula, and the merged ranges. It honours sc's context.
+func readOccupancy(sc *scanCtx, path string, sheet string, rows map[int]bool) (*sheetOccupancy, error) {
+	lim := sc.lim
+	zr, err := zip.OpenReader(path)
+	if err != nil {
+		return nil, err
+	}
+	defer zr.Close()
+	b, err := openBook(&zr.Reader, lim.maxUnzipped)
+	if err != nil {
+		return nil, err
+	}
+	s, ok := b.sheet(sheet)
+	if !ok {
+		return nil, fmt.Errorf("no sheet %q", sheet)
+	}
+	occ := &sheetOccupancy{right: map[int]int{}}
+	if occ.merges, err = b.readMerges(s); err != nil {
+		return nil, err
+	}
+	rd, err := b.openSheet(s)
+	if err != nil {
+		return nil, err
+	}
+	defer rd.close()
+	for n := 1; ; n++ {
+		if n&4095 == 0 {
+			if err := sc.cancelled(); err != nil {
+				return nil, err
+			}
+		}
+		r, ok := rd.next()
+		if !ok {
+			break
+		}
+		if !rows[r.num] {
+			continue
+		}
+		for i := len(r.cells) - 1; i >= 0; i-- {
+			if c := &r.cells[i]; c.kind != kEmpty || c.formula {
+				occ.right[r.num] = max(occ.right[r.num], c.col)
+				break
+			}
+		}
+	}
+	return occ, rd.err
+}
+
+// placeInline chooses the first of the k computed columns of t in its own
+// sheet: right of the table, or right of whatever else the header row and
+// the computed rows hold, clear of merged cells. ok is false, with the
+// reason, when no such place exists: the columns would run past the last
+// column of the sheet (they are never written over an occupied cell), or
+// the sheet has more than maxInlineMerges merged ranges.
+func placeInline(occ *sheetOccupancy, t *table, k int) (col int, why string, ok bool) {
+	if n := len(occ.merges); n > maxInlineMerges {
+		return 0, fmt.Sprintf("its sheet has %d merged ranges, more than the %d rewritten in place", n, maxInlineMerges), false
+	}
+	used := max(t.maxUsed, t.spec.lastCol)
+	for r := range tableRows(t) {
+		used = max(used, occ.right[r])
+	}
+	col = t.spec.lastCol + 1
+	if used > t.spec.lastCol {
+		col = used + 2
+	}
+	top, bottom := t.spec.headerRow, max(t.lastRow, t.spec.headerRow)
+	for moved := true; moved && col+k-1 <= lastColumn; {
+		moved = false
+		for _, m := range occ.merges {
+			if m.r2 < top || m.r1 > bottom || m.c2 < col || m.c1 > col+k-1 {
+				continue
+			}
+			col, moved = m.c2+2, true
+		}
+	}
+	if col+k-1 > lastColumn {
+		return 0, fmt.Sprintf("its rows reach column %s, leaving no room for %d columns before the sheet's last column %s", colName(min(col, lastColumn+1)-1), k, colName(lastColumn)), false
+	}
+	return col, "", true
+}
+
+// take records columns up to last as occupied in the rows of t.
+func (occ *sheetOccupancy) take(t *table, last int) {
+	for r := range tableRows(t) {
+		occ.right[r] = max(occ.right[r], last)
+	}
+}
+
+// occupancy is the occupancy of sheet, read on first use with the rows of
+// every table on it whose columns may go beside it, and kept in occs.
+func (res *ScanResult) occupancy(occs map[string]*sheetOccupancy, readPath, sheet string) (*sheetOccupancy, error) {
+	if occ, ok := occs[sheet]; ok {
+		return occ, nil
+	}
+	rows := map[int]bool{}
+	for _, t := range res.sc.tables {
+		if t.spec.sheet == sheet && t.layout == LayoutInline {
+			for r := range tableRows(t) {
+				rows[r] = true
+			}
+		}
+	}
+	occ, err := readOccupancy(res.sc, readPath, sheet, rows)
+	if err != nil {
+		return nil, err
+	}
+	occs[sheet] = occ
+	return occ, nil
+}
+
+// tableRows is the set of rows the computed columns of t are written in:
+// its header row and its computed rows.
+func tableRows(t *table) map[int]bool {
+	rows := map[int]bool{t.spec.headerRow: true}
+	for _, rn := range t.rowNums {
+		rows[int(rn)] = true
+	}
+	return rows
+}
+
+// moveToSide records that table i's computed columns go to a side sheet
+// because they cannot go beside it (why), with a finding at its header.
+func (res *ScanResult) moveToSide(i int, t *table, why, sideName string) {
+	t.layout = LayoutSideSheet
+	info := &res.Report.Tables[i]
+	info.Layout = LayoutSideSheet
+	res.Report.Layout = LayoutSideSheet
+	msg := "the computed columns of the table " + info.Range + " are in the sheet \"" + sideName + "\", row for row, not beside it: " + why +
+		"; computed columns are never written over the workbook's cells, and this sheet is left untouched"
+	res.Report.Warnings = append(res.Report.Warnings, Warning{Sheet: t.spec.sheet, Cell: cellRef(t.spec.firstCol, t.spec.headerRow),
+		Severity: SevInfo, Code: CodeColumnsMoved, Message: msg})
+}
+
+// rewritable reports whether excelize can write into sheet: a name Excel
+// accepts (excelize refuses to touch any other) and a part it can load
+// (column widths, merged ranges and cells it can decode). why says what
+// is wrong when it cannot.
+func rewritable(f *excelize.File, sheet string) (why string, ok bool) {
+	if why := badSheetName(sheet); why != "" {
+		return "its sheet's name " + strconv.Quote(sheet) + " " + why, false
+	}
+	if _, err := f.GetCellValue(sheet, "A1"); err != nil {
+		return "its sheet's part cannot be rewritten (" + err.Error() + ")", false
+	}
+	return "", true
+}
+
+// badSheetName says why Excel would not accept name as a sheet name ("" when
+// it would): blank, longer than 31 characters, with one of : \ / ? * [ ],
+// or starting or ending with an apostrophe.
+func badSheetName(name string) string {
+	switch {
+	case strings.TrimSpace(name) == "":
+		return "is blank, which Excel does not accept"
+	case len(utf16.Encode([]rune(name))) > 31:
+		return "is longer than the 31 characters Excel accepts"
+	case strings.ContainsAny(name, ":\\/?*[]"):
+		return "holds one of : \\ / ? * [ ], which Excel does not accept in a sheet name"
+	case strings.HasPrefix(name, "'") || strings.HasSuffix(name, "'"):
+		return "starts or ends with an apostrophe, which Excel does not accept"
+	}
+	return ""
+}
