@@ -86,7 +86,11 @@ func printReport(w io.Writer, rep *importer.Report) {
 	for _, r := range rep.Rules {
 		fmt.Fprintf(w, "  %s\n", safetext.Line(r))
 	}
-	fmt.Fprintf(w, "total: %s tCO2, %s tCO2e\n", totalText(rep.Totals.TCO2, funcs.FormatNumber), totalText(rep.Totals.TCO2e, funcs.FormatNumber))
+	if rep.Totals.NotComputable != "" {
+		fmt.Fprintf(w, "total: %s\n", notComputableText)
+	} else {
+		fmt.Fprintf(w, "total: %s tCO2, %s tCO2e\n", totalText(rep.Totals.TCO2, funcs.FormatNumber), totalText(rep.Totals.TCO2e, funcs.FormatNumber))
+	}
 	nErr, nWarn, nInfo := rep.Count(importer.SevError), rep.Count(importer.SevWarning), rep.Count(importer.SevInfo)
 	fmt.Fprintf(w, "findings: %s (rows not computed), %s, %s; all %s\n", count(nErr, "error"), count(nWarn, "warning"), count(nInfo, "note"), findingsWhere(rep))
 	shown := 0

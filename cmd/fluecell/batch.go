@@ -54,7 +54,7 @@ func cmdBatch(ctx context.Context, s stdio, args []string) int {
 			if err != nil {
 				return batch.Outcome{}, err
 			}
-			return batch.Outcome{Rows: rep.Rows, Computed: rep.Computed, TCO2: rep.Totals.TCO2, TCO2e: rep.Totals.TCO2e,
+			return batch.Outcome{Rows: rep.Rows, Computed: rep.Computed, TCO2: rep.Totals.TCO2, TCO2e: rep.Totals.TCO2e, NotComputable: rep.Totals.NotComputable,
 				Warnings: rep.Count(importer.SevError) + rep.Count(importer.SevWarning), Sheets: sheetsLine(rep)}, nil
 		},
 	}

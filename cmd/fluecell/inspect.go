@@ -90,9 +90,9 @@ func samePath(a, b string) bool {
 // the fuel names that are not fuel ids; the mapping.
 func printInspection(w io.Writer, ins *importer.Inspection, wrote string) {
 	rep := ins.Report
-	fmt.Fprintf(w, "%s: %s on %s; %d of %s computed; %s tCO2, %s tCO2e\n", safetext.Name(filepath.Base(ins.Path)),
+	fmt.Fprintf(w, "%s: %s on %s; %d of %s computed; %s\n", safetext.Name(filepath.Base(ins.Path)),
 		count(len(rep.Tables), "table"), count(len(rep.Sheets), "sheet"), rep.Computed, count(rep.Rows, "row"),
-		totalText(rep.Totals.TCO2, funcs.FormatNumber), totalText(rep.Totals.TCO2e, funcs.FormatNumber))
+		totalsText(rep.Totals, funcs.FormatNumber))
 	for i, t := range rep.Tables {
 		fmt.Fprintf(w, "\ntable %d: sheet %q %s, header row %d, %s; %d of %s computed\n", i+1, t.Sheet, t.Range, t.HeaderRow, t.Kind, t.Computed, count(t.Rows, "row"))
 		if t.Fuel != "" {

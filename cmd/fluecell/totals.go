@@ -21,8 +21,23 @@ func totalText(v float64, format func(float64) string) string {
 	return format(round3(v))
 }
 
+// notComputableText is the total of a report whose sum the importer found
+// past the float64 range (Totals.NotComputable).
+const notComputableText = "not computable (the rows add up to more than the float64 range holds)"
+
+// totalsText is the "x tCO2, y tCO2e" part of a report's total line.
+func totalsText(t importer.Totals, format func(float64) string) string {
+	if t.NotComputable != "" {
+		return "total " + notComputableText
+	}
+	return totalText(t.TCO2, format) + " tCO2, " + totalText(t.TCO2e, format) + " tCO2e"
+}
+
 // totalsError says which total of t is not a finite number, or nil.
 func totalsError(t importer.Totals) error {
+	if t.NotComputable != "" {
+		return fmt.Errorf("total %s: %s (check the amounts and units of the largest rows)", overflowText, t.NotComputable)
+	}
 	for _, x := range []struct {
 		name string
 		v    float64

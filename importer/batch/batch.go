@@ -24,6 +24,9 @@ type Outcome struct {
 	TCO2     float64 `json:"tCO2"`
 	TCO2e    float64 `json:"tCO2e"`
 	Warnings int     `json:"warnings"`
+	// NotComputable says why the workbook's total is no number (its rows add
+	// up past the float64 range); TCO2 and TCO2e are then 0.
+	NotComputable string `json:"not_computable,omitempty"`
 	// Sheets says what happened to each sheet: "Fuel log: computed 6,504 of
 	// 6,570 rows; Prices: skipped: a table of prices...".
 	Sheets string `json:"sheets,omitempty"`
@@ -305,6 +308,9 @@ func oneLine(s string) string { return safetext.Line(strings.Join(strings.Fields
 // that are each finite can add up to more than float64 holds (about
 // 1.8e308), and Inf or NaN is no total.
 func checkTotals(o Outcome) error {
+	if o.NotComputable != "" {
+		return fmt.Errorf("total exceeds the float64 range: %s; the output was written, but no total can be given", o.NotComputable)
+	}
 	for _, t := range []struct {
 		name string
 		v    float64
