@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"errors"
+	"github.com/fluecell/fluecell/importer/regfile"
 	"io"
 	"os"
 	"path/filepath"
@@ -57,7 +58,7 @@ func openLegacyWith(ctx context.Context, path string, lim limits, find func() (o
 // isLegacyXLS reports whether the file at path is an OLE compound file
 // holding a BIFF workbook stream and no encryption.
 func isLegacyXLS(path string) bool {
-	f, err := os.Open(path)
+	f, err := regfile.Open(path)
 	if err != nil {
 		return false
 	}

@@ -6,8 +6,8 @@ import (
 	"encoding/hex"
 	"encoding/json"
 	"fmt"
+	"github.com/fluecell/fluecell/importer/regfile"
 	"io"
-	"os"
 	"sort"
 	"strconv"
 	"strings"
@@ -134,7 +134,7 @@ func (m *Mapping) Ref() MappingRef { return m.ref }
 // file cannot be read) naming the file and the JSON path of the mistake,
 // e.g. `mapping m.json: tables[0].columns[2].role: unknown role "amount"`.
 func LoadMapping(e *funcs.Engine, path string) (*Mapping, error) {
-	f, err := os.Open(path)
+	f, err := regfile.Open(path)
 	if err != nil {
 		return nil, &Error{Code: ErrIO, Path: path, Msg: "mapping " + path + ": cannot read it: " + err.Error(), Err: err}
 	}

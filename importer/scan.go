@@ -3,8 +3,9 @@ package importer
 import (
 	"archive/zip"
 	"context"
+	"errors"
+	"github.com/fluecell/fluecell/importer/regfile"
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -61,8 +62,12 @@ func scan(ctx context.Context, e *funcs.Engine, path string, opt Options, calc f
 	if err := ctx.Err(); err != nil {
 		return nil, &Error{Code: ErrCancelled, Path: path, Msg: "stopped: " + err.Error(), Err: err}
 	}
-	f, err := os.Open(path)
+	f, err := regfile.Open(path) // never a pipe or device, which could block for ever
 	if err != nil {
+		var re *regfile.Error
+		if errors.As(err, &re) {
+			return nil, &Error{Code: ErrInput, Path: path, Msg: err.Error(), Err: err}
+		}
 		return nil, &Error{Code: ErrIO, Path: path, Msg: "cannot open the file: " + err.Error(), Err: err}
 	}
 	defer f.Close()
