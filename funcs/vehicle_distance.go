@@ -119,17 +119,9 @@ func callVehicleCO2e(e *Engine, c *callCtx, a argList) (float64, string, error) 
 	if err != nil {
 		return 0, "", err
 	}
-	u, err := distanceUnit(us)
-	if err != nil {
-		return 0, "", withFunc(err, fn)
-	}
 	vs, err := a.str(2)
 	if err != nil {
 		return 0, "", err
-	}
-	v, err := e.vehNames.resolve(vs)
-	if err != nil {
-		return 0, "", withFunc(err, fn)
 	}
 	gwpArg, err := a.optStr(3, "")
 	if err != nil {
@@ -139,14 +131,54 @@ func callVehicleCO2e(e *Engine, c *callCtx, a argList) (float64, string, error) 
 	if err != nil {
 		return 0, "", err
 	}
+	p, err := e.vehiclePlan(vehicleKey{fn, us, vs, gwpArg, setArg})
+	if err != nil {
+		return 0, "", err
+	}
+	c.use(p.factors...)
+	c.note(p.notes...)
+	if distance < 0 {
+		c.note(NegativeAmountNote)
+	}
+	return distance * p.tPerUnit, "", nil
+}
+
+// vehicleKey identifies a vehicle_co2e computation by its arguments other
+// than the distance, as given.
+type vehicleKey struct{ fn, unit, vehicle, gwp, set string }
+
+// vehiclePlan is a cached vehicle_co2e computation: result = distance x
+// tPerUnit t CO2e, with the rows and notes behind it.
+type vehiclePlan struct {
+	tPerUnit float64
+	factors  []*Factor
+	notes    []string
+}
+
+// vehiclePlan resolves the unit, vehicle, set and factors of a call once per
+// distinct set of arguments; rows of a workbook then cost one lookup.
+func (e *Engine) vehiclePlan(key vehicleKey) (*vehiclePlan, error) {
+	if p, ok := e.plans.Load(key); ok {
+		return p.(*vehiclePlan), nil
+	}
+	fn, us, vs, gwpArg, setArg := key.fn, key.unit, key.vehicle, key.gwp, key.set
+	c := &callCtx{}
+	u, err := distanceUnit(us)
+	if err != nil {
+		return nil, withFunc(err, fn)
+	}
+	v, err := e.vehNames.resolve(vs)
+	if err != nil {
+		return nil, withFunc(err, fn)
+	}
 	set := distanceSetByName(v.Set)
 	if setArg != "" {
 		asked, err := resolveDistanceSet(setArg)
 		if err != nil {
-			return 0, "", withFunc(err, fn)
+			return nil, withFunc(err, fn)
 		}
 		if asked.name != set.name {
-			return 0, "", &Error{Code: CodeBadArgument, Func: fn, Param: "set",
+			return nil, &Error{Code: CodeBadArgument, Func: fn, Param: "set",
 				Msg: "the table of " + asked.name + " has no row for " + v.ID + ", which is in set " + set.name + ": leave set out or choose a vehicle of " + asked.name + " (" + strings.Join(e.setVehicles(asked.name), ", ") + ")"}
 		}
 	}
@@ -154,28 +186,24 @@ func callVehicleCO2e(e *Engine, c *callCtx, a argList) (float64, string, error) 
 	if v.Note != "" {
 		c.note(v.Note)
 	}
-	if distance < 0 {
-		c.note(NegativeAmountNote)
-	}
-	meters := distance * u.SIFloat()
 	var kgPerMeter float64
 	if set.perGas {
 		gwpSet, err := e.resolveGWPSet(gwpArg)
 		if err != nil {
-			return 0, "", withFunc(err, fn)
+			return nil, withFunc(err, fn)
 		}
 		var parts [3]float64
 		for i, q := range []string{"co2_per_distance", "ch4_per_distance", "n2o_per_distance"} {
 			f, err := e.vehicleFactor(fn, set, v.ID, q)
 			if err != nil {
-				return 0, "", err
+				return nil, err
 			}
 			c.use(f)
 			parts[i] = f.si
 		}
 		gCH4, gN2O := e.packs.lookup(CommonPack, "ch4", "gwp100_"+gwpSet), e.packs.lookup(CommonPack, "n2o", "gwp100_"+gwpSet)
 		if gCH4 == nil || gN2O == nil {
-			return 0, "", &Error{Code: CodeMissingFactor, Func: fn, Param: "gwp_set", Msg: "GWP set " + gwpSet + " has no value for ch4 or n2o"}
+			return nil, &Error{Code: CodeMissingFactor, Func: fn, Param: "gwp_set", Msg: "GWP set " + gwpSet + " has no value for ch4 or n2o"}
 		}
 		c.use(gCH4, gN2O)
 		kgPerMeter = parts[0] + parts[1]*gCH4.Value + parts[2]*gN2O.Value
@@ -184,16 +212,16 @@ func callVehicleCO2e(e *Engine, c *callCtx, a argList) (float64, string, error) 
 		if gwpArg != "" {
 			asked, err := e.resolveGWPSet(gwpArg)
 			if err != nil {
-				return 0, "", withFunc(err, fn)
+				return nil, withFunc(err, fn)
 			}
 			if asked != set.gwp {
-				return 0, "", &Error{Code: CodeBadArgument, Func: fn, Param: "gwp_set",
+				return nil, &Error{Code: CodeBadArgument, Func: fn, Param: "gwp_set",
 					Msg: "set " + set.name + " publishes CO2e only, weighted with " + set.gwp + " GWPs, so it cannot be reweighted with " + asked + ": leave gwp_set out or give " + set.gwp}
 			}
 		}
 		f, err := e.vehicleFactor(fn, set, v.ID, "co2e_per_distance")
 		if err != nil {
-			return 0, "", err
+			return nil, err
 		}
 		c.use(f)
 		kgPerMeter = f.si
@@ -202,7 +230,9 @@ func callVehicleCO2e(e *Engine, c *callCtx, a argList) (float64, string, error) 
 	if strings.Contains(v.ID, "_bev") {
 		c.note("battery-electric: no tailpipe emissions; the electricity it uses is Scope 2, computed with electricity_co2e")
 	}
-	return meters * kgPerMeter / 1000, "", nil
+	p := &vehiclePlan{tPerUnit: u.SIFloat() * kgPerMeter / 1000, factors: c.factors, notes: c.notes}
+	e.cachePlan(key, p)
+	return p, nil
 }
 
 // setVehicles lists the vehicle ids of a set, sorted.
