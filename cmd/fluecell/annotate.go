@@ -61,13 +61,13 @@ func cmdAnnotate(ctx context.Context, s stdio, args []string) int {
 		return fail(s, "annotate", err)
 	}
 	printReport(s.out, rep)
-	if err := totalsError(rep.Totals); err != nil {
-		return fail(s, "annotate", fmt.Errorf("%s: %v; the annotated output %s was written, the report was not", safetext.Name(in), err, safetext.Name(rep.Output)))
-	}
 	if *report != "" {
 		if err := writeReport(*report, s.out, rep); err != nil {
 			return fail(s, "annotate", err)
 		}
+	}
+	if err := totalsError(rep.Totals); err != nil {
+		return fail(s, "annotate", fmt.Errorf("%s: %v; the annotated output %s and the report were written", safetext.Name(in), err, safetext.Name(rep.Output)))
 	}
 	switch {
 	case *failOn == importer.SevError && rep.Count(importer.SevError) > 0,

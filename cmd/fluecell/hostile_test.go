@@ -116,7 +116,11 @@ func TestBatchOverflowingTotals(t *testing.T) {
 	if strings.Contains(string(b), "Inf") || !strings.Contains(string(b), "total exceeds the float64 range") {
 		t.Errorf("summary:\n%s", b)
 	}
-	code, stdout, stderr = runCLI(t, "annotate", filepath.Join(in, "big.csv"), "-o", filepath.Join(t.TempDir(), "big.csv"), "--rule", "tCO2e = quantity", "--report", filepath.Join(t.TempDir(), "r.json"))
+	reportPath := filepath.Join(t.TempDir(), "r.json")
+	code, stdout, stderr = runCLI(t, "annotate", filepath.Join(in, "big.csv"), "-o", filepath.Join(t.TempDir(), "big.csv"), "--rule", "tCO2e = quantity", "--report", reportPath)
+	if b, err := os.ReadFile(reportPath); err != nil || !strings.Contains(string(b), `"not_computable"`) || strings.Contains(string(b), "Inf") {
+		t.Errorf("report of an overflowing total: %v\n%s", err, b)
+	}
 	if code != 1 || strings.Contains(stdout+stderr, "Inf") || !strings.Contains(stdout, "total: "+notComputableText) ||
 		!strings.Contains(stderr, "total exceeds the float64 range") {
 		t.Errorf("annotate: exit %d\n%s\n%s", code, stdout, stderr)
