@@ -22,18 +22,21 @@ import (
 // the modified z-score of Iglewicz and Hoaglin, who recommend |M| > 3.5 as
 // the mark of a potential outlier (B. Iglewicz and D. C. Hoaglin, How to
 // Detect and Handle Outliers, ASQC Basic References in Quality Control
-// vol. 16, 1993, section 3.2; from memory). Two conditions of our own keep
+// vol. 16, 1993; from memory). When MAD is 0 (most amounts equal) every
+// other value passes this step. Three conditions of our own keep
 // honest spreads quiet: the value is at least outlierFactor times above or
 // below the median (a factor of 2 or 3 between months or sites is ordinary),
 // and between the median and the value the sorted amounts jump at least by
 // outlierGap somewhere (amounts that fill the range evenly, as a growing
-// series or a campus of buildings of every size does, are not a slip).
+// series or a campus of buildings of every size does, are not a slip);
+// and three or more neighbouring rows flagged on the same side are a
+// section of another kind, not a slip (dropRuns).
 
 // Outlier thresholds.
 const (
 	outlierMinRows = 5    // rows of a fuel and unit before the robust test applies
 	outlierZ       = 3.5  // modified z-score (Iglewicz and Hoaglin 1993, from memory)
-	outlierFactor  = 5.0  // at least this many times the median, or 1/this (our choice: halfway, on a log scale, between 3 and 10 is 5.5)
+	outlierFactor  = 5.0  // at least this many times the median, or 1/this (our choice: about halfway, on a log scale, between an ordinary 3 and a slip of 10)
 	outlierGap     = 2.0  // a jump of this factor between neighbouring sorted amounts (our choice)
 	outlierSmall   = 100. // groups of 3 or 4 rows: only a factor of 100 is flagged
 	outlierRun     = 3    // so many neighbouring rows flagged together are a section, not a slip

@@ -10,7 +10,7 @@ import (
 // The robust test flags a slip of about a factor of 10 and keeps quiet on
 // ordinary and on honestly skewed amounts. Its threshold is the modified
 // z-score of 3.5 of Iglewicz and Hoaglin (How to Detect and Handle
-// Outliers, 1993, section 3.2; from memory).
+// Outliers, 1993; from memory).
 func TestRobustOutliers(t *testing.T) {
 	geometric := func(start, step float64, n int) []float64 {
 		out := make([]float64, n)
@@ -152,5 +152,18 @@ func TestPriceOutlier(t *testing.T) {
 	plain := strings.ReplaceAll(fuelLogCSV(map[int]string{2: "2025-02-03,North depot,Diesel,3120,L,44300"}), "Cost (£)", "Supplier ref")
 	if ws := findings(scanCSVText(t, "fuel.csv", plain), CodePriceOutlier); len(ws) != 0 {
 		t.Errorf("price finding without a cost column: %+v", ws)
+	}
+}
+
+// Groups of three or four rows are too small for the robust test: only a
+// factor of 100 is flagged there, an extra zero is not.
+func TestOutlierSmallGroup(t *testing.T) {
+	const head = "Date,Fuel,Quantity,Unit\n2025-01-06,Diesel,3050,L\n2025-01-20,Diesel,2980,L\n2025-02-03,Diesel,3120,L\n"
+	if ws := findings(scanCSVText(t, "fuel.csv", head+"2025-02-17,Diesel,30500,L\n"), CodeValueOutlier); len(ws) != 0 {
+		t.Errorf("an extra zero among 4 rows flagged: %+v", ws)
+	}
+	ws := findings(scanCSVText(t, "fuel.csv", head+"2025-02-17,Diesel,330000,L\n"), CodeValueOutlier)
+	if len(ws) != 1 || ws[0].Cell != "C5" || !strings.Contains(ws[0].Message, "330000 is 107 times the median 3085 of the 4 rows") {
+		t.Errorf("want one finding at C5 for a factor of 100 among 4 rows, got %+v", ws)
 	}
 }
