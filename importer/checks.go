@@ -9,11 +9,13 @@ import (
 	"github.com/fluecell/fluecell/funcs/units"
 )
 
-// The checks that need whole columns: outliers by fuel and unit, units mixed
+// The checks that need whole columns: outliers by fuel and unit (outliers.go), units mixed
 // in one column, the workbook's own carbon figures against the computed ones.
 
 // collectSamples keeps positive quantities by fuel and unit for the
-// outlier check.
+// outlier check, and a fuel log's unit prices when it has a cost column
+// (outliers.go, prices.go). Every positive amount of the table is kept:
+// the table's rows are in memory already, and a sample is 24 bytes.
 func (sc *scanCtx) collectSamples(t *table, i, rowNum int, vars map[string]any, samples map[string][]sample) {
 	spec := t.spec
 	switch spec.kind {
@@ -41,6 +43,7 @@ func (sc *scanCtx) collectSamples(t *table, i, rowNum int, vars map[string]any, 
 		}
 		k := spec.sheet + "|" + colName(spec.qty.col) + "|" + f.id + "|" + u.u.String()
 		samples[k] = append(samples[k], sample{rowNum, spec.qty.col, q})
+		t.priceSample(k, i, rowNum, q, samples)
 		sc.gasKWh(spec.sheet, spec.qty.col, rowNum, f.id, u.u)
 	case kindPeriods:
 		fs, ok1 := vars[spec.fuel.ident].(string)
@@ -66,47 +69,6 @@ func (sc *scanCtx) collectSamples(t *table, i, rowNum int, vars map[string]any, 
 			if q, ok := vars[c.ident].(float64); ok && q > 0 {
 				k := spec.sheet + "|" + colName(c.col) + "|" + c.fuelID
 				samples[k] = append(samples[k], sample{rowNum, c.col, q})
-			}
-		}
-	}
-}
-
-// checkOutliers flags quantities more than 100 times above or below the
-// median of the same fuel and unit (at least three rows).
-func (sc *scanCtx) checkOutliers(sheet string, samples map[string][]sample) {
-	keys := make([]string, 0, len(samples))
-	for k := range samples {
-		keys = append(keys, k)
-	}
-	sort.Strings(keys)
-	for _, k := range keys {
-		ss := samples[k]
-		if len(ss) < 3 {
-			continue
-		}
-		vals := make([]float64, len(ss))
-		for i, s := range ss {
-			vals[i] = s.v
-		}
-		sort.Float64s(vals)
-		med := vals[len(vals)/2]
-		if len(vals)%2 == 0 {
-			med = (vals[len(vals)/2-1] + vals[len(vals)/2]) / 2
-		}
-		parts := strings.SplitN(k, "|", 4)
-		what := parts[2]
-		if len(parts) == 4 {
-			what += " in " + parts[3]
-		}
-		for _, s := range ss {
-			if s.v > 100*med || s.v < med/100 {
-				ratio := s.v / med
-				dir := funcs.FormatNumber(math.Round(ratio)) + " times"
-				if ratio < 1 {
-					dir = "1/" + funcs.FormatNumber(math.Round(1/ratio))
-				}
-				sc.warn.add(sheet, s.col, s.row, SevWarning, CodeValueOutlier, funcs.FormatNumber(s.v)+" is "+dir+" the median "+
-					funcs.FormatNumber(med)+" of the "+plural(len(ss), "row")+" of "+what+" (a unit slip or a typo?): computed, check it")
 			}
 		}
 	}

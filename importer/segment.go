@@ -34,6 +34,7 @@ type table struct {
 	modes     map[string]*ruleSet  // rules of a fleet's rows by road mode (fleet.go)
 	modeNoted map[string]bool
 	merges    []rangeRef
+	cost      *costCells // the cost column of a fuel log, for the price check (prices.go)
 
 	// Results (see evaluate).
 	res       [][]float64 // per rule, per row; NaN when not computed
@@ -75,6 +76,7 @@ func (sc *scanCtx) newTable(spec *tableSpec, merges []rangeRef) (*table, error) 
 	if err := sc.compileRules(t); err != nil {
 		return nil, err
 	}
+	t.cost = costColumn(spec)
 	return t, nil
 }
 
@@ -153,6 +155,7 @@ func (t *table) add(r *row) {
 			v.text = t.internStr(c.text)
 		}
 	}
+	t.keepCost(r)
 }
 
 func (t *table) internStr(s string) string {

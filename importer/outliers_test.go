@@ -1,0 +1,169 @@
+package importer
+
+import (
+	"math"
+	"slices"
+	"strings"
+	"testing"
+)
+
+// The robust test flags a slip of about a factor of 10 and keeps quiet on
+// ordinary and on honestly skewed amounts. Its threshold is the modified
+// z-score of 3.5 of Iglewicz and Hoaglin (How to Detect and Handle
+// Outliers, 1993; from memory).
+func TestRobustOutliers(t *testing.T) {
+	geometric := func(start, step float64, n int) []float64 {
+		out := make([]float64, n)
+		for i := range out {
+			out[i] = start * math.Pow(step, float64(i))
+		}
+		return out
+	}
+	cases := []struct {
+		name string
+		vals []float64
+		want []int
+	}{
+		{"an extra zero among deliveries of about 3,000 L",
+			[]float64{3050, 2980, 3120, 2890, 3010, 30500, 3200, 2950}, []int{5}},
+		{"a missing zero", []float64{3050, 2980, 312, 2890, 3010, 3050, 3200}, []int{2}},
+		{"an extra zero in a group of exactly five",
+			[]float64{3050, 2980, 31200, 2890, 3010}, []int{2}},
+		{"equal deliveries (no spread at all) and one ten times as large",
+			[]float64{3000, 3000, 3000, 3000, 3000, 30000}, []int{5}},
+		{"a factor of 3 is ordinary", []float64{3050, 2980, 3120, 2890, 9000, 3010, 3200}, nil},
+		{"fewer than five rows", []float64{3050, 2980, 30500, 3010}, nil},
+		// A campus: buildings of every size, the largest 20 times the smallest.
+		{"a smooth heavy tail", []float64{120, 180, 260, 340, 450, 600, 820, 1100, 1500, 2000, 2400}, nil},
+		// A series growing 30 % a step for 20 steps: 190 times from first to last.
+		{"a growing series", geometric(100, 1.3, 21), nil},
+		// Amounts a factor of 3 apart each: jumps everywhere, but the spread
+		// is the data's own, so the modified z-score stays under 3.5.
+		{"a wide geometric spread", geometric(1, 3, 7), nil},
+		{"a block of rows ten times the others is a section, not a slip",
+			[]float64{3050, 2980, 3120, 30500, 29800, 31200, 2890, 3010, 3200, 2950, 3100}, nil},
+		{"two slips apart from each other", []float64{3050, 29800, 3120, 2890, 3010, 3200, 31000, 2950}, []int{1, 6}},
+	}
+	for _, c := range cases {
+		in := slices.Clone(c.vals)
+		_, got := robustOutliers(c.vals)
+		if !slices.Equal(got, c.want) {
+			t.Errorf("%s: flagged %v, want %v", c.name, got, c.want)
+		}
+		if !slices.Equal(in, c.vals) {
+			t.Errorf("%s: the values were changed", c.name)
+		}
+	}
+	if med, _ := robustOutliers([]float64{4, 1, 3, 2}); med != 2.5 {
+		t.Errorf("median of 1..4 = %v, want 2.5", med)
+	}
+}
+
+// costHeader tells a total paid from a price per unit or a tax.
+func TestCostHeader(t *testing.T) {
+	for _, h := range []string{"Cost (£)", "Amount paid", "Invoice EUR", "$", "Total price", "Cost incl. VAT", "Spend (USD)"} {
+		if !costHeader(h) {
+			t.Errorf("%q: not read as a cost column", h)
+		}
+	}
+	for _, h := range []string{"Price per litre", "€/L", "Unit cost", "VAT (€)", "Price", "Cost per kWh", "Quantity", "Fuel efficiency", "Average cost"} {
+		if costHeader(h) {
+			t.Errorf("%q: read as a cost column", h)
+		}
+	}
+}
+
+// fuelLogCSV is a diesel and LPG log with a cost column; rows
+// replaces rows by index (0-based data rows).
+func fuelLogCSV(rows map[int]string) string {
+	lines := []string{"Date,Site,Fuel,Quantity,Unit,Cost (£)",
+		"2025-01-06,North depot,Diesel,3050,L,4392",
+		"2025-01-20,North depot,Diesel,2980,L,4321",
+		"2025-02-03,North depot,Diesel,3120,L,4430",
+		"2025-02-17,North depot,Diesel,2890,L,4104",
+		"2025-03-03,North depot,Diesel,3010,L,4334",
+		"2025-03-17,North depot,Diesel,3200,L,4512",
+		"2025-03-31,North depot,Diesel,2950,L,4189",
+		"2025-04-14,North depot,Diesel,3080,L,4404",
+		"2025-01-10,Mill house,LPG,480,kg,610",
+		"2025-03-10,Mill house,LPG,450,kg,572",
+	}
+	for i, r := range rows {
+		lines[i+1] = r
+	}
+	return strings.Join(lines, "\n") + "\n"
+}
+
+// findings returns the warnings of code.
+func findings(rep *Report, code string) []Warning {
+	var out []Warning
+	for _, w := range rep.Warnings {
+		if w.Code == code {
+			out = append(out, w)
+		}
+	}
+	return out
+}
+
+// An extra zero in a quantity is flagged at its cell with the median and
+// the factor; the cost column confirms the amount is the slip.
+func TestOutlierExtraZeroAtCell(t *testing.T) {
+	rep := scanCSVText(t, "fuel.csv", fuelLogCSV(map[int]string{5: "2025-03-17,North depot,Diesel,32000,L,4512"}))
+	if len(findings(rep, CodePriceOutlier)) != 0 {
+		t.Errorf("a price finding beside the amount's: %+v", findings(rep, CodePriceOutlier))
+	}
+	ws := findings(rep, CodeValueOutlier)
+	if len(ws) != 1 || ws[0].Cell != "D7" {
+		t.Fatalf("want one value-outlier at D7, got %+v", ws)
+	}
+	for _, part := range []string{"32000 is 10.6 times the median 3030 of the 8 rows of gas_diesel_oil in L",
+		"the decimal point one place to the right? 3200 would fit",
+		"the row's cost gives a unit price of 0.141 (cost 4512 in F7 / 32000), 1/10.1 the median 1.42",
+		"the amount is the likely slip"} {
+		if !strings.Contains(ws[0].Message, part) {
+			t.Errorf("message %q lacks %q", ws[0].Message, part)
+		}
+	}
+	// Three times the usual delivery is not a slip.
+	rep = scanCSVText(t, "fuel.csv", fuelLogCSV(map[int]string{5: "2025-03-17,North depot,Diesel,9600,L,13536"}))
+	if ws := append(findings(rep, CodeValueOutlier), findings(rep, CodePriceOutlier)...); len(ws) != 0 {
+		t.Errorf("a factor of 3 flagged: %+v", ws)
+	}
+}
+
+// A cost typed ten times too large leaves the amount in line but not the
+// price: one finding at the quantity cell naming the amount and the cost.
+func TestPriceOutlier(t *testing.T) {
+	rep := scanCSVText(t, "fuel.csv", fuelLogCSV(map[int]string{2: "2025-02-03,North depot,Diesel,3120,L,44300"}))
+	if ws := findings(rep, CodeValueOutlier); len(ws) != 0 {
+		t.Errorf("amount flagged: %+v", ws)
+	}
+	ws := findings(rep, CodePriceOutlier)
+	if len(ws) != 1 || ws[0].Cell != "D4" || ws[0].Severity != SevWarning {
+		t.Fatalf("want one price-outlier warning at D4, got %+v", ws)
+	}
+	for _, part := range []string{"the amount 3120 and its cost give a unit price of 14.2 (cost 44300 in F4 / 3120), 9.9 times the median 1.43",
+		"of the 8 rows of gas_diesel_oil in L", "31200 or 4430 would fit"} {
+		if !strings.Contains(ws[0].Message, part) {
+			t.Errorf("message %q lacks %q", ws[0].Message, part)
+		}
+	}
+	// Without a cost column the same rows raise nothing.
+	plain := strings.ReplaceAll(fuelLogCSV(map[int]string{2: "2025-02-03,North depot,Diesel,3120,L,44300"}), "Cost (£)", "Supplier ref")
+	if ws := findings(scanCSVText(t, "fuel.csv", plain), CodePriceOutlier); len(ws) != 0 {
+		t.Errorf("price finding without a cost column: %+v", ws)
+	}
+}
+
+// Groups of three or four rows are too small for the robust test: only a
+// factor of 100 is flagged there, an extra zero is not.
+func TestOutlierSmallGroup(t *testing.T) {
+	const head = "Date,Fuel,Quantity,Unit\n2025-01-06,Diesel,3050,L\n2025-01-20,Diesel,2980,L\n2025-02-03,Diesel,3120,L\n"
+	if ws := findings(scanCSVText(t, "fuel.csv", head+"2025-02-17,Diesel,30500,L\n"), CodeValueOutlier); len(ws) != 0 {
+		t.Errorf("an extra zero among 4 rows flagged: %+v", ws)
+	}
+	ws := findings(scanCSVText(t, "fuel.csv", head+"2025-02-17,Diesel,330000,L\n"), CodeValueOutlier)
+	if len(ws) != 1 || ws[0].Cell != "C5" || !strings.Contains(ws[0].Message, "330000 is 107 times the median 3085 of the 4 rows") {
+		t.Errorf("want one finding at C5 for a factor of 100 among 4 rows, got %+v", ws)
+	}
+}
