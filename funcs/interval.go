@@ -224,6 +224,7 @@ func (c *callCtx) interval(res *Result, signs []float64, opt IntervalOptions) {
 	} else {
 		how = "Approach 1 (error propagation, Equations 3.1 and 3.2; lower and upper halves of asymmetric ranges combined separately)"
 	}
+	iv.Low, iv.High, iv.Mean = round12(iv.Low), round12(iv.High), round12(iv.Mean)
 	res.Interval = &iv
 	res.Notes = append(res.Notes, "95 % interval by IPCC 2006 Vol 1 Ch 3 "+how+" from the published ranges of the factor rows; the amounts are taken as exact")
 	if len(noRange) > 0 {
@@ -283,4 +284,15 @@ func hasCall(n ast.Node) bool {
 		return ok
 	})
 	return found
+}
+
+// round12 rounds x to 12 significant digits, dropping the float noise of the
+// arithmetic (56.1545 - 1.8 is 54.3545, not 54.354499999999994); a range is
+// known to far fewer digits.
+func round12(x float64) float64 {
+	r, err := strconv.ParseFloat(strconv.FormatFloat(x, 'g', 12, 64), 64)
+	if err != nil {
+		return x
+	}
+	return r
 }
