@@ -97,6 +97,7 @@ type planInterval struct {
 	ok        bool
 	low, high float64
 	noRange   []string // keys of the rows used that publish no range
+	ranged    int      // rows used that publish one
 	err       string
 }
 
@@ -107,11 +108,12 @@ func newPlanInterval(ts []planTerm) planInterval {
 	var c callCtx
 	c.contribs = []contrib{{amount: 1, sign: 1, terms: ts}}
 	m, noRange := c.model()
+	ranged := len(m.Factors) - len(noRange)
 	iv, err := uncertainty.Propagate(m, uncertainty.RuleSeparate)
 	if err != nil {
-		return planInterval{err: err.Error(), noRange: noRange}
+		return planInterval{err: err.Error(), noRange: noRange, ranged: ranged}
 	}
-	return planInterval{ok: true, low: iv.Low, high: iv.High, noRange: noRange}
+	return planInterval{ok: true, low: iv.Low, high: iv.High, noRange: noRange, ranged: ranged}
 }
 
 // contrib is one call of a function with a plan, as a share of the result.
@@ -185,6 +187,10 @@ func (c *callCtx) interval(res *Result, signs []float64, opt IntervalOptions) {
 	case opt.Approach != Approach2 && len(c.contribs) == 1 && c.contribs[0].iv != nil:
 		// one call: the plan's interval per unit amount, computed once, scaled
 		k, p := c.contribs[0], c.contribs[0].iv
+		if p.ranged == 0 {
+			res.Notes = append(res.Notes, noRangeNote(p.noRange))
+			return
+		}
 		if !p.ok {
 			res.Notes = append(res.Notes, "no 95 % interval: "+p.err)
 			return
@@ -198,6 +204,10 @@ func (c *callCtx) interval(res *Result, signs []float64, opt IntervalOptions) {
 	default:
 		m, nr := c.model()
 		noRange = nr
+		if len(nr) == len(m.Factors) {
+			res.Notes = append(res.Notes, noRangeNote(nr))
+			return
+		}
 		if opt.Approach == Approach2 {
 			draws := opt.Draws
 			if draws == 0 {
@@ -295,4 +305,9 @@ func round12(x float64) float64 {
 		return x
 	}
 	return r
+}
+
+// noRangeNote says why a result whose rows publish no range has no interval.
+func noRangeNote(keys []string) string {
+	return "no 95 % interval: none of the rows used publishes a range (" + strings.Join(keys, ", ") + ")"
 }

@@ -143,3 +143,15 @@ func TestParseApproach(t *testing.T) {
 		t.Errorf("approach3: %v", err)
 	}
 }
+
+// The EPA Hub rows publish no range: no interval, and a note says so.
+func TestIntervalNoRangeAtAll(t *testing.T) {
+	e := newTestEngine(t)
+	r, err := e.CallInterval("fuel_co2", map[string]string{"fuel": "diesel", "amount": "1000", "unit": "gal", "pack": "epa2025"}, IntervalOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Interval != nil || !ivNote(r, "none of the rows used publishes a range") {
+		t.Errorf("got %+v, notes %q", r.Interval, r.Notes)
+	}
+}
