@@ -155,3 +155,32 @@ func TestIntervalNoRangeAtAll(t *testing.T) {
 		t.Errorf("got %+v, notes %q", r.Interval, r.Notes)
 	}
 }
+
+// EvalInterval is safe for concurrent use: every goroutine gets the interval of
+// its own amount (Table 1.4 range scaled by hand: q GJ gives 0.0543q..0.0583q t).
+func TestEvalIntervalConcurrent(t *testing.T) {
+	e := newTestEngine(t)
+	p, err := e.Compile(`fuel_co2("natural_gas", q, "GJ")`, WithVariables("q"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	errs := make(chan string, 8)
+	for g := range 8 {
+		go func() {
+			q := float64(1000 * (g + 1))
+			for range 200 {
+				r, err := p.EvalInterval(map[string]any{"q": q}, IntervalOptions{})
+				if err != nil || r.Interval == nil || math.Abs(r.Interval.Low-0.0543*q) > 1e-9*q || math.Abs(r.Interval.High-0.0583*q) > 1e-9*q {
+					errs <- "q " + FormatNumber(q) + ": wrong interval"
+					return
+				}
+			}
+			errs <- ""
+		}()
+	}
+	for range 8 {
+		if msg := <-errs; msg != "" {
+			t.Error(msg)
+		}
+	}
+}
