@@ -177,12 +177,20 @@ func FormatNumber(v float64) string {
 type callCtx struct {
 	factors []*Factor
 	notes   []string
+	// With track set, calls of functions with a plan record themselves in contribs
+	// and other catalog calls their names in untracked (see interval.go).
+	track     bool
+	contribs  []contrib
+	untracked []string
 }
 
 func (c *callCtx) reset() {
 	clear(c.factors)
 	c.factors = c.factors[:0]
 	c.notes = c.notes[:0]
+	clear(c.contribs)
+	c.contribs = c.contribs[:0]
+	c.untracked = c.untracked[:0]
 }
 
 func (c *callCtx) use(fs ...*Factor) {

@@ -32,7 +32,7 @@ func (e *Engine) blendPlan(key planKey, m fuelMatch) (*plan, error) {
 	share := row.share
 	rest := new(big.Rat).Sub(big.NewRat(1, 1), share)
 	pct := func(r *big.Rat) string { return FormatNumber(ratFloat(r) * 100) }
-	p := &plan{unit: base.unit, exact: new(big.Rat).Mul(share, base.exact)}
+	p := &plan{unit: base.unit, exact: new(big.Rat).Mul(share, base.exact), terms: scaleTerms(base.terms, ratFloat(share))}
 	p.notes = append(p.notes, "fuel "+quote(key.fuel)+" read as a blend: "+pct(share)+" % "+m.entry.fuel.ID+
 		" (fossil) and "+pct(rest)+" % "+row.bioID+" (biogenic) by volume ("+row.source+")")
 	if u, err := units.Parse(key.unit); err == nil && u.Dim != units.Volume {
@@ -62,6 +62,7 @@ func (e *Engine) blendPlan(key planKey, m fuelMatch) (*plan, error) {
 			return nil, err
 		}
 		p.exact.Add(p.exact, new(big.Rat).Mul(rest, bio.exact))
+		p.terms = append(p.terms, scaleTerms(bio.terms, ratFloat(rest))...)
 		p.factors = append(p.factors, bio.factors...)
 		if key.kind == kindCO2e || key.kind == kindMobileCO2e {
 			p.notes = append(p.notes, "CO2e of the "+pct(share)+" % fossil part plus CH4 and N2O of the "+pct(rest)+" % "+row.bioID+

@@ -3,6 +3,7 @@ package funcs
 import (
 	"errors"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -17,6 +18,17 @@ import (
 // values are *Error values naming the parameter and what is accepted; an
 // unknown function is CodeUnknownFunction.
 func (e *Engine) Call(name string, args map[string]string) (Result, error) {
+	return e.call(name, args, nil)
+}
+
+// CallInterval is Call with the 95 % interval of the result (Result.Interval)
+// computed as opt says, where the function has a model of its factors (the
+// fuel functions); a note says why when it has none.
+func (e *Engine) CallInterval(name string, args map[string]string, opt IntervalOptions) (Result, error) {
+	return e.call(name, args, &opt)
+}
+
+func (e *Engine) call(name string, args map[string]string, opt *IntervalOptions) (Result, error) {
 	f, ok := e.catalog.byName[name]
 	if !ok {
 		msg := "unknown function " + quote(name)
@@ -68,7 +80,7 @@ func (e *Engine) Call(name string, args map[string]string) (Result, error) {
 			vals[i] = s
 		}
 	}
-	return e.callValues(f, vals)
+	return e.callValues(f, vals, opt)
 }
 
 // CallValues evaluates a catalog function with positional arguments
@@ -89,11 +101,12 @@ func (e *Engine) CallValues(name string, args ...any) (Result, error) {
 			return Result{}, &Error{Code: CodeBadArgument, Func: f.Name, Param: p.Name, Msg: "missing required parameter " + p.Name}
 		}
 	}
-	return e.callValues(f, vals)
+	return e.callValues(f, vals, nil)
 }
 
-func (e *Engine) callValues(f *Function, vals []any) (Result, error) {
+func (e *Engine) callValues(f *Function, vals []any, opt *IntervalOptions) (Result, error) {
 	var c callCtx
+	c.track = opt != nil
 	v, unit, err := e.invoke(f, &c, argList{fn: f, vals: vals})
 	if err != nil {
 		return Result{}, err
@@ -104,7 +117,11 @@ func (e *Engine) callValues(f *Function, vals []any) (Result, error) {
 	if unit == "" {
 		unit = f.staticUnit(vals)
 	}
-	return Result{Value: v, Unit: unit, Sources: c.factors, Notes: c.notes}, nil
+	res := Result{Value: v, Unit: unit, Sources: c.factors, Notes: c.notes}
+	if opt != nil {
+		c.interval(&res, []float64{1}, *opt)
+	}
+	return res, nil
 }
 
 // invoke runs f with the arguments a. It adds the notes the arguments call for (see
@@ -112,9 +129,13 @@ func (e *Engine) callValues(f *Function, vals []any) (Result, error) {
 // argument to blame and the range it accepts (see overflow). Every call of a catalog
 // function, from Call, CallValues or an expression, goes through it.
 func (e *Engine) invoke(f *Function, c *callCtx, a argList) (float64, string, error) {
+	recorded := len(c.contribs)
 	v, unit, err := f.call(e, c, a)
 	if err != nil {
 		return 0, "", withFunc(err, f.Name)
+	}
+	if c.track && len(c.contribs) == recorded && !slices.Contains(c.untracked, f.Name) {
+		c.untracked = append(c.untracked, f.Name)
 	}
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return 0, "", e.overflow(f, a, v)

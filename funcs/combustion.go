@@ -44,6 +44,11 @@ type plan struct {
 	// memoPrefix is "" for other plans.
 	memoK, memoDen         float64
 	memoPrefix, memoSuffix string
+	// terms is how k is built: a sum of products of factor rows (per unit amount), from
+	// which the 95 % interval of a result follows (see interval.go); iv is that interval
+	// per unit amount by Approach 1, computed once.
+	terms []planTerm
+	iv    planInterval
 }
 
 const maxCachedPlans = 8192
@@ -59,6 +64,7 @@ func (e *Engine) fuelPlan(key planKey) (*plan, error) {
 	}
 	p.k = ratFloat(p.exact)
 	p.num, p.den = p.k, 1
+	p.iv = newPlanInterval(p.terms)
 	if p.exact != nil {
 		if n, d, ok := smallFraction(p.exact); ok {
 			p.num, p.den = n, d
@@ -115,11 +121,12 @@ func (e *Engine) buildPlan(key planKey) (*plan, error) {
 	}
 	switch key.kind {
 	case kindCO2:
-		k, fs, notes, err := e.emission(packName, fuel, u, "co2_ef")
+		k, fs, uses, notes, err := e.emission(packName, fuel, u, "co2_ef")
 		if err != nil {
 			return nil, err
 		}
 		p.exact, p.unit = k, "t CO2"
+		p.terms = []planTerm{newTerm(k, uses)}
 		p.factors, p.notes = append(p.factors, fs...), append(p.notes, notes...)
 		if bio := e.biogenicFraction(packName, fuel); bio.Sign() > 0 {
 			p.notes = append(p.notes, biogenicNote(fuel, bio)+"; fuel_co2e leaves it out")
@@ -170,6 +177,7 @@ func (e *Engine) buildPlan(key planKey) (*plan, error) {
 		k := new(big.Rat).Mul(u.SI(), c.mul)
 		p.exact = k.Quo(k, to.SI())
 		p.unit = to.String()
+		p.terms = []planTerm{newTerm(p.exact, usesOf(c.factors, c.pows))}
 		p.factors, p.notes = append(p.factors, c.factors...), append(p.notes, c.notes...)
 		switch {
 		case to.Basis == units.NoBasis && to.Usual != units.NoBasis:
@@ -184,20 +192,22 @@ func (e *Engine) buildPlan(key planKey) (*plan, error) {
 	return p, nil
 }
 
-// emission returns tonnes of the factor's species per unit amount, exactly.
-func (e *Engine) emission(packName string, fuel *Fuel, u units.Unit, quantity string) (*big.Rat, []*Factor, []string, error) {
+// emission returns tonnes of the factor's species per unit amount, exactly, with
+// the factor rows of the chain and how each enters the product.
+func (e *Engine) emission(packName string, fuel *Fuel, u units.Unit, quantity string) (*big.Rat, []*Factor, []factorUse, []string, error) {
 	ef := e.fuelRow(packName, fuel, quantity)
 	if ef == nil {
-		return nil, nil, nil, e.missingRow(packName, fuel.ID, quantity)
+		return nil, nil, nil, nil, e.missingRow(packName, fuel.ID, quantity)
 	}
 	c, err := e.convertAmount(packName, fuel, u, ef.denDim(), ef.Basis)
 	if err != nil {
-		return nil, nil, nil, err
+		return nil, nil, nil, nil, err
 	}
 	k := new(big.Rat).Mul(u.SI(), c.mul)
 	k.Mul(k, ef.exact)
 	k.Quo(k, big.NewRat(1000, 1)) // kg -> t
-	return k, append(c.factors, ef), c.notes, nil
+	fs := append(c.factors, ef)
+	return k, fs, usesOf(fs, append(c.pows, 1)), c.notes, nil
 }
 
 // ratFloat rounds an exact value once.
@@ -251,17 +261,17 @@ func biogenicNote(fuel *Fuel, bio *big.Rat) string {
 // n2o (co2_ef and a sector's or a mode's rows).
 func (e *Engine) co2ePlan(p *plan, packName string, fuel *Fuel, u units.Unit, set, co2, ch4, n2o string) error {
 	bio := e.biogenicFraction(packName, fuel)
-	kCO2, fs, notes, err := e.emission(packName, fuel, u, co2)
+	kCO2, fs, usesCO2, notes, err := e.emission(packName, fuel, u, co2)
 	if err != nil {
 		return err
 	}
 	p.factors, p.notes = append(p.factors, fs...), append(p.notes, notes...)
-	kCH4, fs, notes, err := e.emission(packName, fuel, u, ch4)
+	kCH4, fs, usesCH4, notes, err := e.emission(packName, fuel, u, ch4)
 	if err != nil {
 		return err
 	}
 	p.factors, p.notes = append(p.factors, fs...), append(p.notes, notes...)
-	kN2O, fs, notes, err := e.emission(packName, fuel, u, n2o)
+	kN2O, fs, usesN2O, notes, err := e.emission(packName, fuel, u, n2o)
 	if err != nil {
 		return err
 	}
@@ -283,6 +293,20 @@ func (e *Engine) co2ePlan(p *plan, packName string, fuel *Fuel, u units.Unit, se
 	k.Add(k, new(big.Rat).Mul(kN2O, gN2O.exact))
 	p.exact = k
 	p.unit = "t CO2e"
+	// CO2 + CH4 x GWP + N2O x GWP: a sum of products sharing the chain's conversion rows
+	p.terms = append(p.terms, newTerm(new(big.Rat).Mul(kCO2, fossil), usesCO2))
+	for _, g := range ch4Factors {
+		w := big.NewRat(1, 1) // the weight of a GWP split by origin (AR6)
+		switch {
+		case len(ch4Factors) > 1 && g.ID == "ch4_fossil":
+			w = fossil
+		case len(ch4Factors) > 1:
+			w = bio
+		}
+		t := new(big.Rat).Mul(kCH4, g.exact)
+		p.terms = append(p.terms, newTerm(t.Mul(t, w), append(slices.Clone(usesCH4), factorUse{g, 1})))
+	}
+	p.terms = append(p.terms, newTerm(new(big.Rat).Mul(kN2O, gN2O.exact), append(slices.Clone(usesN2O), factorUse{gN2O, 1})))
 	p.notes = append(p.notes, "CO2e with GWP-100 "+strings.ToUpper(set)+": "+ch4Desc+", N2O "+FormatNumber(gN2O.Value))
 	if bio.Sign() > 0 {
 		p.notes = append(p.notes, biogenicNote(fuel, bio)+"; it is excluded from this CO2e, which counts CH4 and N2O")
@@ -331,15 +355,16 @@ func (e *Engine) missingGWP(set, gas string) error {
 
 func (e *Engine) carbonPlan(p *plan, packName string, fuel *Fuel, u units.Unit) error {
 	if cc := e.fuelRow(packName, fuel, "carbon_content"); cc != nil {
-		k, fs, notes, err := e.emission(packName, fuel, u, "carbon_content")
+		k, fs, uses, notes, err := e.emission(packName, fuel, u, "carbon_content")
 		if err != nil {
 			return err
 		}
 		p.exact, p.unit = k, "t C"
+		p.terms = []planTerm{newTerm(k, uses)}
 		p.factors, p.notes = append(p.factors, fs...), append(p.notes, notes...)
 		return nil
 	}
-	k, fs, notes, err := e.emission(packName, fuel, u, "co2_ef")
+	k, fs, uses, notes, err := e.emission(packName, fuel, u, "co2_ef")
 	if err != nil {
 		if fe, ok := AsError(err); ok && fe.Code == CodeMissingFactor && e.fuelRow(packName, fuel, "co2_ef") == nil {
 			return &Error{Code: CodeMissingFactor, Param: "fuel", Msg: "pack " + packName + " has neither carbon_content nor co2_ef for " + fuel.ID}
@@ -351,6 +376,7 @@ func (e *Engine) carbonPlan(p *plan, packName string, fuel *Fuel, u units.Unit) 
 		return err
 	}
 	p.exact, p.unit = k.Quo(k, ratio), "t C"
+	p.terms = []planTerm{newTerm(p.exact, append(uses, factorUse{rf[0], -1}, factorUse{rf[1], 1}))}
 	p.factors = append(append(p.factors, fs...), rf...)
 	p.notes = append(append(p.notes, notes...), "carbon derived from the CO2 factor x 12/44 (full oxidation assumed)")
 	return nil
@@ -407,6 +433,7 @@ func callFuel(kind planKind, toIndex int, toDefault string) func(e *Engine, c *c
 		if p.memoPrefix != "" {
 			c.note(p.memoNote(amount))
 		}
+		c.record(p, amount)
 		return p.apply(amount), p.unit, nil
 	}
 }

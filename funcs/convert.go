@@ -69,6 +69,7 @@ type edge struct {
 	to     amountState
 	mul    *big.Rat
 	factor *Factor
+	pow    int // +1 when mul is the factor, -1 when it is its inverse
 	note   string
 }
 
@@ -76,6 +77,7 @@ type edge struct {
 type conversion struct {
 	mul     *big.Rat // SI of the target state per SI of the amount's unit
 	factors []*Factor
+	pows    []int // per factor: +1 multiplies, -1 divides
 	notes   []string
 }
 
@@ -90,9 +92,9 @@ func (e *Engine) edges(packName string, fuel *Fuel, s amountState) []edge {
 		carrier := stateOf(f.denDim(), units.NoBasis)
 		switch s {
 		case carrier:
-			out = append(out, edge{to: energy, mul: f.exact, factor: f})
+			out = append(out, edge{to: energy, mul: f.exact, factor: f, pow: 1})
 		case energy:
-			out = append(out, edge{to: carrier, mul: inv(f.exact), factor: f})
+			out = append(out, edge{to: carrier, mul: inv(f.exact), factor: f, pow: -1})
 		}
 	}
 	cv("ncv", stateNCV)
@@ -101,18 +103,18 @@ func (e *Engine) edges(packName string, fuel *Fuel, s amountState) []edge {
 		note := "volume and mass related by the density " + d.Citation()
 		switch s {
 		case stateVolume:
-			out = append(out, edge{to: stateMass, mul: d.exact, factor: d, note: note})
+			out = append(out, edge{to: stateMass, mul: d.exact, factor: d, pow: 1, note: note})
 		case stateMass:
-			out = append(out, edge{to: stateVolume, mul: inv(d.exact), factor: d, note: note})
+			out = append(out, edge{to: stateVolume, mul: inv(d.exact), factor: d, pow: -1, note: note})
 		}
 	}
 	if s == stateNCV || s == stateHHV {
 		if r := e.basisRatio(packName, fuel); r != nil {
 			if s == stateHHV {
-				out = append(out, edge{to: stateNCV, mul: r.exact, factor: r,
+				out = append(out, edge{to: stateNCV, mul: r.exact, factor: r, pow: 1,
 					note: "HHV converted to NCV with NCV/GCV = " + FormatNumber(r.Value) + " for " + ratioSubject(r) + " (" + r.Source + ")"})
 			} else {
-				out = append(out, edge{to: stateHHV, mul: inv(r.exact), factor: r,
+				out = append(out, edge{to: stateHHV, mul: inv(r.exact), factor: r, pow: -1,
 					note: "NCV converted to HHV with NCV/GCV = " + FormatNumber(r.Value) + " for " + ratioSubject(r) + " (" + r.Source + ")"})
 			}
 		}
@@ -220,6 +222,7 @@ func (e *Engine) findPath(packName string, fuel *Fuel, start, goal amountState) 
 	for i := len(path) - 1; i >= 0; i-- {
 		c.mul.Mul(c.mul, path[i].mul)
 		c.factors = append(c.factors, path[i].factor)
+		c.pows = append(c.pows, path[i].pow)
 		if path[i].note != "" {
 			c.notes = append(c.notes, path[i].note)
 		}

@@ -111,11 +111,12 @@ func (e *Engine) mobilePlan(p *plan, key planKey, packName string, fuel *Fuel, u
 	}
 	modeNote := "mode " + mode.name + ": CH4 and N2O of " + mode.title
 	if key.kind == kindMobileCO2 {
-		k, fs, notes, err := e.emission(packName, fuel, u, co2)
+		k, fs, uses, notes, err := e.emission(packName, fuel, u, co2)
 		if err != nil {
 			return err
 		}
 		p.exact, p.unit = k, "t CO2"
+		p.terms = []planTerm{newTerm(k, uses)}
 		p.factors, p.notes = append(p.factors, fs...), append(p.notes, notes...)
 		p.notes = append(p.notes, co2Note, "mode "+mode.name+" ("+mode.title+"): CO2 depends on the fuel alone")
 		if bio := e.biogenicFraction(packName, fuel); bio.Sign() > 0 {
@@ -201,6 +202,7 @@ func callMobile(kind planKind) func(e *Engine, c *callCtx, a argList) (float64, 
 		if p.memoPrefix != "" {
 			c.note(p.memoNote(amount))
 		}
+		c.record(p, amount)
 		return p.apply(amount), p.unit, nil
 	}
 }

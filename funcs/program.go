@@ -18,7 +18,10 @@ type Program struct {
 	prog *vm.Program
 	vars []string // variables in first-use order
 	unit string   // result unit when it follows from the expression, else ""
-	pool sync.Pool
+	// signs are the signs of the catalog calls in evaluation order when the
+	// expression is a sum or difference of calls and numbers; nil otherwise.
+	signs []float64
+	pool  sync.Pool
 }
 
 // Source is the expression as compiled.
@@ -57,6 +60,25 @@ func (p *Program) NewRunner() *Runner {
 // The Result's Sources and Notes are reused by the next Run of the same
 // Runner: copy them (Result.Clone) to keep them longer.
 func (r *Runner) Run(vars map[string]any) (Result, error) {
+	r.st.ctx.track = false
+	return r.run(vars)
+}
+
+// RunInterval is Run with the 95 % interval of the result (Result.Interval)
+// computed as opt says, when the expression is a call or a sum or difference of
+// calls of functions that model their factors; a note says why otherwise.
+func (r *Runner) RunInterval(vars map[string]any, opt IntervalOptions) (Result, error) {
+	r.st.ctx.track = true
+	res, err := r.run(vars)
+	if err != nil {
+		return res, err
+	}
+	r.st.ctx.interval(&res, r.p.signs, opt)
+	r.st.ctx.notes = res.Notes
+	return res, nil
+}
+
+func (r *Runner) run(vars map[string]any) (Result, error) {
 	for _, name := range r.p.vars {
 		v, ok := vars[name]
 		if !ok {
@@ -113,10 +135,27 @@ func (p *Program) Eval(vars map[string]any) (Result, error) {
 	}
 	res, err := r.Run(vars)
 	res = res.Clone()
+	p.put(r)
+	return res, err
+}
+
+// EvalInterval is Eval with the 95 % interval of the result (see
+// Runner.RunInterval). Safe for concurrent use.
+func (p *Program) EvalInterval(vars map[string]any, opt IntervalOptions) (Result, error) {
+	r, _ := p.pool.Get().(*Runner)
+	if r == nil {
+		r = p.NewRunner()
+	}
+	res, err := r.RunInterval(vars, opt)
+	res = res.Clone()
+	p.put(r)
+	return res, err
+}
+
+func (p *Program) put(r *Runner) {
 	clear(r.env)
 	r.env[runVar] = &r.st
 	p.pool.Put(r)
-	return res, err
 }
 
 // runError turns a VM error into an *Error, keeping the column of the call

@@ -10,12 +10,19 @@ type Result struct {
 	Unit    string    // its unit, "" when it does not follow from the expression
 	Sources []*Factor // the factor rows used, in first-use order
 	Notes   []string  // assumptions made: alias mappings, basis conversions, defaults
+	// Interval is the 95 % interval of Value, when asked for (CallInterval,
+	// EvalInterval, RunInterval) and computable; nil otherwise.
+	Interval *Interval
 }
 
 // Clone returns a Result whose slices are its own.
 func (r Result) Clone() Result {
 	r.Sources = append([]*Factor(nil), r.Sources...)
 	r.Notes = append([]string(nil), r.Notes...)
+	if r.Interval != nil {
+		iv := *r.Interval
+		r.Interval = &iv
+	}
 	return r
 }
 
@@ -29,15 +36,22 @@ func (r Result) FactorKeys() []string {
 }
 
 // MarshalJSON writes {"value", "unit", "sources", "notes"}; sources and
-// notes are always arrays.
+// notes are always arrays. With an interval it adds "low", "high" and
+// "interval" ({"approach"}, and "mean", "draws", "seed" for approach2).
 func (r Result) MarshalJSON() ([]byte, error) {
 	type out struct {
-		Value   float64   `json:"value"`
-		Unit    string    `json:"unit"`
-		Sources []*Factor `json:"sources"`
-		Notes   []string  `json:"notes"`
+		Value    float64       `json:"value"`
+		Low      *float64      `json:"low,omitempty"`
+		High     *float64      `json:"high,omitempty"`
+		Interval *intervalJSON `json:"interval,omitempty"`
+		Unit     string        `json:"unit"`
+		Sources  []*Factor     `json:"sources"`
+		Notes    []string      `json:"notes"`
 	}
 	o := out{Value: r.Value, Unit: r.Unit, Sources: r.Sources, Notes: r.Notes}
+	if iv := r.Interval; iv != nil {
+		o.Low, o.High, o.Interval = &iv.Low, &iv.High, iv.json()
+	}
 	if o.Sources == nil {
 		o.Sources = []*Factor{}
 	}
@@ -64,4 +78,20 @@ func (f *Factor) MarshalJSON() ([]byte, error) {
 	}
 	return json.Marshal(row{Key: f.Key(), Pack: f.Pack, ID: f.ID, Quantity: f.Quantity, Value: f.Value, Unit: f.Unit,
 		Low: f.Low, High: f.High, Basis: f.BasisName, Source: f.Source, FromMemory: f.FromMemory})
+}
+
+// intervalJSON describes how an interval was computed.
+type intervalJSON struct {
+	Approach string   `json:"approach"`
+	Mean     *float64 `json:"mean,omitempty"`
+	Draws    int      `json:"draws,omitempty"`
+	Seed     *uint64  `json:"seed,omitempty"`
+}
+
+func (iv *Interval) json() *intervalJSON {
+	o := &intervalJSON{Approach: iv.Approach.String()}
+	if iv.Approach == Approach2 {
+		o.Mean, o.Draws, o.Seed = &iv.Mean, iv.Draws, &iv.Seed
+	}
+	return o
 }

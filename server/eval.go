@@ -62,6 +62,8 @@ type evalRequest struct {
 	Expr *string        `json:"expr"`
 	Vars map[string]any `json:"vars"`
 	Rows *[]any         `json:"rows"`
+	// Interval asks for the 95 % interval of each result (see intervalField).
+	Interval intervalField `json:"interval"`
 }
 
 // eval answers POST /v1/eval: a JSON body {"expr", "vars"} or {"expr", "rows"}, or a CSV body
@@ -150,6 +152,8 @@ func decodeEvalJSON(body io.Reader, limit int64) (evalRequest, *apiError) {
 		switch {
 		case errors.As(err, &mbe):
 			return req, tooLarge(limit)
+		case strings.HasPrefix(err.Error(), "interval"):
+			return req, badRequest("interval", err.Error())
 		case errors.Is(err, io.EOF):
 			return req, badRequest("body", "request body is empty: "+shape)
 		case errors.Is(err, io.ErrUnexpectedEOF):
@@ -168,7 +172,7 @@ func decodeEvalJSON(body io.Reader, limit int64) (evalRequest, *apiError) {
 			return req, badRequest(field, "field "+field+" is a JSON "+te.Value+"; it must be "+want)
 		case strings.HasPrefix(err.Error(), "json: unknown field "):
 			name := strings.TrimPrefix(err.Error(), "json: unknown field ")
-			return req, badRequest(strings.Trim(name, `"`), "unknown field "+name+" in the body: accepted are expr, vars, rows")
+			return req, badRequest(strings.Trim(name, `"`), "unknown field "+name+" in the body: accepted are expr, vars, rows, interval")
 		}
 		return req, bodyError(err, limit)
 	}
@@ -249,7 +253,12 @@ func (s *Server) evalJSON(ctx context.Context, c *gin.Context) {
 			s.abort(c, s.timedOut())
 			return
 		}
-		res, err := p.Eval(vars)
+		var res funcs.Result
+		if req.Interval.on {
+			res, err = p.EvalInterval(vars, req.Interval.opt)
+		} else {
+			res, err = p.Eval(vars)
+		}
 		if err != nil {
 			s.metrics.evalRows.WithLabelValues("error").Inc()
 			s.abort(c, fromFuncs(err, false))
@@ -294,7 +303,11 @@ func (s *Server) evalJSON(ctx context.Context, c *gin.Context) {
 		s.abort(c, e)
 		return
 	}
-	out, e := s.runRows(ctx, p, vars, rows)
+	var iv *funcs.IntervalOptions
+	if req.Interval.on {
+		iv = &req.Interval.opt
+	}
+	out, e := s.runRows(ctx, p, vars, rows, iv)
 	if e != nil {
 		s.abort(c, e)
 		return
@@ -305,7 +318,9 @@ func (s *Server) evalJSON(ctx context.Context, c *gin.Context) {
 // runRows evaluates p for every row (vars fill what a row leaves out) and writes
 // {"results": [...], "sources": [...], "notes": [...]}: a row that fails gets {"error",
 // "code"} and the others still compute; sources and notes are those of all rows, once each.
-func (s *Server) runRows(ctx context.Context, p *funcs.Program, vars map[string]any, rows []any) ([]byte, *apiError) {
+//
+// With iv, each row's result also has "low" and "high" when its interval is computable.
+func (s *Server) runRows(ctx context.Context, p *funcs.Program, vars map[string]any, rows []any, iv *funcs.IntervalOptions) ([]byte, *apiError) {
 	run := p.NewRunner()
 	var b bytes.Buffer
 	b.Grow(len(rows)*32 + 64)
@@ -356,7 +371,13 @@ func (s *Server) runRows(ctx context.Context, p *funcs.Program, vars map[string]
 				m[k] = v
 			}
 		}
-		res, err := run.Run(m)
+		var res funcs.Result
+		var err error
+		if iv != nil {
+			res, err = run.RunInterval(m, *iv)
+		} else {
+			res, err = run.Run(m)
+		}
 		if err != nil {
 			badRows++
 			ae := fromFuncs(err, false)
@@ -369,6 +390,7 @@ func (s *Server) runRows(ctx context.Context, p *funcs.Program, vars map[string]
 		okRows++
 		b.WriteString(`{"value":`)
 		b.Write(appendJSONFloat(b.AvailableBuffer(), res.Value))
+		writeInterval(&b, res.Interval, false)
 		b.WriteString(`,"unit":`)
 		u, ok := unitJSON[res.Unit]
 		if !ok {

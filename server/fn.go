@@ -8,6 +8,8 @@ import (
 	"time"
 
 	"github.com/gin-gonic/gin"
+
+	"github.com/fluecell/fluecell/funcs"
 )
 
 // answer is a rendered answer of GET /v1/fn. Answers are pure functions of the function name,
@@ -58,7 +60,14 @@ func (s *Server) computeFn(name, raw string) *answer {
 	if qe != nil {
 		return s.fnErrorAnswer(q, qe)
 	}
-	res, err := s.engine.Call(name, q.args)
+	var res funcs.Result
+	var err error
+	if q.format == formatJSON {
+		// JSON has room for the 95 % interval; the other formats stay as they were
+		res, err = s.engine.CallInterval(name, q.args, funcs.IntervalOptions{Approach: funcs.Approach1})
+	} else {
+		res, err = s.engine.Call(name, q.args)
+	}
 	if err != nil {
 		return s.fnErrorAnswer(q, fromFuncs(err, true))
 	}

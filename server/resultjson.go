@@ -45,12 +45,14 @@ func (fj *factorJSON) appendSources(b *bytes.Buffer, fs []*funcs.Factor) error {
 	return nil
 }
 
-// resultJSON writes {"value", "unit", "sources", "notes"}, the JSON of funcs.Result.
+// resultJSON writes {"value", "unit", "sources", "notes"}, the JSON of funcs.Result, with
+// "low", "high" and "interval" after the value when the result has an interval.
 func (fj *factorJSON) resultJSON(r funcs.Result) ([]byte, error) {
 	var b bytes.Buffer
 	b.Grow(64 + 300*len(r.Sources))
 	b.WriteString(`{"value":`)
 	b.Write(appendJSONFloat(nil, r.Value))
+	writeInterval(&b, r.Interval, true)
 	b.WriteString(`,"unit":`)
 	writeJSONString(&b, r.Unit)
 	b.WriteString(`,"sources":`)
@@ -84,4 +86,30 @@ func appendJSONFloat(b []byte, f float64) []byte {
 		}
 	}
 	return b
+}
+
+// writeInterval writes ,"low":…,"high":… of iv, and with how also
+// ,"interval":{"approach", …} as funcs.Result.MarshalJSON writes it; nothing when iv is nil.
+func writeInterval(b *bytes.Buffer, iv *funcs.Interval, how bool) {
+	if iv == nil {
+		return
+	}
+	b.WriteString(`,"low":`)
+	b.Write(appendJSONFloat(b.AvailableBuffer(), iv.Low))
+	b.WriteString(`,"high":`)
+	b.Write(appendJSONFloat(b.AvailableBuffer(), iv.High))
+	if !how {
+		return
+	}
+	b.WriteString(`,"interval":{"approach":`)
+	writeJSONString(b, iv.Approach.String())
+	if iv.Approach == funcs.Approach2 {
+		b.WriteString(`,"mean":`)
+		b.Write(appendJSONFloat(b.AvailableBuffer(), iv.Mean))
+		b.WriteString(`,"draws":`)
+		b.WriteString(strconv.Itoa(iv.Draws))
+		b.WriteString(`,"seed":`)
+		b.WriteString(strconv.FormatUint(iv.Seed, 10))
+	}
+	b.WriteByte('}')
 }

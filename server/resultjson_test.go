@@ -5,6 +5,8 @@ import (
 	"math"
 	"reflect"
 	"testing"
+
+	"github.com/fluecell/fluecell/funcs"
 )
 
 func TestAppendJSONFloat(t *testing.T) {
@@ -21,6 +23,8 @@ func TestAppendJSONFloat(t *testing.T) {
 func TestResultJSON(t *testing.T) {
 	e := newEngine(t)
 	var fj factorJSON
+	check := checkResultJSON(t, &fj)
+	intervals := 0
 	for _, f := range e.Functions() {
 		p, err := e.Compile(f.Example)
 		if err != nil {
@@ -30,6 +34,27 @@ func TestResultJSON(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
+		check(f.Name, res)
+		// with an interval by either approach (fuel functions have one)
+		for _, opt := range []funcs.IntervalOptions{{Approach: funcs.Approach1}, {Approach: funcs.Approach2, Seed: 3, Draws: 100}} {
+			res, err := p.EvalInterval(nil, opt)
+			if err != nil {
+				t.Fatal(err)
+			}
+			check(f.Name+" "+opt.Approach.String(), res)
+			if res.Interval != nil {
+				intervals++
+			}
+		}
+	}
+	if intervals == 0 {
+		t.Error("no example gave an interval: the JSON of low, high and interval went unchecked")
+	}
+}
+
+func checkResultJSON(t *testing.T, fj *factorJSON) func(name string, res funcs.Result) {
+	return func(name string, res funcs.Result) {
+		t.Helper()
 		want, err := json.Marshal(res)
 		if err != nil {
 			t.Fatal(err)
@@ -40,11 +65,11 @@ func TestResultJSON(t *testing.T) {
 		}
 		var a, b any
 		if err := json.Unmarshal(got, &a); err != nil {
-			t.Fatalf("%s: %v: %s", f.Name, err, got)
+			t.Fatalf("%s: %v: %s", name, err, got)
 		}
 		_ = json.Unmarshal(want, &b)
 		if !reflect.DeepEqual(a, b) {
-			t.Errorf("%s:\n got %s\nwant %s", f.Name, got, want)
+			t.Errorf("%s:\n got %s\nwant %s", name, got, want)
 		}
 	}
 }

@@ -53,8 +53,9 @@ func TestEvalJSONAndVars(t *testing.T) {
 		t.Fatalf("%v\n%s", err, out)
 	}
 	// EPA GHG Emission Factors Hub 2025 Table 1: 0.138 MMBtu/gal x 73.96 kg CO2/MMBtu
-	// Notes: the fuel alias, and gal read as the US gallon.
-	if r.Value != 1000*0.138*73.96/1000 || r.Unit != "t CO2" || len(r.Sources) != 2 || len(r.Notes) != 2 || r.Notes[1] != units.GallonNote {
+	// Notes: the fuel alias, gal read as the US gallon, and no interval (the EPA rows publish no range).
+	if r.Value != 1000*0.138*73.96/1000 || r.Unit != "t CO2" || len(r.Sources) != 2 || len(r.Notes) != 3 || r.Notes[1] != units.GallonNote ||
+		!strings.HasPrefix(r.Notes[2], "no 95 % interval: none of the rows used publishes a range") {
 		t.Errorf("%+v", r)
 	}
 }
