@@ -1,9 +1,7 @@
 package funcs
 
 import (
-	"encoding/csv"
 	"fmt"
-	"io"
 	"path"
 	"sort"
 	"strings"
@@ -95,36 +93,6 @@ func embeddedGasTables() (gasTables, error) {
 		*f.dst = b
 	}
 	return t, nil
-}
-
-// readTable parses a table whose header must be want; it returns the rows, trimmed, with their
-// 1-based line numbers. Lines starting with # are comments.
-func readTable(data []byte, name string, want []string) ([][]string, []int, error) {
-	r := csv.NewReader(strings.NewReader(string(data)))
-	r.Comment = '#'
-	header, err := r.Read()
-	if err != nil {
-		return nil, nil, csvErr(name, err)
-	}
-	if strings.Join(header, ",") != strings.Join(want, ",") {
-		return nil, nil, &PackFileError{File: name, Line: 1, Reason: "header must be " + strings.Join(want, ",")}
-	}
-	var rows [][]string
-	var lines []int
-	for {
-		rec, err := r.Read()
-		if err == io.EOF {
-			return rows, lines, nil
-		}
-		if err != nil {
-			return nil, nil, csvErr(name, err)
-		}
-		line, _ := r.FieldPos(0)
-		for i := range rec {
-			rec[i] = strings.TrimSpace(rec[i])
-		}
-		rows, lines = append(rows, rec), append(lines, line)
-	}
 }
 
 // newGasIndex reads the gas tables and adds, as kind custom, every id with a GWP-100 row in the

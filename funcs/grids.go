@@ -1,8 +1,6 @@
 package funcs
 
 import (
-	"encoding/csv"
-	"io"
 	"path"
 	"slices"
 	"sort"
@@ -292,30 +290,16 @@ func embeddedGridNames() ([]gridName, error) {
 	if err != nil {
 		return nil, &PackFileError{File: file, Reason: err.Error()}
 	}
-	r := csv.NewReader(strings.NewReader(string(b)))
-	header, err := r.Read()
-	if err != nil {
-		return nil, csvErr(file, err)
-	}
-	if strings.Join(header, ",") != "name,grid,kind,source" {
-		return nil, &PackFileError{File: file, Line: 1, Reason: "header must be name,grid,kind,source"}
-	}
 	var out []gridName
-	for {
-		rec, err := r.Read()
-		if err == io.EOF {
-			return out, nil
-		}
-		if err != nil {
-			return nil, csvErr(file, err)
-		}
-		line, _ := r.FieldPos(0)
+	err = eachRow(b, file, []string{"name", "grid", "kind", "source"}, func(rec []string, line int, bad func(col, format string, args ...any) error) error {
 		n := gridName{name: rec[0], grid: rec[1], kind: rec[2], source: rec[3], line: line}
 		if gridKey(n.name) == "" || !validIdent(n.grid) || n.source == "" || (n.kind != "name" && n.kind != "code" && n.kind != "alias") {
-			return nil, &PackFileError{File: file, Line: line, Reason: "each row needs a name, a grid id, a kind (name, code or alias) and a source"}
+			return bad("", "each row needs a name, a grid id, a kind (name, code or alias) and a source")
 		}
 		out = append(out, n)
-	}
+		return nil
+	})
+	return out, err
 }
 
 // gridKey folds a grid name: lower case, dots dropped ("U.S." is "us"), and

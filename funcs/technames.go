@@ -1,9 +1,7 @@
 package funcs
 
 import (
-	"encoding/csv"
 	"fmt"
-	"io"
 	"path"
 	"strings"
 )
@@ -39,48 +37,27 @@ func techKey(s string) string {
 // parseTechNames reads the vocabulary CSV: columns name, kind, tech_id, description, source,
 // from_memory. A malformed row fails with a *PackFileError naming file and line.
 func parseTechNames(data []byte, file string) ([]techName, error) {
-	r := csv.NewReader(strings.NewReader(string(data)))
-	r.Comment = '#'
-	header, err := r.Read()
-	if err != nil {
-		return nil, csvErr(file, err)
-	}
-	if strings.Join(header, ",") != "name,kind,tech_id,description,source,from_memory" {
-		return nil, &PackFileError{File: file, Line: 1, Reason: "header must be name,kind,tech_id,description,source,from_memory"}
-	}
 	var out []techName
-	for {
-		rec, err := r.Read()
-		if err == io.EOF {
-			return out, nil
-		}
-		if err != nil {
-			return nil, csvErr(file, err)
-		}
-		line, _ := r.FieldPos(0)
-		bad := func(col, format string, args ...any) error {
-			return &PackFileError{File: file, Line: line, Column: col, Reason: fmt.Sprintf(format, args...)}
-		}
+	err := eachRow(data, file, []string{"name", "kind", "tech_id", "description", "source", "from_memory"}, func(rec []string, line int, bad func(col, format string, args ...any) error) error {
 		n := techName{name: rec[0], kind: rec[1], techID: rec[2], desc: rec[3], source: rec[4], line: line}
-		switch {
-		case techKey(n.name) == "":
-			return nil, bad("name", "empty name")
-		case n.source == "":
-			return nil, bad("source", "empty source: every row names its publication and table, or says common practice")
-		case rec[5] != "true" && rec[5] != "false":
-			return nil, bad("from_memory", "from_memory %q: accepted are true or false", rec[5])
-		case (rec[5] == "true") != strings.Contains(n.source, "from memory"):
-			return nil, bad("from_memory", "from_memory is %q: a source says \"from memory\" exactly when from_memory is true", rec[5])
-		case (n.kind == "alias") != (n.techID != ""):
-			return nil, bad("tech_id", "an alias names a tech_id, other kinds none")
+		if techKey(n.name) == "" {
+			return bad("name", "empty name")
+		}
+		if err := checkSourceMemory(n.source, rec[5], bad); err != nil {
+			return err
+		}
+		if (n.kind == "alias") != (n.techID != "") {
+			return bad("tech_id", "an alias names a tech_id, other kinds none")
 		}
 		switch n.kind {
 		case "alias", "suffix", "unmapped", "ambiguous":
 		default:
-			return nil, bad("kind", "kind %q: accepted are alias, suffix, unmapped, ambiguous", n.kind)
+			return bad("kind", "kind %q: accepted are alias, suffix, unmapped, ambiguous", n.kind)
 		}
 		out = append(out, n)
-	}
+		return nil
+	})
+	return out, err
 }
 
 // newTechIndex indexes the technologies ids (those with a life-cycle row) and the

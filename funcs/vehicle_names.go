@@ -1,9 +1,7 @@
 package funcs
 
 import (
-	"encoding/csv"
 	"fmt"
-	"io"
 	"path"
 	"sort"
 	"strings"
@@ -73,45 +71,25 @@ func sortedKey(words []string) string {
 // parseVehicleNames reads the vocabulary: columns name, kind, vehicle, description, source,
 // from_memory. A malformed row fails with a *PackFileError naming file and line.
 func parseVehicleNames(data []byte, file string) ([]vehicleName, error) {
-	r := csv.NewReader(strings.NewReader(string(data)))
-	r.Comment = '#'
-	header, err := r.Read()
-	if err != nil {
-		return nil, csvErr(file, err)
-	}
-	if strings.Join(header, ",") != "name,kind,vehicle,description,source,from_memory" {
-		return nil, &PackFileError{File: file, Line: 1, Reason: "header must be name,kind,vehicle,description,source,from_memory"}
-	}
 	var out []vehicleName
-	for {
-		rec, err := r.Read()
-		if err == io.EOF {
-			return out, nil
-		}
-		if err != nil {
-			return nil, csvErr(file, err)
-		}
-		line, _ := r.FieldPos(0)
-		bad := func(col, format string, args ...any) error {
-			return &PackFileError{File: file, Line: line, Column: col, Reason: fmt.Sprintf(format, args...)}
-		}
+	err := eachRow(data, file, []string{"name", "kind", "vehicle", "description", "source", "from_memory"}, func(rec []string, line int, bad func(col, format string, args ...any) error) error {
 		n := vehicleName{name: rec[0], kind: rec[1], vehicle: rec[2], desc: rec[3], source: rec[4], line: line}
+		if len(vehicleWords(n.name)) == 0 {
+			return bad("name", "empty name")
+		}
+		if err := checkSourceMemory(n.source, rec[5], bad); err != nil {
+			return err
+		}
 		switch {
-		case len(vehicleWords(n.name)) == 0:
-			return nil, bad("name", "empty name")
-		case n.source == "":
-			return nil, bad("source", "empty source: every row names its publication and table, or says common practice")
-		case rec[5] != "true" && rec[5] != "false":
-			return nil, bad("from_memory", "from_memory %q: accepted are true or false", rec[5])
-		case (rec[5] == "true") != strings.Contains(n.source, "from memory"):
-			return nil, bad("from_memory", "from_memory is %q: a source says \"from memory\" exactly when from_memory is true", rec[5])
 		case n.kind != "alias" && n.kind != "word" && n.kind != "ambiguous":
-			return nil, bad("kind", "kind %q: accepted are alias, word, ambiguous", n.kind)
+			return bad("kind", "kind %q: accepted are alias, word, ambiguous", n.kind)
 		case n.kind == "alias" && n.vehicle == "", n.kind == "ambiguous" && n.vehicle != "":
-			return nil, bad("vehicle", "an alias names a vehicle, an ambiguous name none")
+			return bad("vehicle", "an alias names a vehicle, an ambiguous name none")
 		}
 		out = append(out, n)
-	}
+		return nil
+	})
+	return out, err
 }
 
 // newVehicleIndex indexes the vehicles of the distance rows of ps and the embedded vocabulary.
