@@ -87,6 +87,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 			continue
 		}
 		t.dataRows++
+		t.markRow(i, rowFound, nil)
 		rowNum := int(t.rowNums[i])
 		if len(t.rules) == 0 && spec.headerErr != nil {
 			// No rule could be written (no unit anywhere): each row says so
@@ -129,6 +130,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 		}
 		rs, skip := sc.rowRules(t, main, i)
 		if skip {
+			t.rowKind[i] = rowScope2 // purchased energy that cannot be computed
 			continue
 		}
 		if rs != main {
@@ -192,9 +194,13 @@ func (sc *scanCtx) evaluate(t *table) error {
 		if nk > 0 {
 			t.src[i] = sc.sourceIndex(t, srcIndex, key, long)
 		}
+		state := rowFound
 		if all {
 			t.computed++
+			state = rowComputed
 		}
+		sc.biogenicSplit(t, i, vars, rowNotes)
+		t.markRow(i, state, rs)
 		sc.rowTotals(t, i, vars, wideK, rs.key)
 		if rs == main {
 			sc.collectSamples(t, i, rowNum, vars, samples)
