@@ -40,6 +40,9 @@ func KindScope(kind string) string {
 
 // KindLabel is a kind as a person reads it: "stationary combustion (Scope 1)".
 func KindLabel(kind string) string {
+	if kind == KindEmbodied {
+		return KindScope(kind)
+	}
 	return strings.ReplaceAll(kind, "_", " ") + " (" + KindScope(kind) + ")"
 }
 

@@ -78,6 +78,31 @@ func TestDemoFuelLogFossilAndBiogenic(t *testing.T) {
 	if get("H14") != "0" || !nearText(get("J14"), wantBio) || get("J5") != "0" {
 		t.Errorf("wood row: tCO2 %q, biogenic %q; gas row biogenic %q; want 0, %.9g, 0", get("H14"), get("J14"), get("J5"), wantBio)
 	}
+	// The summary: one line per kind, marked incomplete, linking to the rows left out.
+	rows, err := f.GetRows(SheetSummary, excelize.Options{RawCellValue: true})
+	must(t, err)
+	found := false
+	for i, r := range rows {
+		if len(r) < 8 || r[0] != KindLabel(KindStationary) {
+			continue
+		}
+		found = true
+		if !nearText(r[3], wantBio) || r[4] != "13" || r[5] != "16" || r[6] != "incomplete: 3 rows left out" || r[7] != "Fuel log!A11" {
+			t.Errorf("summary line %q", r)
+		}
+		ok, link, err := f.GetCellHyperLink(SheetSummary, cellRef(8, i+1))
+		if err != nil || !ok || link != "'Fuel log'!A11" {
+			t.Errorf("link of %s = %q, %v, %v; want 'Fuel log'!A11", cellRef(8, i+1), link, ok, err)
+		}
+	}
+	if !found {
+		t.Errorf("no line %q in the summary: %q", KindLabel(KindStationary), rows)
+	}
+	for _, r := range rows {
+		if len(r) > 0 && r[0] == "Total" {
+			t.Errorf("a grand total across kinds in the summary: %q", r)
+		}
+	}
 }
 
 func nearText(s string, want float64) bool {
