@@ -200,6 +200,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 			state = rowComputed
 		}
 		sc.biogenicSplit(t, i, vars, rowNotes)
+		sc.wideBiogenicRow(t, i)
 		t.markRow(i, state, rs)
 		sc.rowTotals(t, i, vars, wideK, rs.key)
 		if rs == main {
@@ -216,7 +217,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 // read (a note row inside the table): it is skipped without warnings.
 func (t *table) blankRoles(i int) bool {
 	for s, c := range t.slots {
-		if c.role == roleGroup || c.role == roleExisting {
+		if c.role == roleGroup || c.role == roleExisting || c.role == roleNone {
 			continue
 		}
 		v := t.val(i, s)
@@ -278,7 +279,11 @@ func (sc *scanCtx) headerWarnings(t *table) {
 				": every such value there reads that way (\"20,523\" as 20523); set the column's number style in a mapping if they are decimals")
 		}
 		if c.biogenic {
-			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.Text)+" is a biogenic fuel: its CO2 is a memo item, reported apart from fossil CO2, so the column is left out of the totals")
+			msg := quoteText(c.hdr.Text) + " is a biogenic fuel: its CO2 is a memo item, reported apart from fossil CO2, so the column is left out of the totals"
+			if wideBiogenic(spec, c) {
+				msg = quoteText(c.hdr.Text) + " is a biogenic fuel: its CO2 is a memo item, in the column " + BiogenicColumn + " and the biogenic total, not in tCO2 or tCO2e (fossil only)"
+			}
+			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, msg)
 		}
 		if c.sameAs != nil {
 			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.Text)+" gives "+c.sameAs.fuelID+" again, in "+c.hdr.UnitText+

@@ -296,3 +296,48 @@ func finiteKinds(ks []KindTotal) bool {
 	}
 	return ok
 }
+
+// wideBiogenic reports a per-fuel column of a biogenic fuel (wood pellets
+// (t)) of a table with one column per fuel: its CO2 is computed into the
+// biogenic column, never into tCO2 or tCO2e.
+func wideBiogenic(spec *tableSpec, c *column) bool {
+	return spec.kind == kindWide && c.biogenic && c.role == roleNone && c.hdr.UnitErr == nil && c.hdr.UnitText != "" && !c.hdr.Flow
+}
+
+// wideBiogenicRow adds to row i's biogenic CO2 the CO2 of the biogenic
+// columns of a wide table: amount x fuel_co2 of the column's fuel per unit
+// of the header's unit (a cell that is not a number adds nothing).
+func (sc *scanCtx) wideBiogenicRow(t *table, i int) {
+	if t.spec.kind != kindWide || len(sc.userRules) > 0 || t.res == nil {
+		return
+	}
+	for s, c := range t.slots {
+		if !wideBiogenic(t.spec, c) {
+			continue
+		}
+		v := t.val(i, s)
+		if v.kind != kNumber || v.num == 0 {
+			continue
+		}
+		f := sc.headerFuel(c.hdr.Base)
+		r, err := sc.e.CallValues("fuel_co2", f.id, 1.0, c.hdr.UnitText)
+		if err != nil {
+			continue
+		}
+		x := v.num
+		if c.hdr.Scale != 0 {
+			x *= c.hdr.Scale
+		}
+		if t.bio == nil {
+			t.bio = make([]float64, len(t.rowNums))
+			for k := range t.bio {
+				t.bio[k] = math.NaN()
+			}
+		}
+		if math.IsNaN(t.bio[i]) {
+			t.bio[i] = 0
+		}
+		t.bio[i] += x * r.Value
+		t.hasBio = true
+	}
+}

@@ -166,3 +166,20 @@ func TestTotalsKeptByKind(t *testing.T) {
 		t.Errorf("tCO2e %.9g < tCO2 %.9g or biogenic %.9g", rep.Totals.TCO2e, rep.Totals.TCO2, rep.Biogenic)
 	}
 }
+
+// TestDemoMonthlyWoodBiogenic: the demo's monthly energy has a column of
+// wood pellets (t), 85.8 t in the year: its CO2 is biogenic, in the column
+// tCO2_biogenic and the biogenic total, never in tCO2 or tCO2e.
+func TestDemoMonthlyWoodBiogenic(t *testing.T) {
+	dir := t.TempDir()
+	paths, err := demo.Write(dir)
+	must(t, err)
+	rep := scanFile(t, paths[1], Options{})
+	want := 85.8 * woodBioTPerT // 149.91 t
+	if !near(rep.Biogenic, want) || rep.ByFuel["wood"] != (Totals{}) {
+		t.Errorf("biogenic %.9g t, want %.9g (85.8 t x 15.6 GJ/t x 112 kg/GJ); wood by fuel %+v, want none", rep.Biogenic, want, rep.ByFuel["wood"])
+	}
+	if st := kindTotalOf(rep, KindStationary); st.Rows != 12 || st.Computed != 12 || st.Incomplete || !near(st.Biogenic, want) {
+		t.Errorf("stationary %+v", st)
+	}
+}

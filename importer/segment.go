@@ -72,7 +72,7 @@ func (sc *scanCtx) newTable(spec *tableSpec, merges []rangeRef) (*table, error) 
 		}
 	}
 	for _, c := range spec.cols {
-		if c.role != roleNone {
+		if c.role != roleNone || wideBiogenic(spec, c) {
 			t.slot(c)
 		}
 	}
