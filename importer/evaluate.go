@@ -490,13 +490,15 @@ func (sc *scanCtx) rowTotals(t *table, i int, vars map[string]any, wideK map[*co
 	if has3 {
 		add(t.byFuel, &t.fuelOrd, scope2Key(spec), 0, scope2, false, true)
 	}
-	if g := spec.group; g != nil {
+	if g := spec.group; g != nil && key == "" && (has1 || has2) {
+		// One kind per group total: the table's combustion (or embodied)
+		// rows; purchased energy (Scope 2) is never added in.
 		v := t.val(i, t.slotOf[g.col])
 		key := strings.TrimSpace(cell{kind: v.kind, num: v.num, text: v.text}.display())
 		if v.kind == kEmpty {
 			key = "(blank)"
 		}
-		add(t.byGroup, &t.groupOrd, key, co2, co2e+scope2, has1, has2 || has3)
+		add(t.byGroup, &t.groupOrd, key, co2, co2e, has1, has2)
 	}
 }
 

@@ -120,7 +120,8 @@ func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
 		if t.spec.group == nil || len(t.byGroup) == 0 {
 			continue
 		}
-		set(cellRef(1, row), "By "+t.spec.group.hdr.Text+" ("+t.spec.sheet+"!"+cellRef(t.spec.firstCol, t.spec.headerRow)+")", st.head)
+		main, _ := t.baseKinds()
+		set(cellRef(1, row), "By "+t.spec.group.hdr.Text+" ("+t.spec.sheet+"!"+cellRef(t.spec.firstCol, t.spec.headerRow)+"; "+KindLabel(main)+" only)", st.head)
 		row++
 		header(strings.ToLower(t.spec.group.hdr.Text))
 		g := groupBlock{first: row}
