@@ -183,3 +183,20 @@ func TestDemoMonthlyWoodBiogenic(t *testing.T) {
 		t.Errorf("stationary %+v", st)
 	}
 }
+
+// TestBlendBiogenic: a blend's fossil share is in tCO2, its bio share's CO2
+// in tCO2_biogenic. 100 gal E85 with pack epa2025: 15 gal x 0.125 MMBtu/gal
+// x 70.22 kg/MMBtu (EPA GHG Emission Factors Hub 2025 Table 1, motor
+// gasoline) = 0.1316625 t fossil; 85 gal x 0.084 MMBtu/gal x 68.44 kg/MMBtu
+// (40 CFR 98 Table C-1, ethanol; from memory) = 0.4886616 t biogenic.
+func TestBlendBiogenic(t *testing.T) {
+	f := newBook(t, "Fleet fuel")
+	setRows(t, f, "Fleet fuel", 1, [][]any{{"Fuel", "Quantity", "Unit"}, {"E85", 100, "gal"}, {"diesel", 10, "gal"}})
+	rep := scanFile(t, save(t, f, filepath.Join(t.TempDir(), "e85.xlsx")), Options{Pack: "epa2025"})
+	if !near(rep.Biogenic, 0.4886616) {
+		t.Errorf("biogenic %.9g t, want 0.4886616 (the ethanol share of 100 gal E85); findings %s", rep.Biogenic, listFindings(rep))
+	}
+	if g := rep.ByFuel["motor_gasoline"]; !near(g.TCO2, 0.1316625) || rep.Totals.TCO2e < rep.Totals.TCO2 {
+		t.Errorf("E85 tCO2 %.9g, want 0.1316625 (the fossil share only); totals %+v; by fuel %+v", g.TCO2, rep.Totals, rep.ByFuel)
+	}
+}
