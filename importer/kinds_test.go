@@ -10,6 +10,7 @@ import (
 
 	"github.com/xuri/excelize/v2"
 
+	"github.com/fluecell/fluecell/importer/calctest"
 	"github.com/fluecell/fluecell/importer/demo"
 )
 
@@ -198,5 +199,41 @@ func TestBlendBiogenic(t *testing.T) {
 	}
 	if g := rep.ByFuel["motor_gasoline"]; !near(g.TCO2, 0.1316625) || rep.Totals.TCO2e < rep.Totals.TCO2 {
 		t.Errorf("E85 tCO2 %.9g, want 0.1316625 (the fossil share only); totals %+v; by fuel %+v", g.TCO2, rep.Totals, rep.ByFuel)
+	}
+}
+
+// TestSummaryKindsOpenpyxl reads the demo fuel log's Carbon summary back with
+// openpyxl: the stationary line carries the fossil, CO2e and biogenic
+// figures, 13 of 16 rows and "incomplete", and the data sheet's wood row has
+// 0 fossil tCO2 and its biogenic CO2 (2.4 t x 15.6 GJ/t x 112 kg/GJ).
+func TestSummaryKindsOpenpyxl(t *testing.T) {
+	dir := t.TempDir()
+	paths, err := demo.Write(dir)
+	must(t, err)
+	out := filepath.Join(dir, "fuel.carbon.xlsx")
+	rep, err := Annotate(context.Background(), testEngine(t), paths[0], out, Options{})
+	must(t, err)
+	sheets := calctest.Openpyxl(t, out)
+	byName := map[string]calctest.Sheet{}
+	for _, s := range sheets {
+		byName[s.Name] = s
+	}
+	found := false
+	for _, r := range byName[SheetSummary].Rows {
+		if len(r) < 8 || r[0].Text != KindLabel(KindStationary) {
+			continue
+		}
+		found = true
+		if !near(r[1].Value, rep.Totals.TCO2) || !near(r[2].Value, rep.Totals.TCO2e) || r[2].Value < r[1].Value ||
+			!near(r[3].Value, 2.4*woodBioTPerT) || r[4].Value != 13 || r[5].Value != 16 || r[6].Text != "incomplete: 3 rows left out" {
+			t.Errorf("openpyxl summary line %+v", r)
+		}
+	}
+	if !found {
+		t.Errorf("openpyxl: no %q line in %s", KindLabel(KindStationary), SheetSummary)
+	}
+	data := byName["Fuel log"].Rows
+	if len(data) < 14 || len(data[13]) < 10 || data[3][9].Text != BiogenicColumn || data[13][7].Value != 0 || !near(data[13][9].Value, 2.4*woodBioTPerT) {
+		t.Errorf("openpyxl: wood row %+v under %+v", data[13], data[3])
 	}
 }
