@@ -60,7 +60,8 @@ type KindTotal struct {
 	Biogenic float64 `json:"tCO2_biogenic"`
 	// Rows found of this kind; Computed of them got a number from every
 	// rule. Incomplete when fewer were computed than found: the total then
-	// misses rows, the first of which LeftOut names ("Fuel log!A11").
+	// misses rows, the first of which LeftOut names by the cell of each
+	// row's first error (else finding; else its first cell): "Fuel log!C11".
 	Rows          int      `json:"rows"`
 	Computed      int      `json:"computed"`
 	Incomplete    bool     `json:"incomplete"`
@@ -339,5 +340,45 @@ func (sc *scanCtx) wideBiogenicRow(t *table, i int) {
 		}
 		t.bio[i] += x * r.Value
 		t.hasBio = true
+	}
+}
+
+// pointLeftOut turns each left-out row ("Fuel log!A11") into the cell of the
+// row's first error, else its first finding ("Fuel log!C11"): the cell that
+// says why the row was left out.
+func (rep *Report) pointLeftOut() {
+	at := map[string]string{} // "sheet!row" -> cell
+	for _, sev := range []string{SevError, SevWarning, SevInfo} {
+		for _, w := range rep.Warnings {
+			if w.Severity != sev {
+				continue
+			}
+			_, row, ok := parseRef(w.Cell)
+			if !ok {
+				continue
+			}
+			k := w.Sheet + "!" + itoa(row)
+			if _, seen := at[k]; !seen {
+				at[k] = w.Cell
+			}
+		}
+	}
+	fix := func(ks []KindTotal) {
+		for i := range ks {
+			for j, ref := range ks[i].LeftOut {
+				n := strings.LastIndexByte(ref, '!')
+				_, row, ok := parseRef(ref[n+1:])
+				if !ok {
+					continue
+				}
+				if c, ok := at[ref[:n]+"!"+itoa(row)]; ok {
+					ks[i].LeftOut[j] = ref[:n+1] + c
+				}
+			}
+		}
+	}
+	fix(rep.ByKind)
+	for i := range rep.Tables {
+		fix(rep.Tables[i].ByKind)
 	}
 }

@@ -324,6 +324,7 @@ func (res *ScanResult) finish() error {
 	if rep.Warnings == nil {
 		rep.Warnings = []Warning{}
 	}
+	rep.pointLeftOut()
 	rep.BuildPlan = res.buildPlanTotal()
 	res.Report = rep
 	res.checkTotals() // a sum past the float64 range is marked, never +Inf

@@ -20,7 +20,7 @@ func TestPrintedTotalsByKind(t *testing.T) {
 	}
 	code, stdout, stderr := runCLI(t, "annotate", paths[0], "-o", filepath.Join(dir, "fuel.carbon.xlsx"))
 	want := "stationary combustion (Scope 1): 343.04 tCO2 (fossil), 344.206 tCO2e; biogenic 4.193 tCO2 (memo item, in no total); " +
-		"13 of 16 rows computed: incomplete (left out: Fuel log!A11, Fuel log!A15, Fuel log!A16)"
+		"13 of 16 rows computed: incomplete (left out: Fuel log!C11, Fuel log!E15, Fuel log!E16)"
 	if code != 0 || !strings.Contains(stdout, "totals by kind (never added together):") || !strings.Contains(stdout, want) {
 		t.Errorf("annotate: exit %d\n%s\n%s\nwant the line %q", code, stdout, stderr, want)
 	}
