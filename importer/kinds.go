@@ -95,7 +95,9 @@ func (t *table) baseKinds() (main string, scope2 bool) {
 	spec := t.spec
 	main = KindStationary
 	switch spec.kind {
-	case kindRefrigerant, kindCharge:
+	case kindCharge:
+		return "", false // charges held are no emission: in no total
+	case kindRefrigerant:
 		main = KindFugitive
 	case kindBuildPlan:
 		main = KindEmbodied

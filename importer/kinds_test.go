@@ -127,6 +127,8 @@ func TestTotalsKeptByKind(t *testing.T) {
 	setRows(t, f, "Power", 1, [][]any{{"Month", "Electricity (kWh)"}, {"Jan 2025", 1000}, {"Feb 2025", 2000}})
 	addSheet(t, f, "F-gas log")
 	setRows(t, f, "F-gas log", 1, [][]any{{"Unit ID", "Refrigerant", "Top-up", "Unit"}, {"AC-01", "R-410A", 2, "kg"}})
+	addSheet(t, f, "Equipment") // charges held: no emission, in no total and no kind
+	setRows(t, f, "Equipment", 1, [][]any{{"Asset", "Refrigerant", "Full charge (kg)"}, {"Chiller 1", "R-134a", 120}})
 	addSheet(t, f, "Build plan")
 	setRows(t, f, "Build plan", 1, [][]any{{"Project", "Technology", "Capacity", "Unit"}, {"Fellside array", "pv_utility", 40, "MW"}})
 	path := save(t, f, filepath.Join(t.TempDir(), "kinds.xlsx"))
