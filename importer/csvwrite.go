@@ -41,20 +41,21 @@ func (res *ScanResult) writeCSV(w io.Writer) error {
 			width = max(width, in.widths[r-1])
 		}
 		t.outSheet, t.outCol = csvSheetName(res.Path), width+1
-		head := make([]string, 0, len(t.rules)+1)
-		for _, r := range t.rules {
-			head = append(head, safetext.CSVField(r.column))
+		k := t.outCount()
+		head := make([]string, 0, k+1)
+		for j := range k {
+			head = append(head, safetext.CSVField(t.outName(j)))
 		}
 		add[t.spec.headerRow] = extra{width, append(head, "source")}
 		for i, rn := range t.rowNums {
-			fields := make([]string, len(t.rules)+1)
-			for j := range t.rules {
-				if v := t.res[j][i]; !math.IsNaN(v) {
+			fields := make([]string, k+1)
+			for j := range k {
+				if v := t.outValue(j, i); !math.IsNaN(v) {
 					fields[j] = funcs.FormatNumber(v)
 				}
 			}
 			if s := t.src[i]; s >= 0 {
-				fields[len(t.rules)] = safetext.CSVField(t.srcText[s])
+				fields[k] = safetext.CSVField(t.srcText[s])
 			}
 			add[int(rn)] = extra{width, fields}
 		}

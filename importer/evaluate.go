@@ -87,6 +87,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 			continue
 		}
 		t.dataRows++
+		t.markRow(i, rowFound, nil)
 		rowNum := int(t.rowNums[i])
 		if len(t.rules) == 0 && spec.headerErr != nil {
 			// No rule could be written (no unit anywhere): each row says so
@@ -129,6 +130,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 		}
 		rs, skip := sc.rowRules(t, main, i)
 		if skip {
+			t.rowKind[i] = rowScope2 // purchased energy that cannot be computed
 			continue
 		}
 		if rs != main {
@@ -192,9 +194,14 @@ func (sc *scanCtx) evaluate(t *table) error {
 		if nk > 0 {
 			t.src[i] = sc.sourceIndex(t, srcIndex, key, long)
 		}
+		state := rowFound
 		if all {
 			t.computed++
+			state = rowComputed
 		}
+		sc.biogenicSplit(t, i, vars, rowNotes)
+		sc.wideBiogenicRow(t, i)
+		t.markRow(i, state, rs)
 		sc.rowTotals(t, i, vars, wideK, rs.key)
 		if rs == main {
 			sc.collectSamples(t, i, rowNum, vars, samples)
@@ -210,7 +217,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 // read (a note row inside the table): it is skipped without warnings.
 func (t *table) blankRoles(i int) bool {
 	for s, c := range t.slots {
-		if c.role == roleGroup || c.role == roleExisting {
+		if c.role == roleGroup || c.role == roleExisting || c.role == roleNone {
 			continue
 		}
 		v := t.val(i, s)
@@ -272,7 +279,11 @@ func (sc *scanCtx) headerWarnings(t *table) {
 				": every such value there reads that way (\"20,523\" as 20523); set the column's number style in a mapping if they are decimals")
 		}
 		if c.biogenic {
-			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.Text)+" is a biogenic fuel: its CO2 is a memo item, reported apart from fossil CO2, so the column is left out of the totals")
+			msg := quoteText(c.hdr.Text) + " is a biogenic fuel: its CO2 is a memo item, reported apart from fossil CO2, so the column is left out of the totals"
+			if wideBiogenic(spec, c) {
+				msg = quoteText(c.hdr.Text) + " is a biogenic fuel: its CO2 is a memo item, in the column " + BiogenicColumn + " and the biogenic total, not in tCO2 or tCO2e (fossil only)"
+			}
+			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, msg)
 		}
 		if c.sameAs != nil {
 			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.Text)+" gives "+c.sameAs.fuelID+" again, in "+c.hdr.UnitText+
@@ -479,13 +490,15 @@ func (sc *scanCtx) rowTotals(t *table, i int, vars map[string]any, wideK map[*co
 	if has3 {
 		add(t.byFuel, &t.fuelOrd, scope2Key(spec), 0, scope2, false, true)
 	}
-	if g := spec.group; g != nil {
+	if g := spec.group; g != nil && key == "" && (has1 || has2) {
+		// One kind per group total: the table's combustion (or embodied)
+		// rows; purchased energy (Scope 2) is never added in.
 		v := t.val(i, t.slotOf[g.col])
 		key := strings.TrimSpace(cell{kind: v.kind, num: v.num, text: v.text}.display())
 		if v.kind == kEmpty {
 			key = "(blank)"
 		}
-		add(t.byGroup, &t.groupOrd, key, co2, co2e+scope2, has1, has2 || has3)
+		add(t.byGroup, &t.groupOrd, key, co2, co2e, has1, has2)
 	}
 }
 

@@ -28,7 +28,7 @@ func TestMappingGridEntries(t *testing.T) {
 		t.Fatal(err)
 	}
 	rep := scanFile(t, path, Options{Mapping: m, Grid: "FR"})
-	if got, want := rep.Totals.TCO2e, 4000*deKgPerKWh/1000; !near(got, want) {
+	if got, want := kindTotalOf(rep, KindScope2).TCO2e, 4000*deKgPerKWh/1000; !near(got, want) {
 		t.Errorf("total %.9g t CO2e, want %.9g (the table's grid, Germany); rules %v", got, want, rep.Rules)
 	}
 	for _, c := range []struct{ doc, want string }{

@@ -5,8 +5,19 @@ package importer
 type Report struct {
 	// Rules are the rules used, as "COLUMN = EXPR", each once.
 	Rules []string `json:"rules"`
-	// Totals sums the computed tCO2 and tCO2e columns over every table.
+	// Totals is Scope 1: the fossil tCO2 and the tCO2e of stationary and
+	// mobile combustion and fugitive releases, over every table. Scope 2
+	// (purchased energy), embodied emissions (build plans), biogenic CO2 and
+	// tables of the user's own rules are never in it: see ByKind.
 	Totals Totals `json:"totals"`
+	// ByKind keeps the totals of each kind apart (kinds.go), each with how
+	// complete it is; kinds are never added together.
+	ByKind []KindTotal `json:"totals_by_kind"`
+	// Biogenic is the biogenic CO2 of every table, t: a memo item, in no
+	// total (tCO2 and tCO2e are fossil).
+	Biogenic float64 `json:"tCO2_biogenic"`
+	// Incomplete: some total misses rows that were found but not computed.
+	Incomplete bool `json:"incomplete"`
 	// ByFuel splits Totals by canonical fuel id (or technology for build
 	// plans; the cell text when it names no known fuel).
 	ByFuel map[string]Totals `json:"by_fuel"`
@@ -118,7 +129,9 @@ type TableInfo struct {
 	Rules     []string     `json:"rules"`
 	Rows      int          `json:"rows"`
 	Computed  int          `json:"computed"`
-	Totals    Totals       `json:"totals"`           // this table's share of Report.Totals
+	Totals    Totals       `json:"totals"`           // this table's share of Report.Totals (Scope 1)
+	ByKind    []KindTotal  `json:"totals_by_kind"`   // this table's totals by kind
+	Biogenic  float64      `json:"tCO2_biogenic"`    // this table's biogenic CO2, t (a memo item)
 	Layout    string       `json:"layout"`           // inline or side-sheet
 	Status    string       `json:"status"`           // StatusOK, StatusPartial or StatusNone
 	Reason    string       `json:"reason,omitempty"` // "computed 6,504 of 6,570 rows", or why none

@@ -255,6 +255,7 @@ func (res *ScanResult) finish() error {
 	sc := res.sc
 	rep := &Report{Rules: []string{}, ByFuel: map[string]Totals{}, Warnings: []Warning{}, Tables: []TableInfo{}, Layout: LayoutInline}
 	seenRule := map[string]bool{}
+	kinds := map[string]*KindTotal{}
 	for _, t := range sc.tables {
 		spec := t.spec
 		info := TableInfo{Sheet: spec.sheet, HeaderRow: spec.headerRow, Kind: spec.kind, Rules: []string{},
@@ -278,11 +279,18 @@ func (res *ScanResult) finish() error {
 			tot.TCO2 += s.TCO2
 			tot.TCO2e += s.TCO2e
 			rep.ByFuel[k] = tot
-			info.Totals.TCO2 += s.TCO2
-			info.Totals.TCO2e += s.TCO2e
 		}
-		rep.Totals.TCO2 += info.Totals.TCO2
-		rep.Totals.TCO2e += info.Totals.TCO2e
+		own := map[string]*KindTotal{}
+		t.kindTotals(own)
+		t.kindTotals(kinds)
+		info.ByKind = byKind(own)
+		for _, kt := range info.ByKind {
+			if scope1(kt.Kind) {
+				info.Totals.TCO2 += kt.TCO2
+				info.Totals.TCO2e += kt.TCO2e
+			}
+			info.Biogenic += kt.Biogenic
+		}
 		if info.Layout == LayoutSideSheet {
 			rep.Layout = LayoutSideSheet
 		}
@@ -299,6 +307,15 @@ func (res *ScanResult) finish() error {
 		rep.Tables = append(rep.Tables, info)
 	}
 	rep.Sheets = res.sheetInfos(rep.Tables)
+	rep.ByKind = byKind(kinds)
+	for _, kt := range rep.ByKind {
+		if scope1(kt.Kind) {
+			rep.Totals.TCO2 += kt.TCO2
+			rep.Totals.TCO2e += kt.TCO2e
+		}
+		rep.Biogenic += kt.Biogenic
+		rep.Incomplete = rep.Incomplete || kt.Incomplete
+	}
 	rep.Totals.TCO2, rep.Totals.TCO2e = cleanZero(rep.Totals.TCO2), cleanZero(rep.Totals.TCO2e)
 	for _, p := range res.e.Packs() {
 		rep.Packs = append(rep.Packs, PackVersion{Name: p.Name, Title: p.Title, Basis: p.Basis, Version: p.Version, Rows: p.Rows})
@@ -307,6 +324,7 @@ func (res *ScanResult) finish() error {
 	if rep.Warnings == nil {
 		rep.Warnings = []Warning{}
 	}
+	rep.pointLeftOut()
 	rep.BuildPlan = res.buildPlanTotal()
 	res.Report = rep
 	res.checkTotals() // a sum past the float64 range is marked, never +Inf

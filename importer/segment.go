@@ -39,6 +39,10 @@ type table struct {
 	// Results (see evaluate).
 	res       [][]float64 // per rule, per row; NaN when not computed
 	src       []int32     // per row: index into srcText, -1 for none
+	bio       []float64   // per row: biogenic CO2 moved out of tCO2 (kinds.go); nil without a tCO2 rule
+	hasBio    bool        // some row has biogenic CO2: the table gets a tCO2_biogenic column
+	rowState  []int8      // per row: rowBlank, rowFound or rowComputed (kinds.go)
+	rowKind   []uint8     // per row: rowDefault, rowScope2 or rowStationary
 	srcText   []string
 	dataRows  int
 	computed  int
@@ -69,7 +73,7 @@ func (sc *scanCtx) newTable(spec *tableSpec, merges []rangeRef) (*table, error) 
 		}
 	}
 	for _, c := range spec.cols {
-		if c.role != roleNone {
+		if c.role != roleNone || wideBiogenic(spec, c) {
 			t.slot(c)
 		}
 	}

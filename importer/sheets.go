@@ -74,24 +74,10 @@ func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
 		}
 		row++
 	}
-	header("")
-	set(cellRef(1, row), "Total", 0)
-	set(cellRef(2, row), summaryValue(rep.Totals.TCO2, &rep.Totals), st.num)
-	set(cellRef(3, row), summaryValue(rep.Totals.TCO2e, &rep.Totals), st.num)
-	set(cellRef(4, row), rep.Computed, st.int)
-	row++
-	if len(rep.Tables) > 1 {
-		// Each table apart: a fuel log's Scope 1 emissions and a build plan's
-		// embodied emissions are different things, whatever the grand total.
-		for _, tb := range rep.Tables {
-			set(cellRef(1, row), tb.Kind+" "+tb.Sheet+"!"+tb.Range, 0)
-			set(cellRef(2, row), summaryValue(tb.Totals.TCO2, &tb.Totals), st.num)
-			set(cellRef(3, row), summaryValue(tb.Totals.TCO2e, &tb.Totals), st.num)
-			set(cellRef(4, row), tb.Computed, st.int)
-			row++
-		}
+	row, kerr := res.writeKindBlock(f, name, set, st, row)
+	if kerr != nil {
+		return excelErr(res.Path, "sheet "+name, kerr)
 	}
-	row++
 	if bp := rep.BuildPlan; bp != nil {
 		// GtC and ppm of a plan are small numbers: three significant figures
 		sciFmt := "0.000E+00"
@@ -134,7 +120,8 @@ func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
 		if t.spec.group == nil || len(t.byGroup) == 0 {
 			continue
 		}
-		set(cellRef(1, row), "By "+t.spec.group.hdr.Text+" ("+t.spec.sheet+"!"+cellRef(t.spec.firstCol, t.spec.headerRow)+")", st.head)
+		main, _ := t.baseKinds()
+		set(cellRef(1, row), "By "+t.spec.group.hdr.Text+" ("+t.spec.sheet+"!"+cellRef(t.spec.firstCol, t.spec.headerRow)+"; "+KindLabel(main)+" only)", st.head)
 		row++
 		header(strings.ToLower(t.spec.group.hdr.Text))
 		g := groupBlock{first: row}
@@ -179,8 +166,10 @@ func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
 	if werr != nil {
 		return excelErr(res.Path, "sheet "+name, werr)
 	}
-	_ = f.SetColWidth(name, "A", "A", 34)
-	_ = f.SetColWidth(name, "B", "D", 14)
+	_ = f.SetColWidth(name, "A", "A", 40)
+	_ = f.SetColWidth(name, "B", "F", 14)
+	_ = f.SetColWidth(name, "G", "G", 26)
+	_ = f.SetColWidth(name, "H", "J", 16)
 	q := quoteSheet(name)
 	chart := func(cell, title string, first, last int) error {
 		if last < first {
@@ -199,14 +188,14 @@ func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
 			YAxis:     excelize.ChartAxis{Title: excelize.ChartTitle{Paragraph: []excelize.RichTextRun{{Text: "t"}}}},
 		})
 	}
-	if err := chart("F5", "Emissions by fuel (t)", fuelFirst, fuelLast); err != nil {
+	if err := chart("L5", "Emissions by fuel (t)", fuelFirst, fuelLast); err != nil {
 		return excelErr(res.Path, "the summary chart", err)
 	}
 	for i, g := range groups {
 		if i >= 3 {
 			break
 		}
-		if err := chart("F"+strconv.Itoa(22+18*i), "Emissions by group (t)", g.first, g.last); err != nil {
+		if err := chart("L"+strconv.Itoa(22+18*i), "Emissions by group (t)", g.first, g.last); err != nil {
 			return excelErr(res.Path, "the summary chart", err)
 		}
 	}

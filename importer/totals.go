@@ -34,6 +34,10 @@ func isFinite(x float64) bool { return !math.IsInf(x, 0) && !math.IsNaN(x) }
 func (res *ScanResult) checkTotals() {
 	rep := res.Report
 	grand := finiteTotals(&rep.Totals)
+	finiteKinds(rep.ByKind)
+	if !isFinite(rep.Biogenic) {
+		rep.Biogenic = 0
+	}
 	for k, v := range rep.ByFuel {
 		if !finiteTotals(&v) {
 			rep.ByFuel[k] = v
@@ -42,6 +46,9 @@ func (res *ScanResult) checkTotals() {
 	for i := range rep.Tables {
 		tb := &rep.Tables[i]
 		own := finiteTotals(&tb.Totals)
+		if !finiteKinds(tb.ByKind) || !isFinite(tb.Biogenic) {
+			own, tb.Biogenic = false, 0
+		}
 		if own && grand || tb.Computed == 0 {
 			continue
 		}

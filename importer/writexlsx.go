@@ -60,7 +60,7 @@ func (res *ScanResult) writeWorkbook(f *excelize.File, readPath string) error {
 				return err
 			}
 		}
-		k := len(t.rules) + 1
+		k := t.outCount() + 1
 		col := 0
 		if t.layout == LayoutInline {
 			occ, err := res.occupancy(occs, readPath, t.spec.sheet)
@@ -116,15 +116,15 @@ func sideSheetName(n int) string {
 // from column col on (see placeInline).
 func (res *ScanResult) writeInline(f *excelize.File, t *table, st *styles, col int) error {
 	sheet := t.spec.sheet
-	k := len(t.rules) + 1
+	k := t.outCount() + 1
 	t.outSheet, t.outCol = sheet, col
 	hr := t.spec.headerRow
 	head := st.head
 	if id, err := f.GetCellStyle(sheet, cellRef(t.spec.lastCol, hr)); err == nil && id > 0 && id < st.count {
 		head = id // the header's own style, when the workbook defines it
 	}
-	for j, r := range t.rules {
-		if err := f.SetCellStr(sheet, cellRef(col+j, hr), r.column); err != nil {
+	for j := range t.outCount() {
+		if err := f.SetCellStr(sheet, cellRef(col+j, hr), t.outName(j)); err != nil {
 			return excelErr(res.Path, "sheet "+sheet, err)
 		}
 	}
@@ -141,8 +141,8 @@ func (res *ScanResult) writeInline(f *excelize.File, t *table, st *styles, col i
 			}
 		}
 		r := int(rn)
-		for j := range t.rules {
-			if v := t.res[j][i]; !math.IsNaN(v) {
+		for j := range t.outCount() {
+			if v := t.outValue(j, i); !math.IsNaN(v) {
 				if err := f.SetCellFloat(sheet, cellRef(col+j, r), v, -1, 64); err != nil {
 					return excelErr(res.Path, "sheet "+sheet, err)
 				}
@@ -174,7 +174,7 @@ func (res *ScanResult) writeSide(f *excelize.File, t *table, name string, st *st
 	if err != nil {
 		return excelErr(res.Path, "sheet "+name, err)
 	}
-	k := len(t.rules) + 1
+	k := t.outCount() + 1
 	t.outSheet, t.outCol = name, 1
 	_ = sw.SetColWidth(1, 1, 8)
 	_ = sw.SetColWidth(2, k, 14)
@@ -190,8 +190,8 @@ func (res *ScanResult) writeSide(f *excelize.File, t *table, name string, st *st
 	}
 	vals := make([]any, k+1)
 	vals[0] = excelize.Cell{StyleID: st.head, Value: "row"}
-	for j, r := range t.rules {
-		vals[1+j] = excelize.Cell{StyleID: st.head, Value: r.column}
+	for j := range t.outCount() {
+		vals[1+j] = excelize.Cell{StyleID: st.head, Value: t.outName(j)}
 	}
 	vals[k] = excelize.Cell{StyleID: st.head, Value: "source"}
 	if err := sw.SetRow(cellRef(1, hr), vals); err != nil {
@@ -204,8 +204,8 @@ func (res *ScanResult) writeSide(f *excelize.File, t *table, name string, st *st
 			}
 		}
 		vals[0] = int(rn)
-		for j := range t.rules {
-			if v := t.res[j][i]; !math.IsNaN(v) {
+		for j := range t.outCount() {
+			if v := t.outValue(j, i); !math.IsNaN(v) {
 				vals[1+j] = excelize.Cell{StyleID: st.num, Value: v}
 			} else {
 				vals[1+j] = nil

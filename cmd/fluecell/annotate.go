@@ -89,7 +89,13 @@ func printReport(w io.Writer, rep *importer.Report) {
 	if rep.Totals.NotComputable != "" {
 		fmt.Fprintf(w, "total: %s\n", notComputableText)
 	} else {
-		fmt.Fprintf(w, "total: %s tCO2, %s tCO2e\n", totalText(rep.Totals.TCO2, funcs.FormatNumber), totalText(rep.Totals.TCO2e, funcs.FormatNumber))
+		fmt.Fprintf(w, "total: %s tCO2, %s tCO2e (Scope 1, fossil: fuels burned and gases released)\n", totalText(rep.Totals.TCO2, funcs.FormatNumber), totalText(rep.Totals.TCO2e, funcs.FormatNumber))
+	}
+	if lines := kindLines(rep, funcs.FormatNumber); len(lines) > 0 {
+		fmt.Fprintln(w, "totals by kind (never added together):")
+		for _, l := range lines {
+			fmt.Fprintf(w, "  %s\n", l)
+		}
 	}
 	nErr, nWarn, nInfo := rep.Count(importer.SevError), rep.Count(importer.SevWarning), rep.Count(importer.SevInfo)
 	fmt.Fprintf(w, "findings: %s (rows not computed), %s, %s; all %s\n", count(nErr, "error"), count(nWarn, "warning"), count(nInfo, "note"), findingsWhere(rep))

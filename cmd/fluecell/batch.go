@@ -55,7 +55,7 @@ func cmdBatch(ctx context.Context, s stdio, args []string) int {
 				return batch.Outcome{}, err
 			}
 			return batch.Outcome{Rows: rep.Rows, Computed: rep.Computed, TCO2: rep.Totals.TCO2, TCO2e: rep.Totals.TCO2e, NotComputable: rep.Totals.NotComputable,
-				Warnings: rep.Count(importer.SevError) + rep.Count(importer.SevWarning), Sheets: sheetsLine(rep)}, nil
+				ByKind: outcomeKinds(rep), Warnings: rep.Count(importer.SevError) + rep.Count(importer.SevWarning), Sheets: sheetsLine(rep)}, nil
 		},
 	}
 	if *summary != "" {
@@ -75,10 +75,14 @@ func cmdBatch(ctx context.Context, s stdio, args []string) int {
 		}
 	}
 	var t2, t2e float64
+	var kinds [batch.NumKinds]float64
 	var partial, none int
 	for _, f := range sum.Files {
 		t2 += f.Outcome.TCO2
 		t2e += f.Outcome.TCO2e
+		for k, v := range f.Outcome.ByKind {
+			kinds[k] += v
+		}
 		switch f.Status {
 		case batch.StatusFailed, batch.StatusUnreadable:
 			fmt.Fprintf(s.err, "fluecell batch: %s: %s\n", safetext.Name(f.File), safetext.Line(f.Error))
@@ -105,7 +109,13 @@ func cmdBatch(ctx context.Context, s stdio, args []string) int {
 		line += fmt.Sprintf("; shard %s (%d workbooks left to other shards)", shard, sum.Others)
 	}
 	fmt.Fprintln(s.out, line)
-	fmt.Fprintf(s.out, "total: %s tCO2, %s tCO2e; outputs in %s\n", totalText(t2, fmtTonnes), totalText(t2e, fmtTonnes), safetext.Name(pos[1]))
+	fmt.Fprintf(s.out, "total: %s tCO2, %s tCO2e (Scope 1, fossil); outputs in %s\n", totalText(t2, fmtTonnes), totalText(t2e, fmtTonnes), safetext.Name(pos[1]))
+	if l := batchKindsLine(kinds); l != "" {
+		fmt.Fprintln(s.out, l)
+	}
+	if partial+none > 0 {
+		fmt.Fprintln(s.out, "incomplete: rows of the partial workbooks are missing from these totals (see the summary's sheets column)")
+	}
 	if *summary != "" {
 		fmt.Fprintf(s.out, "summary: %s\n", safetext.Name(*summary))
 	}

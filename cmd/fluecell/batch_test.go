@@ -85,8 +85,24 @@ func TestBatchCommand(t *testing.T) {
 	}
 	recs, _ := csv.NewReader(f).ReadAll()
 	f.Close()
-	if len(recs) != 11 || strings.Join(recs[0], ",") != "file,status,rows,computed,tCO2,tCO2e,warnings,error,seconds,output,sheets" {
+	if len(recs) != 11 || strings.Join(recs[0], ",") != "file,status,rows,computed,tCO2,tCO2e,warnings,error,seconds,output,sheets,"+
+		"stationary_combustion tCO2e,mobile_combustion tCO2e,fugitive tCO2e,electricity_heat tCO2e,embodied tCO2e,other tCO2e,tCO2 biogenic" {
 		t.Fatalf("summary: %v", recs)
+	}
+	// Each kind in its own column: the build plan's embodied tonnes are
+	// never in tCO2e (Scope 1), the demo fuel log's wood is biogenic.
+	for _, r := range recs[1:] {
+		switch r[0] {
+		case "kestrel/marrowdale-build-plan-2030.xlsx":
+			if r[5] != "0" || r[15] != "719696.196" {
+				t.Errorf("build plan row: tCO2e %q, embodied %q; want 0 and 719696.196", r[5], r[15])
+			}
+		case "kestrel/kestrel-fuel-log-2026-w14.xlsx":
+			// 2.4 t wood x 15.6 GJ/t (IPCC 2006 Vol 2 Ch 1 Table 1.2) x 112 kg CO2/GJ (Table 1.4).
+			if r[17] != "4.19328" || r[5] != r[11] {
+				t.Errorf("fuel log row: biogenic %q (want 4.19328), stationary %q = tCO2e %q", r[17], r[11], r[5])
+			}
+		}
 	}
 	for _, r := range recs[1:] {
 		if r[0] == "broken.xlsx" {

@@ -40,9 +40,12 @@ func cmdDemo(ctx context.Context, s stdio, args []string) int {
 			return fail(s, "demo", err)
 		}
 		fmt.Fprintf(s.out, "%s\n  -> %s\n", filepath.Base(in), out)
-		fmt.Fprintf(s.out, "  %d of %d rows computed: %s tCO2, %s tCO2e; %d errors, %d warnings, %d notes\n",
+		fmt.Fprintf(s.out, "  %d of %d rows computed: Scope 1 %s tCO2, %s tCO2e; %d errors, %d warnings, %d notes\n",
 			rep.Computed, rep.Rows, fmtTonnes(rep.Totals.TCO2), fmtTonnes(rep.Totals.TCO2e),
 			rep.Count(importer.SevError), rep.Count(importer.SevWarning), rep.Count(importer.SevInfo))
+		for _, l := range kindLines(rep, fmtTonnes) {
+			fmt.Fprintf(s.out, "  %s\n", l)
+		}
 		// The rows that got no number first, then those to check.
 		shown := 0
 		for _, sev := range []string{importer.SevError, importer.SevWarning} {

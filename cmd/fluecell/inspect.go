@@ -93,6 +93,9 @@ func printInspection(w io.Writer, ins *importer.Inspection, wrote string) {
 	fmt.Fprintf(w, "%s: %s on %s; %d of %s computed; %s\n", safetext.Name(filepath.Base(ins.Path)),
 		count(len(rep.Tables), "table"), count(len(rep.Sheets), "sheet"), rep.Computed, count(rep.Rows, "row"),
 		totalsText(rep.Totals, funcs.FormatNumber))
+	for _, l := range kindLines(rep, funcs.FormatNumber) {
+		fmt.Fprintf(w, "  %s\n", l)
+	}
 	for i, t := range rep.Tables {
 		fmt.Fprintf(w, "\ntable %d: sheet %q %s, header row %d, %s; %d of %s computed\n", i+1, t.Sheet, t.Range, t.HeaderRow, t.Kind, t.Computed, count(t.Rows, "row"))
 		if t.Fuel != "" {

@@ -62,7 +62,12 @@ func cmdBatchMerge(ctx context.Context, s stdio, args []string) int {
 		}
 	}
 	fmt.Fprintln(s.out, line)
-	fmt.Fprintf(s.out, "total: %.3f tCO2, %.3f tCO2e (kept apart: tCO2e already includes the CO2)\n", all.TCO2, all.TCO2e)
+	fmt.Fprintf(s.out, "total: %.3f tCO2, %.3f tCO2e (Scope 1, fossil; kept apart: tCO2e already includes the CO2)\n", all.TCO2, all.TCO2e)
+	if all.NoKinds {
+		fmt.Fprintln(s.out, "by kind: unknown (a summary without kind columns, of an older version, is among them)")
+	} else if l := batchKindsLine(all.ByKind); l != "" {
+		fmt.Fprintln(s.out, l)
+	}
 	fmt.Fprintf(s.out, "merged summary: %s\n", out)
 	return 0
 }

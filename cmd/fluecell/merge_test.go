@@ -46,7 +46,7 @@ func TestBatchMergeCommand(t *testing.T) {
 		}
 		seen[r[0]] = true
 	}
-	if !seen["broken.xlsx"] || !seen["kestrel/kestrel-fuel-log-2026-w14.xlsx"] || recs[11][1] != "total" || recs[11][11] != "10" {
+	if !seen["broken.xlsx"] || !seen["kestrel/kestrel-fuel-log-2026-w14.xlsx"] || recs[11][1] != "total" || recs[11][18] != "10" || recs[11][15] != "719696.196" {
 		t.Errorf("merged summary:\n%v", recs)
 	}
 

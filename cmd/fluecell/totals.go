@@ -3,8 +3,11 @@ package main
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"github.com/fluecell/fluecell/importer"
+	"github.com/fluecell/fluecell/importer/batch"
+	"github.com/fluecell/fluecell/importer/safetext"
 )
 
 // overflowText stands for a total that float64 cannot hold.
@@ -47,4 +50,70 @@ func totalsError(t importer.Totals) error {
 		}
 	}
 	return nil
+}
+
+// kindLines are the report's totals by kind, one line each, never added
+// together: fossil tCO2, tCO2e, biogenic CO2 where there is some, and how
+// complete each is ("13 of 16 rows computed: incomplete", the first rows left out).
+func kindLines(rep *importer.Report, format func(float64) string) []string {
+	var out []string
+	for _, k := range rep.ByKind {
+		line := importer.KindLabel(k.Kind) + ": "
+		if k.NotComputable != "" {
+			line += notComputableText
+		} else {
+			line += totalText(k.TCO2, format) + " tCO2 (fossil), " + totalText(k.TCO2e, format) + " tCO2e"
+			if k.Biogenic != 0 {
+				line += "; biogenic " + totalText(k.Biogenic, format) + " tCO2 (memo item, in no total)"
+			}
+		}
+		line += "; " + k.Completeness()
+		if len(k.LeftOut) > 0 {
+			line += " (left out: " + strings.Join(k.LeftOut, ", ")
+			if n := k.Rows - k.Computed; n > len(k.LeftOut) {
+				line += fmt.Sprintf(" and %d more", n-len(k.LeftOut))
+			}
+			line += ")"
+		}
+		out = append(out, safetext.Line(line))
+	}
+	return out
+}
+
+// outcomeKinds are the totals by kind of a report in the order of
+// batch.KindNames: t CO2e per kind, then the biogenic CO2.
+func outcomeKinds(rep *importer.Report) [batch.NumKinds]float64 {
+	var out [batch.NumKinds]float64
+	for i, name := range batch.KindNames() {
+		if name == "biogenic" {
+			out[i] = rep.Biogenic
+			continue
+		}
+		for _, k := range rep.ByKind {
+			if k.Kind == name {
+				out[i] = k.TCO2e
+			}
+		}
+	}
+	return out
+}
+
+// batchKindsLine sums the kinds of the outcomes apart: "by kind (never
+// added together): stationary_combustion 344.206 tCO2e, embodied ...".
+func batchKindsLine(sums [batch.NumKinds]float64) string {
+	var parts []string
+	for i, name := range batch.KindNames() {
+		if sums[i] == 0 {
+			continue
+		}
+		unit := " tCO2e"
+		if name == "biogenic" {
+			name, unit = "biogenic (memo)", " tCO2"
+		}
+		parts = append(parts, name+" "+totalText(sums[i], fmtTonnes)+unit)
+	}
+	if len(parts) == 0 {
+		return ""
+	}
+	return "by kind (never added together): " + strings.Join(parts, ", ")
 }

@@ -30,6 +30,10 @@ type Outcome struct {
 	// Sheets says what happened to each sheet: "Fuel log: computed 6,504 of
 	// 6,570 rows; Prices: skipped: a table of prices...".
 	Sheets string `json:"sheets,omitempty"`
+	// ByKind are the workbook's totals by kind, in the order of KindNames
+	// (t CO2e per kind, then t of biogenic CO2): never added together.
+	// TCO2 and TCO2e are Scope 1 (stationary, mobile, fugitive) only.
+	ByKind [NumKinds]float64 `json:"by_kind"`
 }
 
 // AnnotateFunc annotates the workbook at in into out. It must write out

@@ -123,7 +123,7 @@ func TestRunMirrorsAndIsolatesFailures(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if strings.Join(recs[0], ",") != "file,status,rows,computed,tCO2,tCO2e,warnings,error,seconds,output,sheets" || len(recs) != 6 {
+	if strings.Join(recs[0], ",") != "file,status,rows,computed,tCO2,tCO2e,warnings,error,seconds,output,sheets,"+strings.Join(kindColumns(), ",") || len(recs) != 6 {
 		t.Errorf("summary %v", recs)
 	}
 	// The fake annotator computes every row it finds: ok.

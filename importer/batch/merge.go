@@ -19,7 +19,7 @@ import (
 // summaryColumns returns the columns of a summary CSV, in order (see
 // WriteSummaryCSV). A merged summary has one more column, "files".
 func summaryColumns() []string {
-	return []string{"file", "status", "rows", "computed", "tCO2", "tCO2e", "warnings", "error", "seconds", "output", "sheets"}
+	return append([]string{"file", "status", "rows", "computed", "tCO2", "tCO2e", "warnings", "error", "seconds", "output", "sheets"}, kindColumns()...)
 }
 
 // Column positions in a summary row.
@@ -35,7 +35,8 @@ const (
 	fieldSeconds
 	fieldOutput
 	fieldSheets
-	fieldFiles // merged summaries only
+	fieldKinds                         // the first kind column (KindNames)
+	fieldFiles = fieldKinds + NumKinds // merged summaries only
 )
 
 // totalStatuses returns the statuses a merged summary totals, in the
@@ -55,6 +56,9 @@ type MergedFile struct {
 	Error   string
 	Seconds float64
 	Output  string
+	// NoKinds: the row came from a summary without kind columns; its
+	// totals by kind are unknown.
+	NoKinds bool
 	// From is the shard summary the row came from, Line its line there.
 	From string
 	Line int
@@ -69,9 +73,12 @@ type Total struct {
 	Rows     int
 	Computed int
 	Warnings int
-	TCO2     float64 // t CO2
-	TCO2e    float64 // t CO2e
-	Seconds  float64 // summed over files, not wall-clock time
+	TCO2     float64 // t CO2, Scope 1
+	TCO2e    float64 // t CO2e, Scope 1
+	// ByKind sums each kind apart (KindNames); kinds are never added together.
+	ByKind  [NumKinds]float64
+	NoKinds bool    // a file counted has no totals by kind: ByKind is unknown
+	Seconds float64 // summed over files, not wall-clock time
 }
 
 // Merged is the combination of the summaries of a sharded batch.
@@ -128,14 +135,25 @@ func MergeSummaries(paths []string) (*Merged, error) {
 			t.Warnings += f.Outcome.Warnings
 			t.TCO2 += f.Outcome.TCO2
 			t.TCO2e += f.Outcome.TCO2e
+			for k, v := range f.Outcome.ByKind {
+				t.ByKind[k] += v
+			}
+			t.NoKinds = t.NoKinds || f.NoKinds && !noOutcome(f.Status)
 			t.Seconds += f.Seconds
 		}
 	}
 	for _, t := range m.Totals {
-		for _, k := range []struct {
+		sums := []struct {
 			name string
 			v    float64
-		}{{"tCO2", t.TCO2}, {"tCO2e", t.TCO2e}, {"seconds", t.Seconds}} {
+		}{{"tCO2", t.TCO2}, {"tCO2e", t.TCO2e}, {"seconds", t.Seconds}}
+		for k, v := range t.ByKind {
+			sums = append(sums, struct {
+				name string
+				v    float64
+			}{kindColumns()[k], v})
+		}
+		for _, k := range sums {
 			if math.IsInf(k.v, 0) || math.IsNaN(k.v) {
 				return nil, fmt.Errorf("batch merge: the %s total of %d files (%s) is beyond the float64 range (%g): check the files with the largest %s",
 					k.name, t.Files, strings.TrimSpace("total "+t.Status), k.v, k.name)
@@ -222,7 +240,7 @@ func readShardSummary(path string) ([]MergedFile, error) {
 	if len(head) > 0 {
 		head[0] = strings.TrimPrefix(head[0], "\uFEFF") // saved by a spreadsheet program
 	}
-	merged, ok := summaryHeader(head)
+	merged, kinds, ok := summaryHeader(head)
 	if !ok {
 		return nil, fmt.Errorf("batch merge: %s is not a batch summary: its first line is %q, where a summary starts with %s (the CSV that fluecell batch --summary writes)",
 			path, mergeClip(strings.Join(head, ","), 120), strings.Join(summaryColumns(), ","))
@@ -240,7 +258,7 @@ func readShardSummary(path string) ([]MergedFile, error) {
 		if merged && rec[fieldFile] == "" {
 			continue // a total row of a merged summary
 		}
-		row, err := parseSummaryRow(rec)
+		row, err := parseSummaryRow(rec, kinds)
 		if err != nil {
 			return nil, fmt.Errorf("batch merge: %s line %d: %w", path, line, err)
 		}
@@ -251,28 +269,35 @@ func readShardSummary(path string) ([]MergedFile, error) {
 
 // summaryHeader reports whether head is the header of a summary, and
 // whether of a merged one.
-func summaryHeader(head []string) (merged, ok bool) {
+func summaryHeader(head []string) (merged, kinds, ok bool) {
+	cols := summaryColumns()
 	switch len(head) {
-	case len(summaryColumns()):
-	case len(summaryColumns()) + 1:
-		if head[fieldFiles] != "files" {
-			return false, false
-		}
+	case len(cols), fieldKinds:
+	case len(cols) + 1, fieldKinds + 1:
 		merged = true
 	default:
-		return false, false
+		return false, false, false
 	}
-	for i, c := range summaryColumns() {
+	kinds = len(head) >= len(cols)
+	if !kinds {
+		cols = cols[:fieldKinds] // a summary of a version without the kind columns
+	}
+	if merged && head[len(cols)] != "files" {
+		return false, false, false
+	}
+	for i, c := range cols {
 		if head[i] != c {
-			return false, false
+			return false, false, false
 		}
 	}
-	return merged, true
+	return merged, kinds, true
 }
 
 // parseSummaryRow reads the fields of one file's row.
-func parseSummaryRow(rec []string) (MergedFile, error) {
-	f := MergedFile{File: rec[fieldFile], Status: rec[fieldStatus], Error: rec[fieldError], Output: rec[fieldOutput]}
+// A row without kind columns (kinds false: a summary of a version that
+// had none) has its kinds unknown (MergedFile.NoKinds).
+func parseSummaryRow(rec []string, kinds bool) (MergedFile, error) {
+	f := MergedFile{File: rec[fieldFile], Status: rec[fieldStatus], Error: rec[fieldError], Output: rec[fieldOutput], NoKinds: !kinds}
 	if f.File == "" {
 		return f, errors.New("the file column is empty")
 	}
@@ -305,8 +330,18 @@ func parseSummaryRow(rec []string) (MergedFile, error) {
 	if o.TCO2, err = mergeNumber(rec, fieldTCO2, false); err != nil {
 		return f, err
 	}
-	o.TCO2e, err = mergeNumber(rec, fieldTCO2e, false)
-	return f, err
+	if o.TCO2e, err = mergeNumber(rec, fieldTCO2e, false); err != nil {
+		return f, err
+	}
+	for k := range o.ByKind {
+		if !kinds {
+			break
+		}
+		if o.ByKind[k], err = mergeNumber(rec, fieldKinds+k, false); err != nil {
+			return f, err
+		}
+	}
+	return f, nil
 }
 
 // maxCount bounds the counts of one file (rows, computed, warnings), so
@@ -358,6 +393,11 @@ func WriteMergedCSV(path string, m *Merged) error {
 				rec[fieldRows], rec[fieldComputed], rec[fieldWarnings] = strconv.Itoa(o.Rows), strconv.Itoa(o.Computed), strconv.Itoa(o.Warnings)
 				rec[fieldTCO2], rec[fieldTCO2e] = strconv.FormatFloat(o.TCO2, 'f', -1, 64), strconv.FormatFloat(o.TCO2e, 'f', -1, 64)
 				rec[fieldSheets] = safetext.CSVField(o.Sheets)
+				for k, v := range o.ByKind {
+					if !f.NoKinds {
+						rec[fieldKinds+k] = strconv.FormatFloat(v, 'f', -1, 64)
+					}
+				}
 			}
 			w.Write(rec)
 		}
@@ -369,6 +409,11 @@ func WriteMergedCSV(path string, m *Merged) error {
 			if !noOutcome(t.Status) {
 				rec[fieldRows], rec[fieldComputed], rec[fieldWarnings] = strconv.Itoa(t.Rows), strconv.Itoa(t.Computed), strconv.Itoa(t.Warnings)
 				rec[fieldTCO2], rec[fieldTCO2e] = mergeTonnes(t.TCO2), mergeTonnes(t.TCO2e)
+				for k, v := range t.ByKind {
+					if !t.NoKinds {
+						rec[fieldKinds+k] = mergeTonnes(v)
+					}
+				}
 			}
 			w.Write(rec)
 		}
@@ -417,6 +462,6 @@ func IsMergedSummary(path string) bool {
 		return false
 	}
 	head[0] = strings.TrimPrefix(head[0], "\uFEFF")
-	merged, ok := summaryHeader(head)
+	merged, _, ok := summaryHeader(head)
 	return ok && merged
 }

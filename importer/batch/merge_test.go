@@ -105,7 +105,7 @@ func TestMergeShardsOfDemo(t *testing.T) {
 		t.Fatal(err)
 	}
 	recs := readCSV(t, merged)
-	if got, want := strings.Join(recs[0], ","), "file,status,rows,computed,tCO2,tCO2e,warnings,error,seconds,output,sheets,files"; got != want {
+	if got, want := strings.Join(recs[0], ","), "file,status,rows,computed,tCO2,tCO2e,warnings,error,seconds,output,sheets,"+kindHeader+",files"; got != want {
 		t.Fatalf("header %q, want %q", got, want)
 	}
 	if got, want := len(recs), 1+11+7; got != want {
@@ -119,7 +119,7 @@ func TestMergeShardsOfDemo(t *testing.T) {
 		if strings.HasPrefix(name, "=") {
 			name = "'" + name // neutralised: a spreadsheet shows it as text
 		}
-		if files[i][0] != name || files[i][1] != f.Status || files[i][11] != "1" {
+		if files[i][0] != name || files[i][1] != f.Status || files[i][18] != "1" {
 			t.Errorf("merged row %d = %v, want file %q status %q (as the unsharded run)", i, files[i], name, f.Status)
 		}
 		if f.Status != batch.StatusFailed && files[i][4] != strconv.FormatFloat(f.Outcome.TCO2, 'f', -1, 64) {
@@ -133,7 +133,7 @@ func TestMergeShardsOfDemo(t *testing.T) {
 		t.Errorf("first file %q: the formula-like name is not neutralised", files[0][0])
 	}
 	all := totals[0]
-	if all[0] != "" || all[1] != "total" || all[11] != "11" {
+	if all[0] != "" || all[1] != "total" || all[18] != "11" {
 		t.Fatalf("total row %v", all)
 	}
 	for col, want := range map[int]float64{4: want2, 5: want2e} {
@@ -147,7 +147,7 @@ func TestMergeShardsOfDemo(t *testing.T) {
 	}
 	for i, s := range []string{"ok", "partial", "nothing computed", "up-to-date", "failed", "unreadable"} {
 		row := totals[1+i]
-		if row[1] != "total "+s || row[11] != strconv.Itoa(status[s]) {
+		if row[1] != "total "+s || row[18] != strconv.Itoa(status[s]) {
 			t.Errorf("total row for %s = %v, want %d files", s, row, status[s])
 		}
 	}
@@ -260,8 +260,50 @@ func TestMergeTotals(t *testing.T) {
 		{"", "total failed", "", "", "", "", "", "", "0.500", "", "", "1"},
 		{"", "total unreadable", "", "", "", "", "", "", "0.000", "", "", "1"},
 	}
+	// These summaries have no kind columns: the kinds are unknown, written
+	// empty, except for a total that counts no file.
+	for i, r := range want {
+		fill := ""
+		if r[1] == "total nothing computed" {
+			fill = "0"
+		}
+		kinds := strings.Split(strings.Repeat(","+fill, batch.NumKinds)[1:], ",")
+		if i == 0 {
+			kinds = strings.Split(kindHeader, ",")
+		}
+		want[i] = append(append(r[:len(r)-1:len(r)-1], kinds...), r[len(r)-1])
+	}
 	if fmt.Sprint(got) != fmt.Sprint(want) {
 		t.Errorf("merged:\n%q\nwant:\n%q", got, want)
+	}
+}
+
+// kindHeader are the kind columns of a summary.
+const kindHeader = "stationary_combustion tCO2e,mobile_combustion tCO2e,fugitive tCO2e,electricity_heat tCO2e,embodied tCO2e,other tCO2e,tCO2 biogenic"
+
+// TestMergeKinds: each kind is summed apart over the files, and no total
+// adds one kind to another; Scope 1 (tCO2, tCO2e) holds no embodied tonnes.
+func TestMergeKinds(t *testing.T) {
+	a := writeFile(t, "a.csv", strings.TrimSuffix(header, "\n")+","+kindHeader+"\n"+
+		"fuel.xlsx,partial,16,13,343.04,344.21,3,,0.1,fuel.xlsx,,344.21,0,0,0,0,0,4.19328\n"+
+		"plan.xlsx,partial,6,5,0,0,1,,0.1,plan.xlsx,,0,0,0,0,719696.196,0,0\n"+
+		"power.xlsx,ok,2,2,0,0,0,,0.1,power.xlsx,,0,0,0,1.2747,0,0,0\n")
+	m, err := batch.MergeSummaries([]string{a})
+	if err != nil {
+		t.Fatal(err)
+	}
+	tot := m.Totals[0]
+	if tot.NoKinds || tot.TCO2e != 344.21 || tot.ByKind[0] != 344.21 || tot.ByKind[3] != 1.2747 || tot.ByKind[4] != 719696.196 || tot.ByKind[6] != 4.19328 {
+		t.Errorf("total %+v: want Scope 1 344.21 t CO2e, electricity 1.2747, embodied 719696.196 and biogenic 4.19328 apart", tot)
+	}
+	out := filepath.Join(t.TempDir(), "m.csv")
+	if err := batch.WriteMergedCSV(out, m); err != nil {
+		t.Fatal(err)
+	}
+	recs := readCSV(t, out)
+	last := recs[4] // the total over every workbook
+	if got := strings.Join(last[11:18], ","); last[1] != "total" || got != "344.21,0,0,1.2747,719696.196,0,4.19328" {
+		t.Errorf("total row %q", last)
 	}
 }
 
