@@ -95,6 +95,9 @@ func (res *ScanResult) writeWorkbook(f *excelize.File, readPath string) error {
 		}
 		res.Report.Tables[i].Output = t.outSheet + "!" + rangeRef{first, t.spec.headerRow, last, max(t.lastRow, t.spec.headerRow)}.String()
 	}
+	if err := res.markFindings(f); err != nil { // notes and fills at the data cells: cellnotes.go
+		return err
+	}
 	if err := res.writeSummary(f, st); err != nil {
 		return err
 	}
