@@ -64,6 +64,15 @@ func sevFill(sev string) string {
 	return ""
 }
 
+// ownFill reports whether hex (RRGGBB, any case) is one of the fills above.
+func ownFill(hex string) bool {
+	switch strings.ToUpper(hex) {
+	case fillError, fillWarning, fillInfo:
+		return true
+	}
+	return false
+}
+
 // cellFinding gathers the findings at one cell.
 type cellFinding struct {
 	col, row int
