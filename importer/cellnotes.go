@@ -1,6 +1,7 @@
 package importer
 
 import (
+	"math"
 	"sort"
 	"strconv"
 	"strings"
@@ -282,4 +283,123 @@ func noteText(ws []Warning) string {
 		b.WriteString(line)
 	}
 	return b.String()
+}
+
+// notComputedPrefix starts the text written in the computed cells of a row
+// that got no number.
+const notComputedPrefix = "not computed: "
+
+// shortReason is the few words, by finding code, that say in a computed
+// cell why its row has no number; the finding itself (Carbon warnings, and
+// the comment at its cell) says the rest.
+func shortReason(code string) string {
+	switch code {
+	case CodeFuelUnknown:
+		return "unknown fuel"
+	case CodeTechUnknown:
+		return "unknown technology"
+	case CodeUnitUnknown:
+		return "no unit"
+	case CodeUnitAmbiguous:
+		return "ambiguous unit"
+	case CodeUnitDimension:
+		return "unit does not fit"
+	case CodeValueNotNumber:
+		return "no number"
+	case CodeFormulaNoCache:
+		return "formula not evaluated"
+	case CodeFactorMissing:
+		return "no factor"
+	case CodeRuleError:
+		return "rule failed"
+	case CodeNotComputed:
+		return "left out"
+	case CodeGridUnknown:
+		return "no grid given"
+	}
+	return strings.ReplaceAll(code, "-", " ")
+}
+
+// rowReasons returns, for the row index i of t (an index into t.rowNums),
+// the short text to write in its computed cells when the row got no number
+// from any rule, such as "not computed: unknown fuel"; "" for a row with a
+// number. The reason is the row's first error finding inside the table's
+// columns, else its not-computed or grid finding, else a table-wide one (a
+// header cell's error, a table dropped as a copy), else "see Carbon
+// warnings" (a finding summed up with others of its column).
+func (res *ScanResult) rowReasons(t *table) func(i int) string {
+	byRow := map[int]string{}
+	rank := map[int]int{}
+	table := ""
+	tableRank := 0
+	for _, w := range res.Report.Warnings {
+		if w.Sheet != t.spec.sheet {
+			continue
+		}
+		c, r, ok := parseRef(w.Cell)
+		if !ok || c < t.spec.firstCol || c > t.spec.lastCol || r < t.spec.headerRow || r > t.lastRow {
+			continue
+		}
+		k := 0
+		switch {
+		case w.Severity == SevError:
+			k = 2
+		case w.Code == CodeNotComputed || w.Code == CodeGridUnknown:
+			k = 1
+		default:
+			continue
+		}
+		why := shortReason(w.Code)
+		if r == t.spec.headerRow {
+			if k > tableRank {
+				table, tableRank = why, k
+			}
+			continue
+		}
+		if k > rank[r] {
+			byRow[r], rank[r] = why, k
+		}
+	}
+	if t.copyOf != nil {
+		table = "a copy of another table"
+	}
+	if table == "" {
+		table = "see " + SheetWarnings
+	}
+	return func(i int) string {
+		for j := range t.rules {
+			if !math.IsNaN(t.res[j][i]) {
+				return ""
+			}
+		}
+		if why := byRow[int(t.rowNums[i])]; why != "" {
+			return notComputedPrefix + why
+		}
+		return notComputedPrefix + table
+	}
+}
+
+// fillReasons puts why into every cell of vals (a streamed row's computed
+// cells) when why is not "".
+func fillReasons(vals []any, why string) {
+	if why == "" {
+		return
+	}
+	for j := range vals {
+		vals[j] = why
+	}
+}
+
+// writeReason writes why into the n computed cells of row from column col
+// on, when why is not "".
+func writeReason(f *excelize.File, sheet string, col, n, row int, why string) error {
+	if why == "" {
+		return nil
+	}
+	for j := range n {
+		if err := f.SetCellStr(sheet, cellRef(col+j, row), why); err != nil {
+			return err
+		}
+	}
+	return nil
 }

@@ -127,6 +127,27 @@ func TestCellNotes(t *testing.T) {
 		}
 	}
 
+	// The computed cells of a row with no number say why; a computed row
+	// has numbers.
+	_, outRange, _ := strings.Cut(rep.Tables[0].Output, "!")
+	rr, ok := parseRange(outRange)
+	if !ok {
+		t.Fatalf("output range %q", rep.Tables[0].Output)
+	}
+	for row, want := range map[int]string{5: "not computed: unknown fuel", 6: "not computed: unknown fuel"} {
+		for c := rr.c1; c < rr.c2; c++ {
+			if v, _ := f.GetCellValue(sh, cellRef(c, row)); v != want {
+				t.Errorf("%s: %q, want %q", cellRef(c, row), v, want)
+			}
+		}
+	}
+	for c := rr.c1; c < rr.c2; c++ {
+		if ty, _ := f.GetCellType(sh, cellRef(c, 2)); ty != excelize.CellTypeUnset && ty != excelize.CellTypeNumber {
+			v, _ := f.GetCellValue(sh, cellRef(c, 2))
+			t.Errorf("%s: %q is not a number", cellRef(c, 2), v)
+		}
+	}
+
 	// openpyxl, another reader, sees the comments and fills too.
 	py := requireOpenpyxl(t)
 	script := `import sys, openpyxl
@@ -230,5 +251,19 @@ func TestMarkSheetBounds(t *testing.T) {
 		if c.col > 4 {
 			t.Errorf("a finding outside the area was kept: %s", cellRef(c.col, c.row))
 		}
+	}
+}
+
+// TestFillReasons: a streamed row's computed cells get the reason only when
+// there is one.
+func TestFillReasons(t *testing.T) {
+	vals := []any{nil, nil}
+	fillReasons(vals, "")
+	if vals[0] != nil || vals[1] != nil {
+		t.Errorf("no reason: %v", vals)
+	}
+	fillReasons(vals, notComputedPrefix+"no unit")
+	if vals[0] != "not computed: no unit" || vals[1] != "not computed: no unit" {
+		t.Errorf("reason: %v", vals)
 	}
 }
