@@ -267,3 +267,48 @@ func TestFillReasons(t *testing.T) {
 		t.Errorf("reason: %v", vals)
 	}
 }
+
+// TestCellNotesSide: with side sheets the table's own sheet is not
+// touched (no comment, no fill); the side sheet's computed cells of a row
+// with no number say why.
+func TestCellNotesSide(t *testing.T) {
+	dir := t.TempDir()
+	in := writeNotesBook(t, dir)
+	out := filepath.Join(dir, "notes.carbon.xlsx")
+	rep, err := Annotate(context.Background(), testEngine(t), in, out, Options{InlineMaxCells: -1})
+	must(t, err)
+	if rep.Tables[0].Layout != LayoutSideSheet {
+		t.Fatalf("layout %s, want %s", rep.Tables[0].Layout, LayoutSideSheet)
+	}
+	f, err := excelize.OpenFile(out)
+	must(t, err)
+	defer f.Close()
+	cs, err := f.GetComments("Fuel log")
+	must(t, err)
+	if len(cs) != 1 || cs[0].Author != "Ines" {
+		t.Errorf("comments %+v, want the user's only", cs)
+	}
+	for _, cell := range []string{"C3", "D4", "C5", "C6"} {
+		id, err := f.GetCellStyle("Fuel log", cell)
+		must(t, err)
+		st, err := f.GetStyle(id)
+		must(t, err)
+		if len(st.Fill.Color) > 0 && ownFill(st.Fill.Color[0]) {
+			t.Errorf("%s: filled %v in a sheet left untouched", cell, st.Fill.Color)
+		}
+	}
+	sheet, outRange, _ := strings.Cut(rep.Tables[0].Output, "!")
+	rr, ok := parseRange(outRange)
+	if !ok {
+		t.Fatalf("output range %q", rep.Tables[0].Output)
+	}
+	// column A repeats the row number, then the computed columns, then source
+	for c := rr.c1 + 1; c < rr.c2; c++ {
+		if v, _ := f.GetCellValue(sheet, cellRef(c, 5)); v != "not computed: unknown fuel" {
+			t.Errorf("%s!%s: %q, want the reason", sheet, cellRef(c, 5), v)
+		}
+		if v, _ := f.GetCellValue(sheet, cellRef(c, 2)); strings.HasPrefix(v, notComputedPrefix) || v == "" {
+			t.Errorf("%s!%s: %q, want a number", sheet, cellRef(c, 2), v)
+		}
+	}
+}
