@@ -110,7 +110,10 @@ type fillKey struct {
 //     further cells get the fill only.
 //
 // Derived styles are cached by (original style, severity), so thousands of
-// findings add only a few styles. Errors come from excelize and name the
+// findings add only a few styles. The new style repeats what excelize reads
+// of the old one (number format, font, border, alignment, protection); a
+// link to a named cell style ("Heading 1") is not carried over, and a
+// conditional format of the sheet still draws over the fill. Errors come from excelize and name the
 // sheet.
 func (res *ScanResult) markFindings(f *excelize.File) error {
 	type area struct{ cols, rows int }
@@ -239,6 +242,9 @@ func markSheet(f *excelize.File, sheet string, cells []*cellFinding, cache map[f
 }
 
 // fillCell gives the cell at ref the fill of sev on top of its own style.
+// A style that excelize cannot read back or rebuild (a damaged styles
+// part) leaves the cell as it is: the fill is a help, and the finding is
+// still in its comment and in Carbon warnings. Errors come from writing.
 func fillCell(f *excelize.File, sheet, ref, sev string, cache map[fillKey]int) error {
 	old, err := f.GetCellStyle(sheet, ref)
 	if err != nil {
@@ -247,18 +253,33 @@ func fillCell(f *excelize.File, sheet, ref, sev string, cache map[fillKey]int) e
 	k := fillKey{old, sev}
 	id, ok := cache[k]
 	if !ok {
-		st, err := f.GetStyle(old)
-		if err != nil {
-			return err
-		}
-		cp := *st // GetStyle builds a fresh Style: only Fill is replaced
-		cp.Fill = excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{sevFill(sev)}}
-		if id, err = f.NewStyle(&cp); err != nil {
-			return err
-		}
+		id = filledStyle(f, old, sevFill(sev))
 		cache[k] = id
 	}
+	if id < 0 {
+		return nil
+	}
 	return f.SetCellStyle(sheet, ref, ref, id)
+}
+
+// filledStyle returns a new style: style old with the solid fill color,
+// or -1 when old cannot be read or the new one made.
+func filledStyle(f *excelize.File, old int, color string) (id int) {
+	defer func() {
+		if recover() != nil { // excelize indexes the styles part as it finds it
+			id = -1
+		}
+	}()
+	st, err := f.GetStyle(old)
+	if err != nil || st == nil {
+		return -1
+	}
+	cp := *st // GetStyle builds a fresh Style: only Fill is replaced
+	cp.Fill = excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{color}}
+	if id, err = f.NewStyle(&cp); err != nil {
+		return -1
+	}
+	return id
 }
 
 // noteText is the comment for the findings ws at one cell: one line per
