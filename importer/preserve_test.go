@@ -9,6 +9,7 @@ import (
 	"os"
 	"path/filepath"
 	"reflect"
+	"slices"
 	"strings"
 	"testing"
 
@@ -174,6 +175,9 @@ func compareExcelize(t *testing.T, in, out string, side bool) {
 				sb, _ := b.GetCellStyle(s, ref)
 				da, _ := a.GetStyle(sa)
 				db, _ := b.GetStyle(sb)
+				if !side && db != nil && da != nil && len(db.Fill.Color) == 1 && ownFill(db.Fill.Color[0]) {
+					db.Fill = da.Fill // a finding's fill (cellnotes.go) is the one change allowed
+				}
 				if !reflect.DeepEqual(da, db) {
 					t.Errorf("%s!%s: style %+v, want %+v", s, ref, db, da)
 				}
@@ -215,6 +219,9 @@ func compareExcelize(t *testing.T, in, out string, side bool) {
 	}
 	ca, _ := a.GetComments("Fuel log")
 	cb, _ := b.GetComments("Fuel log")
+	if !side { // findings add fluecell's comments; the user's stay as they were
+		cb = slices.DeleteFunc(cb, func(c excelize.Comment) bool { return c.Author == noteAuthor })
+	}
 	if !reflect.DeepEqual(ca, cb) {
 		t.Errorf("comments %+v, want %+v", cb, ca)
 	}

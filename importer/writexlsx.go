@@ -95,6 +95,9 @@ func (res *ScanResult) writeWorkbook(f *excelize.File, readPath string) error {
 		}
 		res.Report.Tables[i].Output = t.outSheet + "!" + rangeRef{first, t.spec.headerRow, last, max(t.lastRow, t.spec.headerRow)}.String()
 	}
+	if err := res.markFindings(f); err != nil { // notes and fills at the data cells: cellnotes.go
+		return err
+	}
 	if err := res.writeSummary(f, st); err != nil {
 		return err
 	}
@@ -134,6 +137,7 @@ func (res *ScanResult) writeInline(f *excelize.File, t *table, st *styles, col i
 	if err := f.SetCellStyle(sheet, cellRef(col, hr), cellRef(col+k-1, hr), head); err != nil {
 		return excelErr(res.Path, "sheet "+sheet, err)
 	}
+	reason := res.rowReasons(t) // a row with no number says why (cellnotes.go)
 	for i, rn := range t.rowNums {
 		if i&4095 == 0 {
 			if err := res.sc.cancelled(); err != nil {
@@ -147,6 +151,9 @@ func (res *ScanResult) writeInline(f *excelize.File, t *table, st *styles, col i
 					return excelErr(res.Path, "sheet "+sheet, err)
 				}
 			}
+		}
+		if err := writeReason(f, sheet, col, k-1, r, reason(i)); err != nil {
+			return excelErr(res.Path, "sheet "+sheet, err)
 		}
 		if s := t.src[i]; s >= 0 {
 			if err := f.SetCellStr(sheet, cellRef(col+k-1, r), t.srcText[s]); err != nil {
@@ -197,6 +204,7 @@ func (res *ScanResult) writeSide(f *excelize.File, t *table, name string, st *st
 	if err := sw.SetRow(cellRef(1, hr), vals); err != nil {
 		return excelErr(res.Path, "sheet "+name, err)
 	}
+	reason := res.rowReasons(t) // a row with no number says why (cellnotes.go)
 	for i, rn := range t.rowNums {
 		if i&4095 == 0 {
 			if err := res.sc.cancelled(); err != nil {
@@ -211,6 +219,7 @@ func (res *ScanResult) writeSide(f *excelize.File, t *table, name string, st *st
 				vals[1+j] = nil
 			}
 		}
+		fillReasons(vals[1:k], reason(i))
 		vals[k] = nil
 		if s := t.src[i]; s >= 0 {
 			vals[k] = t.srcText[s]
