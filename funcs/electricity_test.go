@@ -30,8 +30,8 @@ func TestElectricityReference(t *testing.T) {
 		{`electricity_co2(1000, "MWh", "gb")`, "UK 2023 electricity generated, kg CO2e of CO2 0.20496", 204.96},
 		{`electricity_co2e(1000, "MWh", "gb", "location", 2023, "ar6")`, "UK 2023 split 0.20496 + 0.0009/28x27.9 + 0.00122/265x273",
 			204.96 + 0.9/28*27.9 + 1.22/265*273},
-		// EEA CO2 emission intensity of electricity generation (2017 data set), 2014, g CO2/kWh,
-		// as transcribed in quintel/documentation (Table 1); CO2 only.
+		// EEA CO2 emission intensity of electricity generation (2017 data set), 2014, g CO2/kWh;
+		// CO2 only.
 		{`electricity_co2e(1000, "MWh", "pl")`, "EEA 2014 Poland 670.6 g CO2/kWh", 670.6},
 		{`electricity_co2(1000, "MWh", "fr")`, "EEA 2014 France 34.8 g CO2/kWh", 34.8},
 		{`electricity_co2e(500, "kWh", "se")`, "EEA 2014 Sweden 10.5 g CO2/kWh", 0.00525},
