@@ -218,25 +218,40 @@ func checkMerged(t *testing.T, path string, inputs []string) {
 	if len(recs) != 1+len(inputs)+7 {
 		t.Fatalf("merged summary has %d lines, want %d (header, %d files, 7 totals)", len(recs), 1+len(inputs)+7, len(inputs))
 	}
+	// Columns are found by their header, so the test follows the
+	// summary's layout (kind columns came in after "sheets").
+	col := map[string]int{}
+	for i, h := range recs[0] {
+		col[h] = i
+	}
+	for _, h := range []string{"file", "status", "tCO2", "tCO2e", "stationary_combustion tCO2e", "files"} {
+		if _, ok := col[h]; !ok {
+			t.Fatalf("merged summary has no %q column: %v", h, recs[0])
+		}
+	}
 	var files []string
-	var sum2, sum2e float64
+	var sum2, sum2e, sumStationary float64
 	for _, r := range recs[1 : 1+len(inputs)] {
-		files = append(files, r[0])
-		sum2 += parse(t, r[4])
-		sum2e += parse(t, r[5])
+		files = append(files, r[col["file"]])
+		sum2 += parse(t, r[col["tCO2"]])
+		sum2e += parse(t, r[col["tCO2e"]])
+		sumStationary += parse(t, r[col["stationary_combustion tCO2e"]])
 	}
 	if strings.Join(files, "\n") != strings.Join(inputs, "\n") {
 		t.Errorf("merged summary lists:\n%s\nwant every input once:\n%s", strings.Join(files, "\n"), strings.Join(inputs, "\n"))
 	}
 	total := recs[1+len(inputs)]
-	if total[0] != "" || total[1] != "total" || total[11] != strconv.Itoa(len(inputs)) {
-		t.Fatalf("total row %v", total)
+	if total[col["file"]] != "" || total[col["status"]] != "total" || total[col["files"]] != strconv.Itoa(len(inputs)) {
+		t.Fatalf("total row %v (header %v)", total, recs[0])
 	}
-	if got := parse(t, total[4]); fmt.Sprintf("%.6f", got) != fmt.Sprintf("%.6f", sum2) || sum2 <= 0 {
+	if got := parse(t, total[col["tCO2"]]); fmt.Sprintf("%.6f", got) != fmt.Sprintf("%.6f", sum2) || sum2 <= 0 {
 		t.Errorf("total tCO2 %v, the file rows add up to %v", got, sum2)
 	}
-	if got := parse(t, total[5]); fmt.Sprintf("%.6f", got) != fmt.Sprintf("%.6f", sum2e) || sum2e <= sum2 {
+	if got := parse(t, total[col["tCO2e"]]); fmt.Sprintf("%.6f", got) != fmt.Sprintf("%.6f", sum2e) || sum2e <= sum2 {
 		t.Errorf("total tCO2e %v, the file rows add up to %v (and tCO2 to %v)", got, sum2e, sum2)
+	}
+	if got := parse(t, total[col["stationary_combustion tCO2e"]]); fmt.Sprintf("%.6f", got) != fmt.Sprintf("%.6f", sumStationary) || sumStationary <= 0 {
+		t.Errorf("total stationary combustion %v, the file rows add up to %v", got, sumStationary)
 	}
 }
 
