@@ -87,7 +87,7 @@ func TestOverflowNamesParameter(t *testing.T) {
 	} {
 		_, err := evalExpr(e, fmt.Sprintf(c.tmpl, c.value))
 		fe, ok := AsError(err)
-		if !ok || fe.Code != CodeArithmetic || fe.Headline() != c.want+" (column 1)" {
+		if !ok || fe.Code != CodeArithmetic || fe.Headline() != c.want+" (character 1)" {
 			t.Errorf("%s:\n got: %v\nwant: %s", c.tmpl, err, c.want)
 			continue
 		}

@@ -172,18 +172,18 @@ func TestBuildoutBadInputs(t *testing.T) {
 	tests := []struct {
 		expr, code, want string
 	}{
-		{`lifecycle_part("coal_pc", "fuel")`, CodeBadArgument, `lifecycle_part: part: unknown part "fuel": accepted are direct, infrastructure, biogenic_albedo, methane, total (column 27)`},
-		{`lifecycle_part("coal_pc", "methane")`, CodeMissingFactor, `lifecycle_part: part: the common pack has no methane part for coal_pc (IPCC AR5 WG3 Annex III Table A.III.2); add the row with --factors, or use lifecycle_intensity for the total (column 1)`},
-		{`lifecycle_part("coal_pc", "direct", "p5")`, CodeBadArgument, `lifecycle_part: stat: unknown statistic "p5": accepted are min, median, max (column 37)`},
-		{`embodied("biomass_dedicated", 10, "MW")`, CodeMissingFactor, `embodied: tech: no infrastructure & supply-chain intensity for biomass_dedicated in the common pack (IPCC AR5 WG3 Annex III Table A.III.2 gives none here): its life-cycle intensity (lifecycle_intensity) mixes in fuel supply, so it is not used as embodied; add an infrastructure row with --factors (column 1)`},
-		{`embodied("wind_onshore", 10, "MW", 0.3, 25, "mean")`, CodeBadArgument, `embodied: stat: unknown statistic "mean": accepted are min, median, max (column 45)`},
-		{`vehicle_embodied(1, "car_medum_bev")`, CodeBadArgument, `vehicle_embodied: vehicle: unknown vehicle class "car_medum_bev": did you mean car_medium_bev? (accepted: car_large_bev, car_large_hev, car_large_ice, car_large_phev, car_medium_bev, car_medium_hev, car_medium_ice, car_medium_phev, car_small_bev, car_small_hev, car_small_ice, car_small_phev) (column 21)`},
-		{`vehicle_embodied(1, "bus")`, CodeBadArgument, `vehicle_embodied: vehicle: unknown vehicle class "bus": accepted are car_large_bev, car_large_hev, car_large_ice, car_large_phev, car_medium_bev, car_medium_hev, car_medium_ice, car_medium_phev, car_small_bev, car_small_hev, car_small_ice, car_small_phev (column 21)`},
-		{`vehicle_embodied(-2, "car_small_ice")`, CodeBadArgument, `vehicle_embodied: count: must not be negative, got -2 (column 1)`},
-		{`vehicle_embodied(1, "car_small_ice", 40)`, CodeBadArgument, `vehicle_embodied: battery_kwh: car_small_ice has no traction battery: leave battery_kwh out or give 0, or choose a hybrid, plug-in or battery-electric class (column 1)`},
-		{`vehicle_embodied(1, "car_small_bev", -40)`, CodeBadArgument, `vehicle_embodied: battery_kwh: must lie in [0, 10000] kWh, got -40 (column 1)`},
-		{`battery_embodied(10, "MW")`, CodeUnit, `battery_embodied: unit "MW" is a power, but an energy is needed here (did you mean MWh?) (column 22)`},
-		{`battery_embodied(-10, "MWh")`, CodeBadArgument, `battery_embodied: capacity: must not be negative, got -10 (column 1)`},
+		{`lifecycle_part("coal_pc", "fuel")`, CodeBadArgument, `lifecycle_part: part: unknown part "fuel": accepted are direct, infrastructure, biogenic_albedo, methane, total (character 27)`},
+		{`lifecycle_part("coal_pc", "methane")`, CodeMissingFactor, `lifecycle_part: part: the common pack has no methane part for coal_pc (IPCC AR5 WG3 Annex III Table A.III.2); add the row with --factors, or use lifecycle_intensity for the total (character 1)`},
+		{`lifecycle_part("coal_pc", "direct", "p5")`, CodeBadArgument, `lifecycle_part: stat: unknown statistic "p5": accepted are min, median, max (character 37)`},
+		{`embodied("biomass_dedicated", 10, "MW")`, CodeMissingFactor, `embodied: tech: no infrastructure & supply-chain intensity for biomass_dedicated in the common pack (IPCC AR5 WG3 Annex III Table A.III.2 gives none here): its life-cycle intensity (lifecycle_intensity) mixes in fuel supply, so it is not used as embodied; add an infrastructure row with --factors (character 1)`},
+		{`embodied("wind_onshore", 10, "MW", 0.3, 25, "mean")`, CodeBadArgument, `embodied: stat: unknown statistic "mean": accepted are min, median, max (character 45)`},
+		{`vehicle_embodied(1, "car_medum_bev")`, CodeBadArgument, `vehicle_embodied: vehicle: unknown vehicle class "car_medum_bev": did you mean car_medium_bev? (accepted: car_large_bev, car_large_hev, car_large_ice, car_large_phev, car_medium_bev, car_medium_hev, car_medium_ice, car_medium_phev, car_small_bev, car_small_hev, car_small_ice, car_small_phev) (character 21)`},
+		{`vehicle_embodied(1, "bus")`, CodeBadArgument, `vehicle_embodied: vehicle: unknown vehicle class "bus": accepted are car_large_bev, car_large_hev, car_large_ice, car_large_phev, car_medium_bev, car_medium_hev, car_medium_ice, car_medium_phev, car_small_bev, car_small_hev, car_small_ice, car_small_phev (character 21)`},
+		{`vehicle_embodied(-2, "car_small_ice")`, CodeBadArgument, `vehicle_embodied: count: must not be negative, got -2 (character 1)`},
+		{`vehicle_embodied(1, "car_small_ice", 40)`, CodeBadArgument, `vehicle_embodied: battery_kwh: car_small_ice has no traction battery: leave battery_kwh out or give 0, or choose a hybrid, plug-in or battery-electric class (character 1)`},
+		{`vehicle_embodied(1, "car_small_bev", -40)`, CodeBadArgument, `vehicle_embodied: battery_kwh: must lie in [0, 10000] kWh, got -40 (character 1)`},
+		{`battery_embodied(10, "MW")`, CodeUnit, `battery_embodied: unit "MW" is a power, but an energy is needed here (did you mean MWh?) (character 22)`},
+		{`battery_embodied(-10, "MWh")`, CodeBadArgument, `battery_embodied: capacity: must not be negative, got -10 (character 1)`},
 	}
 	for _, tt := range tests {
 		_, err := evalExpr(e, tt.expr)
@@ -228,10 +228,10 @@ func TestBuildingEmbodied(t *testing.T) {
 		t.Errorf("notes %q", r.Notes)
 	}
 	for _, tt := range []struct{ expr, code, want string }{
-		{`building_embodied(100, "m2", "warehouse")`, CodeBadArgument, `building_embodied: building_type: unknown building type "warehouse": accepted are office, residential, school (column 30)`},
-		{`building_embodied(100, "m3", "office")`, CodeUnit, `building_embodied: unit "m3" is a volume, but an area is needed here (column 24)`},
-		{`building_embodied(-5, "m2", "office")`, CodeBadArgument, `building_embodied: area: must not be negative, got -5 (column 1)`},
-		{`building_embodied(100, "m2", "office", "max")`, CodeMissingFactor, `building_embodied: stat: no published maximum for office (column 1)`},
+		{`building_embodied(100, "m2", "warehouse")`, CodeBadArgument, `building_embodied: building_type: unknown building type "warehouse": accepted are office, residential, school (character 30)`},
+		{`building_embodied(100, "m3", "office")`, CodeUnit, `building_embodied: unit "m3" is a volume, but an area is needed here (character 24)`},
+		{`building_embodied(-5, "m2", "office")`, CodeBadArgument, `building_embodied: area: must not be negative, got -5 (character 1)`},
+		{`building_embodied(100, "m2", "office", "max")`, CodeMissingFactor, `building_embodied: stat: no published maximum for office (character 1)`},
 	} {
 		_, err := evalExpr(e, tt.expr)
 		fe, ok := AsError(err)

@@ -119,7 +119,7 @@ func (e *Engine) Compile(src string, opts ...CompileOption) (*Program, error) {
 func (e *Engine) parseError(src string, err error) error {
 	var fe *file.Error
 	if errors.As(err, &fe) {
-		return &Error{Code: CodeCompile, Param: "expr", Msg: lowerFirst(fe.Message), Column: fe.From + 1, Source: src, Err: err}
+		return &Error{Code: CodeCompile, Param: "expr", Msg: lowerFirst(fe.Message), Position: fe.From + 1, Source: src, Err: err}
 	}
 	return &Error{Code: CodeCompile, Param: "expr", Msg: err.Error(), Err: err}
 }
@@ -142,13 +142,13 @@ type checker struct {
 }
 
 func (c *checker) fail(n ast.Node, msg string) error {
-	return &Error{Code: CodeCompile, Param: "expr", Msg: msg, Column: n.Location().From + 1, Source: c.src}
+	return &Error{Code: CodeCompile, Param: "expr", Msg: msg, Position: n.Location().From + 1, Source: c.src}
 }
 
 func (c *checker) check(n ast.Node) error {
 	c.nodes++
 	if _, maxNodes := c.cfg.limits(); c.nodes > maxNodes {
-		return &Error{Code: CodeLimit, Param: "expr", Msg: "expression has more than " + strconv.Itoa(maxNodes) + " parts; split it into several rules", Column: n.Location().From + 1, Source: c.src}
+		return &Error{Code: CodeLimit, Param: "expr", Msg: "expression has more than " + strconv.Itoa(maxNodes) + " parts; split it into several rules", Position: n.Location().From + 1, Source: c.src}
 	}
 	switch n := n.(type) {
 	case *ast.IntegerNode, *ast.FloatNode, *ast.StringNode, *ast.BoolNode:
@@ -221,7 +221,7 @@ func (c *checker) variable(n *ast.IdentifierNode) error {
 		} else {
 			msg += "; no variables are given"
 		}
-		return &Error{Code: CodeVariable, Param: "expr", Msg: msg, Column: n.Location().From + 1, Source: c.src}
+		return &Error{Code: CodeVariable, Param: "expr", Msg: msg, Position: n.Location().From + 1, Source: c.src}
 	}
 	if !c.seen[name] {
 		c.seen[name] = true
@@ -243,7 +243,7 @@ func (c *checker) call(n *ast.CallNode) error {
 		} else {
 			msg += "; functions are " + strings.Join(c.e.catalog.names(), ", ")
 		}
-		return &Error{Code: CodeUnknownFunction, Param: "expr", Msg: msg, Column: n.Location().From + 1, Source: c.src}
+		return &Error{Code: CodeUnknownFunction, Param: "expr", Msg: msg, Position: n.Location().From + 1, Source: c.src}
 	}
 	if len(n.Arguments) < f.MinArgs() || len(n.Arguments) > len(f.Params) {
 		return c.fail(n, f.Name+" takes "+arity(f)+", got "+strconv.Itoa(len(n.Arguments))+": "+f.Name+"("+signature(f)+")")
@@ -273,7 +273,7 @@ func (c *checker) literal(f *Function, p Param, arg ast.Node) error {
 		if err := c.e.checkConstant(f, p, a.Value); err != nil {
 			fe, _ := AsError(err)
 			out := *fe
-			out.Func, out.Column, out.Source = f.Name, arg.Location().From+1, c.src
+			out.Func, out.Position, out.Source = f.Name, arg.Location().From+1, c.src
 			return &out
 		}
 	case *ast.IntegerNode, *ast.FloatNode:

@@ -54,7 +54,7 @@ func TestCompileRefuses(t *testing.T) {
 			if want != "" && !strings.Contains(fe.Msg, want) {
 				t.Errorf("%s: message %q does not contain %q", src, fe.Msg, want)
 			}
-			if fe.Column < 1 {
+			if fe.Position < 1 {
 				t.Errorf("%s: no column", src)
 			}
 		})
@@ -104,19 +104,19 @@ func TestCompileAllows(t *testing.T) {
 func TestCaret(t *testing.T) {
 	e := newTestEngine(t)
 	_, err := e.Compile(`fuel_co2(fuel, q, "kwhh") + 1`, WithVariables("fuel", "q"))
-	want := "fuel_co2: unit: unknown unit \"kwhh\" (did you mean kWh?) (column 19)\n" +
+	want := "fuel_co2: unit: unknown unit \"kwhh\" (did you mean kWh?) (character 19)\n" +
 		" | fuel_co2(fuel, q, \"kwhh\") + 1\n" +
 		" |                   ^"
 	if err == nil || err.Error() != want {
 		t.Errorf("got\n%v\nwant\n%s", err, want)
 	}
 	_, err = e.Compile("q +\n  qq", WithVariables("q", "qty"))
-	want = "expr: unknown variable \"qq\" (did you mean q?); known variables: q, qty (column 7)\n | " + "  qq\n |   ^"
+	want = "expr: unknown variable \"qq\" (did you mean q?); known variables: q, qty (character 7)\n | " + "  qq\n |   ^"
 	if err == nil || err.Error() != want {
 		t.Errorf("got\n%v\nwant\n%s", err, want)
 	}
 	_, err = e.Compile(`fuel_co2("diesel", 1, "L"`)
-	if fe, ok := AsError(err); !ok || fe.Code != CodeCompile || fe.Column != 25 {
+	if fe, ok := AsError(err); !ok || fe.Code != CodeCompile || fe.Position != 25 {
 		t.Errorf("unclosed call: %v", err)
 	}
 }

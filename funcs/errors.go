@@ -30,15 +30,17 @@ type Error struct {
 	// UnitCode is the code of the units package (unit-unknown, unit-ambiguous,
 	// unit-dimension, unit-basis) when Code is CodeUnit.
 	UnitCode string
-	// Column is the 1-based column in the expression source, 0 when unknown.
-	Column int
-	// Source is the expression source the column refers to.
+	// Position is the 1-based character position in the expression source
+	// (a character, not a byte; not a sheet column), 0 when unknown.
+	Position int
+	// Source is the expression source the position refers to.
 	Source string
 	Err    error // the cause, if any
 }
 
 // Error returns the message, prefixed by the function and parameter, and
-// followed by the expression line with a caret under the column when known.
+// followed by the expression line with a caret under the character position
+// when known: "... (character 28)".
 func (e *Error) Error() string {
 	var b strings.Builder
 	if e.Func != "" {
@@ -50,11 +52,11 @@ func (e *Error) Error() string {
 		b.WriteString(": ")
 	}
 	b.WriteString(e.Msg)
-	if e.Column > 0 && e.Source != "" {
-		b.WriteString(" (column ")
-		b.WriteString(strconv.Itoa(e.Column))
+	if e.Position > 0 && e.Source != "" {
+		b.WriteString(" (character ")
+		b.WriteString(strconv.Itoa(e.Position))
 		b.WriteString(")\n | ")
-		line, col := sourceLine(e.Source, e.Column)
+		line, col := sourceLine(e.Source, e.Position)
 		b.WriteString(line)
 		b.WriteString("\n | ")
 		b.WriteString(strings.Repeat(" ", col-1))

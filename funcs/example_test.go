@@ -52,7 +52,7 @@ func ExampleEngine_Compile_error() {
 	_, err := e.Compile(`fuel_co2("natural_gas", q, "ton")`, funcs.WithVariables("q"))
 	fmt.Println(err)
 	// Output:
-	// fuel_co2: unit: ambiguous unit "ton": write t (tonne, 1000 kg), short_ton (2000 lb) or long_ton (2240 lb) (column 28)
+	// fuel_co2: unit: ambiguous unit "ton": write t (tonne, 1000 kg), short_ton (2000 lb) or long_ton (2240 lb) (character 28)
 	//  | fuel_co2("natural_gas", q, "ton")
 	//  |                            ^
 }

@@ -59,10 +59,10 @@ func TestFugitiveScreening(t *testing.T) {
 		t.Errorf("notes %q", r.Notes)
 	}
 	for _, c := range []struct{ expr, code, msg string }{
-		{`fugitive_co2e("R-404A", 200, "kg", 35)`, CodeBadArgument, `fugitive_co2e: leak_rate: must lie in [0, 1] (a fraction of the charge per year, 0.15 for 15 %), got 35 (column 1)`},
-		{`fugitive_co2e("R-404A", -1, "kg", 0.1)`, CodeBadArgument, `fugitive_co2e: charge: must not be negative, got -1 (column 1)`},
-		{`refrigerant_leak_rate("chiller")`, CodeBadArgument, `refrigerant_leak_rate: equipment: unknown equipment "chiller" (did you mean chillers?): accepted are air_conditioning, chillers, commercial_refrigeration, domestic_refrigeration, industrial_refrigeration, mobile_air_conditioning, standalone_commercial, transport_refrigeration (column 23)`},
-		{`refrigerant_leak_rate("chillers", "mid")`, CodeBadArgument, `refrigerant_leak_rate: bound: unknown bound "mid": accepted are low, high (column 35)`},
+		{`fugitive_co2e("R-404A", 200, "kg", 35)`, CodeBadArgument, `fugitive_co2e: leak_rate: must lie in [0, 1] (a fraction of the charge per year, 0.15 for 15 %), got 35 (character 1)`},
+		{`fugitive_co2e("R-404A", -1, "kg", 0.1)`, CodeBadArgument, `fugitive_co2e: charge: must not be negative, got -1 (character 1)`},
+		{`refrigerant_leak_rate("chiller")`, CodeBadArgument, `refrigerant_leak_rate: equipment: unknown equipment "chiller" (did you mean chillers?): accepted are air_conditioning, chillers, commercial_refrigeration, domestic_refrigeration, industrial_refrigeration, mobile_air_conditioning, standalone_commercial, transport_refrigeration (character 23)`},
+		{`refrigerant_leak_rate("chillers", "mid")`, CodeBadArgument, `refrigerant_leak_rate: bound: unknown bound "mid": accepted are low, high (character 35)`},
 	} {
 		_, err := evalExpr(e, c.expr)
 		fe, ok := AsError(err)

@@ -158,7 +158,7 @@ func (p *Program) put(r *Runner) {
 	p.pool.Put(r)
 }
 
-// runError turns a VM error into an *Error, keeping the column of the call
+// runError turns a VM error into an *Error, keeping the character position of the call
 // that failed.
 func (p *Program) runError(err error) error {
 	var fe *file.Error
@@ -168,10 +168,10 @@ func (p *Program) runError(err error) error {
 	}
 	if e, ok := AsError(err); ok {
 		c := *e
-		if c.Column == 0 && col > 0 {
-			c.Column = col
+		if c.Position == 0 && col > 0 {
+			c.Position = col
 		}
-		if c.Column > 0 && c.Source == "" {
+		if c.Position > 0 && c.Source == "" {
 			c.Source = p.src
 		}
 		return &c
@@ -180,7 +180,7 @@ func (p *Program) runError(err error) error {
 	if fe != nil {
 		msg = lowerFirst(fe.Message)
 	}
-	return &Error{Code: CodeBadArgument, Param: "expr", Msg: msg, Column: col, Source: p.src, Err: err}
+	return &Error{Code: CodeBadArgument, Param: "expr", Msg: msg, Position: col, Source: p.src, Err: err}
 }
 
 // exprFunc adapts a catalog function to the expression VM. The first
@@ -209,7 +209,7 @@ func arith(params []any, op string) (a, b float64, col int, err error) {
 		return 0, 0, col, &Error{Code: CodeBadArgument, Param: "expr", Msg: "right side of " + op + " is " + describe(params[1]) + ", not a number"}
 	}
 	if b == 0 {
-		return 0, 0, col, &Error{Code: CodeArithmetic, Param: "expr", Msg: "division by zero", Column: col}
+		return 0, 0, col, &Error{Code: CodeArithmetic, Param: "expr", Msg: "division by zero", Position: col}
 	}
 	return a, b, col, nil
 }

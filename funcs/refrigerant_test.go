@@ -174,12 +174,12 @@ func TestRefrigerantWorkedExamples(t *testing.T) {
 func TestRefrigerantBadInputs(t *testing.T) {
 	e := newTestEngine(t)
 	for _, c := range []struct{ expr, code, msg string }{
-		{`refrigerant_co2e("R-404", 1, "kg")`, CodeBadArgument, `refrigerant_co2e: gas: unknown gas "R-404" (did you mean R-404A?): accepted are IPCC names (HFC-134a, SF6, c-C4F8) and ASHRAE refrigerant numbers (R-134a, R-410A); the doc of the gas parameter (fluecell functions gwp) lists every gas and blend (column 18)`},
-		{`refrigerant_co2e("R-410A", 1, "GJ")`, CodeUnit, `refrigerant_co2e: unit "GJ" is an energy, but a mass is needed here (column 31)`},
-		{`refrigerant_co2e("R-410A", 1, "kg", "ar7")`, CodeBadArgument, `refrigerant_co2e: gwp_set: unknown GWP set "ar7": accepted are ar4, ar5, ar6 (did you mean ar4?) (column 37)`},
-		{`refrigerant_co2e("R-290", 1, "kg")`, CodeMissingFactor, `refrigerant_co2e: gas: no GWP-100 for propane in any set: the IPCC tables do not list it; a factor row common,propane,gwp100_ar5,<value>,1,... in a user pack gives one (column 1)`},
-		{`gwp("HFO-1234yf", "ar4")`, CodeMissingFactor, `gwp: gwp_set: GWP set ar4 has no value for HFO-1234yf; sets with it: ar5, ar6 (column 1)`},
-		{`gwp("HFO-1234ze(Z)")`, CodeBadArgument, `gwp: gas: unknown gas "HFO-1234ze(Z)" (did you mean HFO-1234ze(E)?): accepted are IPCC names (HFC-134a, SF6, c-C4F8) and ASHRAE refrigerant numbers (R-134a, R-410A); the doc of the gas parameter (fluecell functions gwp) lists every gas and blend (column 5)`},
+		{`refrigerant_co2e("R-404", 1, "kg")`, CodeBadArgument, `refrigerant_co2e: gas: unknown gas "R-404" (did you mean R-404A?): accepted are IPCC names (HFC-134a, SF6, c-C4F8) and ASHRAE refrigerant numbers (R-134a, R-410A); the doc of the gas parameter (fluecell functions gwp) lists every gas and blend (character 18)`},
+		{`refrigerant_co2e("R-410A", 1, "GJ")`, CodeUnit, `refrigerant_co2e: unit "GJ" is an energy, but a mass is needed here (character 31)`},
+		{`refrigerant_co2e("R-410A", 1, "kg", "ar7")`, CodeBadArgument, `refrigerant_co2e: gwp_set: unknown GWP set "ar7": accepted are ar4, ar5, ar6 (did you mean ar4?) (character 37)`},
+		{`refrigerant_co2e("R-290", 1, "kg")`, CodeMissingFactor, `refrigerant_co2e: gas: no GWP-100 for propane in any set: the IPCC tables do not list it; a factor row common,propane,gwp100_ar5,<value>,1,... in a user pack gives one (character 1)`},
+		{`gwp("HFO-1234yf", "ar4")`, CodeMissingFactor, `gwp: gwp_set: GWP set ar4 has no value for HFO-1234yf; sets with it: ar5, ar6 (character 1)`},
+		{`gwp("HFO-1234ze(Z)")`, CodeBadArgument, `gwp: gas: unknown gas "HFO-1234ze(Z)" (did you mean HFO-1234ze(E)?): accepted are IPCC names (HFC-134a, SF6, c-C4F8) and ASHRAE refrigerant numbers (R-134a, R-410A); the doc of the gas parameter (fluecell functions gwp) lists every gas and blend (character 5)`},
 	} {
 		_, err := evalExpr(e, c.expr)
 		fe, ok := AsError(err)

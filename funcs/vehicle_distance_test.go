@@ -178,13 +178,13 @@ func TestResolveVehicle(t *testing.T) {
 func TestVehicleCO2eBadInputs(t *testing.T) {
 	e := newTestEngine(t)
 	for _, tt := range []struct{ expr, code, want string }{
-		{`vehicle_co2e(100, "L", "car_petrol_medium")`, CodeUnit, `vehicle_co2e: unit "L" is a volume, but a length is needed here: give the distance driven in km or mi; for an amount of fuel burned use mobile_co2e(fuel, amount, unit, mode) (column 19)`},
-		{`vehicle_co2e(100, "kWh", "car_bev_medium")`, CodeUnit, `vehicle_co2e: unit "kWh" is an energy, but a length is needed here: give the distance driven in km or mi; for an amount of fuel burned use mobile_co2e(fuel, amount, unit, mode) (column 19)`},
-		{`vehicle_co2e(100, "km", "Petrol car XL")`, CodeBadArgument, `vehicle_co2e: vehicle: unknown vehicle "Petrol car XL": accepted are ` + strings.Join(e.vehNames.ids, ", ") + ` (column 25)`},
-		{`vehicle_co2e(100, "km", "car_petrol_medium", "ar6")`, CodeBadArgument, `vehicle_co2e: gwp_set: set uk2024 publishes CO2e only, weighted with ar5 GWPs, so it cannot be reweighted with ar6: leave gwp_set out or give ar5 (column 1)`},
-		{`vehicle_co2e(100, "km", "car_petrol_medium", "ar5", "epa2021")`, CodeBadArgument, `vehicle_co2e: set: the table of epa2021 has no row for car_petrol_medium, which is in set uk2024: leave set out or choose a vehicle of epa2021 (us_light_duty_truck, us_medium_heavy_truck, us_motorcycle, us_passenger_car) (column 1)`},
-		{`vehicle_co2e(100, "km", "us_passenger_car", "ar5", "epa2025")`, CodeBadArgument, `vehicle_co2e: set: unknown set "epa2025": accepted are epa2021, uk2024 (did you mean epa2021?) (column 52)`},
-		{`vehicle_co2e(100, "km", "us_passenger_car", "ar7")`, CodeBadArgument, `vehicle_co2e: gwp_set: unknown GWP set "ar7": accepted are ar4, ar5, ar6 (did you mean ar4?) (column 45)`},
+		{`vehicle_co2e(100, "L", "car_petrol_medium")`, CodeUnit, `vehicle_co2e: unit "L" is a volume, but a length is needed here: give the distance driven in km or mi; for an amount of fuel burned use mobile_co2e(fuel, amount, unit, mode) (character 19)`},
+		{`vehicle_co2e(100, "kWh", "car_bev_medium")`, CodeUnit, `vehicle_co2e: unit "kWh" is an energy, but a length is needed here: give the distance driven in km or mi; for an amount of fuel burned use mobile_co2e(fuel, amount, unit, mode) (character 19)`},
+		{`vehicle_co2e(100, "km", "Petrol car XL")`, CodeBadArgument, `vehicle_co2e: vehicle: unknown vehicle "Petrol car XL": accepted are ` + strings.Join(e.vehNames.ids, ", ") + ` (character 25)`},
+		{`vehicle_co2e(100, "km", "car_petrol_medium", "ar6")`, CodeBadArgument, `vehicle_co2e: gwp_set: set uk2024 publishes CO2e only, weighted with ar5 GWPs, so it cannot be reweighted with ar6: leave gwp_set out or give ar5 (character 1)`},
+		{`vehicle_co2e(100, "km", "car_petrol_medium", "ar5", "epa2021")`, CodeBadArgument, `vehicle_co2e: set: the table of epa2021 has no row for car_petrol_medium, which is in set uk2024: leave set out or choose a vehicle of epa2021 (us_light_duty_truck, us_medium_heavy_truck, us_motorcycle, us_passenger_car) (character 1)`},
+		{`vehicle_co2e(100, "km", "us_passenger_car", "ar5", "epa2025")`, CodeBadArgument, `vehicle_co2e: set: unknown set "epa2025": accepted are epa2021, uk2024 (did you mean epa2021?) (character 52)`},
+		{`vehicle_co2e(100, "km", "us_passenger_car", "ar7")`, CodeBadArgument, `vehicle_co2e: gwp_set: unknown GWP set "ar7": accepted are ar4, ar5, ar6 (did you mean ar4?) (character 45)`},
 	} {
 		_, err := evalExpr(e, tt.expr)
 		fe, ok := AsError(err)

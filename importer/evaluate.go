@@ -365,7 +365,7 @@ func (sc *scanCtx) ruleError(t *table, i int, r *rule, err error) {
 	case target != nil && target.unitOf != nil:
 		col, row = target.unitOf.col, t.spec.headerRow
 	}
-	sc.warn.add(sheet, col, row, SevError, code, "rule "+r.column+": "+msg+"; not computed")
+	sc.warn.add(sheet, col, row, SevError, code, "rule "+r.column+": "+msg+"; row not computed")
 }
 
 // wideFactors gives, per per-fuel column, tonnes of CO2 and CO2e per unit

@@ -140,10 +140,10 @@ func (sc *scanCtx) rowRules(t *table, main *ruleSet, i int) (rs *ruleSet, skip b
 	text := quoteText(t.val(i, t.slotOf[f.col]).text)
 	if c == carrierElectricity && !t.spec.grid.known() {
 		at := sc.gridUnknown(t.spec.sheet, f.col, rowNum, text+" ("+t.spec.sheet+"!"+cellRef(f.col, rowNum)+")")
-		sc.warn.add(t.spec.sheet, f.col, rowNum, SevInfo, CodeNotComputed, text+" is purchased electricity and no grid is given: row not computed (see the grid-unknown finding at "+at+")")
+		sc.warn.add(t.spec.sheet, f.col, rowNum, SevInfo, CodeNotComputed, text+" is purchased electricity and no grid is given; row not computed (see the grid-unknown finding at "+at+")")
 		return nil, true
 	}
-	sc.warn.add(t.spec.sheet, f.col, rowNum, SevInfo, CodeNotComputed, text+" is purchased "+c.String()+" (Scope 2), and this build has no factor for it: row not computed")
+	sc.warn.add(t.spec.sheet, f.col, rowNum, SevInfo, CodeNotComputed, text+" is purchased "+c.String()+" (Scope 2), and this build has no factor for it; row not computed")
 	return nil, true
 }
 

@@ -95,7 +95,7 @@ func (sc *scanCtx) fuelValue(t *table, c *column, v *cellVal, r int) (any, bool)
 	switch fr.kind {
 	case nameFuel:
 	case nameNotFuel, nameAggregate, nameRate:
-		sc.warn.add(sheet, c.col, r, SevInfo, CodeNotComputed, quoteText(text)+" is "+fr.why+": row not computed"+notFuelHint(fr))
+		sc.warn.add(sheet, c.col, r, SevInfo, CodeNotComputed, quoteText(text)+" is "+fr.why+"; row not computed"+notFuelHint(fr))
 		return nil, false
 	default:
 		sc.warn.add(sheet, c.col, r, SevError, CodeFuelUnknown, notComputed(sc.fuelMessage(text)))
@@ -146,7 +146,7 @@ func (sc *scanCtx) unitValue(t *table, c *column, v *cellVal, r int) (any, bool)
 		return nil, false
 	}
 	if why := sc.notAmount(s); why != "" {
-		sc.warn.add(sheet, c.col, r, SevInfo, CodeNotComputed, quoteText(s)+" is "+why+", not an amount of fuel: row not computed")
+		sc.warn.add(sheet, c.col, r, SevInfo, CodeNotComputed, quoteText(s)+" is "+why+", not an amount of fuel; row not computed")
 		return nil, false
 	}
 	u, ok := sc.checkUnit(t, c, s, c.col, r, t.spec.kind == kindBuildPlan)
@@ -291,7 +291,7 @@ func (sc *scanCtx) numberValue(t *table, c *column, v *cellVal, r int) (any, boo
 		case roleWideFuel, rolePeriod, roleCarrier:
 			return 0.0, true
 		case roleQuantity, roleCapacity:
-			sc.warn.add(sheet, c.col, r, SevWarning, CodeValueNotNumber, "no "+strings.ToLower(c.hdr.Base)+" given: row not computed")
+			sc.warn.add(sheet, c.col, r, SevWarning, CodeValueNotNumber, "no "+strings.ToLower(c.hdr.Base)+" given; row not computed")
 		default:
 			sc.warn.add(sheet, c.col, r, SevError, CodeValueNotNumber, "empty: no value for "+c.ident+"; row not computed")
 		}
@@ -364,9 +364,6 @@ func (sc *scanCtx) formulaText(t *table, c *column, r int) (string, bool) {
 
 // notComputed ends a message with the consequence for the row.
 func notComputed(msg string) string {
-	if strings.HasSuffix(msg, "?") || strings.HasSuffix(msg, ")") && strings.Contains(msg[max(0, len(msg)-40):], "?") {
-		return msg + " Row not computed."
-	}
 	return msg + "; row not computed"
 }
 

@@ -25,14 +25,14 @@ const (
 // apiError is an error answer: its status and what the client is told. Messages name the
 // parameter and what would be accepted.
 type apiError struct {
-	Status int
-	Code   string
-	Func   string
-	Param  string
-	Msg    string // one line
-	Column int    // 1-based column in an expression, 0 when none
-	Detail string // several lines (the expression with a caret under the column), or ""
-	cause  error  // logged for 5xx, never sent
+	Status   int
+	Code     string
+	Func     string
+	Param    string
+	Msg      string // one line
+	Position int    // 1-based character position in an expression, 0 when none
+	Detail   string // several lines (the expression with a caret under the position), or ""
+	cause    error  // logged for 5xx, never sent
 }
 
 func (e *apiError) Error() string { return e.Msg }
@@ -43,12 +43,12 @@ type errorBody struct {
 	Code     string `json:"code"`
 	Function string `json:"function,omitempty"`
 	Param    string `json:"param,omitempty"`
-	Column   int    `json:"column,omitempty"`
+	Position int    `json:"position,omitempty"`
 	Detail   string `json:"detail,omitempty"`
 }
 
 func (e *apiError) body() errorBody {
-	return errorBody{Error: e.Msg, Code: e.Code, Function: e.Func, Param: e.Param, Column: e.Column, Detail: e.Detail}
+	return errorBody{Error: e.Msg, Code: e.Code, Function: e.Func, Param: e.Param, Position: e.Position, Detail: e.Detail}
 }
 
 func badRequest(param, msg string) *apiError {
@@ -121,9 +121,9 @@ func fromFuncs(err error, notFound bool) *apiError {
 		// packs are loaded at start-up; a pack error at request time is ours
 		return internalError(err)
 	}
-	out := &apiError{Status: status, Code: fe.Code, Func: fe.Func, Param: oneLine(fe.Param), Column: fe.Column}
-	if fe.Column > 0 {
-		// the expression and a caret under the column, on lines of their own
+	out := &apiError{Status: status, Code: fe.Code, Func: fe.Func, Param: oneLine(fe.Param), Position: fe.Position}
+	if fe.Position > 0 {
+		// the expression and a caret under the position, on lines of their own
 		out.Msg = oneLine(fe.Headline())
 		out.Detail = strings.ToValidUTF8(fe.Error(), "\ufffd")
 	} else {

@@ -121,7 +121,7 @@ func TestEvalErrors(t *testing.T) {
 		{"no expr", "application/json", "", `{"vars": {}}`, 400, "expr", "missing"},
 		{"two values", "application/json", "", `{"expr": "1"} {}`, 400, "body", "more than one JSON value"},
 		{"null var", "application/json", "", `{"expr": "x", "vars": {"x": null}}`, 400, "vars.x", "null"},
-		{"compile", "application/json", "", `{"expr": "fuel_co2(\"natural_gas\", 1, \"tons\") +"}`, 400, "expr", "column"},
+		{"compile", "application/json", "", `{"expr": "fuel_co2(\"natural_gas\", 1, \"tons\") +"}`, 400, "expr", "character"},
 		{"unknown variable", "application/json", "", `{"expr": "qty * 2", "vars": {"qty2": 1}}`, 400, "expr", `unknown variable "qty"`},
 		{"not allowed", "application/json", "", `{"expr": "map([1], #)"}`, 400, "expr", "map() is not available"},
 		{"division by zero", "application/json", "", `{"expr": "x / 0", "vars": {"x": 1}}`, 400, "expr", "division by zero"},

@@ -60,7 +60,13 @@ func cmdAnnotate(ctx context.Context, s stdio, args []string) int {
 	if err != nil {
 		return fail(s, "annotate", err)
 	}
-	printReport(s.out, rep)
+	// With --report -, standard output carries the JSON alone (so it can be
+	// piped to a JSON tool); the human summary goes to standard error.
+	human := s.out
+	if *report == "-" {
+		human = s.err
+	}
+	printReport(human, rep)
 	if *report != "" {
 		if err := writeReport(*report, s.out, rep); err != nil {
 			return fail(s, "annotate", err)

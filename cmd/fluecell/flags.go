@@ -81,11 +81,11 @@ func (f *engineFlags) engine() (*funcs.Engine, error) {
 }
 
 // fail prints a one-line error and returns exit code 1. Expression errors
-// keep their caret lines, which point at the column. Control characters
+// keep their caret lines, which point at the character position. Control characters
 // (a file name's line break or escape sequence) are printed escaped.
 func fail(s stdio, cmd string, err error) int {
 	msg := err.Error()
-	if fe, ok := funcs.AsError(err); ok && fe.Column == 0 {
+	if fe, ok := funcs.AsError(err); ok && fe.Position == 0 {
 		msg = fe.Headline()
 	} else if !ok {
 		msg = strings.ReplaceAll(msg, "\n", " ")

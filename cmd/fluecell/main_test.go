@@ -68,9 +68,9 @@ func TestEvalErrors(t *testing.T) {
 	}{
 		{[]string{"eval"}, 2, "fluecell eval: give exactly one expression"},
 		{[]string{"eval", "--var", "q", "q"}, 2, `fluecell eval: --var "q": write NAME=VALUE`},
-		{[]string{"eval", `fuel_co2("natural_gas", 1, "TJ", "ipcc")`}, 1, `fluecell eval: fuel_co2: pack: unknown pack "ipcc": accepted are epa2025, ipcc2006 (column 34)`},
+		{[]string{"eval", `fuel_co2("natural_gas", 1, "TJ", "ipcc")`}, 1, `fluecell eval: fuel_co2: pack: unknown pack "ipcc": accepted are epa2025, ipcc2006 (character 34)`},
 		{[]string{"eval", "--pack", "nope", "1"}, 1, `fluecell eval: pack: unknown pack "nope": accepted are epa2025, ipcc2006`},
-		{[]string{"eval", "q * 2"}, 1, `fluecell eval: expr: unknown variable "q"; no variables are given (column 1)`},
+		{[]string{"eval", "q * 2"}, 1, `fluecell eval: expr: unknown variable "q"; no variables are given (character 1)`},
 		{[]string{"eval", "--no-such-flag", "1"}, 2, "flag provided but not defined: -no-such-flag"},
 		{[]string{"frobnicate"}, 2, `fluecell: unknown command "frobnicate"`},
 	}
