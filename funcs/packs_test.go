@@ -68,11 +68,11 @@ func TestUserPackErrors(t *testing.T) {
 // a new fuel id becomes a fuel.
 func TestUserPackOverrides(t *testing.T) {
 	first := writeFile(t, "supplier.csv", packHeader+
-		",natural_gas,co2_ef,56000,kg CO2/TJ,,,NCV,Northwind Gas supply contract 2026 (demo),false\n"+
+		",natural_gas,co2_ef,56000,kg CO2/TJ,,,NCV,Hollinsmere Gas supply contract 2026 (demo),false\n"+
 		"acme,acme_blend,ncv,40,TJ/Gg,,,NCV,Acme lab report 7 (demo),false\n"+
 		"acme,acme_blend,co2_ef,70000,kg CO2/TJ,,,NCV,Acme lab report 7 (demo),false\n")
 	second := writeFile(t, "later.csv", "id,quantity,value,unit,basis,source\n"+
-		"natural_gas,co2_ef,55900,kg CO2/TJ,NCV,Northwind Gas revised 2026 (demo)\n")
+		"natural_gas,co2_ef,55900,kg CO2/TJ,NCV,Hollinsmere Gas revised 2026 (demo)\n")
 	e, err := New(WithFactorFiles(first, second))
 	if err != nil {
 		t.Fatal(err)
@@ -81,7 +81,7 @@ func TestUserPackOverrides(t *testing.T) {
 	if err != nil || r.Value != 55.9 {
 		t.Errorf("override: %v %v", r.Value, err)
 	}
-	if got := r.Sources[0].Source; got != "Northwind Gas revised 2026 (demo)" {
+	if got := r.Sources[0].Source; got != "Hollinsmere Gas revised 2026 (demo)" {
 		t.Errorf("source %q", got)
 	}
 	r, err = e.CallValues("fuel_co2", "natural_gas", 1.0, "TJ", "epa2025")

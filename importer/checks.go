@@ -42,7 +42,7 @@ func (sc *scanCtx) collectSamples(t *table, i, rowNum int, vars map[string]any, 
 			return
 		}
 		k := spec.sheet + "|" + colName(spec.qty.col) + "|" + f.id + "|" + u.u.String()
-		samples[k] = append(samples[k], sample{rowNum, spec.qty.col, q})
+		samples[k] = append(samples[k], sample{row: rowNum, col: spec.qty.col, v: q, word: foldWord(fs)})
 		t.priceSample(k, i, rowNum, q, samples)
 		sc.gasKWh(spec.sheet, spec.qty.col, rowNum, f.id, u.u)
 	case kindPeriods:
@@ -61,14 +61,14 @@ func (sc *scanCtx) collectSamples(t *table, i, rowNum int, vars map[string]any, 
 		k := spec.sheet + "|" + colName(spec.periods[0].col) + "|" + f.id + "|" + u.u.String()
 		for _, c := range spec.periods {
 			if q, ok := vars[c.ident].(float64); ok && q > 0 {
-				samples[k] = append(samples[k], sample{rowNum, c.col, q})
+				samples[k] = append(samples[k], sample{row: rowNum, col: c.col, v: q, word: foldWord(fs)})
 			}
 		}
 	case kindWide:
 		for _, c := range spec.wide {
 			if q, ok := vars[c.ident].(float64); ok && q > 0 {
 				k := spec.sheet + "|" + colName(c.col) + "|" + c.fuelID
-				samples[k] = append(samples[k], sample{rowNum, c.col, q})
+				samples[k] = append(samples[k], sample{row: rowNum, col: c.col, v: q})
 			}
 		}
 	}

@@ -19,6 +19,9 @@ type unitSeen struct {
 type sample struct {
 	row, col int
 	v        float64
+	// word is the workbook's own fuel name of the row, folded (lower case,
+	// spaces collapsed); "" where the table gives none per row.
+	word string
 }
 
 // evaluate runs the table's rules over its rows and makes the checks that

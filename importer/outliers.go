@@ -151,29 +151,11 @@ func (sc *scanCtx) checkOutliers(sheet string, samples map[string][]sample) {
 	var found []*outlierFinding
 	at := map[[2]int]*outlierFinding{}
 	for _, k := range keys {
-		ss := samples[k]
-		if len(ss) < 3 {
-			continue
-		}
-		vals := make([]float64, len(ss))
-		for i, s := range ss {
-			vals[i] = s.v
-		}
-		med, flagged := robustOutliers(vals)
-		if len(ss) < outlierMinRows {
-			for i, v := range vals {
-				if v > outlierSmall*med || v < med/outlierSmall {
-					flagged = append(flagged, i)
-				}
+		for _, g := range outlierGroups(k, samples[k]) {
+			for _, f := range testGroup(g) {
+				found = append(found, f)
+				at[[2]int{f.row, f.col}] = f
 			}
-		}
-		for _, i := range flagged {
-			s := ss[i]
-			f := &outlierFinding{row: s.row, col: s.col, code: CodeValueOutlier,
-				msg: funcs.FormatNumber(s.v) + " is " + timesText(s.v/med) + " the median " + funcs.FormatNumber(roundSig(med)) +
-					" of the " + plural(len(ss), "row") + " of " + groupName(k) + " (" + slipText(s.v, s.v/med) + ")"}
-			found = append(found, f)
-			at[[2]int{s.row, s.col}] = f
 		}
 	}
 	found = sc.checkPrices(samples, found, at)
@@ -181,6 +163,116 @@ func (sc *scanCtx) checkOutliers(sheet string, samples map[string][]sample) {
 		sc.warn.add(sheet, f.col, f.row, SevWarning, f.code, f.msg+": computed, check it")
 	}
 }
+
+// sampleGroup is a set of amounts tested together, with its name in the
+// findings.
+type sampleGroup struct {
+	name string // "gas_diesel_oil in L", or "\"diesel\" (gas_diesel_oil in L)"
+	ss   []sample
+	// only, when set, lists the indices of ss this group judges; the
+	// others are judged in their own name's group.
+	only []int
+}
+
+// outlierGroups splits the amounts of one fuel and unit (key k) for the
+// test. A workbook's own fuel name with outlierMinRows rows or more is a
+// group of its own: two names that read as one fuel (diesel for the
+// vehicles, heating oil for a boiler; both gas_diesel_oil) are used apart,
+// and the spread between them would hide a slip within either. The rows of
+// names with fewer rows are tested with the whole fuel, as are tables
+// without a name per row.
+func outlierGroups(k string, ss []sample) []sampleGroup {
+	byWord := map[string]int{}
+	for _, s := range ss {
+		if s.word != "" {
+			byWord[s.word]++
+		}
+	}
+	big := 0
+	for _, n := range byWord {
+		if n >= outlierMinRows {
+			big++
+		}
+	}
+	if big == 0 || big == 1 && byWord[ss[0].word] == len(ss) {
+		return []sampleGroup{{name: groupName(k), ss: ss}}
+	}
+	words := make([]string, 0, len(byWord))
+	for w, n := range byWord {
+		if n >= outlierMinRows {
+			words = append(words, w)
+		}
+	}
+	sort.Strings(words)
+	var out []sampleGroup
+	for _, w := range words {
+		g := sampleGroup{name: quoteText(w) + " (" + groupName(k) + ")"}
+		for _, s := range ss {
+			if s.word == w {
+				g.ss = append(g.ss, s)
+			}
+		}
+		out = append(out, g)
+	}
+	// The rows of the other names, tested against the whole fuel.
+	whole := sampleGroup{name: groupName(k), ss: ss}
+	var rest []int
+	for i, s := range ss {
+		if byWord[s.word] < outlierMinRows {
+			rest = append(rest, i)
+		}
+	}
+	if len(rest) > 0 {
+		whole.only = rest
+		out = append(out, whole)
+	}
+	return out
+}
+
+// testGroup runs the robust test (robustOutliers; groups of 3 or 4 rows
+// only at a factor of 100) over a group and returns its findings.
+func testGroup(g sampleGroup) []*outlierFinding {
+	ss := g.ss
+	if len(ss) < 3 {
+		return nil
+	}
+	vals := make([]float64, len(ss))
+	for i, s := range ss {
+		vals[i] = s.v
+	}
+	med, flagged := robustOutliers(vals)
+	if len(ss) < outlierMinRows {
+		for i, v := range vals {
+			if v > outlierSmall*med || v < med/outlierSmall {
+				flagged = append(flagged, i)
+			}
+		}
+	}
+	var out []*outlierFinding
+	for _, i := range flagged {
+		if g.only != nil && !containsInt(g.only, i) {
+			continue // tested in its own name's group
+		}
+		s := ss[i]
+		out = append(out, &outlierFinding{row: s.row, col: s.col, code: CodeValueOutlier,
+			msg: funcs.FormatNumber(s.v) + " is " + timesText(s.v/med) + " the median " + funcs.FormatNumber(roundSig(med)) +
+				" of the " + plural(len(ss), "row") + " of " + g.name + " (" + slipText(s.v, s.v/med) + ")"})
+	}
+	return out
+}
+
+func containsInt(xs []int, x int) bool {
+	for _, y := range xs {
+		if y == x {
+			return true
+		}
+	}
+	return false
+}
+
+// foldWord folds a workbook's fuel name for grouping: lower case, inner
+// spaces collapsed, ends trimmed.
+func foldWord(s string) string { return strings.ToLower(strings.Join(strings.Fields(s), " ")) }
 
 // groupName says a sample group: "gas_diesel_oil in L".
 func groupName(k string) string {

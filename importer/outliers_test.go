@@ -1,10 +1,14 @@
 package importer
 
 import (
+	"context"
 	"math"
+	"path/filepath"
 	"slices"
 	"strings"
 	"testing"
+
+	"github.com/fluecell/fluecell/importer/demo"
 )
 
 // The robust test flags a slip of about a factor of 10 and keeps quiet on
@@ -165,5 +169,73 @@ func TestOutlierSmallGroup(t *testing.T) {
 	ws := findings(scanCSVText(t, "fuel.csv", head+"2025-02-17,Diesel,330000,L\n"), CodeValueOutlier)
 	if len(ws) != 1 || ws[0].Cell != "C5" || !strings.Contains(ws[0].Message, "330000 is 107 times the median 3085 of the 4 rows") {
 		t.Errorf("want one finding at C5 for a factor of 100 among 4 rows, got %+v", ws)
+	}
+}
+
+// TestOutlierGroupsByWorkbookName: two names of one fuel (diesel for the
+// vans, heating oil for a boiler: both gas_diesel_oil) are judged apart when
+// a name has five rows or more, so the spread between them hides no slip
+// within either; the other names' rows are judged with the whole fuel.
+func TestOutlierGroupsByWorkbookName(t *testing.T) {
+	var ss []sample
+	add := func(word string, vs ...float64) {
+		for _, v := range vs {
+			ss = append(ss, sample{row: len(ss) + 2, col: 4, v: v, word: word})
+		}
+	}
+	// Diesel deliveries of about 1,200 L, one keyed with an extra zero;
+	// gas oil and heating oil at other levels.
+	add("diesel", 1250, 1150, 1090, 1210, 11900)
+	add("gas oil", 4000)
+	add("heating oil", 300, 250)
+	groups := outlierGroups("Fuel log|D|gas_diesel_oil|L", ss)
+	if len(groups) != 2 || groups[0].name != `"diesel" (gas_diesel_oil in L)` || len(groups[0].ss) != 5 ||
+		groups[1].name != "gas_diesel_oil in L" || !slices.Equal(groups[1].only, []int{5, 6, 7}) {
+		t.Fatalf("groups %+v", groups)
+	}
+	var flagged []int
+	for _, g := range groups {
+		for _, f := range testGroup(g) {
+			flagged = append(flagged, f.row)
+			if !strings.Contains(f.msg, "1190 would fit") {
+				t.Errorf("finding %q does not suggest the value without the extra zero", f.msg)
+			}
+		}
+	}
+	if !slices.Equal(flagged, []int{6}) {
+		t.Errorf("flagged rows %v, want [6] (the 11,900 L)", flagged)
+	}
+	// Judged as one fuel, the same amounts hide the slip: the spread of the
+	// three names widens the median absolute deviation (modified z 2.4).
+	if _, out := robustOutliers([]float64{1250, 1150, 1090, 1210, 11900, 4000, 300, 250}); len(out) != 0 {
+		t.Errorf("as one group the slip is flagged (%v): the case no longer shows why names are judged apart", out)
+	}
+	// One name only: one group, under the fuel's own name.
+	if g := outlierGroups("k|D|gas_diesel_oil|L", ss[:5]); len(g) != 1 || g[0].name != "gas_diesel_oil in L" {
+		t.Errorf("one name: groups %+v", g)
+	}
+}
+
+// TestDemoFuelLogExtraZero: the demo's fuel log holds 11,900 L of diesel
+// keyed for an invoice of 1,190 L (the reported 3.18 t CO2 is the
+// invoice's); the annotation flags it as an outlier and the reported figure
+// as a mismatch.
+func TestDemoFuelLogExtraZero(t *testing.T) {
+	dir := t.TempDir()
+	paths, err := demo.Write(dir)
+	must(t, err)
+	rep, err := Annotate(context.Background(), testEngine(t), paths[0], filepath.Join(dir, "out.xlsx"), Options{})
+	must(t, err)
+	var outlier, mismatch bool
+	for _, w := range rep.Warnings {
+		switch {
+		case w.Cell == "D21" && w.Code == CodeValueOutlier:
+			outlier = strings.Contains(w.Message, "11900 is 9.9 times the median")
+		case w.Cell == "G21" && w.Code == CodeExistingMismatch:
+			mismatch = true
+		}
+	}
+	if !outlier || !mismatch {
+		t.Errorf("the extra zero in Fuel log!D21: outlier %v, mismatch %v; findings %+v", outlier, mismatch, rep.Warnings)
 	}
 }

@@ -91,7 +91,7 @@ func (t *table) priceSample(k string, i, rowNum int, q float64, samples map[stri
 		return
 	}
 	pk := pricePrefix + colName(t.cost.col.col) + "|" + k
-	samples[pk] = append(samples[pk], sample{rowNum, t.spec.qty.col, t.cost.v[i] / q})
+	samples[pk] = append(samples[pk], sample{row: rowNum, col: t.spec.qty.col, v: t.cost.v[i] / q})
 }
 
 // checkPrices flags unit prices (cost / quantity, grouped by cost column,

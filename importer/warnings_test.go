@@ -27,7 +27,7 @@ func TestWarningsAtCells(t *testing.T) {
 		{"Fuel log", "E12", CodeUnitDimension, SevError, "did you mean kWh?"},
 		{"Fuel log", "E13", CodeUnitBasis, SevInfo, "declares HHV; pack ipcc2006 is on an NCV basis"},
 		{"Fuel log", "D14", CodeValueNegative, SevWarning, "-150"},
-		{"Fuel log", "D15", CodeValueOutlier, SevWarning, "118000 is 112 times the median 1050 of the 6 rows of gas_diesel_oil in L"},
+		{"Fuel log", "D15", CodeValueOutlier, SevWarning, `118000 is 118 times the median 1000 of the 5 rows of "diesel" (gas_diesel_oil in L)`},
 		{"Fuel log", "C16", CodeFuelUnknown, SevError, `"Disel": did you mean gas_diesel_oil?`},
 		{"Fuel log", "G17", CodeExistingMismatch, SevWarning, "the workbook says 2 t CO2, fluecell computes 2.38734 t CO2"},
 		{"Fuel log", "D18", CodeFormulaNoCache, SevWarning, `evaluated it to "1000"`},

@@ -103,9 +103,9 @@ func TestEvalErrors(t *testing.T) {
 func TestFactorsFlag(t *testing.T) {
 	dir := t.TempDir()
 	good := filepath.Join(dir, "supplier.csv")
-	os.WriteFile(good, []byte("id,quantity,value,unit,basis,source\nnatural_gas,co2_ef,55900,kg CO2/TJ,NCV,Northwind Gas certificate 2026 (demo)\n"), 0o644)
+	os.WriteFile(good, []byte("id,quantity,value,unit,basis,source\nnatural_gas,co2_ef,55900,kg CO2/TJ,NCV,Hollinsmere Gas certificate 2026 (demo)\n"), 0o644)
 	code, out, errs := runCLI(t, "eval", "--factors", good, `fuel_co2("natural_gas", 1, "TJ")`)
-	if code != 0 || !strings.HasPrefix(out, "55.9 t CO2\n") || !strings.Contains(out, "Northwind Gas certificate 2026") {
+	if code != 0 || !strings.HasPrefix(out, "55.9 t CO2\n") || !strings.Contains(out, "Hollinsmere Gas certificate 2026") {
 		t.Errorf("exit %d: %s %s", code, out, errs)
 	}
 	bad := filepath.Join(dir, "bad.csv")

@@ -109,22 +109,25 @@ func fuelLog() (*excelize.File, error) {
 		reported       any
 	}
 	rows := []entry{
-		{0, "Creamery", "Natural gas", 18500.0, "kWh", "Northwind Gas", 3.74},
+		{0, "Creamery", "Natural gas", 18500.0, "kWh", "Hollinsmere Gas", 3.74},
 		{0, "Creamery", "Gas oil", 2400.0, "litres", "Fenbridge Fuels", 6.41},
 		{0, "Depot", "Diesel", "1,250.5", "L", "Fenbridge Fuels", 3.34},
 		{1, "Depot", "Diesel", 1150.0, "L", "Fenbridge Fuels", 3.07},
-		{1, "Farm shop", "LPG", 410.0, "kg", "Calor-Marr", 1.22},
-		{1, "Creamery", "Natural gas", 64.0, "MMBtu HHV", "Northwind Gas", 3.41},
-		{2, "Creamery", "Natral gas", 12000.0, "kWh", "Northwind Gas", nil},
+		{1, "Farm shop", "LPG", 410.0, "kg", "Marrowdale Bottled Gas", 1.22},
+		{1, "Creamery", "Natural gas", 64.0, "MMBtu HHV", "Hollinsmere Gas", 3.41},
+		{2, "Creamery", "Natral gas", 12000.0, "kWh", "Hollinsmere Gas", nil},
 		{2, "Depot", "Diesel", -150.0, "L", "Fenbridge Fuels (credit note)", -0.40},
 		{2, "Depot", "Diesel", 1090.0, "L", "Fenbridge Fuels", 3.20},
 		{3, "Farm shop", "Wood pellets", 2.4, "t", "Marrowdale Biomass", nil},
-		{3, "Creamery", "Natural gas", 250.0, "kW", "Northwind Gas", nil},
+		{3, "Creamery", "Natural gas", 250.0, "kW", "Hollinsmere Gas", nil},
 		{3, "Depot", "Diesel", 3.2, "ton", "Fenbridge Fuels", nil},
 		{4, "Depot", "Diesel", 118000.0, "L", "Fenbridge Fuels", 3.15},
 		{4, "Farm shop", "Heating oil", 600.0, "L", "Fenbridge Fuels", 1.60},
-		{4, "Creamery", "Natural gas", 21.3, "MWh", "Northwind Gas", 4.30},
-		{5, "Depot", "Diesel", "=D9*0.5", "L", "Fenbridge Fuels (half of Tuesday's load)", nil},
+		{4, "Creamery", "Natural gas", 21.3, "MWh", "Hollinsmere Gas", 4.30},
+		{5, "Depot", "Diesel", "=D8*0.5", "L", "Fenbridge Fuels (half of Tuesday's load)", nil},
+		// An extra zero: 11,900 L keyed for the invoice's 1,190 L (the
+		// reported tCO2 is the invoice's); the outlier check must catch it.
+		{5, "Depot", "Diesel", 11900.0, "L", "Fenbridge Fuels", 3.18},
 	}
 	for i, r := range rows {
 		row := 5 + i

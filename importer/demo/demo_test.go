@@ -27,7 +27,7 @@ func TestWrite(t *testing.T) {
 	if v, _ := f.GetCellValue("Fuel log", "D7"); v != "1,250.5" {
 		t.Errorf("text number D7 = %q", v)
 	}
-	if v, _ := f.GetCellFormula("Fuel log", "D20"); v != "D9*0.5" {
+	if v, _ := f.GetCellFormula("Fuel log", "D20"); v != "D8*0.5" {
 		t.Errorf("formula D20 = %q", v)
 	}
 	// Write again: files are replaced, not appended to.
