@@ -54,6 +54,9 @@ func (lx *lexicon) readCarrier(s string) carrier {
 		return carrierNone // "Heating oil", "Power station coal": fuels
 	}
 	ws := words(s)
+	if gridPurchase(ws) {
+		return carrierElectricity
+	}
 	if len(ws) == 0 || len(ws) > 8 {
 		return carrierNone
 	}
@@ -82,4 +85,24 @@ func (lx *lexicon) readCarrier(s string) carrier {
 // while the row's other columns still count.
 func (c *column) perColumn() bool {
 	return c.role == roleWideFuel || c.role == rolePeriod || c.role == roleCarrier
+}
+
+// gridPurchase reports a header that names electricity bought from the
+// grid outright ("Electricity Use - Grid Purchase and Generated from Onsite
+// Renewable Systems (kWh)", the usual electricity column of an
+// energy-benchmarking export; "Purchased electricity"), even where it also
+// names energy made on site: the grid purchase is what Scope 2 counts, and
+// the header-note says that on-site generation in the same figure has no
+// Scope 2 emissions.
+func gridPurchase(ws []string) bool {
+	return hasWord(ws, "electricity", "electric", "elec", "electrical") &&
+		(hasPhrase(ws, "grid purchase", "grid purchases", "grid purchased", "purchased from the grid") ||
+			hasWord(ws, "purchased", "bought", "imported") && !hasWord(ws, "generated", "generation", "onsite", "exported", "sold"))
+}
+
+// withOnsite reports a purchased-electricity header that also counts
+// electricity made on site (the benchmarking export's "Grid Purchase and
+// Generated from Onsite Renewable Systems").
+func withOnsite(ws []string) bool {
+	return hasWord(ws, "onsite", "generated", "generation") || hasPhrase(ws, "on site")
 }

@@ -289,7 +289,11 @@ func (sc *scanCtx) headerWarnings(t *table) {
 			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, msg)
 		}
 		if c.sameAs != nil {
-			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.Text)+" gives "+c.sameAs.fuelID+" again, in "+c.hdr.UnitText+
+			what := c.sameAs.fuelID
+			if what == "" {
+				what = "purchased " + c.sameAs.carrier.String()
+			}
+			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.Text)+" gives "+what+" again, in "+c.hdr.UnitText+
 				": counted once, from "+quoteText(c.sameAs.hdr.Text)+" ("+colName(c.sameAs.col)+")")
 		}
 
@@ -309,6 +313,11 @@ func (sc *scanCtx) headerWarnings(t *table) {
 			if hasWord(ws, "electricity", "electric", "grid", "power", "heat", "steam", "cooling") {
 				sc.warn.add(sheet, c.col, hr, SevInfo, CodeFuelUnknown, quoteText(c.hdr.Text)+
 					" is purchased energy, not a fuel burned on site (Scope 2, which needs the supplier's or the grid's factor): the column is left out of the totals")
+				continue
+			}
+			if what := notOneFuel(sc.vocab, ws); what != "" {
+				sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.Text)+" is "+what+
+					", not an amount of one fuel: the column is left out of the totals")
 				continue
 			}
 			msg := "column " + quoteText(c.hdr.Text) + " has a unit but names no known fuel"

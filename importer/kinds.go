@@ -40,8 +40,11 @@ func KindScope(kind string) string {
 
 // KindLabel is a kind as a person reads it: "stationary combustion (Scope 1)".
 func KindLabel(kind string) string {
-	if kind == KindEmbodied {
+	switch kind {
+	case KindEmbodied:
 		return KindScope(kind)
+	case KindScope2:
+		return "purchased electricity and heat (" + KindScope(kind) + ")"
 	}
 	return strings.ReplaceAll(kind, "_", " ") + " (" + KindScope(kind) + ")"
 }

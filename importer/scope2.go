@@ -52,12 +52,29 @@ func (d *detector) assignScope2(t *tableSpec) {
 		if cr == carrierNone {
 			continue
 		}
+		// The same purchase again in another unit ("Electricity Use (kWh)"
+		// then "Electricity Use (kBtu)"): counted once, from its first column.
+		if first := sameCarrier(t.scope2, c, cr); first != nil {
+			c.carrier, c.sameAs = cr, first
+			continue
+		}
 		c.role, c.carrier = roleCarrier, cr
 		t.scope2 = append(t.scope2, c)
 		// The workbook's own carbon figures then mix Scope 1 and 2, on a
 		// grid factor of their own: they are not compared (checkExisting).
 		t.partial = true
 	}
+}
+
+// sameCarrier returns the column of taken that gives carrier cr under the
+// same header words as c in another unit, or nil.
+func sameCarrier(taken []*column, c *column, cr carrier) *column {
+	for _, x := range taken {
+		if x.carrier == cr && !strings.EqualFold(x.hdr.UnitText, c.hdr.UnitText) && tables.Phrase(x.hdr.Base) == tables.Phrase(c.hdr.Base) {
+			return x
+		}
+	}
+	return nil
 }
 
 // hasCarriers reports a table with purchased energy: its columns, or fuel
@@ -209,8 +226,12 @@ func (sc *scanCtx) scope2Findings(t *table) {
 			sc.warn.add(spec.sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.Text)+" is purchased "+c.carrier.String()+
 				" (Scope 2), and this build has no factor for it: the column is left out of the totals")
 		default:
+			onsite := ""
+			if c.carrier == carrierElectricity && withOnsite(words(c.hdr.Text)) {
+				onsite = "; the header counts electricity generated on site too, which has no Scope 2 emissions: where part of these amounts is on-site generation, the figure is an upper bound (give the grid purchase alone in a mapping's column if the workbook has it)"
+			}
 			sc.warn.add(spec.sheet, c.col, hr, SevInfo, CodeReadAs, quoteText(c.hdr.Text)+" read as purchased "+c.carrier.String()+
-				" (Scope 2, "+sc.carrierBasis(spec, c.carrier)+"), computed in the column "+scope2Column+", apart from fuels burned on site")
+				" (Scope 2, "+sc.carrierBasis(spec, c.carrier)+"), computed in the column "+scope2Column+", apart from fuels burned on site"+onsite)
 		}
 	}
 }
