@@ -89,6 +89,9 @@ func (sc *scanCtx) evaluate(t *table) error {
 		if t.blankRoles(i) {
 			continue
 		}
+		if sc.countRow(t, i) {
+			continue // a fuel card's merchandise or service line: no record of fuel
+		}
 		t.dataRows++
 		t.markRow(i, rowFound, nil)
 		rowNum := int(t.rowNums[i])

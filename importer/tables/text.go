@@ -114,6 +114,17 @@ func NotAmountUnit(s string) string {
 	return ""
 }
 
+// CountUnit reports a unit cell that counts items ("EA", "each", "pcs",
+// "job"): the unit a fuel card export gives its merchandise, service and
+// discount lines (common practice of card statements).
+func CountUnit(s string) bool {
+	switch strings.ToLower(strings.Trim(strings.TrimSpace(s), ".")) {
+	case "ea", "each", "pc", "pcs", "piece", "pieces", "item", "items", "ct", "job", "service":
+		return true
+	}
+	return false
+}
+
 // PeriodHeader recognises a column per period: month names (Jan, January,
 // Jan-25, 2025-01), quarters and halves (Q1, H2 2025), years (2024, FY2025)
 // and dates stored as numbers (Excel serials of 1955 to 2118).
