@@ -236,7 +236,7 @@ const fluecellPage = (() => {
     $("progress-row").hidden = !on;
     const p = $("progress");
     if (pct === null) p.removeAttribute("value");
-    else p.value = pct;
+    else if (typeof pct === "number") p.value = pct;
     $("progress-text").textContent = text || "";
   }
 
