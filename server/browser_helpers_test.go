@@ -13,6 +13,7 @@ import (
 	"time"
 
 	"github.com/chromedp/cdproto/browser"
+	"github.com/chromedp/cdproto/emulation"
 	cdppage "github.com/chromedp/cdproto/page"
 	"github.com/chromedp/cdproto/runtime"
 	"github.com/chromedp/chromedp"
@@ -113,8 +114,12 @@ func startBrowser(t *testing.T, width, height int) *tab {
 	}
 	b.do(chromedp.EmulateViewport(int64(width), int64(height)),
 		chromedp.Func(func(ctx context.Context, _ *chromedp.Target) error {
-			_, err := chromedp.Call(ctx, browser.SetDownloadBehavior, browser.SetDownloadBehaviorParams{
-				Behavior: browser.SetDownloadBehaviorBehaviorAllow, DownloadPath: b.downloads})
+			if _, err := chromedp.Call(ctx, browser.SetDownloadBehavior, browser.SetDownloadBehaviorParams{
+				Behavior: browser.SetDownloadBehaviorBehaviorAllow, DownloadPath: b.downloads}); err != nil {
+				return err
+			}
+			// a screenshot of the whole page is then as wide as the window, as on a phone
+			_, err := chromedp.Call(ctx, emulation.SetScrollbarsHidden, emulation.SetScrollbarsHiddenParams{Hidden: true})
 			return err
 		}))
 	return b

@@ -317,7 +317,7 @@ const fluecellPage = (() => {
       rep.totals_by_kind.map((k) => el("tr", {},
         td(k.kind), td(k.scope), td(fmt(k.tCO2e), "num"), td(fmt(k.tCO2), "num"), td(fmt(k.tCO2_biogenic), "num"),
         td(k.computed + " of " + k.rows + " rows computed" + (k.incomplete ? ": incomplete" : ""), k.incomplete ? "status-incomplete" : "status-ok"),
-        td((k.left_out || []).join(", ")))));
+        td((k.left_out || []).join(", "), "long"))));
     const bp = rep.build_plan;
     $("sum-interval").textContent = bp && bp.tCO2e_low !== undefined ? "Build plans: " + fmt(bp.tCO2e) + " tCO2e, range " + fmt(bp.tCO2e_low) + " to " + fmt(bp.tCO2e_high) + " tCO2e" + (bp.range_note ? " (" + bp.range_note + ")" : "") : "";
     $("cautions").replaceChildren(...(ins.caution || []).map((c) => el("li", { text: c })), el("li", { text: "Rules used: " + (rep.rules.join("; ") || "none") }));
@@ -326,11 +326,11 @@ const fluecellPage = (() => {
     sheetSel.value = keep;
     renderNames();
     table("sheets", ["Sheet", "Status", "Tables", "Rows", "Computed", "Why"],
-      rep.sheets.map((s) => el("tr", {}, td(s.name), td(s.status, "status-" + s.status.split(" ")[0]), td(s.tables, "num"), td(s.rows, "num"), td(s.computed, "num"), td(s.reason))));
+      rep.sheets.map((s) => el("tr", {}, td(s.name), td(s.status, "status-" + s.status.split(" ")[0]), td(s.tables, "num"), td(s.rows, "num"), td(s.computed, "num"), td(s.reason, "long"))));
     renderTables();
     const shown = rep.warnings.slice(0, 500);
     table("findings", ["Sheet", "Cell", "Severity", "Code", "Finding"],
-      shown.map((w) => el("tr", { class: "sev-" + w.severity }, td(w.sheet), td(w.cell, "mono"), td(w.severity), td(w.code), td(w.message))));
+      shown.map((w) => el("tr", { class: "sev-" + w.severity }, td(w.sheet), td(w.cell, "mono"), td(w.severity), td(w.code), td(w.message, "long"))));
     $("findings-more").textContent = rep.warnings.length > shown.length ? (rep.warnings.length - shown.length) + " more findings are in the report (JSON)." : rep.warnings.length + " finding(s).";
     renderChanges();
   }
@@ -341,7 +341,7 @@ const fluecellPage = (() => {
     table("names", ["Text in the workbook", "Read as", "Fuel id", "First cell", "Rows"], names.map((n) => {
       const input = el("input", { type: "text", value: st.mapping.names[n.text] !== undefined ? st.mapping.names[n.text] : n.fuel || "", "aria-label": "Fuel id for " + n.text, autocomplete: "off", spellcheck: "false" });
       input.addEventListener("change", () => { st.mapping.names[n.text] = input.value.trim(); st.edited = true; });
-      return el("tr", { class: n.read === "unknown" ? "sev-error" : "" }, td(n.text, "cell-text"), td(n.read), el("td", {}, input), td(n.cell, "mono"), td(n.rows, "num"));
+      return el("tr", { class: n.read === "unknown" ? "sev-error" : "" }, td(n.text, "cell-text"), td(n.read), el("td", { class: "wide-input" }, input), td(n.cell, "mono"), td(n.rows, "num"));
     }));
   }
 
@@ -405,7 +405,8 @@ const fluecellPage = (() => {
       const body = pv.rows.map((r) => el("tr", {}, el("th", { scope: "row", class: "rownum", text: String(r.row) }),
         ...r.cells.map((text, j) => {
           const ws = bySheetCell.get(t.sheet + "!" + pv.columns[j] + r.row) || [];
-          const cell = el("td", { class: "cell-text" }, text);
+          const ci = colInfo.get(pv.columns[j]);
+          const cell = el("td", { class: "cell-text" }, r.row > t.header_row && ci && ci.role === "date" ? dateText(text) : text);
           if (ws.length) {
             const worst = ws.reduce((a, b) => (rank[b.severity] > rank[a.severity] ? b : a));
             cell.className += " sev-" + worst.severity;
@@ -415,15 +416,18 @@ const fluecellPage = (() => {
           return cell;
         })));
       sec.append(el("div", { class: "scroll" }, el("table", { class: "data preview" }, el("thead", {}, head), el("tbody", {}, ...body))));
-      if (pv.more_rows > 0) sec.append(el("p", { class: "meta", text: pv.more_rows + " more row(s) of the table are not shown; their findings are listed below." }));
-      const mine = ins.report.warnings.filter((w) => w.sheet === t.sheet);
-      if (mine.length) {
-        const list = el("ul", { class: "table-findings" });
-        for (const w of mine.slice(0, 100)) list.append(el("li", { class: "sev-" + w.severity }, el("span", { class: "mono", text: w.cell }), " " + w.severity + " · " + w.code + ": " + w.message));
-        sec.append(el("h3", { text: "Findings on " + t.sheet }), list);
-      }
+      if (pv.more_rows > 0) sec.append(el("p", { class: "meta", text: pv.more_rows + " more row(s) of the table are not shown; their findings are in the list of findings." }));
       box.append(sec);
     });
+  }
+
+  // dateText shows a date column's day number (days since 1899-12-30, as spreadsheets store
+  // dates) as the date, with the number as read.
+  function dateText(text) {
+    const n = Number(text);
+    if (!/^\d+(\.\d+)?$/.test(text) || n < 1 || n > 2958465) return text;
+    const d = new Date(Date.UTC(1899, 11, 30) + Math.floor(n) * 86400000);
+    return d.toISOString().slice(0, 10) + " (" + text + ")";
   }
 
   // renderChanges compares the reading with the one before it (same workbook).
