@@ -256,3 +256,32 @@ func checkCSP(t *testing.T, b *tab, ts *testServer) {
 		t.Errorf("an inline script ran (%v) or no violation was reported (%d): the policy is not enforced", res.Ran, res.Violations)
 	}
 }
+
+// TestPageLimits shows the server's refusals as messages in the page: a workbook over the
+// upload limit (413) and a file that is not a workbook (400), and the page stays usable.
+func TestPageLimits(t *testing.T) {
+	b := startBrowser(t, 1280, 900)
+	e := newEngine(t)
+	ts := startServer(t, Config{Token: browserToken, MaxUploadBytes: 4096, Annotate: AnnotateHandler(e, AnnotateConfig{TempDir: t.TempDir()})})
+	paths, err := demo.Write(t.TempDir())
+	if err != nil {
+		t.Fatal(err)
+	}
+	openPage(t, b, ts.URL)
+	b.do(chromedp.SetUploadFiles(chromedp.ID("file-input"), []string{paths[0]}))
+	msg := b.waitText("#status", "Too large for this server")
+	if !strings.Contains(msg, "4096 bytes") || !eval[bool](b, `document.getElementById("status").classList.contains("error")`) {
+		t.Errorf("the message of a workbook over the limit: %q", msg)
+	}
+	fake := filepath.Join(t.TempDir(), "not-a-workbook.xlsx")
+	if err := os.WriteFile(fake, []byte("PK\x03\x04 this is not a zip"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	b.do(chromedp.SetUploadFiles(chromedp.ID("file-input"), []string{fake}))
+	msg = b.waitText("#status", "not-a-workbook.xlsx: the workbook is a damaged or truncated zip")
+	t.Logf("the page says: %s", msg)
+	if eval[bool](b, `document.getElementById("file-input").disabled`) {
+		t.Errorf("the file input stays disabled after a refusal")
+	}
+	noTokenInURLs(t, ts)
+}

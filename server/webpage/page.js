@@ -263,7 +263,7 @@ const fluecellPage = (() => {
     status("Reading " + st.file.name + "…", "busy");
     const res = await send("/v1/inspect", null, "text");
     if (res.status !== 200) {
-      status(await problem(res, read), "error");
+      status(st.file.name + ": " + (await problem(res, read)), "error");
       return;
     }
     const ins = JSON.parse(res.xhr.response);
@@ -286,7 +286,7 @@ const fluecellPage = (() => {
     status("Preparing " + name + "…", "busy");
     const res = await send(route, extra, "blob");
     if (res.status !== 200) {
-      status(await problem(res), "error");
+      status(name + ": " + (await problem(res)), "error");
       return;
     }
     save(res.xhr.response, name);
@@ -336,8 +336,11 @@ const fluecellPage = (() => {
   }
 
   function renderNames() {
-    const names = st.ins.names || [];
-    $("names-box").hidden = names.length === 0;
+    const all = st.ins.names || [];
+    // the unknown names first: they are the ones to map; at most 300 rows on the page
+    const names = all.filter((n) => n.read === "unknown").concat(all.filter((n) => n.read !== "unknown")).slice(0, 300);
+    $("names-box").hidden = all.length === 0;
+    $("names-more").textContent = all.length > names.length ? (all.length - names.length) + " more names are in the mapping file (JSON)." : "";
     table("names", ["Text in the workbook", "Read as", "Fuel id", "First cell", "Rows"], names.map((n) => {
       const input = el("input", { type: "text", value: st.mapping.names[n.text] !== undefined ? st.mapping.names[n.text] : n.fuel || "", "aria-label": "Fuel id for " + n.text, autocomplete: "off", spellcheck: "false" });
       input.addEventListener("change", () => { st.mapping.names[n.text] = input.value.trim(); st.edited = true; });
