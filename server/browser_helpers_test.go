@@ -22,8 +22,9 @@ import (
 // requireBrowserEnv names the variable that turns a missing chromium into a test failure.
 const requireBrowserEnv = "FLUECELL_REQUIRE_BROWSER"
 
-// shotsDir also receives a copy of every screenshot, for a person to look at.
-const shotsDir = "/tmp/h10shots"
+// shotsEnv names a folder that also receives a copy of every screenshot, for a person to look
+// at ("" or unset: none).
+const shotsEnv = "FLUECELL_SCREENSHOTS"
 
 // browserTimeout bounds one browser test.
 const browserTimeout = 3 * time.Minute
@@ -209,7 +210,8 @@ func (b *tab) download(name string) string {
 	return ""
 }
 
-// screenshot saves the whole page as PNG into the test's folder and a copy into shotsDir.
+// screenshot saves the whole page as PNG into the test's folder, and a copy into the folder
+// $FLUECELL_SCREENSHOTS names.
 func (b *tab) screenshot(name string) string {
 	b.t.Helper()
 	png, err := chromedp.Run(b.ctx, chromedp.FullScreenshot(100))
@@ -220,8 +222,13 @@ func (b *tab) screenshot(name string) string {
 	if err := os.WriteFile(p, png, 0o644); err != nil {
 		b.t.Fatal(err)
 	}
-	if err := os.MkdirAll(shotsDir, 0o755); err == nil {
-		_ = os.WriteFile(filepath.Join(shotsDir, name), png, 0o644)
+	if dir := os.Getenv(shotsEnv); dir != "" {
+		if err := os.MkdirAll(dir, 0o755); err != nil {
+			b.t.Fatalf("%s: %v", shotsEnv, err)
+		}
+		if err := os.WriteFile(filepath.Join(dir, name), png, 0o644); err != nil {
+			b.t.Fatalf("%s: %v", shotsEnv, err)
+		}
 	}
 	b.t.Logf("screenshot %s (%d bytes)", p, len(png))
 	return p
