@@ -94,6 +94,14 @@ func TestPageWorkbook(t *testing.T) {
 	if sheets := b.text("#sheets"); !strings.Contains(sheets, "Notes") || !strings.Contains(sheets, "no table") {
 		t.Errorf("the skipped sheet Notes and its reason are not shown: %q", sheets)
 	}
+	// Every control is a native one with a name a screen reader and a keyboard user get.
+	if unnamed := eval[[]string](b, `Array.from(document.querySelectorAll("input, select, textarea, button")).filter(e =>
+		!(e.labels && e.labels.length) && !e.getAttribute("aria-label") && !(e.tagName === "BUTTON" && e.textContent.trim())).map(e => e.id || e.outerHTML.slice(0, 80))`); len(unnamed) > 0 {
+		t.Errorf("controls without a label: %v", unnamed)
+	}
+	if clickable := eval[int](b, `document.querySelectorAll("div[onclick], span[onclick], [role=button]").length`); clickable != 0 {
+		t.Errorf("%d clickable elements that are not buttons", clickable)
+	}
 	b.screenshot("page-workbook-1280.png")
 
 	// Column G (Reported tCO2) is read as no role: its comparisons go; "Natral gas" is mapped

@@ -303,8 +303,11 @@ const fluecellPage = (() => {
   });
 
   // --- rendering ------------------------------------------------------------------------
+  // table fills the table id; each cell is labelled with its column's heading, which narrow
+  // screens show beside it (a table of class stack is then a list of cards).
   function table(id, head, rows) {
     const t = $(id);
+    for (const tr of rows) Array.from(tr.children).forEach((c, i) => c.setAttribute("data-label", head[i] || ""));
     t.replaceChildren(el("thead", {}, el("tr", {}, ...head.map((h) => el("th", { scope: "col", text: h })))), el("tbody", {}, ...rows));
   }
   const td = (text, cls) => el("td", { class: cls, text: text === undefined ? "" : String(text) });
