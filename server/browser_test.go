@@ -266,7 +266,8 @@ func checkCSP(t *testing.T, b *tab, ts *testServer) {
 }
 
 // TestPageLimits shows the server's refusals as messages in the page: a workbook over the
-// upload limit (413) and a file that is not a workbook (400), and the page stays usable.
+// upload limit (413) and a file that is not a workbook (400); the page stays usable and reads
+// the next file, a CSV dropped on it.
 func TestPageLimits(t *testing.T) {
 	b := startBrowser(t, 1280, 900)
 	e := newEngine(t)
@@ -290,6 +291,16 @@ func TestPageLimits(t *testing.T) {
 	t.Logf("the page says: %s", msg)
 	if eval[bool](b, `document.getElementById("file-input").disabled`) {
 		t.Errorf("the file input stays disabled after a refusal")
+	}
+	// A CSV file dropped on the page (as a file manager drops it) is read under its own name.
+	eval[bool](b, `(() => {
+		const dt = new DataTransfer();
+		dt.items.add(new File(["Site,Fuel,Quantity,Unit\nDepot,diesel,1200,L\nCreamery,natural_gas,40,MWh\n"], "week 14.csv", {type: "text/csv"}));
+		return document.getElementById("drop").dispatchEvent(new DragEvent("drop", {dataTransfer: dt, bubbles: true, cancelable: true}));
+	})()`)
+	b.waitText("#status", "Read week 14.csv: 2 of 2 rows computed")
+	if sheets := b.text("#sheets"); !strings.Contains(sheets, "week 14.csv") {
+		t.Errorf("the CSV's sheet is not named after the file: %q", sheets)
 	}
 	noTokenInURLs(t, ts)
 }

@@ -21,6 +21,18 @@ type upload struct {
 	mapping []byte // the multipart part "mapping" (a mapping file, JSON); nil when none
 }
 
+// spoolName is the name of the spooled copy in the request's own folder: a CSV file keeps the
+// client's name, which the importer gives its one sheet in findings and the report ("log.csv"
+// rather than a name of the server's); a workbook is upload.EXT.
+func (u upload) spoolName() string {
+	if u.ext == ".csv" {
+		if n := safeFileName(u.name); n != "" && n != "." && n != ".." && !strings.ContainsAny(n, "/\\") {
+			return n
+		}
+	}
+	return "upload" + u.ext
+}
+
 // maxMappingPart bounds the multipart part "mapping", in bytes.
 const maxMappingPart = 4 << 20
 
@@ -51,7 +63,7 @@ func receiveUpload(r *http.Request, nameParam, dir string) (upload, *apiError) {
 	if e != nil {
 		return upload{}, e
 	}
-	u.path = filepath.Join(dir, "upload"+u.ext)
+	u.path = filepath.Join(dir, u.spoolName())
 	return u, spool(u.path, body)
 }
 
@@ -86,7 +98,7 @@ func receiveForm(mr *multipart.Reader, nameParam, dir string) (upload, *apiError
 			if u, body, e = workbookKind(name, mt, part); e != nil {
 				return upload{}, e
 			}
-			u.path = filepath.Join(dir, "upload"+u.ext)
+			u.path = filepath.Join(dir, u.spoolName())
 			if e := spool(u.path, body); e != nil {
 				return upload{}, e
 			}

@@ -181,13 +181,17 @@ const fluecellPage = (() => {
   }
 
   // --- input ----------------------------------------------------------------------------
+  // A workbook dropped anywhere on the page is taken (the browser would otherwise leave the
+  // page to open the file); the box lights up while one is dragged over it.
   const drop = $("drop");
-  drop.addEventListener("dragover", (ev) => { ev.preventDefault(); drop.classList.add("over"); });
+  document.addEventListener("dragover", (ev) => ev.preventDefault());
+  drop.addEventListener("dragover", () => drop.classList.add("over"));
   drop.addEventListener("dragleave", () => drop.classList.remove("over"));
-  drop.addEventListener("drop", (ev) => {
+  document.addEventListener("drop", (ev) => {
     ev.preventDefault();
     drop.classList.remove("over");
-    if (ev.dataTransfer.files.length) take(ev.dataTransfer.files[0]);
+    if (st.busy) return;
+    if (ev.dataTransfer && ev.dataTransfer.files.length) take(ev.dataTransfer.files[0]);
   });
   $("file-input").addEventListener("change", () => {
     if ($("file-input").files.length) take($("file-input").files[0]);
@@ -202,6 +206,7 @@ const fluecellPage = (() => {
     st.ins = st.prev = st.mapping = null;
     st.edited = false;
     $("opt-rules").value = "";
+    $("opt-sheet").replaceChildren(el("option", { value: "", text: "every sheet" }));
     read();
   }
 
