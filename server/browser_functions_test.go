@@ -61,6 +61,14 @@ func TestPageFunctions(t *testing.T) {
 	if got := eval[string](b, `navigator.clipboard.readText()`); got != formula {
 		t.Errorf("the clipboard holds %q, want the formula %q", got, formula)
 	}
+	py := eval[string](b, `document.getElementById("fn-python").value`)
+	// By keyboard alone: type in the filter, Tab to the first function it leaves, Enter.
+	b.do(chromedp.SendKeys(chromedp.ID("fn-filter"), "co2e"), chromedp.KeyEvent("\t"), chromedp.KeyEvent("\r"))
+	b.waitText("#fn-main h2", "fuel_co2e")
+	if f := eval[string](b, `document.activeElement.dataset.fn || ""`); f != "fuel_co2e" {
+		t.Errorf("after Enter the focus is on %q, want the function's button", f)
+	}
+	b.waitText("#fn-result", "t CO2e")
 	b.screenshot("page-functions-1280.png")
 	b.do(chromedp.EmulateViewport(390, 844))
 	if eval[bool](b, `document.documentElement.scrollWidth > document.documentElement.clientWidth`) {
@@ -69,7 +77,6 @@ func TestPageFunctions(t *testing.T) {
 	b.screenshot("page-functions-390.png")
 	noTokenInURLs(t, ts)
 
-	py := eval[string](b, `document.getElementById("fn-python").value`)
 	t.Run("python", func(t *testing.T) {
 		if _, err := os.Stat("/usr/bin/python3"); err != nil {
 			t.Skip("no /usr/bin/python3")

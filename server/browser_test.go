@@ -32,8 +32,7 @@ func openPage(t *testing.T, b *tab, url string) {
 	t.Helper()
 	b.do(chromedp.Navigate(url+"/"),
 		chromedp.WaitVisible(chromedp.ID("token-input")),
-		chromedp.SendKeys(chromedp.ID("token-input"), browserToken),
-		chromedp.Click(chromedp.CSS(`#token-form button[type="submit"]`)))
+		chromedp.SendKeys(chromedp.ID("token-input"), browserToken+"\r")) // Enter submits
 	b.waitTrue(`document.getElementById("token-box").hidden`)
 	b.waitText("#fn-list", "fuel_co2")
 }

@@ -47,7 +47,8 @@
 
   function open(fn) {
     current = fn;
-    renderList();
+    // mark the current function without rebuilding the list, so the focus stays where it is
+    for (const b of $("fn-list").querySelectorAll("button")) b.setAttribute("aria-current", String(b.dataset.fn === fn.name));
     const ex = exampleValues(fn);
     const box = $("fn-main");
     const formEl = el("form", { id: "fn-form", class: "fields", novalidate: true });
