@@ -85,7 +85,7 @@
   }
 
   function snippet(id, label) {
-    const ta = el("textarea", { id, readonly: true, rows: id === "fn-python" ? 8 : 2, spellcheck: "false" });
+    const ta = el("textarea", { id, readonly: true, rows: id === "fn-python" ? 8 : 3, spellcheck: "false" });
     const b = el("button", { type: "button", text: "Copy", "aria-label": "Copy: " + label });
     b.addEventListener("click", async () => {
       try {
@@ -140,7 +140,7 @@
     if (a.low !== undefined && a.high !== undefined) parts.push(el("p", { class: "meta", text: "Range " + a.low + " to " + a.high + (a.unit ? " " + a.unit : "") }));
     if (a.sources && a.sources.length) {
       parts.push(el("h3", { text: "Sources" }), el("ul", {}, ...a.sources.map((s) => el("li", {
-        text: (s.factor || s.id || "") + ": " + s.value + " " + (s.unit || "") + (s.basis ? " " + s.basis : "") + (s.low !== undefined ? " (" + s.low + " to " + s.high + ")" : "") + " · " + (s.source || "") + (s.from_memory ? " · from memory, not read in the source" : ""),
+        text: (s.factor || s.id || "") + ": " + s.value + (s.unit && s.unit !== "1" ? " " + s.unit : "") + (s.basis ? " " + s.basis : "") + (s.low !== undefined ? " (" + s.low + " to " + s.high + ")" : "") + " · " + (s.source || "") + (s.from_memory ? " · from memory, not read in the source" : ""),
       }))));
     }
     if (a.notes && a.notes.length) parts.push(el("h3", { text: "Notes" }), el("ul", {}, ...a.notes.map((n) => el("li", { text: n }))));
