@@ -5,7 +5,7 @@ import (
 	"net/http"
 )
 
-// annotate serves POST /v1/annotate through Config.Annotate, the workbook importer's handler,
+// annotate serves POST /v1/annotate and POST /v1/inspect through Config.Annotate, the workbook importer's handler,
 // with the upload limit applied: a body over MaxUploadBytes is refused with 413 before the
 // handler runs when its length is declared, and cut off (reads fail with *http.MaxBytesError)
 // when it is not.

@@ -1,17 +1,14 @@
 package server
 
 import (
-	"bufio"
 	"context"
 	"errors"
 	"fmt"
 	"io"
 	"log/slog"
 	"mime"
-	"mime/multipart"
 	"net/http"
 	"os"
-	"path/filepath"
 	"runtime"
 	"strconv"
 	"strings"
@@ -68,13 +65,17 @@ const (
 	DefaultMinUploadRate = 16 << 10
 )
 
-// AnnotateHandler returns the handler of POST /v1/annotate, to be set as
-// Config.Annotate. The body is the workbook (.xlsx, .xlsm or CSV, by
-// Content-Type or the name= query parameter), or a multipart form whose part
-// "file" holds it. Query parameters: rule (repeatable, "COLUMN = EXPR"),
-// sheet, pack, name, and report=json to answer the report instead of the
-// annotated workbook. The upload is spooled to a temporary file, annotated
-// with importer.Annotate, and both files are removed at the end.
+// AnnotateHandler returns the handler of POST /v1/annotate and POST /v1/inspect
+// (told apart by the path), to be set as Config.Annotate. The body is the
+// workbook (.xlsx, .xlsm, .xls or CSV, by Content-Type or the name= query
+// parameter), or a multipart form whose part "file" holds it and whose part
+// "mapping" may hold a mapping file (JSON, importer.ParseMapping). Query
+// parameters: rule (repeatable, "COLUMN = EXPR"), sheet, pack, grid, name;
+// report=json (annotate) answers the report instead of the annotated
+// workbook; rows (inspect) is how many data rows of each table are previewed.
+// /v1/inspect answers how the workbook was read (importer.Inspect), the first
+// rows of each table and the reading as a mapping file; it writes nothing.
+// The upload is spooled to a temporary file and every file is removed at the end.
 func AnnotateHandler(e *funcs.Engine, cfg AnnotateConfig) http.Handler {
 	if cfg.Concurrent <= 0 {
 		cfg.Concurrent = runtime.NumCPU()
@@ -142,40 +143,12 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	ctx, cancel := context.WithDeadline(r.Context(), deadline)
 	defer cancel()
 
+	inspect := strings.HasSuffix(r.URL.Path, routeInspect)
 	q := r.URL.Query()
-	for k := range q {
-		switch k {
-		case "rule", "sheet", "pack", "grid", "name", "report", "token":
-		default:
-			h.fail(w, r, badRequest(k, "unknown parameter "+quoteText(k)+": /v1/annotate takes rule, sheet, pack, grid, name and report=json"))
-			return
-		}
-	}
-	asReport := false
-	switch v := q.Get("report"); v {
-	case "":
-	case "json":
-		asReport = true
-	default:
-		h.fail(w, r, badRequest("report", "report="+quoteText(v)+": the only accepted value is json"))
+	req, apiErr := h.parseQuery(q, inspect)
+	if apiErr != nil {
+		h.fail(w, r, apiErr)
 		return
-	}
-	opt := h.cfg.Options
-	opt.Rules = append(append([]string(nil), opt.Rules...), q["rule"]...)
-	opt.Sheet = q.Get("sheet")
-	if g := q.Get("grid"); g != "" {
-		if _, err := importer.CheckGrid(h.e, g); err != nil {
-			h.fail(w, r, badRequest("grid", err.Error()))
-			return
-		}
-		opt.Grid = g
-	}
-	if p := q.Get("pack"); p != "" {
-		if _, err := h.e.Factors(p, ""); err != nil {
-			h.fail(w, r, fromFuncs(err, false))
-			return
-		}
-		opt.Pack = p
 	}
 
 	// The upload is read in full first, at a minimum pace; only then does it
@@ -195,17 +168,21 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	}
 	defer os.RemoveAll(dir)
 	r.Body = &pacedBody{r: r.Body, rc: rc, start: time.Now(), grace: h.cfg.UploadGrace, rate: h.cfg.MinUploadRate, end: deadline}
-	name, ext, body, apiErr := uploadedWorkbook(r, q.Get("name"))
+	up, apiErr := receiveUpload(r, q.Get("name"), dir)
 	if apiErr != nil {
 		h.fail(w, r, apiErr)
 		return
 	}
-	in := filepath.Join(dir, "upload"+ext)
-	if apiErr := spool(in, body); apiErr != nil {
-		h.fail(w, r, apiErr)
-		return
-	}
 	_ = rc.SetReadDeadline(time.Time{}) // the body is read; nothing more is expected
+	opt := req.opt
+	if up.mapping != nil {
+		m, err := importer.ParseMapping(h.e, "mapping.json", up.mapping)
+		if err != nil {
+			h.fail(w, r, badRequest("mapping", err.Error()))
+			return
+		}
+		opt.Mapping = m
+	}
 
 	select {
 	case h.turns <- struct{}{}:
@@ -214,13 +191,18 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 		h.fail(w, r, &apiError{Status: http.StatusServiceUnavailable, Code: codeTimeout, Msg: "the server is busy annotating other workbooks; try again later"})
 		return
 	}
+	if inspect {
+		h.inspect(ctx, w, r, up, dir, opt, req.rows)
+		return
+	}
+	in := up.path
 	out := importer.DefaultOutput(in) // a legacy .xls comes back as .xlsx
 	rep, err := importer.Annotate(ctx, h.e, in, out, opt)
 	if err != nil {
 		h.fail(w, r, importerError(err, ctx, dir))
 		return
 	}
-	if asReport {
+	if req.report {
 		h.writeReport(w, r, rep)
 		return
 	}
@@ -231,7 +213,7 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	}
 	defer f.Close()
 	ctype := typeXLSX
-	switch ext {
+	switch up.ext {
 	case ".xlsm":
 		ctype = typeXLSM
 	case ".csv":
@@ -239,112 +221,13 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	}
 	w.Header().Set("Content-Type", ctype)
 	w.Header().Set("Cache-Control", "no-store")
-	w.Header().Set("Content-Disposition", mime.FormatMediaType("attachment", map[string]string{"filename": safeFileName(importer.DefaultOutput(name))}))
+	w.Header().Set("Content-Disposition", mime.FormatMediaType("attachment", map[string]string{"filename": safeFileName(importer.DefaultOutput(up.name))}))
 	if fi, err := f.Stat(); err == nil {
 		w.Header().Set("Content-Length", strconv.FormatInt(fi.Size(), 10))
 	}
 	// A client gone mid-answer shows on the request's line (its bytes); no line of its own,
 	// which a crowd of such clients would turn into an unbounded log.
 	_, _ = io.Copy(w, f)
-}
-
-// uploadedWorkbook finds the workbook in the request: the body itself, or the
-// part "file" of a multipart form. It returns the file name to answer with,
-// its extension (.xlsx, .xlsm, .csv, or .xls, which the importer converts
-// with LibreOffice where it is installed and refuses by name otherwise) and
-// the reader.
-func uploadedWorkbook(r *http.Request, nameParam string) (name, ext string, body io.Reader, err *apiError) {
-	ct := r.Header.Get("Content-Type")
-	mt, params, perr := mime.ParseMediaType(ct)
-	if ct != "" && perr != nil {
-		return "", "", nil, &apiError{Status: http.StatusUnsupportedMediaType, Code: codeMediaType, Msg: "unreadable Content-Type " + quoteText(ct)}
-	}
-	name = nameParam
-	body = r.Body
-	switch mt {
-	case "multipart/form-data":
-		mr := multipart.NewReader(r.Body, params["boundary"])
-		for {
-			part, e := mr.NextPart()
-			if e == io.EOF {
-				return "", "", nil, badRequest("file", "the multipart form has no part named file: send the workbook as file")
-			}
-			if e != nil {
-				return "", "", nil, uploadError(e, "the multipart form cannot be read: "+e.Error())
-			}
-			if part.FormName() == "file" {
-				if name == "" {
-					name = part.FileName()
-				}
-				body = part
-				if pt := part.Header.Get("Content-Type"); pt != "" && pt != "application/octet-stream" {
-					mt, _, _ = mime.ParseMediaType(pt)
-				} else {
-					mt = ""
-				}
-				break
-			}
-		}
-	case typeXLSX, typeXLSMFolded, typeCSV, "application/vnd.ms-excel", "application/octet-stream", "":
-	case "application/x-www-form-urlencoded":
-		// what curl --data-binary sends by default: the body decides
-		mt = ""
-	default:
-		return "", "", nil, &apiError{Status: http.StatusUnsupportedMediaType, Code: codeMediaType,
-			Msg: "Content-Type " + quoteText(mt) + " is not a workbook: send " + typeXLSX + ", " + typeXLSM + ", text/csv or multipart/form-data with a part file"}
-	}
-	name = filepath.Base(strings.ReplaceAll(name, "\\", "/"))
-	ext = strings.ToLower(filepath.Ext(name))
-	switch ext {
-	case ".xlsx", ".xlsm", ".csv", ".xls":
-	default:
-		switch mt {
-		case typeXLSMFolded:
-			ext = ".xlsm"
-		case typeCSV:
-			ext = ".csv"
-		case "application/vnd.ms-excel":
-			ext = ".xls"
-		default:
-			// Look at the first bytes: a zip is an OOXML workbook, the OLE2
-			// signature a legacy .xls (refused with its own message).
-			br := bufio.NewReader(body)
-			head, _ := br.Peek(8)
-			body = br
-			switch {
-			case len(head) >= 4 && string(head[:4]) == "PK\x03\x04":
-				ext = ".xlsx"
-			case len(head) >= 8 && string(head) == "\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1":
-				ext = ".xls"
-			default:
-				return "", "", nil, &apiError{Status: http.StatusUnsupportedMediaType, Code: codeMediaType,
-					Msg: "the body is not an .xlsx or .xlsm workbook: send CSV with Content-Type text/csv or name=FILE.csv"}
-			}
-		}
-	}
-	if name == "." || name == "/" || name == "" || strings.ToLower(filepath.Ext(name)) != ext {
-		name = "workbook" + ext
-	}
-	return name, ext, body, nil
-}
-
-// spool copies the upload into path.
-func spool(path string, body io.Reader) *apiError {
-	f, err := os.Create(path)
-	if err != nil {
-		return internalError(err)
-	}
-	n, err := io.Copy(f, body)
-	if cerr := f.Close(); err == nil && cerr != nil {
-		return internalError(cerr)
-	}
-	if err != nil {
-		return uploadError(err, "the upload was cut off: "+err.Error())
-	}
-	if n == 0 {
-		return badRequest("body", "empty body: send the workbook (.xlsx, .xlsm or CSV) as the body or as the multipart part file")
-	}
-	return nil
 }
 
 // uploadError is 413 for a body over the limit, else 400 with msg.

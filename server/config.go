@@ -29,7 +29,8 @@ const maxHeaderBytes = 64 << 10
 type Config struct {
 	// Addr is the TCP address ListenAndServe binds (default 127.0.0.1:8787, loopback only).
 	Addr string
-	// Token, when not empty, is required on every request but /healthz, as
+	// Token, when not empty, is required on every request but /healthz and the web page's
+	// own files (/ and /page/*, which hold no data; the page sends the token as a header), as
 	// "Authorization: Bearer TOKEN" or as the query parameter token=TOKEN (a sheet cell
 	// cannot set headers). It is compared in constant time and never logged.
 	Token string

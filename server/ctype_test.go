@@ -44,6 +44,12 @@ func TestDeclaredContentTypesAccepted(t *testing.T) {
 			"text/csv":                 csvBody,
 			"application/octet-stream": xlsx,
 		},
+		"/v1/inspect": {
+			typeXLSX:                   xlsx,
+			typeXLSM:                   xlsx,
+			"text/csv":                 csvBody,
+			"application/octet-stream": xlsx,
+		},
 	}
 	var tried []string
 	for path, item := range doc.Paths.Map() {
@@ -71,7 +77,7 @@ func TestDeclaredContentTypesAccepted(t *testing.T) {
 					if r.Status != 200 {
 						t.Errorf("POST %s, part of type %s: %d %.300s", path, mixedCase(part), r.Status, r.Body)
 					}
-					if part == typeXLSM && r.Header.Get("Content-Type") != typeXLSM {
+					if path == routeAnnotate && part == typeXLSM && r.Header.Get("Content-Type") != typeXLSM {
 						t.Errorf("an .xlsm part answered as %q", r.Header.Get("Content-Type"))
 					}
 					tried = append(tried, path+" multipart "+part)
@@ -87,7 +93,7 @@ func TestDeclaredContentTypesAccepted(t *testing.T) {
 			if r.Status != 200 {
 				t.Errorf("POST %s with Content-Type %s: %d %.300s", path, mixedCase(ctype), r.Status, r.Body)
 			}
-			if strings.EqualFold(ctype, typeXLSM) && r.Header.Get("Content-Type") != typeXLSM {
+			if path == routeAnnotate && strings.EqualFold(ctype, typeXLSM) && r.Header.Get("Content-Type") != typeXLSM {
 				t.Errorf("an .xlsm upload answered as %q", r.Header.Get("Content-Type"))
 			}
 			tried = append(tried, path+" "+ctype)

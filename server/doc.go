@@ -9,6 +9,9 @@
 //	POST /v1/eval                     an expression, for one set of variables or many rows (JSON),
 //	                                  or over a CSV table (?expr=…&as=COLUMN, text/csv body)
 //	POST /v1/annotate                 workbook annotation, served when Config.Annotate is set
+//	POST /v1/inspect                  how a workbook is read, with a preview and the reading as
+//	                                  a mapping file (the multipart part "mapping" of both routes)
+//	GET  /, /page/{file}              the web page (webpage/, embedded): open, it holds no data
 //	GET  /v1/functions[/{name}], /v1/factors, /v1/units, /openapi.yaml, /healthz, /metrics
 //
 // Every client mistake is a 4xx whose message names the parameter and what is accepted; a 5xx

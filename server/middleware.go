@@ -247,7 +247,7 @@ func (s *Server) noRoute(c *gin.Context) {
 
 func (s *Server) noMethod(c *gin.Context) {
 	allow := http.MethodGet
-	if p := c.Request.URL.Path; p == "/v1/eval" || p == "/v1/annotate" {
+	if p := c.Request.URL.Path; p == "/v1/eval" || p == routeAnnotate || p == routeInspect {
 		allow = http.MethodPost
 	}
 	c.Header("Allow", allow)

@@ -23,6 +23,12 @@ import (
 // registerXMLDecoder teaches kin-openapi to read application/xml answers: it checks that the
 // document is well formed and hands the text to the schema (a pattern).
 var registerXMLDecoder = sync.OnceFunc(func() {
+	for _, ct := range []string{"text/html", "text/css", "text/javascript"} {
+		openapi3filter.RegisterBodyDecoder(ct, func(body io.Reader, _ http.Header, _ *openapi3.SchemaRef, _ openapi3filter.EncodingFn) (any, error) {
+			b, err := io.ReadAll(body)
+			return string(b), err
+		})
+	}
 	openapi3filter.RegisterBodyDecoder("application/xml", func(body io.Reader, _ http.Header, _ *openapi3.SchemaRef, _ openapi3filter.EncodingFn) (any, error) {
 		b, err := io.ReadAll(body)
 		if err != nil {
@@ -145,6 +151,8 @@ func TestOpenAPIValidatesAnswers(t *testing.T) {
 	typeX := map[string]string{"Content-Type": typeXLSX}
 	form, formType := multipartFile(t, "fuel-log.xlsx", xlsx)
 	csvBody := "Site,Fuel,Quantity,Unit\nDepot,diesel,1200,L\nCreamery,natural_gas,40,MWh\n"
+	mapForm, mapFormType := multipartParts(t, [][3]string{{"mapping", "", demoMapping}, {"file", "fuel-log.xlsx", xlsx}})
+	badMapForm, badMapFormType := multipartParts(t, [][3]string{{"mapping", "", `{"fluecell_mapping": 1, "tables": [{"sheet": "Fuel log", "header_row": 4, "columns": [{"column": "B", "header": "Site", "role": "amount"}]}], "names": {}}`}, {"file", "fuel-log.xlsx", xlsx}})
 	for _, c := range []apiCase{
 		{name: "annotate xlsx", base: wb.URL, method: http.MethodPost, target: "/v1/annotate", header: typeX, body: xlsx, status: 200, request: true},
 		{name: "annotate report", base: wb.URL, method: http.MethodPost, target: "/v1/annotate?report=json", header: typeX, body: xlsx, status: 200, request: true},
@@ -161,6 +169,24 @@ func TestOpenAPIValidatesAnswers(t *testing.T) {
 		{name: "annotate 415", base: wb.URL, method: http.MethodPost, target: "/v1/annotate", header: map[string]string{"Content-Type": "image/png"}, body: "\x89PNG", status: 415},
 		{name: "annotate 408", base: wbPace.URL, method: http.MethodPost, target: "/v1/annotate", header: typeX, body: xlsx, status: 408, request: true},
 		{name: "annotate 503", base: wbSlow.URL, method: http.MethodPost, target: "/v1/annotate", header: typeX, body: xlsx, status: 503, request: true},
+		{name: "annotate with a mapping", base: wb.URL, method: http.MethodPost, target: "/v1/annotate?report=json", header: map[string]string{"Content-Type": mapFormType}, body: mapForm, status: 200, request: true},
+		{name: "inspect xlsx", base: wb.URL, method: http.MethodPost, target: "/v1/inspect?rows=3", header: typeX, body: xlsx, status: 200, request: true},
+		{name: "inspect multipart", base: wb.URL, method: http.MethodPost, target: "/v1/inspect?sheet=Fuel%20log", header: map[string]string{"Content-Type": formType}, body: form, status: 200, request: true},
+		{name: "inspect with a mapping", base: wb.URL, method: http.MethodPost, target: "/v1/inspect", header: map[string]string{"Content-Type": mapFormType}, body: mapForm, status: 200, request: true},
+		{name: "inspect csv", base: wb.URL, method: http.MethodPost, target: "/v1/inspect", header: map[string]string{"Content-Type": "text/csv"}, body: csvBody, status: 200, request: true},
+		{name: "inspect bad mapping", base: wb.URL, method: http.MethodPost, target: "/v1/inspect", header: map[string]string{"Content-Type": badMapFormType}, body: badMapForm, status: 400, request: true},
+		{name: "inspect rows 0", base: wb.URL, method: http.MethodPost, target: "/v1/inspect?rows=0", header: typeX, body: xlsx, status: 400},
+		{name: "inspect report", base: wb.URL, method: http.MethodPost, target: "/v1/inspect?report=json", header: typeX, body: xlsx, status: 400},
+		{name: "inspect 401", base: wbTok.URL, method: http.MethodPost, target: "/v1/inspect", header: typeX, body: xlsx, status: 401, request: true},
+		{name: "inspect 413", base: wbSmall.URL, method: http.MethodPost, target: "/v1/inspect", header: typeX, body: xlsx, status: 413, request: true},
+		{name: "inspect 415", base: wb.URL, method: http.MethodPost, target: "/v1/inspect", header: map[string]string{"Content-Type": "image/png"}, body: "\x89PNG", status: 415},
+		{name: "inspect 408", base: wbPace.URL, method: http.MethodPost, target: "/v1/inspect", header: typeX, body: xlsx, status: 408, request: true},
+		{name: "inspect 503", base: wbSlow.URL, method: http.MethodPost, target: "/v1/inspect", header: typeX, body: xlsx, status: 503, request: true},
+		{name: "page", base: tok.URL, target: "/", status: 200, request: true},
+		{name: "page 304", base: plain.URL, target: "/", header: map[string]string{"If-None-Match": get(t, plain.URL+"/").Header.Get("ETag")}, status: 304, request: true},
+		{name: "page script", base: tok.URL, target: "/page/page.js", status: 200, request: true},
+		{name: "page style", base: plain.URL, target: "/page/page.css", status: 200, request: true},
+		{name: "page 404", base: plain.URL, target: "/page/other.js", status: 404, request: true},
 	} {
 		add(c)
 	}

@@ -29,6 +29,8 @@ type Server struct {
 	token   []byte           // sha256 of Config.Token, nil when none
 	hdr     headerValues
 	json    factorJSON // JSON of factor rows, written once each
+	// pageFiles are the files of the page at / (page.go); never modified.
+	pageFiles pageFiles
 }
 
 // headerValues are header values set on many answers, built once; never modified.
@@ -73,6 +75,9 @@ func New(cfg Config, e *funcs.Engine, logger *slog.Logger) (*Server, error) {
 	if s.static, err = buildStatic(e, cfg.Version); err != nil {
 		return nil, fmt.Errorf("server: New: %w", err)
 	}
+	if s.pageFiles, err = loadPage(); err != nil {
+		return nil, fmt.Errorf("server: New: %w", err)
+	}
 	s.router = s.routes()
 	return s, nil
 }
@@ -93,6 +98,11 @@ func (s *Server) routes() *gin.Engine {
 	_ = r.SetTrustedProxies(nil)
 	r.Use(s.drainRefused, s.observe, s.recoverPanics, s.cors)
 	r.GET("/healthz", s.healthz)
+	// the page's files hold no data: open, like /healthz (page.go says why)
+	r.GET("/", s.page)
+	r.GET("/page/:file", s.page)
+	r.HEAD("/", s.page)
+	r.HEAD("/page/:file", s.page)
 
 	api := r.Group("", s.authorize)
 	api.GET("/v1/fn/:name", s.fn)
@@ -105,7 +115,8 @@ func (s *Server) routes() *gin.Engine {
 	api.GET("/openapi.yaml", s.openapi)
 	api.GET("/metrics", gin.WrapH(promhttp.HandlerFor(s.metrics.reg, promhttp.HandlerOpts{})))
 	if s.cfg.Annotate != nil {
-		api.POST("/v1/annotate", s.annotate)
+		api.POST(routeAnnotate, s.annotate)
+		api.POST(routeInspect, s.annotate)
 	}
 	r.NoRoute(s.noRoute)
 	r.NoMethod(s.noMethod)
