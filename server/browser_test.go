@@ -73,7 +73,7 @@ func TestPageWorkbook(t *testing.T) {
 	}
 	openPage(t, b, ts.URL)
 	b.do(chromedp.SetUploadFiles(chromedp.ID("file-input"), []string{paths[0]}))
-	b.waitText("#status", "13 of 16 rows computed")
+	b.waitText("#status", "14 of 17 rows computed")
 
 	// The demo's misspelt fuel, C11 "Natral gas", is an error finding, highlighted at its cell.
 	findings := b.text("#findings")
@@ -87,7 +87,7 @@ func TestPageWorkbook(t *testing.T) {
 	if got := at["11:Natral gas"]; !strings.Contains(got, "sev-error") || !strings.Contains(got, "fuel-unknown") {
 		t.Errorf("cell C11 of the preview is marked %q, want sev-error fuel-unknown (marked cells: %v)", got, at)
 	}
-	if kinds := b.text("#kinds"); !strings.Contains(kinds, "13 of 16 rows computed: incomplete") {
+	if kinds := b.text("#kinds"); !strings.Contains(kinds, "14 of 17 rows computed: incomplete") {
 		t.Errorf("totals by kind: %q", kinds)
 	}
 	if sheets := b.text("#sheets"); !strings.Contains(sheets, "Notes") || !strings.Contains(sheets, "no table") {
@@ -108,7 +108,7 @@ func TestPageWorkbook(t *testing.T) {
 	b.change(`select[aria-label="Role of column G"]`, "none")
 	b.do(chromedp.SendKeys(chromedp.CSS(`input[aria-label="Fuel id for Natral gas"]`), "natural_gas\t"),
 		chromedp.Click(chromedp.ID("rerun")))
-	changes := b.waitText("#changes", "rows computed: 13 of 16 → 14 of 16")
+	changes := b.waitText("#changes", "rows computed: 14 of 17 → 15 of 17")
 	for _, want := range []string{"role of Fuel log!G4 (Reported tCO2): existing-carbon → none", `reading of "Natral gas": unknown → mapping natural_gas`} {
 		if !strings.Contains(changes, want) {
 			t.Errorf("what changed does not say %q: %s", want, changes)
@@ -125,8 +125,8 @@ func TestPageWorkbook(t *testing.T) {
 	b.do(chromedp.Click(chromedp.ID("dl-report")))
 	var rep importer.Report
 	readJSON(t, b.download("kestrel-fuel-log-2026-w14.report.json"), &rep)
-	if rep.Computed != 14 || rep.Rows != 16 || rep.Mapping == nil {
-		t.Errorf("downloaded report: %d of %d rows computed, mapping %v; want 14 of 16 with the page's mapping", rep.Computed, rep.Rows, rep.Mapping)
+	if rep.Computed != 15 || rep.Rows != 17 || rep.Mapping == nil {
+		t.Errorf("downloaded report: %d of %d rows computed, mapping %v; want 15 of 17 with the page's mapping", rep.Computed, rep.Rows, rep.Mapping)
 	}
 	b.do(chromedp.Click(chromedp.ID("dl-mapping")))
 	mpath := b.download("kestrel-fuel-log-2026-w14.mapping.json")
