@@ -21,7 +21,7 @@ func finiteTotals(t *Totals) bool {
 	if isFinite(t.TCO2) && isFinite(t.TCO2e) {
 		return true
 	}
-	t.TCO2, t.TCO2e, t.NotComputable = 0, 0, overflowNote
+	t.TCO2, t.TCO2e, t.NotComputable, t.TotalInterval = 0, 0, overflowNote, TotalInterval{}
 	return false
 }
 
