@@ -260,3 +260,16 @@ func methodText(opt funcs.IntervalOptions) string {
 	}
 	return "IPCC 2006 Vol 1 Ch 3 Approach 1 (error propagation, Equations 3.1 and 3.2; lower and upper halves of asymmetric ranges combined separately)"
 }
+
+// intervalCaption says under the summary's totals how their 95 % intervals were computed.
+func intervalCaption(u *UncertaintyInfo) string {
+	s := "95 % low and high: " + u.Method + ", from the published ranges of the factor rows and the activity-data uncertainty of each table ("
+	var parts []string
+	for _, a := range u.Activity {
+		parts = append(parts, a.Table+" "+strings.ReplaceAll(a.Kind, "_", " ")+" ±"+strconv.FormatFloat(a.Percent, 'f', -1, 64)+" %")
+	}
+	if len(parts) == 0 {
+		parts = append(parts, "none")
+	}
+	return s + joinMax(parts, 6) + "; a table's rows share it, tables are independent). Rows without a published range add nothing to the interval."
+}
