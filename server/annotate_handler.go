@@ -72,8 +72,9 @@ const (
 // Config.Annotate. The body is the workbook (.xlsx, .xlsm or CSV, by
 // Content-Type or the name= query parameter), or a multipart form whose part
 // "file" holds it. Query parameters: rule (repeatable, "COLUMN = EXPR"),
-// sheet, pack, name, and report=json to answer the report instead of the
-// annotated workbook. The upload is spooled to a temporary file, annotated
+// sheet, pack, name, report=json to answer the report instead of the
+// annotated workbook, and uncertainty (approach1 or approach2, with seed and
+// draws) for the 95 % intervals of the totals. The upload is spooled to a temporary file, annotated
 // with importer.Annotate, and both files are removed at the end.
 func AnnotateHandler(e *funcs.Engine, cfg AnnotateConfig) http.Handler {
 	if cfg.Concurrent <= 0 {
@@ -145,11 +146,16 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	q := r.URL.Query()
 	for k := range q {
 		switch k {
-		case "rule", "sheet", "pack", "grid", "name", "report", "token":
+		case "rule", "sheet", "pack", "grid", "name", "report", "token", "uncertainty", "seed", "draws":
 		default:
-			h.fail(w, r, badRequest(k, "unknown parameter "+quoteText(k)+": /v1/annotate takes rule, sheet, pack, grid, name and report=json"))
+			h.fail(w, r, badRequest(k, "unknown parameter "+quoteText(k)+": /v1/annotate takes rule, sheet, pack, grid, name, report=json and uncertainty=approach1|approach2 (with seed and draws)"))
 			return
 		}
+	}
+	ivOpt, apiErr := intervalQuery(q)
+	if apiErr != nil {
+		h.fail(w, r, apiErr)
+		return
 	}
 	asReport := false
 	switch v := q.Get("report"); v {
@@ -161,6 +167,7 @@ func (h *annotateHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	opt := h.cfg.Options
+	opt.Uncertainty = ivOpt
 	opt.Rules = append(append([]string(nil), opt.Rules...), q["rule"]...)
 	opt.Sheet = q.Get("sheet")
 	if g := q.Get("grid"); g != "" {
