@@ -228,7 +228,7 @@ func TestSummaryKindsOpenpyxl(t *testing.T) {
 		}
 		found = true
 		if !near(r[1].Value, rep.Totals.TCO2) || !near(r[2].Value, rep.Totals.TCO2e) || r[2].Value < r[1].Value ||
-			!near(r[3].Value, *rep.Totals.Low) || !near(r[4].Value, *rep.Totals.High) || !(r[3].Value < r[2].Value && r[2].Value < r[4].Value) ||
+			!near(r[3].Value, rep.Totals.Low) || !near(r[4].Value, rep.Totals.High) || !(r[3].Value < r[2].Value && r[2].Value < r[4].Value) ||
 			!near(r[5].Value, 2.4*woodBioTPerT) || r[6].Value != 13 || r[7].Value != 16 || r[8].Text != "incomplete: 3 rows left out" {
 			t.Errorf("openpyxl summary line %+v", r)
 		}

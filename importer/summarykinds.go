@@ -29,9 +29,9 @@ func (res *ScanResult) writeKindBlock(f *excelize.File, name string, set func(st
 		set(cellRef(3, row), summaryValue(k.TCO2e, tot), st.num)
 		switch iv := k.TotalInterval; {
 		case tot.NotComputable != "":
-		case iv.Low != nil:
-			set(cellRef(4, row), *iv.Low, st.num)
-			set(cellRef(5, row), *iv.High, st.num)
+		case iv.HasInterval():
+			set(cellRef(4, row), iv.Low, st.num)
+			set(cellRef(5, row), iv.High, st.num)
 		default:
 			set(cellRef(4, row), "none: "+strings.TrimPrefix(iv.IntervalNote, "no 95 % interval: "), 0)
 		}

@@ -28,12 +28,26 @@ import (
 // Memory is bounded by the distinct products of factor rows, not by the rows (funcs.TotalModel).
 
 // TotalInterval is the 95 % interval of a total's tCO2e, or why it has none.
+// Low and High hold it when Approach is set; they are written to JSON as
+// tCO2e_low and tCO2e_high by the MarshalJSON of Totals and KindTotal, and
+// left out when there is no interval. The struct is comparable (==).
 type TotalInterval struct {
-	Low      *float64 `json:"tCO2e_low,omitempty"`
-	High     *float64 `json:"tCO2e_high,omitempty"`
-	Approach string   `json:"approach,omitempty"` // approach1 or approach2 (the report's uncertainty says more)
+	Low      float64 `json:"-"`
+	High     float64 `json:"-"`
+	Approach string  `json:"approach,omitempty"` // approach1 or approach2 (the report's uncertainty says more); "" = no interval
 	// IntervalNote says why there is no interval, or which rows publish no range.
 	IntervalNote string `json:"interval_note,omitempty"`
+}
+
+// HasInterval reports whether the total has a 95 % interval.
+func (ti TotalInterval) HasInterval() bool { return ti.Approach != "" }
+
+// ends are Low and High for JSON: nil when there is no interval.
+func (ti TotalInterval) ends() (lo, hi *float64) {
+	if !ti.HasInterval() {
+		return nil, nil
+	}
+	return &ti.Low, &ti.High
 }
 
 // UncertaintyInfo says how the intervals of a report were computed.
@@ -216,7 +230,7 @@ func intervalOf(m *funcs.TotalModel, opt funcs.IntervalOptions) TotalInterval {
 		out.IntervalNote = "no 95 % interval: its ends are past the float64 range"
 		return out
 	}
-	out.Low, out.High, out.Approach = &lo, &hi, ti.Interval.Approach.String()
+	out.Low, out.High, out.Approach = lo, hi, ti.Interval.Approach.String()
 	if len(ti.NoRange) > 0 {
 		out.IntervalNote = "no published range for " + joinMax(ti.NoRange, 6) + ": these rows add nothing to the interval"
 	}

@@ -38,17 +38,17 @@ func TestTotalIntervalByHand(t *testing.T) {
 	rep := scanFile(t, gasDieselLog(t), Options{})
 	T := rep.Totals.TCO2e
 	nearRel(t, "CO2", rep.Totals.TCO2, 168.3+74.1, 1e-12)
-	if rep.Totals.Low == nil {
+	if !rep.Totals.HasInterval() {
 		t.Fatalf("no interval: %q", rep.Totals.IntervalNote)
 	}
 	a := 0.05 * T
-	nearRel(t, "low", *rep.Totals.Low, T-math.Sqrt(5.4*5.4+1.5*1.5+a*a), 1e-9)
-	nearRel(t, "high", *rep.Totals.High, T+math.Sqrt(6.6*6.6+0.7*0.7+a*a), 1e-9)
+	nearRel(t, "low", rep.Totals.Low, T-math.Sqrt(5.4*5.4+1.5*1.5+a*a), 1e-9)
+	nearRel(t, "high", rep.Totals.High, T+math.Sqrt(6.6*6.6+0.7*0.7+a*a), 1e-9)
 	st := kindTotalOf(rep, KindStationary)
-	if st.Low == nil || *st.Low != *rep.Totals.Low || st.Approach != "approach1" {
+	if !st.HasInterval() || st.Low != rep.Totals.Low || st.Approach != "approach1" {
 		t.Errorf("stationary %+v, Scope 1 %+v: one kind, the same interval", st.TotalInterval, rep.Totals.TotalInterval)
 	}
-	if tb := rep.Tables[0]; tb.Totals.Low == nil || *tb.Totals.Low != *rep.Totals.Low {
+	if tb := rep.Tables[0]; !tb.Totals.HasInterval() || tb.Totals.Low != rep.Totals.Low {
 		t.Errorf("table totals %+v", tb.Totals)
 	}
 	if !strings.Contains(st.IntervalNote, "ipcc2006/natural_gas/ch4_ef") {
@@ -83,11 +83,11 @@ func TestMappingActivityUncertainty(t *testing.T) {
 		must(t, err)
 		rep := scanFile(t, in, Options{Mapping: m})
 		T := rep.Totals.TCO2e
-		if rep.Totals.Low == nil {
+		if !rep.Totals.HasInterval() {
 			t.Fatalf("%g %%: no interval: %q", c.pct, rep.Totals.IntervalNote)
 		}
-		nearRel(t, "low", *rep.Totals.Low, c.low(T), 1e-9)
-		nearRel(t, "high", *rep.Totals.High, c.high(T), 1e-9)
+		nearRel(t, "low", rep.Totals.Low, c.low(T), 1e-9)
+		nearRel(t, "high", rep.Totals.High, c.high(T), 1e-9)
 		if a := rep.Uncertainty.Activity; len(a) != 1 || a[0].Percent != c.pct || a[0].From != "mapping" {
 			t.Errorf("%g %%: activity %+v", c.pct, a)
 		}
@@ -131,15 +131,15 @@ func TestTotalSharedFactorWider(t *testing.T) {
 	same := twinScan(t, [][]any{{"natural gas", 1000, "GJ"}, {"natural gas", 1000, "GJ"}}, Options{})
 	diff := twinScan(t, [][]any{{"natural gas", 1000, "GJ"}, {"LPG", 1000, "GJ"}}, Options{})
 	for _, r := range []*Report{same, diff} {
-		if k := kindTotalOf(r, KindStationary); k.Low == nil || !near(k.TCO2e, 112.2) {
+		if k := kindTotalOf(r, KindStationary); !k.HasInterval() || !near(k.TCO2e, 112.2) {
 			t.Fatalf("total %+v; by kind %+v; tables %+v", k, r.ByKind, r.Tables)
 		}
 	}
 	s, d := kindTotalOf(same, KindStationary), kindTotalOf(diff, KindStationary)
-	nearRel(t, "same fuel low", *s.Low, 112.2-math.Sqrt(3.6*3.6+5.61*5.61), 1e-9)
-	nearRel(t, "two fuels low", *d.Low, 112.2-math.Sqrt(2*1.8*1.8+5.61*5.61), 1e-9)
-	if *s.High-*s.Low <= *d.High-*d.Low {
-		t.Errorf("same fuel %g..%g is not wider than two fuels %g..%g", *s.Low, *s.High, *d.Low, *d.High)
+	nearRel(t, "same fuel low", s.Low, 112.2-math.Sqrt(3.6*3.6+5.61*5.61), 1e-9)
+	nearRel(t, "two fuels low", d.Low, 112.2-math.Sqrt(2*1.8*1.8+5.61*5.61), 1e-9)
+	if s.High-s.Low <= d.High-d.Low {
+		t.Errorf("same fuel %g..%g is not wider than two fuels %g..%g", s.Low, s.High, d.Low, d.High)
 	}
 }
 
@@ -151,16 +151,16 @@ func TestTotalMonteCarloAgreesWithPropagation(t *testing.T) {
 	opt := Options{Uncertainty: funcs.IntervalOptions{Approach: funcs.Approach2, Seed: 4, Draws: 100_000}}
 	rep := twinScan(t, rows, opt)
 	a2 := kindTotalOf(rep, KindStationary)
-	if a1.Low == nil || a2.Low == nil || a2.Approach != "approach2" {
+	if !a1.HasInterval() || !a2.HasInterval() || a2.Approach != "approach2" {
 		t.Fatalf("approach 1 %+v, approach 2 %+v", a1.TotalInterval, a2.TotalInterval)
 	}
 	v := a1.TCO2e
-	nearRel(t, "low", *a2.Low, *a1.Low, 0.005*v / *a1.Low)
-	nearRel(t, "high", *a2.High, *a1.High, 0.005*v / *a1.High)
+	nearRel(t, "low", a2.Low, a1.Low, 0.005*v / a1.Low)
+	nearRel(t, "high", a2.High, a1.High, 0.005*v / a1.High)
 	if u := rep.Uncertainty; u.Seed != 4 || u.Draws != 100_000 || !strings.Contains(u.Method, "seed 4") {
 		t.Errorf("the report does not say the seed and draws: %+v", u)
 	}
-	if again := kindTotalOf(twinScan(t, rows, opt), KindStationary); *again.Low != *a2.Low || *again.High != *a2.High {
+	if again := kindTotalOf(twinScan(t, rows, opt), KindStationary); again.Low != a2.Low || again.High != a2.High {
 		t.Errorf("same seed, different intervals: %+v %+v", a2.TotalInterval, again.TotalInterval)
 	}
 }
@@ -172,11 +172,11 @@ func TestDemoFuelLogInterval(t *testing.T) {
 	must(t, err)
 	rep := scanFile(t, paths[0], Options{})
 	tot := rep.Totals
-	if tot.Low == nil || !(*tot.Low < tot.TCO2e && tot.TCO2e < *tot.High) || tot.Approach != "approach1" {
+	if !tot.HasInterval() || !(tot.Low < tot.TCO2e && tot.TCO2e < tot.High) || tot.Approach != "approach1" {
 		t.Fatalf("demo fuel log totals %+v", tot)
 	}
 	// at least the table's activity part (±5 %) and at most a third of the total
-	if lo := tot.TCO2e - *tot.Low; lo < 0.05*tot.TCO2e || lo > tot.TCO2e/3 {
+	if lo := tot.TCO2e - tot.Low; lo < 0.05*tot.TCO2e || lo > tot.TCO2e/3 {
 		t.Errorf("lower half-width %g of %g", lo, tot.TCO2e)
 	}
 }

@@ -106,7 +106,7 @@ func printReport(w io.Writer, rep *importer.Report) {
 			fmt.Fprintf(w, "  %s\n", l)
 		}
 	}
-	if u := rep.Uncertainty; u != nil && (rep.Totals.Low != nil || hasInterval(rep.ByKind)) {
+	if u := rep.Uncertainty; u != nil && (rep.Totals.HasInterval() || hasInterval(rep.ByKind)) {
 		fmt.Fprintln(w, safetext.Line("95 % intervals: "+u.Method+"; activity data "+activityText(u)))
 	}
 	nErr, nWarn, nInfo := rep.Count(importer.SevError), rep.Count(importer.SevWarning), rep.Count(importer.SevInfo)

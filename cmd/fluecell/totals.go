@@ -84,16 +84,16 @@ func kindLines(rep *importer.Report, format func(float64) string) []string {
 // intervalText is " (95 %: 321.4–362.5)", the interval of a total to four significant
 // digits, or "" when it has none.
 func intervalText(ti importer.TotalInterval) string {
-	if ti.Low == nil || ti.High == nil {
+	if !ti.HasInterval() {
 		return ""
 	}
-	return " (95 %: " + sig4(*ti.Low) + "–" + sig4(*ti.High) + ")"
+	return " (95 %: " + sig4(ti.Low) + "–" + sig4(ti.High) + ")"
 }
 
 // hasInterval reports whether a total of ks has an interval.
 func hasInterval(ks []importer.KindTotal) bool {
 	for _, k := range ks {
-		if k.Low != nil {
+		if k.HasInterval() {
 			return true
 		}
 	}
