@@ -155,8 +155,8 @@ func TestTotalMonteCarloAgreesWithPropagation(t *testing.T) {
 		t.Fatalf("approach 1 %+v, approach 2 %+v", a1.TotalInterval, a2.TotalInterval)
 	}
 	v := a1.TCO2e
-	nearRel(t, "low", a2.Low, a1.Low, 0.005*v / a1.Low)
-	nearRel(t, "high", a2.High, a1.High, 0.005*v / a1.High)
+	nearRel(t, "low", a2.Low, a1.Low, 0.005*v/a1.Low)
+	nearRel(t, "high", a2.High, a1.High, 0.005*v/a1.High)
 	if u := rep.Uncertainty; u.Seed != 4 || u.Draws != 100_000 || !strings.Contains(u.Method, "seed 4") {
 		t.Errorf("the report does not say the seed and draws: %+v", u)
 	}

@@ -79,8 +79,8 @@ func TestAnnotateRoute(t *testing.T) {
 	form, formType := multipartFile(t, "log.xlsx", string(xlsx), "note", "week 14")
 	r = do(t, http.MethodPost, srv.URL+"/v1/annotate?report=json", map[string]string{"Content-Type": formType}, form)
 	var rep struct {
-		Rules    []string
-		Totals   struct {
+		Rules  []string
+		Totals struct {
 			TCO2 float64  `json:"tCO2"`
 			Low  *float64 `json:"tCO2e_low"`
 		}
