@@ -457,6 +457,8 @@ func callLosses(e *Engine, c *callCtx, a argList) (float64, string, error) {
 	c.note(notes...)
 	c.note(r.notes...)
 	c.note("transmission and distribution losses are reported apart from Scope 2 (Scope 3 category 3) by a consumer")
-	c.recordTerms(perAmount(r.terms, u.SI()), nil, amount, ActivityElectricity)
+	if c.track {
+		c.recordTerms(perAmount(r.terms, u.SI()), nil, amount, ActivityElectricity)
+	}
 	return r.tonnes(amount, u), "t CO2e", nil
 }
