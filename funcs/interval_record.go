@@ -100,3 +100,17 @@ func (c *callCtx) recordEmbodied(perMW float64, uses []factorUse, stat string, m
 	}
 	c.recordTerms([]planTerm{{perUnit: perMW, uses: uses}}, nil, mw, ActivityBuildPlan)
 }
+
+// recordBuild keeps a call of building_embodied, vehicle_embodied or battery_embodied: the
+// terms per unit amount (t CO2e per m2, per vehicle or per unit of capacity) on amount, when
+// the run tracks intervals and the statistic is the median.
+func (c *callCtx) recordBuild(ts []planTerm, stat string, amount float64) {
+	if !c.track {
+		return
+	}
+	if why := statWhy(stat); why != "" {
+		c.recordWhy(why)
+		return
+	}
+	c.recordTerms(ts, nil, amount, ActivityBuildPlan)
+}

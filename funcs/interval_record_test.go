@@ -115,3 +115,28 @@ func engineWithFile(t *testing.T, name, text string) *Engine {
 	}
 	return e
 }
+
+// vehicle_embodied of 10 medium battery-electric cars with 60 kWh: per car the vehicle without
+// battery 6.5 t (5-8.5; buildout.csv row common,car_medium_bev,vehicle_production) and the
+// battery 60 kWh x 83.5 kg/kWh (61-106; row common,li_ion,battery_production). By hand:
+// 10 x (6.5 + 5.01) = 115.1 t; the two rows are independent (Equation 3.2): lower
+// sqrt(15² + 13.5²), upper sqrt(20² + 13.5²). battery_embodied of 100 MWh: 8350 t, 6100..10 600.
+func TestIntervalVehicleAndBatteryEmbodied(t *testing.T) {
+	e := newTestEngine(t)
+	r := callIV(t, e, "vehicle_embodied", map[string]string{"count": "10", "vehicle": "car_medium_bev", "battery_kwh": "60"})
+	nearRel(t, "value", r.Value, 115.1, 1e-12)
+	if r.Interval == nil {
+		t.Fatalf("no interval; notes %q", r.Notes)
+	}
+	nearRel(t, "low", r.Interval.Low, 115.1-math.Hypot(15, 13.5), 1e-12)
+	nearRel(t, "high", r.Interval.High, 115.1+math.Hypot(20, 13.5), 1e-12)
+	r = callIV(t, e, "battery_embodied", map[string]string{"capacity": "100", "unit": "MWh"})
+	nearRel(t, "battery", r.Value, 8350, 1e-12)
+	nearRel(t, "battery low", r.Interval.Low, 6100, 1e-12)
+	nearRel(t, "battery high", r.Interval.High, 10600, 1e-12)
+	// the office row gives a low (the 2030 target) but no high: no range to read an interval from
+	r = callIV(t, e, "building_embodied", map[string]string{"area": "5000", "unit": "m2", "building_type": "office"})
+	if r.Interval != nil || !ivNote(r, "common/office/building_embodied") {
+		t.Errorf("building_embodied: %+v, notes %q", r.Interval, r.Notes)
+	}
+}
