@@ -83,6 +83,7 @@ func callBuildingEmbodied(e *Engine, c *callCtx, a argList) (float64, string, er
 		c.note("min of " + id + " is the publication's 2030 target for a well-designed building, not a measured minimum")
 	}
 	c.note("whole life without operational energy (materials, construction, replacement, end of life) per m2 of gross internal area")
+	c.recordBuild([]planTerm{{perUnit: f.si * u.SIFloat() / 1000, uses: []factorUse{{f, 1}}}}, stat, area)
 	// kg CO2e per m2 (the row's unit, in SI via f.si) x m2 / 1000 = t CO2e
 	return f.si * (v / f.Value) * area * u.SIFloat() / 1000, "", nil
 }

@@ -152,6 +152,7 @@ type rate struct {
 	k       *big.Rat
 	factors []*Factor
 	notes   []string
+	terms   []planTerm // how k is built from the rows, in kg per joule (interval_record.go)
 }
 
 // tonnes is amount (in unit u) x rate, in tonnes.
@@ -170,7 +171,7 @@ func co2Rate(ed *gridEdition, stream string) (rate, bool) {
 	if f == nil {
 		return rate{}, false
 	}
-	return rate{k: f.exact, factors: []*Factor{f}}, true
+	return rate{k: f.exact, factors: []*Factor{f}, terms: []planTerm{rateTerm(f)}}, true
 }
 
 // gasMass is the rate of CH4 or N2O in kg of the gas per joule: its mass row,
@@ -184,6 +185,15 @@ func gasMass(ed *gridEdition, stream, gas string) (*big.Rat, []*Factor, bool) {
 		return nil, nil, false
 	}
 	return new(big.Rat).Quo(f.exact, g.exact), []*Factor{f, g}, true
+}
+
+// gasTerm is a gas's mass rate (its row, or its CO2e row / the source's GWP) times the GWP g.
+func gasTerm(mass *big.Rat, fs []*Factor, g *Factor) planTerm {
+	uses := []factorUse{{fs[0], 1}}
+	if len(fs) > 1 {
+		uses = append(uses, factorUse{fs[1], -1})
+	}
+	return newTerm(new(big.Rat).Mul(mass, g.exact), append(uses, factorUse{g, 1}))
 }
 
 // co2eRate is the stream's CO2e rate for a GWP set. With CO2, CH4 and N2O
@@ -205,7 +215,7 @@ func (e *Engine) co2eRate(ed *gridEdition, stream, set string) (rate, error) {
 	setName := "GWP-100 " + strings.ToUpper(set) + ": CH4 " + FormatNumber(gCH4.Value) + ", N2O " + FormatNumber(gN2O.Value)
 	switch {
 	case total != nil && (!split || sameSet):
-		r := rate{k: total.exact, factors: []*Factor{total}}
+		r := rate{k: total.exact, factors: []*Factor{total}, terms: []planTerm{rateTerm(total)}}
 		if split {
 			r.factors = append(r.factors, ed.gwp["ch4"], ed.gwp["n2o"])
 			r.notes = append(r.notes, "CO2e as the source totals it, with "+setName)
@@ -217,7 +227,8 @@ func (e *Engine) co2eRate(ed *gridEdition, stream, set string) (rate, error) {
 		k := new(big.Rat).Set(co2.k)
 		k.Add(k, new(big.Rat).Mul(ch4, gCH4.exact))
 		k.Add(k, new(big.Rat).Mul(n2o, gN2O.exact))
-		r := rate{k: k, factors: append(append(append(co2.factors, ch4F...), n2oF...), gCH4, gN2O)}
+		r := rate{k: k, factors: append(append(append(co2.factors, ch4F...), n2oF...), gCH4, gN2O),
+			terms: append(co2.terms, gasTerm(ch4, ch4F, gCH4), gasTerm(n2o, n2oF, gN2O))}
 		r.notes = append(r.notes, "CO2e = CO2 + CH4 x "+FormatNumber(gCH4.Value)+" + N2O x "+FormatNumber(gN2O.Value)+" ("+setName+")")
 		if ed.rows[stream+"_ch4"] == nil && ed.gwp["ch4"] != nil {
 			r.notes = append(r.notes, "the source states CH4 and N2O as CO2e with GWP-100 CH4 "+FormatNumber(ed.gwp["ch4"].Value)+", N2O "+FormatNumber(ed.gwp["n2o"].Value)+"; they are converted back to mass and reweighted")
@@ -266,6 +277,7 @@ func callElectricity(withCO2e bool) func(e *Engine, c *callCtx, a argList) (floa
 		}
 		c.use(p.factors...)
 		c.note(p.notes...)
+		c.recordTerms(p.terms, &p.iv, amount, ActivityElectricity)
 		return amount * p.num / p.den, p.unit, nil
 	}
 }
@@ -285,6 +297,8 @@ type electricityPlan struct {
 	unit     string
 	factors  []*Factor
 	notes    []string
+	terms    []planTerm   // t per unit amount, from the rows (interval_record.go)
+	iv       planInterval // the 95 % interval per unit amount, computed once
 }
 
 // electricityPlan resolves the grid, method, edition and rate of a call once
@@ -353,6 +367,8 @@ func (e *Engine) electricityPlan(key electricityKey) (*electricityPlan, error) {
 		r, _ = co2Rate(ed, stream)
 	}
 	p.factors = r.factors
+	p.terms = perAmount(r.terms, u.SI())
+	p.iv = newPlanInterval(p.terms)
 	p.notes = append(append(append(pre, e.describeEdition(g, ed, method)), notes...), r.notes...)
 	k := new(big.Rat).Mul(u.SI(), r.k)
 	k.Quo(k, big.NewRat(1000, 1))
@@ -432,7 +448,7 @@ func callLosses(e *Engine, c *callCtx, a argList) (float64, string, error) {
 			return 0, "", &Error{Code: CodeArithmetic, Func: fn, Param: "grid", Msg: "grid_loss_rate of " + id + " must be below 1"}
 		}
 		share := new(big.Rat).Quo(loss.exact, new(big.Rat).Sub(big.NewRat(1, 1), loss.exact))
-		r = rate{k: new(big.Rat).Mul(gen.k, share), factors: append(gen.factors, loss), notes: gen.notes}
+		r = rate{k: new(big.Rat).Mul(gen.k, share), factors: append(gen.factors, loss), notes: gen.notes, terms: scaleTerms(gen.terms, ratFloat(share))}
 		r.notes = append(r.notes, "losses = consumption x "+FormatNumber(loss.Value)+" / (1 - "+FormatNumber(loss.Value)+
 			") x the grid's generation rate (electricity lost per unit delivered; common practice)")
 	}
@@ -441,5 +457,8 @@ func callLosses(e *Engine, c *callCtx, a argList) (float64, string, error) {
 	c.note(notes...)
 	c.note(r.notes...)
 	c.note("transmission and distribution losses are reported apart from Scope 2 (Scope 3 category 3) by a consumer")
+	if c.track {
+		c.recordTerms(perAmount(r.terms, u.SI()), nil, amount, ActivityElectricity)
+	}
 	return r.tonnes(amount, u), "t CO2e", nil
 }

@@ -137,64 +137,72 @@ func callLifecyclePart(e *Engine, c *callCtx, a argList) (float64, string, error
 
 // embodiedPerMW computes t CO2e per MW for the arguments at indexes tech, cf,
 // lifetime and stat of a: the infrastructure & supply-chain intensity (IPCC AR5
-// WG3 Annex III Table A.III.2) times the lifetime output of 1 MW.
-func (e *Engine) embodiedPerMW(c *callCtx, a argList, techI, cfI, lifeI, statI int) (float64, error) {
+// WG3 Annex III Table A.III.2) times the lifetime output of 1 MW. It also returns the rows
+// the value is a product of (the intensity, and the default capacity factor and lifetime
+// when used), for its 95 % interval, and the statistic asked for.
+func (e *Engine) embodiedPerMW(c *callCtx, a argList, techI, cfI, lifeI, statI int) (float64, []factorUse, string, error) {
 	tech, err := e.techArg(c, a, techI)
 	if err != nil {
-		return 0, err
+		return 0, nil, "", err
 	}
 	infra := e.packs.lookup(CommonPack, tech, "infrastructure")
 	if infra == nil {
-		return 0, &Error{Code: CodeMissingFactor, Func: a.fn.Name, Param: "tech",
+		return 0, nil, "", &Error{Code: CodeMissingFactor, Func: a.fn.Name, Param: "tech",
 			Msg: "no infrastructure & supply-chain intensity for " + tech + " in the common pack (IPCC AR5 WG3 Annex III Table A.III.2 gives none here): " +
 				"its life-cycle intensity (lifecycle_intensity) mixes in fuel supply, so it is not used as embodied; add an infrastructure row with --factors"}
 	}
 	c.use(infra)
+	uses := []factorUse{{infra, 1}}
 	stat, err := a.optStr(statI, "median")
 	if err != nil {
-		return 0, err
+		return 0, nil, "", err
 	}
 	g, err := statValue(infra, stat, a.fn.Name, tech+" infrastructure")
 	if err != nil {
-		return 0, err
+		return 0, nil, "", err
 	}
 	c.note("embodied = infrastructure & supply-chain intensity " + FormatNumber(g) + " g CO2e/kWh (" + statName(stat) + "); combustion and fuel-supply methane are not embodied")
 	cf, given, err := a.optNum(cfI)
 	if err != nil {
-		return 0, err
+		return 0, nil, "", err
 	}
 	if !given {
 		f := e.packs.lookup(CommonPack, tech, "capacity_factor")
 		if f == nil {
-			return 0, &Error{Code: CodeMissingFactor, Func: a.fn.Name, Param: "capacity_factor", Msg: "no default capacity factor for " + tech + ": pass capacity_factor"}
+			return 0, nil, "", &Error{Code: CodeMissingFactor, Func: a.fn.Name, Param: "capacity_factor", Msg: "no default capacity factor for " + tech + ": pass capacity_factor"}
 		}
 		cf = f.Value
 		c.use(f)
+		uses = append(uses, factorUse{f, 1})
 		c.note("capacity factor " + FormatNumber(cf) + " is the default for " + tech)
 	} else if cf <= 0 || cf > 1 {
-		return 0, &Error{Code: CodeBadArgument, Func: a.fn.Name, Param: "capacity_factor", Msg: "must lie in (0, 1], got " + FormatNumber(cf)}
+		return 0, nil, "", &Error{Code: CodeBadArgument, Func: a.fn.Name, Param: "capacity_factor", Msg: "must lie in (0, 1], got " + FormatNumber(cf)}
 	}
 	life, given, err := a.optNum(lifeI)
 	if err != nil {
-		return 0, err
+		return 0, nil, "", err
 	}
 	if !given {
 		f := e.packs.lookup(CommonPack, tech, "lifetime")
 		if f == nil {
-			return 0, &Error{Code: CodeMissingFactor, Func: a.fn.Name, Param: "lifetime_years", Msg: "no default lifetime for " + tech + ": pass lifetime_years"}
+			return 0, nil, "", &Error{Code: CodeMissingFactor, Func: a.fn.Name, Param: "lifetime_years", Msg: "no default lifetime for " + tech + ": pass lifetime_years"}
 		}
 		life = f.si / (365 * 86400)
 		c.use(f)
+		uses = append(uses, factorUse{f, 1})
 		c.note("lifetime " + FormatNumber(life) + " years is the default for " + tech)
 	} else if life <= 0 || life > 200 {
-		return 0, &Error{Code: CodeBadArgument, Func: a.fn.Name, Param: "lifetime_years", Msg: "must lie in (0, 200] years, got " + FormatNumber(life)}
+		return 0, nil, "", &Error{Code: CodeBadArgument, Func: a.fn.Name, Param: "lifetime_years", Msg: "must lie in (0, 200] years, got " + FormatNumber(life)}
 	}
 	// g/kWh x 1000 kWh/MWh x cf x 8760 h x years / 1e6 g/t = t CO2e per MW
-	return g * 1000 * cf * hoursPerYear * life / 1e6, nil
+	return g * 1000 * cf * hoursPerYear * life / 1e6, uses, stat, nil
 }
 
 func callEmbodiedPerMW(e *Engine, c *callCtx, a argList) (float64, string, error) {
-	v, err := e.embodiedPerMW(c, a, 0, 1, 2, 3)
+	v, uses, stat, err := e.embodiedPerMW(c, a, 0, 1, 2, 3)
+	if err == nil {
+		c.recordEmbodied(v, uses, stat, 1)
+	}
 	return v, "", err
 }
 
@@ -214,10 +222,11 @@ func callEmbodied(e *Engine, c *callCtx, a argList) (float64, string, error) {
 	if err != nil {
 		return 0, "", withFunc(unitError("unit", err), a.fn.Name)
 	}
-	perMW, err := e.embodiedPerMW(c, a, 0, 3, 4, 5)
+	perMW, uses, stat, err := e.embodiedPerMW(c, a, 0, 3, 4, 5)
 	if err != nil {
 		return 0, "", err
 	}
+	c.recordEmbodied(perMW, uses, stat, capacity*u.SIFloat()/1e6)
 	return perMW * capacity * u.SIFloat() / 1e6, "", nil
 }
 

@@ -163,6 +163,10 @@ func callFugitive(e *Engine, c *callCtx, a argList) (float64, string, error) {
 	v.Mul(v, decimalRat(charge))
 	v.Mul(v, decimalRat(rate))
 	v.Quo(v, big.NewRat(1000, 1))
+	// the leak rate is an argument, taken as exact like the charge; the GWP rows carry the range
+	if c.track {
+		c.recordTerms(scaleTerms(perAmount(e.gwpTerms(g), u.SI()), ratFloat(decimalRat(rate))), nil, charge, ActivityRefrigerantCharge)
+	}
 	return ratFloat(v), "", nil
 }
 

@@ -161,6 +161,9 @@ func callHeat(e *Engine, c *callCtx, a argList) (float64, string, error) {
 		c.note("assumption of the factor: as its publication states it (" + firstSource(r.factors) + "); no boiler efficiency is given apart")
 	}
 	c.note(r.notes...)
+	if c.track {
+		c.recordTerms(perAmount(r.terms, u.SI()), nil, amount, ActivityHeat)
+	}
 	return r.tonnes(amount, u), "t CO2e", nil
 }
 

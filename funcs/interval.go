@@ -121,14 +121,17 @@ type contrib struct {
 	amount float64
 	sign   float64 // set from the expression's shape when the result is built
 	terms  []planTerm
-	iv     *planInterval
+	iv     *planInterval // the plan's own interval per unit amount; nil for terms built per call
+	// activity is the kind of record the amount comes from (ActivityStationaryFuel ...),
+	// for the activity-data uncertainty of workbook totals (see totalinterval.go).
+	activity string
+	// why, when not "", says why the call has no interval (a statistic other than the median).
+	why string
 }
 
-// record keeps the call of plan p on amount, when the run tracks intervals.
+// record keeps the call of fuel plan p on amount, when the run tracks intervals.
 func (c *callCtx) record(p *plan, amount float64) {
-	if c.track && len(p.terms) > 0 {
-		c.contribs = append(c.contribs, contrib{amount: amount, sign: 1, terms: p.terms, iv: &p.iv})
-	}
+	c.recordTerms(p.terms, &p.iv, amount, ActivityStationaryFuel)
 }
 
 // model builds the uncertainty model of the recorded calls: every factor row
@@ -146,10 +149,8 @@ func (c *callCtx) model() (uncertainty.Model, []string) {
 				if !seen {
 					i = len(m.Factors)
 					index[u.f] = i
-					f := uncertainty.Factor{Name: u.f.Key(), Value: u.f.Value}
-					if u.f.Low != nil && u.f.High != nil {
-						f.Low, f.High, f.HasRange = *u.f.Low, *u.f.High, true
-					} else {
+					f, ok := modelFactor(u.f)
+					if !ok {
 						noRange = append(noRange, u.f.Key())
 					}
 					m.Factors = append(m.Factors, f)
@@ -172,6 +173,12 @@ func (c *callCtx) interval(res *Result, signs []float64, opt IntervalOptions) {
 	}
 	if len(c.contribs) == 0 {
 		return
+	}
+	for _, k := range c.contribs {
+		if k.why != "" {
+			res.Notes = append(res.Notes, "no 95 % interval: "+k.why)
+			return
+		}
 	}
 	if signs == nil || len(signs) != len(c.contribs) {
 		res.Notes = append(res.Notes, "no 95 % interval: it is given for a call, or a sum or difference of calls, not for other arithmetic")

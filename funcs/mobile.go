@@ -202,7 +202,7 @@ func callMobile(kind planKind) func(e *Engine, c *callCtx, a argList) (float64, 
 		if p.memoPrefix != "" {
 			c.note(p.memoNote(amount))
 		}
-		c.record(p, amount)
+		c.recordTerms(p.terms, &p.iv, amount, ActivityMobileFuel)
 		return p.apply(amount), p.unit, nil
 	}
 }

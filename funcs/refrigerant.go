@@ -55,6 +55,8 @@ type refrigerantPlan struct {
 	gwp      *gwpPlan
 	num, den float64 // num/den exactly when both are integers below 2^53; else num = k, den = 1
 	notes    []string
+	terms    []planTerm   // t CO2e per unit of mass, from the GWP rows (interval_record.go)
+	iv       planInterval // the 95 % interval per unit of mass, computed once
 }
 
 func (e *Engine) refrigerantPlan(gasArg, unitArg, setArg string) (*refrigerantPlan, error) {
@@ -73,7 +75,8 @@ func (e *Engine) refrigerantPlan(gasArg, unitArg, setArg string) (*refrigerantPl
 	// t CO2e per unit of mass = (kg per unit / 1000) x GWP, exactly; rounded once with the mass
 	k := new(big.Rat).Mul(u.SI(), g.exact)
 	k.Quo(k, big.NewRat(1000, 1))
-	p := &refrigerantPlan{gwp: g, notes: g.notes}
+	p := &refrigerantPlan{gwp: g, notes: g.notes, terms: perAmount(e.gwpTerms(g), u.SI())}
+	p.iv = newPlanInterval(p.terms)
 	if num, den, ok := smallFraction(k); ok {
 		p.num, p.den = num, den
 	} else {
@@ -112,5 +115,6 @@ func callRefrigerant(e *Engine, c *callCtx, a argList) (float64, string, error) 
 	if mass < 0 {
 		c.note("negative mass: the result is negative, as for a correction or recovered gas")
 	}
+	c.recordTerms(p.terms, &p.iv, mass, ActivityRefrigerantTopUp)
 	return mass * p.num / p.den, "", nil
 }

@@ -140,6 +140,7 @@ func callVehicleCO2e(e *Engine, c *callCtx, a argList) (float64, string, error) 
 	if distance < 0 {
 		c.note(NegativeAmountNote)
 	}
+	c.recordTerms(p.terms, &p.iv, distance, ActivityDistance)
 	return distance * p.tPerUnit, "", nil
 }
 
@@ -153,6 +154,8 @@ type vehiclePlan struct {
 	tPerUnit float64
 	factors  []*Factor
 	notes    []string
+	terms    []planTerm   // t CO2e per unit distance, from the rows (interval_record.go)
+	iv       planInterval // the 95 % interval per unit distance, computed once
 }
 
 // vehiclePlan resolves the unit, vehicle, set and factors of a call once per
@@ -187,19 +190,21 @@ func (e *Engine) vehiclePlan(key vehicleKey) (*vehiclePlan, error) {
 		c.note(v.Note)
 	}
 	var kgPerMeter float64
+	var terms []planTerm // kg per metre
 	if set.perGas {
 		gwpSet, err := e.resolveGWPSet(gwpArg)
 		if err != nil {
 			return nil, withFunc(err, fn)
 		}
 		var parts [3]float64
+		var rows [3]*Factor
 		for i, q := range []string{"co2_per_distance", "ch4_per_distance", "n2o_per_distance"} {
 			f, err := e.vehicleFactor(fn, set, v.ID, q)
 			if err != nil {
 				return nil, err
 			}
 			c.use(f)
-			parts[i] = f.si
+			parts[i], rows[i] = f.si, f
 		}
 		gCH4, gN2O := e.packs.lookup(CommonPack, "ch4", "gwp100_"+gwpSet), e.packs.lookup(CommonPack, "n2o", "gwp100_"+gwpSet)
 		if gCH4 == nil || gN2O == nil {
@@ -207,6 +212,9 @@ func (e *Engine) vehiclePlan(key vehicleKey) (*vehiclePlan, error) {
 		}
 		c.use(gCH4, gN2O)
 		kgPerMeter = parts[0] + parts[1]*gCH4.Value + parts[2]*gN2O.Value
+		terms = []planTerm{{perUnit: parts[0], uses: []factorUse{{rows[0], 1}}},
+			{perUnit: parts[1] * gCH4.Value, uses: []factorUse{{rows[1], 1}, {gCH4, 1}}},
+			{perUnit: parts[2] * gN2O.Value, uses: []factorUse{{rows[2], 1}, {gN2O, 1}}}}
 		c.note("CO2 + CH4 x " + FormatNumber(gCH4.Value) + " + N2O x " + FormatNumber(gN2O.Value) + " (GWP-100, " + gwpSet + ")")
 	} else {
 		if gwpArg != "" {
@@ -225,12 +233,14 @@ func (e *Engine) vehiclePlan(key vehicleKey) (*vehiclePlan, error) {
 		}
 		c.use(f)
 		kgPerMeter = f.si
+		terms = []planTerm{{perUnit: f.si, uses: []factorUse{{f, 1}}}}
 		c.note("set " + set.name + " publishes CO2e only, with CH4 and N2O weighted by " + set.gwp + " GWP-100 values (the publisher's choice; from memory)")
 	}
 	if strings.Contains(v.ID, "_bev") {
 		c.note("battery-electric: no tailpipe emissions; the electricity it uses is Scope 2, computed with electricity_co2e")
 	}
-	p := &vehiclePlan{tPerUnit: u.SIFloat() * kgPerMeter / 1000, factors: c.factors, notes: c.notes}
+	p := &vehiclePlan{tPerUnit: u.SIFloat() * kgPerMeter / 1000, factors: c.factors, notes: c.notes, terms: scaleTerms(terms, u.SIFloat()/1000)}
+	p.iv = newPlanInterval(p.terms)
 	e.cachePlan(key, p)
 	return p, nil
 }

@@ -92,6 +92,7 @@ func callVehicleEmbodied(e *Engine, c *callCtx, a argList) (float64, string, err
 		return 0, "", err
 	}
 	perVehicle := body.si * (bv / body.Value) / 1000 // t CO2e
+	terms := []planTerm{{perUnit: body.si / 1000, uses: []factorUse{{body, 1}}}}
 	kwh, given, err := a.optNum(2)
 	if err != nil {
 		return 0, "", err
@@ -114,8 +115,13 @@ func callVehicleEmbodied(e *Engine, c *callCtx, a argList) (float64, string, err
 			return 0, "", err
 		}
 		perVehicle += kwh * per
+		terms = append(terms, planTerm{perUnit: kwh * per, uses: []factorUse{{e.packs.lookup(CommonPack, batteryID, "battery_production"), 1}}})
 	}
 	c.note("production only (" + statName(stat) + "): use, fuel or electricity, maintenance and end of life are not included")
+	if len(terms) > 1 && capRow != nil && !given {
+		terms[1].uses = append(terms[1].uses, factorUse{capRow, 1}) // the usual capacity, a row of its own
+	}
+	c.recordBuild(terms, stat, n)
 	return n * perVehicle, "", nil
 }
 
@@ -143,5 +149,6 @@ func callBatteryEmbodied(e *Engine, c *callCtx, a argList) (float64, string, err
 	if err != nil {
 		return 0, "", err
 	}
+	c.recordBuild([]planTerm{{perUnit: u.SIFloat() / 3.6e6 * per, uses: []factorUse{{e.packs.lookup(CommonPack, batteryID, "battery_production"), 1}}}}, stat, capacity)
 	return capacity * u.SIFloat() / 3.6e6 * per, "", nil
 }

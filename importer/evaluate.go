@@ -175,7 +175,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 				all = false
 				continue
 			}
-			out, err := r.run.Run(vars)
+			out, err := sc.runRule(t, i, rs, r, ri, vars)
 			if err != nil {
 				sc.ruleError(t, i, r, err)
 				all = false

@@ -70,6 +70,9 @@ type KindTotal struct {
 	Incomplete    bool     `json:"incomplete"`
 	LeftOut       []string `json:"left_out"`
 	NotComputable string   `json:"not_computable,omitempty"` // the sum is past the float64 range
+	// Low and High are the 95 % interval of TCO2e by Approach (uncertainty.go);
+	// absent when there is none, and IntervalNote then says why.
+	TotalInterval
 }
 
 // Completeness is "13 of 16 rows computed", with ": incomplete" when rows
@@ -297,6 +300,7 @@ func finiteKinds(ks []KindTotal) bool {
 		kt := &ks[i]
 		if !isFinite(kt.TCO2) || !isFinite(kt.TCO2e) || !isFinite(kt.Biogenic) {
 			kt.TCO2, kt.TCO2e, kt.Biogenic, kt.NotComputable = 0, 0, 0, overflowNote
+			kt.TotalInterval = TotalInterval{}
 			ok = false
 		}
 	}

@@ -85,16 +85,16 @@ func TestDemoFuelLogFossilAndBiogenic(t *testing.T) {
 	must(t, err)
 	found := false
 	for i, r := range rows {
-		if len(r) < 8 || r[0] != KindLabel(KindStationary) {
+		if len(r) < 10 || r[0] != KindLabel(KindStationary) {
 			continue
 		}
 		found = true
-		if !nearText(r[3], wantBio) || r[4] != "14" || r[5] != "17" || r[6] != "incomplete: 3 rows left out" || r[7] != "Fuel log!C11" {
+		if !nearText(r[5], wantBio) || r[6] != "14" || r[7] != "17" || r[8] != "incomplete: 3 rows left out" || r[9] != "Fuel log!C11" {
 			t.Errorf("summary line %q", r)
 		}
-		ok, link, err := f.GetCellHyperLink(SheetSummary, cellRef(8, i+1))
+		ok, link, err := f.GetCellHyperLink(SheetSummary, cellRef(10, i+1))
 		if err != nil || !ok || link != "'Fuel log'!C11" {
-			t.Errorf("link of %s = %q, %v, %v; want 'Fuel log'!C11", cellRef(8, i+1), link, ok, err)
+			t.Errorf("link of %s = %q, %v, %v; want 'Fuel log'!C11", cellRef(10, i+1), link, ok, err)
 		}
 	}
 	if !found {
@@ -223,12 +223,13 @@ func TestSummaryKindsOpenpyxl(t *testing.T) {
 	}
 	found := false
 	for _, r := range byName[SheetSummary].Rows {
-		if len(r) < 8 || r[0].Text != KindLabel(KindStationary) {
+		if len(r) < 10 || r[0].Text != KindLabel(KindStationary) {
 			continue
 		}
 		found = true
 		if !near(r[1].Value, rep.Totals.TCO2) || !near(r[2].Value, rep.Totals.TCO2e) || r[2].Value < r[1].Value ||
-			!near(r[3].Value, 2.4*woodBioTPerT) || r[4].Value != 14 || r[5].Value != 17 || r[6].Text != "incomplete: 3 rows left out" {
+			!near(r[3].Value, rep.Totals.Low) || !near(r[4].Value, rep.Totals.High) || !(r[3].Value < r[2].Value && r[2].Value < r[4].Value) ||
+			!near(r[5].Value, 2.4*woodBioTPerT) || r[6].Value != 14 || r[7].Value != 17 || r[8].Text != "incomplete: 3 rows left out" {
 			t.Errorf("openpyxl summary line %+v", r)
 		}
 	}

@@ -281,7 +281,7 @@ func TestMappingValidation(t *testing.T) {
 		{"no version", `{"tables": []}`, `not a fluecell mapping: the key "fluecell_mapping": 1 is missing`},
 		{"version", `{"fluecell_mapping": 2}`, `fluecell_mapping: version 2 is not known: this fluecell reads version 1`},
 		{"unknown key", `{"fluecell_mapping": 1, "tables": [{"sheet": "A", "header_row": 1, "colums": []}]}`,
-			`tables[0].colums: unknown key "colums": accepted are sheet, header_row, kind, fuel, unit, grid, sector, gallons, columns`},
+			`tables[0].colums: unknown key "colums": accepted are sheet, header_row, kind, fuel, unit, grid, sector, gallons, activity_uncertainty, columns`},
 		{"role", table(`{"column": "C", "header": "Fuel", "role": "amount"}`),
 			`tables[0].columns[0].role: unknown role "amount": accepted are none, fuel, quantity, unit, fuel-column, technology, capacity, capacity-factor, lifetime, existing-carbon, group, period, date, grid, purchased-energy, gas, sector, vehicle`},
 		{"column letter", table(`{"column": "C4", "header": "Fuel", "role": "fuel"}`),

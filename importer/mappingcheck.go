@@ -18,7 +18,7 @@ type mapParser struct {
 }
 
 func (p *mapParser) table(v any, at string) (mapTable, error) {
-	obj, err := p.object(v, at, "sheet", "header_row", "kind", "fuel", "unit", "grid", "sector", "gallons", "columns")
+	obj, err := p.object(v, at, "sheet", "header_row", "kind", "fuel", "unit", "grid", "sector", "gallons", "activity_uncertainty", "columns")
 	if err != nil {
 		return mapTable{}, err
 	}
@@ -66,6 +66,9 @@ func (p *mapParser) table(v any, at string) (mapTable, error) {
 		return t, err
 	}
 	if t.gallons, err = p.gallons(obj, at); err != nil {
+		return t, err
+	}
+	if t.activity, err = p.activity(obj, at); err != nil {
 		return t, err
 	}
 	list, ok := obj["columns"].([]any)

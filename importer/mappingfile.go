@@ -73,8 +73,12 @@ type MappedTable struct {
 	// manufacturing, commercial, residential), for CH4 and N2O.
 	Sector string `json:"sector,omitempty"`
 	// Gallons is "us" or "imperial": the gallon of a bare "gallons".
-	Gallons string         `json:"gallons,omitempty"`
-	Columns []MappedColumn `json:"columns"`
+	Gallons string `json:"gallons,omitempty"`
+	// ActivityUncertainty is the 95 % half-width of the table's amounts in
+	// per cent (5 for ±5 %), in place of the default of their kind of
+	// record, for the intervals of the totals (uncertainty.go).
+	ActivityUncertainty *float64       `json:"activity_uncertainty,omitempty"`
+	Columns             []MappedColumn `json:"columns"`
 }
 
 // MappedColumn is one column of a mapped table.
@@ -113,6 +117,7 @@ type mapTable struct {
 	grid      string
 	sector    string
 	gallons   string
+	activity  *float64 // activity_uncertainty, %
 	cols      []mapCol
 }
 
@@ -265,6 +270,9 @@ func (f *MappingFile) encode(b *bytes.Buffer) {
 			if kv[1] != "" {
 				fmt.Fprintf(b, ", %q: %s", kv[0], js(kv[1]))
 			}
+		}
+		if t.ActivityUncertainty != nil {
+			fmt.Fprintf(b, ", \"activity_uncertainty\": %s", js(*t.ActivityUncertainty))
 		}
 		b.WriteString(",\n     \"columns\": [")
 		for j, c := range t.Columns {

@@ -1,5 +1,7 @@
 package importer
 
+import "github.com/fluecell/fluecell/funcs"
+
 // Options configures Scan and Annotate. The zero value is usable.
 type Options struct {
 	// Rules are "COLUMN = EXPR" over the header identifiers of a table, e.g.
@@ -43,6 +45,9 @@ type Options struct {
 	// code in one column; the rest are counted in one summary warning. 0
 	// means DefaultMaxWarningsPerColumn; negative means no limit.
 	MaxWarningsPerColumn int
+	// Uncertainty chooses how the 95 % intervals of the totals are computed:
+	// Approach 1 (the zero value) or Approach 2 with its seed and draws.
+	Uncertainty funcs.IntervalOptions
 }
 
 // Defaults of Options.

@@ -42,6 +42,10 @@ type Report struct {
 	BuildPlan *BuildPlanTotal `json:"build_plan,omitempty"`
 	// Mapping is the mapping file the tables were read with (Options.Mapping).
 	Mapping *MappingRef `json:"mapping,omitempty"`
+	// Uncertainty says how the 95 % intervals of the totals were computed:
+	// the approach, its seed and draws, and the activity-data uncertainty
+	// of each table (uncertainty.go).
+	Uncertainty *UncertaintyInfo `json:"uncertainty,omitempty"`
 	// Output is the path written by Annotate ("" for Scan).
 	Output string `json:"output,omitempty"`
 }
@@ -54,6 +58,8 @@ type Totals struct {
 	// float64 range); TCO2 and TCO2e are then 0 and encode as null
 	// (totals.go).
 	NotComputable string `json:"not_computable,omitempty"`
+	// Low and High are the 95 % interval of TCO2e (uncertainty.go).
+	TotalInterval
 }
 
 // BuildPlanTotal is the embodied total of the build-plan tables, with the range

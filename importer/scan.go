@@ -325,6 +325,7 @@ func (res *ScanResult) finish() error {
 		rep.Warnings = []Warning{}
 	}
 	rep.pointLeftOut()
+	sc.totalIntervals(rep)
 	rep.BuildPlan = res.buildPlanTotal()
 	res.Report = rep
 	res.checkTotals() // a sum past the float64 range is marked, never +Inf

@@ -35,6 +35,7 @@ type table struct {
 	modeNoted map[string]bool
 	merges    []rangeRef
 	cost      *costCells // the cost column of a fuel log, for the price check (prices.go)
+	unc       *tableUnc  // the uncertainty models of its totals (uncertainty.go)
 
 	// Results (see evaluate).
 	res       [][]float64 // per rule, per row; NaN when not computed

@@ -8,7 +8,7 @@ import (
 
 // kindColumns are the headers of the summary's totals by kind.
 func kindColumns() []string {
-	return []string{"total (kind)", "tCO2 (fossil)", "tCO2e", "tCO2 biogenic (memo)", "rows computed", "rows found", "completeness", "first rows left out"}
+	return []string{"total (kind)", "tCO2 (fossil)", "tCO2e", "tCO2e 95 % low", "tCO2e 95 % high", "tCO2 biogenic (memo)", "rows computed", "rows found", "completeness", "first rows left out"}
 }
 
 // writeKindBlock writes the summary's totals, one line per kind and never a
@@ -27,15 +27,23 @@ func (res *ScanResult) writeKindBlock(f *excelize.File, name string, set func(st
 		set(cellRef(1, row), label, 0)
 		set(cellRef(2, row), summaryValue(k.TCO2, tot), st.num)
 		set(cellRef(3, row), summaryValue(k.TCO2e, tot), st.num)
-		set(cellRef(4, row), summaryValue(k.Biogenic, tot), st.num)
-		set(cellRef(5, row), k.Computed, st.int)
-		set(cellRef(6, row), k.Rows, st.int)
+		switch iv := k.TotalInterval; {
+		case tot.NotComputable != "":
+		case iv.HasInterval():
+			set(cellRef(4, row), iv.Low, st.num)
+			set(cellRef(5, row), iv.High, st.num)
+		default:
+			set(cellRef(4, row), "none: "+strings.TrimPrefix(iv.IntervalNote, "no 95 % interval: "), 0)
+		}
+		set(cellRef(6, row), summaryValue(k.Biogenic, tot), st.num)
+		set(cellRef(7, row), k.Computed, st.int)
+		set(cellRef(8, row), k.Rows, st.int)
 		status := "complete"
 		if k.Incomplete {
 			status = "incomplete: " + plural(k.Rows-k.Computed, "row") + " left out"
 		}
-		set(cellRef(7, row), status, 0)
-		col := 8
+		set(cellRef(9, row), status, 0)
+		col := 10
 		for _, ref := range k.LeftOut {
 			set(cellRef(col, row), ref, 0)
 			if err := f.SetCellHyperLink(name, cellRef(col, row), linkTarget(ref), "Location"); err != nil {
@@ -72,6 +80,7 @@ func (res *ScanResult) writeKindBlock(f *excelize.File, name string, set func(st
 	if n1 > 1 {
 		// Scope 1's kinds add up: the one sum the report's totals hold.
 		s1.TCO2, s1.TCO2e, s1.NotComputable = rep.Totals.TCO2, rep.Totals.TCO2e, rep.Totals.NotComputable
+		s1.TotalInterval = rep.Totals.TotalInterval
 		s1.LeftOut = s1.LeftOut[:min(len(s1.LeftOut), maxLeftOut)]
 		if err := line("Scope 1 (stationary + mobile + fugitive)", s1); err != nil {
 			return row, err
@@ -83,6 +92,10 @@ func (res *ScanResult) writeKindBlock(f *excelize.File, name string, set func(st
 	}
 	set(cellRef(1, row), "tCO2 and tCO2e are fossil; biogenic CO2 (wood, biogas, the bio share of a blend) is a memo item in the column "+
 		BiogenicColumn+", in no total. A total with rows left out is marked incomplete: its rows are in "+SheetWarnings+".", st.note)
+	if u := rep.Uncertainty; u != nil {
+		row++
+		set(cellRef(1, row), intervalCaption(u), st.note)
+	}
 	return row + 2, nil
 }
 

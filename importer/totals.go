@@ -21,7 +21,7 @@ func finiteTotals(t *Totals) bool {
 	if isFinite(t.TCO2) && isFinite(t.TCO2e) {
 		return true
 	}
-	t.TCO2, t.TCO2e, t.NotComputable = 0, 0, overflowNote
+	t.TCO2, t.TCO2e, t.NotComputable, t.TotalInterval = 0, 0, overflowNote, TotalInterval{}
 	return false
 }
 
@@ -87,13 +87,29 @@ func indexByteOr(s string, c byte) int {
 func (t Totals) MarshalJSON() ([]byte, error) {
 	type plain Totals
 	if t.NotComputable == "" {
-		return json.Marshal(plain(t))
+		lo, hi := t.ends()
+		return json.Marshal(struct {
+			plain
+			Low  *float64 `json:"tCO2e_low,omitempty"`
+			High *float64 `json:"tCO2e_high,omitempty"`
+		}{plain(t), lo, hi})
 	}
 	return json.Marshal(struct {
 		TCO2          *float64 `json:"tCO2"`
 		TCO2e         *float64 `json:"tCO2e"`
 		NotComputable string   `json:"not_computable"`
 	}{NotComputable: t.NotComputable})
+}
+
+// MarshalJSON writes a kind's total with its interval's ends (TotalInterval).
+func (k KindTotal) MarshalJSON() ([]byte, error) {
+	type plain KindTotal
+	lo, hi := k.ends()
+	return json.Marshal(struct {
+		plain
+		Low  *float64 `json:"tCO2e_low,omitempty"`
+		High *float64 `json:"tCO2e_high,omitempty"`
+	}{plain(k), lo, hi})
 }
 
 // summaryValue is what the summary sheet shows for the sum v: the number, or

@@ -16,7 +16,7 @@ func TestAnnotateGrid(t *testing.T) {
 	srv := startServer(t, Config{Annotate: AnnotateHandler(e, AnnotateConfig{TempDir: t.TempDir()})})
 	csv := "Energy,Quantity,Unit\nElectricity,10000,kWh\nDiesel,100,L\n"
 	type report struct {
-		Totals   map[string]float64
+		Totals   struct{ TCO2, TCO2e float64 }
 		ByFuel   map[string]map[string]float64 `json:"by_fuel"`
 		Computed int
 		Warnings []struct{ Cell, Severity, Code, Message string }

@@ -70,9 +70,11 @@ const (
 // workbook (.xlsx, .xlsm, .xls or CSV, by Content-Type or the name= query
 // parameter), or a multipart form whose part "file" holds it and whose part
 // "mapping" may hold a mapping file (JSON, importer.ParseMapping). Query
-// parameters: rule (repeatable, "COLUMN = EXPR"), sheet, pack, grid, name;
-// report=json (annotate) answers the report instead of the annotated
-// workbook; rows (inspect) is how many data rows of each table are previewed.
+// parameters: rule (repeatable, "COLUMN = EXPR"), sheet, pack, grid, name,
+// uncertainty (approach1 or approach2, with seed and draws) for the 95 %
+// intervals of the totals; report=json (annotate) answers the report instead
+// of the annotated workbook; rows (inspect) is how many data rows of each
+// table are previewed.
 // /v1/inspect answers how the workbook was read (importer.Inspect), the first
 // rows of each table and the reading as a mapping file; it writes nothing.
 // The upload is spooled to a temporary file and every file is removed at the end.

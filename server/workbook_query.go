@@ -27,18 +27,18 @@ type workbookRequest struct {
 }
 
 // parseQuery checks the query of a workbook request against the handler's engine: rule
-// (repeatable), sheet, pack, grid and name on both routes, report=json on /v1/annotate,
+// (repeatable), sheet, pack, grid, name and uncertainty (seed, draws) on both routes, report=json on /v1/annotate,
 // rows on /v1/inspect. Errors name the parameter.
 func (h *annotateHandler) parseQuery(q url.Values, inspect bool) (workbookRequest, *apiError) {
 	req := workbookRequest{rows: defaultPreviewRows}
 	for k := range q {
 		switch k {
-		case "rule", "sheet", "pack", "grid", "name", "token":
+		case "rule", "sheet", "pack", "grid", "name", "token", "uncertainty", "seed", "draws":
 		case "report":
 			if !inspect {
 				continue
 			}
-			return req, badRequest(k, "unknown parameter "+quoteText(k)+": /v1/inspect takes rule, sheet, pack, grid, name and rows (the report is in its answer)")
+			return req, badRequest(k, "unknown parameter "+quoteText(k)+": /v1/inspect takes rule, sheet, pack, grid, name, uncertainty (with seed and draws) and rows (the report is in its answer)")
 		case "rows":
 			if inspect {
 				continue
@@ -46,9 +46,9 @@ func (h *annotateHandler) parseQuery(q url.Values, inspect bool) (workbookReques
 			fallthrough
 		default:
 			if inspect {
-				return req, badRequest(k, "unknown parameter "+quoteText(k)+": /v1/inspect takes rule, sheet, pack, grid, name and rows")
+				return req, badRequest(k, "unknown parameter "+quoteText(k)+": /v1/inspect takes rule, sheet, pack, grid, name, uncertainty (with seed and draws) and rows")
 			}
-			return req, badRequest(k, "unknown parameter "+quoteText(k)+": /v1/annotate takes rule, sheet, pack, grid, name and report=json")
+			return req, badRequest(k, "unknown parameter "+quoteText(k)+": /v1/annotate takes rule, sheet, pack, grid, name, report=json and uncertainty=approach1|approach2 (with seed and draws)")
 		}
 	}
 	switch v := q.Get("report"); v {
@@ -65,7 +65,12 @@ func (h *annotateHandler) parseQuery(q url.Values, inspect bool) (workbookReques
 		}
 		req.rows = n
 	}
+	ivOpt, apiErr := intervalQuery(q)
+	if apiErr != nil {
+		return req, apiErr
+	}
 	opt := h.cfg.Options
+	opt.Uncertainty = ivOpt
 	opt.Rules = append(append([]string(nil), opt.Rules...), q["rule"]...)
 	opt.Sheet = q.Get("sheet")
 	if g := q.Get("grid"); g != "" {

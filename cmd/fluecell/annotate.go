@@ -23,18 +23,25 @@ import (
 const exitFailOn = 3
 
 func cmdAnnotate(ctx context.Context, s stdio, args []string) int {
-	fs := newFlags("annotate", "annotate IN.xlsx|IN.xlsm|IN.xls|IN.csv [-o OUT] [--rule 'COLUMN = EXPR']... [--sheet S] [--report R.json] [--pack P] [--grid G] [--factors F]... [--fail-on warning|error]", s.err, true)
+	fs := newFlags("annotate", "annotate IN.xlsx|IN.xlsm|IN.xls|IN.csv [-o OUT] [--rule 'COLUMN = EXPR']... [--sheet S] [--report R.json] [--pack P] [--grid G] [--factors F]... [--fail-on warning|error] [--uncertainty approach1|approach2 [--seed N] [--draws N]]", s.err, true)
 	out := fs.String("o", "", "write the annotated workbook to `OUT` (default: IN with .carbon before the extension; a legacy .xls, read through LibreOffice, gives .carbon.xlsx)")
 	report := fs.String("report", "", "also write the report as JSON to `R.json` (- for standard output)")
 	failOn := fs.String("fail-on", "", "exit with code 3 when a finding of this `severity` or worse exists: warning or error (the output is still written)")
 	var af annotateFlags
 	af.register(fs)
+	var uf uncertaintyFlags
+	uf.register(fs)
 	pos, code, ok := parseArgs(fs, args)
 	if !ok {
 		return code
 	}
 	if len(pos) != 1 {
 		fmt.Fprintln(s.err, "fluecell annotate: give exactly one input workbook, e.g. fluecell annotate fuel-log.xlsx")
+		return 2
+	}
+	ivOpt, err := uf.options()
+	if err != nil {
+		fmt.Fprintf(s.err, "fluecell annotate: %v\n", err)
 		return 2
 	}
 	switch *failOn {
@@ -56,6 +63,7 @@ func cmdAnnotate(ctx context.Context, s stdio, args []string) int {
 		return fail(s, "annotate", err)
 	}
 	opt := af.options()
+	opt.Uncertainty = ivOpt
 	rep, err := importer.Annotate(ctx, e, in, dst, opt)
 	if err != nil {
 		return fail(s, "annotate", err)
@@ -95,13 +103,17 @@ func printReport(w io.Writer, rep *importer.Report) {
 	if rep.Totals.NotComputable != "" {
 		fmt.Fprintf(w, "total: %s\n", notComputableText)
 	} else {
-		fmt.Fprintf(w, "total: %s tCO2, %s tCO2e (Scope 1, fossil: fuels burned and gases released)\n", totalText(rep.Totals.TCO2, funcs.FormatNumber), totalText(rep.Totals.TCO2e, funcs.FormatNumber))
+		fmt.Fprintf(w, "total: %s tCO2, %s tCO2e%s (Scope 1, fossil: fuels burned and gases released)\n", totalText(rep.Totals.TCO2, funcs.FormatNumber),
+			totalText(rep.Totals.TCO2e, funcs.FormatNumber), intervalText(rep.Totals.TotalInterval))
 	}
 	if lines := kindLines(rep, funcs.FormatNumber); len(lines) > 0 {
 		fmt.Fprintln(w, "totals by kind (never added together):")
 		for _, l := range lines {
 			fmt.Fprintf(w, "  %s\n", l)
 		}
+	}
+	if u := rep.Uncertainty; u != nil && (rep.Totals.HasInterval() || hasInterval(rep.ByKind)) {
+		fmt.Fprintln(w, safetext.Line("95 % intervals: "+u.Method+"; activity data "+activityText(u)))
 	}
 	nErr, nWarn, nInfo := rep.Count(importer.SevError), rep.Count(importer.SevWarning), rep.Count(importer.SevInfo)
 	fmt.Fprintf(w, "findings: %s (rows not computed), %s, %s; all %s\n", count(nErr, "error"), count(nWarn, "warning"), count(nInfo, "note"), findingsWhere(rep))

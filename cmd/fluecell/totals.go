@@ -5,6 +5,7 @@ import (
 	"math"
 	"strings"
 
+	"github.com/fluecell/fluecell/funcs"
 	"github.com/fluecell/fluecell/importer"
 	"github.com/fluecell/fluecell/importer/batch"
 	"github.com/fluecell/fluecell/importer/safetext"
@@ -62,7 +63,7 @@ func kindLines(rep *importer.Report, format func(float64) string) []string {
 		if k.NotComputable != "" {
 			line += notComputableText
 		} else {
-			line += totalText(k.TCO2, format) + " tCO2 (fossil), " + totalText(k.TCO2e, format) + " tCO2e"
+			line += totalText(k.TCO2, format) + " tCO2 (fossil), " + totalText(k.TCO2e, format) + " tCO2e" + intervalText(k.TotalInterval)
 			if k.Biogenic != 0 {
 				line += "; biogenic " + totalText(k.Biogenic, format) + " tCO2 (memo item, in no total)"
 			}
@@ -78,6 +79,40 @@ func kindLines(rep *importer.Report, format func(float64) string) []string {
 		out = append(out, safetext.Line(line))
 	}
 	return out
+}
+
+// intervalText is " (95 %: 321.4–362.5)", the interval of a total to four significant
+// digits, or "" when it has none.
+func intervalText(ti importer.TotalInterval) string {
+	if !ti.HasInterval() {
+		return ""
+	}
+	return " (95 %: " + sig4(ti.Low) + "–" + sig4(ti.High) + ")"
+}
+
+// hasInterval reports whether a total of ks has an interval.
+func hasInterval(ks []importer.KindTotal) bool {
+	for _, k := range ks {
+		if k.HasInterval() {
+			return true
+		}
+	}
+	return false
+}
+
+// activityText lists the activity-data uncertainty of each table: "Fuel log!A4 stationary_fuel ±5 %".
+func activityText(u *importer.UncertaintyInfo) string {
+	var parts []string
+	for _, a := range u.Activity {
+		parts = append(parts, a.Table+" "+a.Kind+" ±"+funcs.FormatNumber(a.Percent)+" %")
+	}
+	if len(parts) == 0 {
+		return "exact"
+	}
+	if len(parts) > 6 {
+		parts = append(parts[:6], fmt.Sprintf("and %d more", len(parts)-6))
+	}
+	return strings.Join(parts, ", ")
 }
 
 // outcomeKinds are the totals by kind of a report in the order of

@@ -21,10 +21,13 @@
 // range, uses the larger of the two halves on both sides (RuleLarger; IPCC 2006
 // Vol 1 Ch 3 Table 3.3 notes, from memory). Approach 2 draws a factor with a
 // symmetric range from a normal distribution (mean the value, standard
-// deviation the half-width / 1.96) and one with an asymmetric range from the
-// lognormal whose 2.5th and 97.5th percentiles are the published low and high
-// (IPCC 2006 Vol 1 Ch 3 Section 3.2.2.4 names the lognormal for positive,
-// skewed quantities; from memory).
+// deviation the half-width / 1.96) and one with an asymmetric range from a
+// two-piece lognormal (IPCC 2006 Vol 1 Ch 3 Section 3.2.2.4 names the
+// lognormal for positive, skewed quantities; from memory): the logarithm of
+// the factor is normal with one spread below the published value and another
+// above it, so that the median is the published value and the 2.5th and
+// 97.5th percentiles are the published low and high (our choice: the draws
+// centre where Approach 1 does).
 //
 // The package is pure: standard library only, no state between calls.
 package uncertainty

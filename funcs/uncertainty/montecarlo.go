@@ -21,7 +21,17 @@ const symmetricTolerance = 0.01
 type sampler struct {
 	exact     bool
 	lognormal bool
-	mu, sigma float64 // of the normal, or of the logarithm of the multiple
+	mu, sigma float64 // of the normal (symmetric ranges)
+	// sLo, sHi: a skewed range is drawn from a two-piece lognormal, the
+	// logarithm of the multiple being normal with spread sLo below 0 and sHi
+	// above: its median is the published value (as in Approach 1, which
+	// keeps the value and combines the lower and upper halves apart) and its
+	// 2.5th and 97.5th percentiles are the published low and high. A
+	// lognormal fitted through low and high alone would centre the draws on
+	// sqrt(low x high) instead of the published value (diesel's CO2 factor,
+	// 74,100 kg/TJ with 72,600-74,800, IPCC 2006 Vol 2 Ch 1 Table 1.4, would
+	// centre on 73,693).
+	sLo, sHi float64
 }
 
 func newSampler(f Factor) sampler {
@@ -32,9 +42,9 @@ func newSampler(f Factor) sampler {
 	if math.Abs(hi-lo) <= symmetricTolerance*max(lo, hi) {
 		return sampler{mu: 1, sigma: (lo + hi) / 2 / z975}
 	}
-	// lognormal through the published percentiles, as a multiple of the value
+	// two-piece lognormal: median the value, percentiles the published ends
 	a, b := math.Log(f.Low/f.Value), math.Log(f.High/f.Value)
-	return sampler{lognormal: true, mu: (a + b) / 2, sigma: (b - a) / (2 * z975)}
+	return sampler{lognormal: true, sLo: -a / z975, sHi: b / z975}
 }
 
 func (s sampler) draw(r *rand.Rand) float64 {
@@ -42,7 +52,11 @@ func (s sampler) draw(r *rand.Rand) float64 {
 	case s.exact:
 		return 1
 	case s.lognormal:
-		return math.Exp(s.mu + s.sigma*r.NormFloat64())
+		z := r.NormFloat64()
+		if z < 0 {
+			return math.Exp(z * s.sLo)
+		}
+		return math.Exp(z * s.sHi)
 	}
 	return s.mu + s.sigma*r.NormFloat64()
 }

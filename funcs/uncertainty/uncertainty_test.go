@@ -2,6 +2,8 @@ package uncertainty
 
 import (
 	"math"
+	"math/rand/v2"
+	"slices"
 	"strings"
 	"testing"
 	"time"
@@ -191,5 +193,27 @@ func BenchmarkMonteCarlo10k(b *testing.B) {
 		Terms: []Term{{Value: 56.1, Uses: []Use{{0, 1}, {1, 1}}}}}
 	for b.Loop() {
 		_, _ = MonteCarlo(m, 1, 10_000)
+	}
+}
+
+// A skewed range is drawn around the published value: the median of the
+// draws is the value (diesel's CO2 factor, 74,100 kg/TJ with 72,600-74,800,
+// IPCC 2006 Vol 2 Ch 1 Table 1.4), not sqrt(low x high) = 73,693.
+func TestSkewedRangeCentredOnValue(t *testing.T) {
+	f := Factor{Name: "diesel co2", Value: 74100, Low: 72600, High: 74800, HasRange: true}
+	s := newSampler(f)
+	r := rand.New(rand.NewPCG(7, 7))
+	xs := make([]float64, 200001)
+	for i := range xs {
+		xs[i] = f.Value * s.draw(r)
+	}
+	slices.Sort(xs)
+	med := xs[len(xs)/2]
+	if math.Abs(med-74100) > 15 {
+		t.Errorf("median of the draws %.1f, want the published 74,100 (within 15)", med)
+	}
+	lo, hi := xs[int(0.025*float64(len(xs)))], xs[int(0.975*float64(len(xs)))]
+	if math.Abs(lo-72600) > 30 || math.Abs(hi-74800) > 30 {
+		t.Errorf("2.5th and 97.5th percentiles %.1f and %.1f, want the published 72,600 and 74,800", lo, hi)
 	}
 }
