@@ -1,0 +1,88 @@
+package importer
+
+import (
+	"strconv"
+	"unicode/utf8"
+
+	"github.com/xuri/excelize/v2"
+)
+
+// The summary's charts show one thing each: tCO2e by period of one kind,
+// tCO2e by group of one kind, or fossil tCO2e beside the biogenic CO2 memo
+// by fuel of one kind. Never tCO2 beside tCO2e (nearly the same bars), and
+// never two kinds in one series.
+
+// maxCharts bounds the charts of one summary.
+const maxCharts = 6
+
+// chartSpec is one chart: categories in column catCol and one or two value
+// columns, rows first to last of the summary sheet.
+type chartSpec struct {
+	title       string
+	catCol      int
+	valCols     []int // each a series; its header (row first-1) names it
+	first, last int
+	horizontal  bool // bars across: long category names stay readable
+	maxLabel    int  // longest category label, characters
+}
+
+// chartHeight is the height, in pixels, that gives each category room.
+func (c *chartSpec) size() (w, h uint) {
+	n := c.last - c.first + 1
+	if c.horizontal {
+		per := 22 * len(c.valCols)
+		return 640, uint(max(260, 90+per*n))
+	}
+	return uint(max(480, min(960, 120+40*n))), 320
+}
+
+// add draws the chart with its top-left corner at cell.
+func (c *chartSpec) add(f *excelize.File, sheet, cell string) error {
+	q := quoteSheet(sheet)
+	col := func(n int) string { return "$" + colName(n) + "$" }
+	cats := q + "!" + col(c.catCol) + strconv.Itoa(c.first) + ":" + col(c.catCol) + strconv.Itoa(c.last)
+	var series []excelize.ChartSeries
+	for _, v := range c.valCols {
+		series = append(series, excelize.ChartSeries{
+			Name:       q + "!" + col(v) + strconv.Itoa(c.first-1),
+			Categories: cats,
+			Values:     q + "!" + col(v) + strconv.Itoa(c.first) + ":" + col(v) + strconv.Itoa(c.last),
+		})
+	}
+	w, h := c.size()
+	typ := excelize.Col
+	x := excelize.ChartAxis{Font: excelize.Font{Size: 9}}
+	if c.horizontal {
+		typ = excelize.Bar
+		x.ReverseOrder = true // the first line of the table at the top
+	} else if n := c.last - c.first + 1; n > 6 && c.maxLabel > 4 || n > 12 {
+		x.Alignment.TextRotation = -45 // slanted: labels of many periods do not overlap
+	}
+	legend := excelize.ChartLegend{Position: "bottom"}
+	if len(series) == 1 {
+		legend.Position = "none" // the title says what the bars are
+	}
+	gap := uint(60)
+	return f.AddChart(sheet, cell, &excelize.Chart{
+		Type:      typ,
+		Series:    series,
+		Title:     excelize.ChartTitle{Paragraph: []excelize.RichTextRun{{Text: c.title, Font: &excelize.Font{Size: 11, Bold: true}}}},
+		Legend:    legend,
+		Dimension: excelize.ChartDimension{Width: w, Height: h},
+		XAxis:     x,
+		YAxis:     excelize.ChartAxis{MajorGridLines: true, Font: excelize.Font{Size: 9}, Title: excelize.ChartTitle{Paragraph: []excelize.RichTextRun{{Text: "t", Font: &excelize.Font{Size: 9}}}}},
+		GapWidth:  &gap,
+		// One colour per series: bars of one series are one thing.
+		VaryColors: boolPtr(false),
+	})
+}
+
+// chartRows is the number of summary rows (20 px each) a chart covers,
+// with a blank row after it.
+func (c *chartSpec) rows() int {
+	_, h := c.size()
+	return int(h)/20 + 2
+}
+
+// labelLen is the length of a category label, characters.
+func labelLen(s string) int { return utf8.RuneCountInString(s) }
