@@ -63,7 +63,8 @@ func textLines(text string, width float64) int {
 	return n
 }
 
-// put writes one row from column A; style 0 wraps text cells.
+// put writes one row from column A; style 0 wraps text cells and aligns
+// every cell to the top.
 func (w *wrapWriter) put(style int, vals ...any) {
 	if w.err != nil {
 		return
@@ -71,10 +72,11 @@ func (w *wrapWriter) put(style int, vals ...any) {
 	lines := 1
 	for i, v := range vals {
 		s, isText := v.(string)
-		if style != 0 {
+		switch {
+		case style != 0:
 			vals[i] = excelize.Cell{StyleID: style, Value: v}
-		} else if isText {
-			vals[i] = excelize.Cell{StyleID: w.wrap, Value: s}
+		case v != nil:
+			vals[i] = excelize.Cell{StyleID: w.wrap, Value: v} // numbers top-aligned beside wrapped text
 		}
 		if isText && i < len(w.widths) {
 			lines = max(lines, textLines(s, w.widths[i]))
@@ -110,7 +112,7 @@ func (w *wrapWriter) spanTo(style int, text string, cols int, last any) {
 		for len(vals) < cols {
 			vals = append(vals, nil)
 		}
-		vals = append(vals, last)
+		vals = append(vals, excelize.Cell{StyleID: w.wrap, Value: last})
 	}
 	r := strconv.Itoa(w.row)
 	if cols > 1 {

@@ -111,12 +111,15 @@ func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
 	if w.err != nil {
 		return excelErr(res.Path, "sheet "+name, w.err)
 	}
+	// Widths that hold the headers ("tCO2 biogenic (memo)"); printed in
+	// landscape at full size: the columns past the page go to the next.
 	_ = f.SetColWidth(name, "A", "A", 44)
-	_ = f.SetColWidth(name, "B", "F", 15)
+	_ = f.SetColWidth(name, "B", "C", 16)
+	_ = f.SetColWidth(name, "D", "E", 21)
+	_ = f.SetColWidth(name, "F", "F", 15)
 	_ = f.SetColWidth(name, "G", "G", 30)
 	_ = f.SetColWidth(name, "H", "M", 16)
-	_ = f.SetSheetProps(name, &excelize.SheetPropsOptions{FitToPage: boolPtr(true)})
-	_ = f.SetPageLayout(name, &excelize.PageLayoutOptions{Orientation: strPtr("landscape"), FitToWidth: intPtr(1), FitToHeight: intPtr(0)})
+	_ = f.SetPageLayout(name, &excelize.PageLayoutOptions{Orientation: strPtr("landscape")})
 	// The charts go below the tables, one under the other, each as wide
 	// as the tables: readable on screen and on a printed page.
 	if len(w.charts) > 0 {
@@ -124,7 +127,15 @@ func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
 		first := w.row
 		w.set(cellRef(1, w.row), "Charts", st.head)
 		w.row++
-		for _, c := range w.charts {
+		for i, c := range w.charts {
+			// A printed page per chart: none is cut between two pages.
+			at := w.row
+			if i == 0 {
+				at = first
+			}
+			if err := f.InsertPageBreak(name, cellRef(1, at)); err != nil {
+				return excelErr(res.Path, "sheet "+name, err)
+			}
 			if err := c.add(f, name, cellRef(1, w.row)); err != nil {
 				return excelErr(res.Path, "the summary chart "+quoteText(c.title), err)
 			}
@@ -237,13 +248,29 @@ func (res *ScanResult) writeGroupBlock(w *sumWriter, t *table) {
 		}
 		w.row++
 		keys := byShare(ks.byKind[kind], ks.order[kind])
-		first, last := w.writeLines(ks, kind, keys)
+		first, _ := w.writeLines(ks, kind, keys)
 		w.row++
+		last, title := chartEnd(ks.byKind[kind], keys, first, "tCO2e by "+strings.ToLower(g.hdr.Text)+": "+KindLabel(kind)+", "+t.spec.sheet)
 		if len(w.charts) < maxCharts && last > first {
-			w.charts = append(w.charts, placedChart{chartSpec{title: "tCO2e by " + strings.ToLower(g.hdr.Text) + ": " + KindLabel(kind) + ", " + t.spec.sheet,
-				catCol: 1, valCols: []int{3}, first: first, last: last, horizontal: true}})
+			w.charts = append(w.charts, placedChart{chartSpec{title: title, catCol: 1, valCols: []int{3}, first: first, last: last, horizontal: true}})
 		}
 	}
+}
+
+// chartEnd is the last row a bar chart of lines keys (from row first)
+// shows: the last line with a number, and no more than maxChartBar lines,
+// the title saying so when lines are left out of the chart.
+func chartEnd(m map[string]*share, keys []string, first int, title string) (int, string) {
+	n := 0
+	for i, k := range keys {
+		if s := m[k]; s != nil && (s.co2e != 0 || s.bio != 0 || s.co2 != 0) {
+			n = i + 1
+		}
+	}
+	if n > maxChartBar {
+		return first + maxChartBar - 1, title + " (the largest " + itoa(maxChartBar) + " of " + itoa(n) + ")"
+	}
+	return first + n - 1, title
 }
 
 // byShare orders keys by tCO2e, then fossil tCO2, largest first, then
@@ -285,7 +312,8 @@ func (res *ScanResult) writeFuelBlock(w *sumWriter) {
 		m := ks.byKind[kind]
 		first := w.row
 		bio := false
-		for _, k := range byShare(m, ks.order[kind]) {
+		keys := byShare(m, ks.order[kind])
+		for _, k := range keys {
 			s := m[k]
 			words := fw.text(kind, k)
 			if words == "" {
@@ -301,14 +329,14 @@ func (res *ScanResult) writeFuelBlock(w *sumWriter) {
 			bio = bio || s.bio != 0
 			w.row++
 		}
-		last := w.row - 1
+		title := "tCO2e by fuel: " + KindLabel(kind)
+		vals := []int{4}
+		if bio {
+			title, vals = "Fossil tCO2e and biogenic CO2 (memo) by fuel: "+KindLabel(kind), []int{4, 5}
+		}
+		last, title := chartEnd(m, keys, first, title)
 		if len(w.charts) < maxCharts && last > first {
-			c := chartSpec{title: "tCO2e by fuel: " + KindLabel(kind), catCol: 2, valCols: []int{4}, first: first, last: last, horizontal: true}
-			if bio {
-				c.title = "Fossil tCO2e and biogenic CO2 (memo) by fuel: " + KindLabel(kind)
-				c.valCols = []int{4, 5}
-			}
-			w.charts = append(w.charts, placedChart{c})
+			w.charts = append(w.charts, placedChart{chartSpec{title: title, catCol: 2, valCols: vals, first: first, last: last, horizontal: true}})
 		}
 	}
 	w.set(cellRef(1, w.row), "Rows are counted per fuel, and a row of two kinds (a fuel and its purchased energy) in each; the totals by kind above are the sums.", w.st.note)

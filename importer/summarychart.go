@@ -12,8 +12,12 @@ import (
 // by fuel of one kind. Never tCO2 beside tCO2e (nearly the same bars), and
 // never two kinds in one series.
 
-// maxCharts bounds the charts of one summary.
-const maxCharts = 6
+// Bounds of the charts: charts per summary, and bars of a chart by group
+// or fuel (the largest; the table lists every line).
+const (
+	maxCharts   = 6
+	maxChartBar = 20
+)
 
 // chartSpec is one chart: categories in column catCol and one or two value
 // columns, rows first to last of the summary sheet.
@@ -30,8 +34,8 @@ type chartSpec struct {
 func (c *chartSpec) size() (w, h uint) {
 	n := c.last - c.first + 1
 	if c.horizontal {
-		per := 22 * len(c.valCols)
-		return 640, uint(max(260, 90+per*n))
+		per := 16 + 12*len(c.valCols)
+		return 640, uint(max(260, 150+per*n))
 	}
 	return uint(max(480, min(960, 120+40*n))), 320
 }
@@ -51,12 +55,12 @@ func (c *chartSpec) add(f *excelize.File, sheet, cell string) error {
 	}
 	w, h := c.size()
 	typ := excelize.Col
-	x := excelize.ChartAxis{Font: excelize.Font{Size: 9}}
+	x := excelize.ChartAxis{Font: axisFont()}
 	if c.horizontal {
 		typ = excelize.Bar
 		x.ReverseOrder = true // the first line of the table at the top
-	} else if n := c.last - c.first + 1; n > 6 && c.maxLabel > 4 || n > 12 {
-		x.Alignment.TextRotation = -45 // slanted: labels of many periods do not overlap
+	} else if n := c.last - c.first + 1; float64(c.maxLabel)*labelCharPx > 0.85*float64(int(w)-90)/float64(n) {
+		x.Alignment.TextRotation = -45 // slanted: labels that would not fit side by side do not overlap
 	}
 	legend := excelize.ChartLegend{Position: "bottom"}
 	if len(series) == 1 {
@@ -66,22 +70,31 @@ func (c *chartSpec) add(f *excelize.File, sheet, cell string) error {
 	return f.AddChart(sheet, cell, &excelize.Chart{
 		Type:      typ,
 		Series:    series,
-		Title:     excelize.ChartTitle{Paragraph: []excelize.RichTextRun{{Text: c.title, Font: &excelize.Font{Size: 11, Bold: true}}}},
+		Title:     excelize.ChartTitle{Paragraph: []excelize.RichTextRun{{Text: c.title, Font: &excelize.Font{Size: 11, Bold: true, Color: axisColor}}}},
 		Legend:    legend,
 		Dimension: excelize.ChartDimension{Width: w, Height: h},
 		XAxis:     x,
-		YAxis:     excelize.ChartAxis{MajorGridLines: true, Font: excelize.Font{Size: 9}, Title: excelize.ChartTitle{Paragraph: []excelize.RichTextRun{{Text: "t", Font: &excelize.Font{Size: 9}}}}},
+		YAxis:     excelize.ChartAxis{MajorGridLines: true, Font: axisFont(), Title: excelize.ChartTitle{Paragraph: []excelize.RichTextRun{{Text: "t", Font: &excelize.Font{Size: 9, Color: axisColor}}}}},
 		GapWidth:  &gap,
 		// One colour per series: bars of one series are one thing.
 		VaryColors: boolPtr(false),
 	})
 }
 
+// Axis text: dark grey on white, 9 points; a category label's character is
+// taken as labelCharPx pixels wide.
+const (
+	axisColor   = "333333"
+	labelCharPx = 6.5
+)
+
+func axisFont() excelize.Font { return excelize.Font{Size: 9, Color: axisColor} }
+
 // chartRows is the number of summary rows (20 px each) a chart covers,
 // with a blank row after it.
 func (c *chartSpec) rows() int {
 	_, h := c.size()
-	return int(h)/20 + 2
+	return int(h)/20 + 4
 }
 
 // labelLen is the length of a category label, characters.

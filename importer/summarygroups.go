@@ -80,7 +80,7 @@ type fuelWords struct {
 // names no fuel fluecell knows.
 func (fw *fuelWords) id(kind, key string) string {
 	if fw.unknown[kind+"|"+key] {
-		return "(not a known name)"
+		return "(unknown name)"
 	}
 	return key
 }
