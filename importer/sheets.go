@@ -101,14 +101,17 @@ func (res *ScanResult) writeSources(f *excelize.File, st *styles) error {
 		span(0, c)
 	}
 	ww.skip()
-	put(st.head, "rule", "table", "rows computed", "of rows")
+	// Each table, then its rules across the sheet's width: a rule of a
+	// table of many fuel columns is long.
+	put(st.head, "table, then its rules", "rows computed", "of rows")
 	for i, t := range res.sc.tables {
 		info := res.Report.Tables[i]
+		put(0, info.Sheet+"!"+info.Range, t.computed, t.dataRows)
 		for _, r := range t.rules {
-			put(0, r.src, info.Sheet+"!"+info.Range, t.computed, t.dataRows)
+			span(0, "rule: "+r.src)
 		}
 		if len(t.rules) == 0 {
-			put(0, "(no rule: see Carbon warnings)", info.Sheet+"!"+info.Range, 0, t.dataRows)
+			span(0, "(no rule: see Carbon warnings)")
 		}
 	}
 	ww.skip()

@@ -129,7 +129,7 @@ func (w *wrapWriter) write(vals []any, lines int) {
 	}
 	var opts []excelize.RowOpts
 	if lines > 1 {
-		opts = append(opts, excelize.RowOpts{Height: float64(lines * lineHeight)})
+		opts = append(opts, excelize.RowOpts{Height: min(float64(lines*lineHeight), excelize.MaxRowHeight)})
 	}
 	w.err = w.sw.SetRow("A"+strconv.Itoa(w.row), vals, opts...)
 	w.row++

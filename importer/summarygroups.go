@@ -211,9 +211,12 @@ func (res *ScanResult) wideFuelShares(t *table, main string, ks *keyedShares, fw
 		}
 		r := rowShare{kind: kind, co2: s.TCO2, co2e: s.TCO2e, has: true}
 		ks.add(&r, k, true)
+		// Rows with a number for this fuel: counted per column, so a fuel
+		// of several columns counts no more than the table's rows.
 		sh := ks.byKind[kind][k]
-		sh.found += s.rows - 1
-		sh.computed += s.rows - 1
+		n := min(s.rows, t.computed)
+		sh.found += n - 1
+		sh.computed += n - 1
 	}
 	for _, c := range t.spec.wide {
 		fw.add(main, c.fuelID, c.hdr.Base)

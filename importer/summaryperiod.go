@@ -269,22 +269,31 @@ func (t *table) readDates() (*periodPlan, string) {
 	if best.grain != grainYear {
 		best.fiscal = false
 	}
-	// The finest grain, no finer than the dates are written, that gives at
-	// most maxPeriods periods; weeks only for dates written to the day.
-	g := best.grain
+	g := chooseGrain(best.from, best.to, best.grain)
+	best.grain = g
+	best.first, best.last = periodIndex(best.from, g), periodIndex(best.to, g)
+	return best, ""
+}
+
+// chooseGrain is the grain of a summary of dates from..to written to the
+// grain finest: the finest grain, no finer than the dates are written, that
+// gives at most maxPeriods periods (weeks only for dates written to the
+// day); the year when none does. Six days of a weekly log are six days; a
+// year of months is twelve months; three years of daily fill-ups are twelve
+// quarters.
+func chooseGrain(from, to time.Time, finest grain) grain {
+	g := finest
 	for g < grainYear {
-		if g == grainWeek && best.grain != grainDay {
+		if g == grainWeek && finest != grainDay {
 			g++
 			continue
 		}
-		if periodIndex(best.to, g)-periodIndex(best.from, g) < maxPeriods {
+		if periodIndex(to, g)-periodIndex(from, g) < maxPeriods {
 			break
 		}
 		g++
 	}
-	best.grain = g
-	best.first, best.last = periodIndex(best.from, g), periodIndex(best.to, g)
-	return best, ""
+	return g
 }
 
 // note says which grain was chosen and why.
