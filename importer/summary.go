@@ -182,45 +182,48 @@ func (w *sumWriter) writeLines(ks *keyedShares, kind string, keys []string) (fir
 	return first, w.row - 1
 }
 
-// writePeriodBlock writes t's tCO2e by period, one section per kind.
+// writePeriodBlock writes t's tCO2e by period, one section per kind: by
+// the date of each row, or by its period columns.
 func (res *ScanResult) writePeriodBlock(w *sumWriter, t *table) {
 	if t.copyOf != nil || t.rowState == nil || t.computed == 0 {
 		return
 	}
-	p, why := t.readDates()
-	if p == nil {
-		if why != "" {
-			w.set(cellRef(1, w.row), why+" ("+tableAnchor(t)+")", w.st.note)
-			w.row += 2
+	var ks *keyedShares
+	var labels []string
+	var grain, note string
+	if t.spec.kind == kindPeriods && len(t.spec.periods) > 0 {
+		cp := t.planColumns()
+		ks, labels, grain, note = t.columnShares(cp), cp.labels, cp.grain, cp.note
+	} else {
+		p, why := t.readDates()
+		if p == nil {
+			if why != "" {
+				w.set(cellRef(1, w.row), why+" ("+tableAnchor(t)+")", w.st.note)
+				w.row += 2
+			}
+			return
 		}
-		return
-	}
-	ks, labels := t.periodShares(p)
-	if _, ok := ks.byKind[""]; ok {
-		delete(ks.byKind, "")
+		ks, labels = t.periodShares(p)
+		grain, note = p.grain.String(), p.note()
 	}
 	for _, kind := range ks.kinds() {
-		w.heading("By "+p.grain.String()+": "+KindLabel(kind)+" ("+tableAnchor(t)+")", t)
-		for i, h := range breakdownColumns(p.grain.String()) {
+		w.heading("By "+grain+": "+KindLabel(kind)+" ("+tableAnchor(t)+")", t)
+		for i, h := range breakdownColumns(grain) {
 			w.set(cellRef(1+i, w.row), h, w.st.head)
 		}
 		w.row++
-		keys := labels
-		if _, ok := ks.byKind[kind]["(no date)"]; ok {
-			keys = append(append([]string(nil), labels...), "(no date)")
-		}
 		first, last := w.writeLines(ks, kind, labels)
-		if len(keys) > len(labels) {
-			w.writeLines(ks, kind, keys[len(labels):])
+		if _, ok := ks.byKind[kind]["(no date)"]; ok {
+			w.writeLines(ks, kind, []string{"(no date)"})
 		}
-		w.set(cellRef(1, w.row), p.note(), w.st.note)
+		w.set(cellRef(1, w.row), note, w.st.note)
 		w.row += 2
 		if len(w.charts) < maxCharts && last > first {
 			ml := 0
 			for _, l := range labels {
 				ml = max(ml, labelLen(l))
 			}
-			w.charts = append(w.charts, placedChart{chartSpec{title: "tCO2e by " + p.grain.String() + ": " + KindLabel(kind) + ", " + t.spec.sheet,
+			w.charts = append(w.charts, placedChart{chartSpec{title: "tCO2e by " + grain + ": " + KindLabel(kind) + ", " + t.spec.sheet,
 				catCol: 1, valCols: []int{3}, first: first, last: last, maxLabel: ml}})
 		}
 	}
@@ -313,6 +316,20 @@ func (res *ScanResult) writeFuelBlock(w *sumWriter) {
 		first := w.row
 		bio := false
 		keys := byShare(m, ks.order[kind])
+		// Names read as no fuel, with no row computed (prices, counts, a
+		// misspelt fuel), share one line: their rows are in the findings.
+		var quiet []string
+		quietRows := 0
+		shown := keys[:0:0]
+		for _, k := range keys {
+			if s := m[k]; fw.unknown[kind+"|"+k] && s.computed == 0 && !s.has {
+				quiet = append(quiet, k)
+				quietRows += s.found
+				continue
+			}
+			shown = append(shown, k)
+		}
+		keys = shown
 		for _, k := range keys {
 			s := m[k]
 			words := fw.text(kind, k)
@@ -327,6 +344,17 @@ func (res *ScanResult) writeFuelBlock(w *sumWriter) {
 			w.set(cellRef(6, w.row), s.computed, w.st.int)
 			w.set(cellRef(7, w.row), s.found, w.st.int)
 			bio = bio || s.bio != 0
+			w.row++
+		}
+		if len(quiet) > 0 {
+			text := strings.Join(quiet[:min(len(quiet), maxFuelWords)], "; ")
+			if len(quiet) > maxFuelWords {
+				text += "; and " + plural(len(quiet)-maxFuelWords, "other name")
+			}
+			w.set(cellRef(1, w.row), "not read as a fuel: "+text, 0)
+			w.set(cellRef(2, w.row), "(unknown names)", 0)
+			w.set(cellRef(6, w.row), 0, w.st.int)
+			w.set(cellRef(7, w.row), quietRows, w.st.int)
 			w.row++
 		}
 		title := "tCO2e by fuel: " + KindLabel(kind)

@@ -69,11 +69,13 @@ func (t *table) groupShares() (ks *keyedShares, why string) {
 }
 
 // fuelWords gathers, per kind and fluecell fuel id (or technology, vehicle,
-// gas), the workbook's own words for it.
+// gas), the workbook's own words for it: the spellings of rows with a
+// number first, those of rows without one only for a fuel with none.
 type fuelWords struct {
-	words   map[string][]string // kind + "|" + id -> spellings, up to maxFuelWords
-	more    map[string]int      // spellings past maxFuelWords
-	unknown map[string]bool     // kind + "|" + key: a text read as no fuel (its rows are left out)
+	words   map[string][]string // kind + "|" + id -> spellings of rows with a number, up to maxFuelWords
+	more    map[string]int      // such spellings past maxFuelWords
+	idle    map[string][]string // spellings of rows without a number, up to maxFuelWords
+	unknown map[string]bool     // kind + "|" + key: a text read as no fuel
 }
 
 // id is the fluecell id shown for key: the key, or a mark for a text that
@@ -85,30 +87,38 @@ func (fw *fuelWords) id(kind, key string) string {
 	return key
 }
 
-func (fw *fuelWords) add(kind, id, word string) {
+func (fw *fuelWords) add(kind, id, word string, computed bool) {
 	word = strings.TrimSpace(word)
 	if word == "" {
 		return
 	}
 	k := kind + "|" + id
-	for _, w := range fw.words[k] {
+	m := fw.words
+	if !computed {
+		m = fw.idle
+	}
+	for _, w := range m[k] {
 		if w == word {
 			return
 		}
 	}
-	if len(fw.words[k]) >= maxFuelWords {
-		if fw.more[k] < 1000 {
+	if len(m[k]) >= maxFuelWords {
+		if computed && fw.more[k] < 1000 {
 			fw.more[k]++ // a count past the bound, not the words: bounded state
 		}
 		return
 	}
-	fw.words[k] = append(fw.words[k], word)
+	m[k] = append(m[k], word)
 }
 
 // text lists the spellings of id under kind: "Natural gas; Natral gas".
 func (fw *fuelWords) text(kind, id string) string {
 	k := kind + "|" + id
-	s := strings.Join(fw.words[k], "; ")
+	ws := fw.words[k]
+	if len(ws) == 0 {
+		ws = fw.idle[k]
+	}
+	s := strings.Join(ws, "; ")
 	if n := fw.more[k]; n > 0 {
 		s += "; and " + plural(n, "other spelling")
 	}
@@ -120,7 +130,7 @@ func (fw *fuelWords) text(kind, id string) string {
 // the workbook's words for each fuel.
 func (res *ScanResult) fuelShares() (*keyedShares, *fuelWords) {
 	ks := newKeyedShares(1000, "(other fuels)")
-	fw := &fuelWords{words: map[string][]string{}, more: map[string]int{}, unknown: map[string]bool{}}
+	fw := &fuelWords{words: map[string][]string{}, more: map[string]int{}, idle: map[string][]string{}, unknown: map[string]bool{}}
 	var buf [2]rowShare
 	for _, t := range res.sc.tables {
 		if t.rowState == nil || t.copyOf != nil {
@@ -138,8 +148,8 @@ func (res *ScanResult) fuelShares() (*keyedShares, *fuelWords) {
 		case spec.fuel != nil:
 			named = spec.fuel
 			lookup = func(s string) string {
-				if f := res.sc.fuel(s); f.err == nil {
-					return f.id
+				if fr := res.sc.fuelName(s); fr.kind == nameFuel {
+					return fr.id // also a fuel named inside a longer text
 				}
 				return ""
 			}
@@ -183,7 +193,7 @@ func (res *ScanResult) fuelShares() (*keyedShares, *fuelWords) {
 				}
 				ks.add(&buf[j], k, t.rowState[i] == rowComputed)
 				if !buf[j].scope2Col {
-					fw.add(buf[j].kind, k, word)
+					fw.add(buf[j].kind, k, word, buf[j].has)
 					if unknown {
 						fw.unknown[buf[j].kind+"|"+k] = true
 					}
@@ -219,7 +229,7 @@ func (res *ScanResult) wideFuelShares(t *table, main string, ks *keyedShares, fw
 		sh.computed += n - 1
 	}
 	for _, c := range t.spec.wide {
-		fw.add(main, c.fuelID, c.hdr.Base)
+		fw.add(main, c.fuelID, c.hdr.Base, true)
 	}
 	bio, bioRows := 0.0, 0
 	for i := range t.rowState {
@@ -243,7 +253,7 @@ func (res *ScanResult) wideFuelShares(t *table, main string, ks *keyedShares, fw
 	sort.Strings(ids)
 	if len(ids) == 1 {
 		key = ids[0]
-		fw.add(main, key, word)
+		fw.add(main, key, word, true)
 	}
 	r := rowShare{kind: main, bio: bio, has: true}
 	ks.add(&r, key, true)

@@ -335,3 +335,77 @@ func TestSummaryByPeriodDevsetMonthly(t *testing.T) {
 		}
 	}
 }
+
+// A table of one period per column: each month's tCO2e is the sum over the
+// rows of the month's amount times the row's factor per unit (the rule is
+// one call per column, proportional to the amount). Names are invented.
+func TestSummaryByPeriodColumns(t *testing.T) {
+	f := newBook(t, "Use")
+	setRows(t, f, "Use", 1, [][]any{
+		{"Fuel", "Unit", "Jan 2024", "Feb 2024", "Mar 2024"},
+		{"Diesel", "L", 1200, 900, 0},
+		{"Natural gas", "kWh", 30000, 28000, 21000},
+		{"Propane", "kg", 0, 150, 300},
+	})
+	dir := t.TempDir()
+	in := save(t, f, filepath.Join(dir, "brindle-fuel-by-month.xlsx"))
+	out := filepath.Join(dir, "brindle.carbon.xlsx")
+	e := testEngine(t)
+	rep, err := Annotate(context.Background(), e, in, out, Options{})
+	must(t, err)
+	if rep.Computed != 3 || rep.Tables[0].Kind != kindPeriods {
+		t.Fatalf("computed %d, kind %s; findings %s", rep.Computed, rep.Tables[0].Kind, listFindings(rep))
+	}
+	per := func(fuel, unit string) float64 {
+		r, err := e.CallValues("fuel_co2e", fuel, 1.0, unit)
+		must(t, err)
+		return r.Value
+	}
+	d, g, p := per("diesel", "L"), per("natural gas", "kWh"), per("propane", "kg")
+	want := []float64{1200*d + 30000*g, 900*d + 28000*g + 150*p, 21000*g + 300*p}
+	found := []string{"2", "3", "2"}
+	x, err := excelize.OpenFile(out)
+	must(t, err)
+	defer x.Close()
+	rows, err := x.GetRows(SheetSummary, excelize.Options{RawCellValue: true})
+	must(t, err)
+	_, _, lines, note := summaryBlock(t, rows, "By month: "+KindLabel(KindStationary)+" (Use!A1)")
+	if len(lines) != 3 || !strings.HasPrefix(note, "by month: ") {
+		t.Fatalf("lines %q, note %q", lines, note)
+	}
+	for i, l := range lines {
+		got, err := strconv.ParseFloat(l[2], 64)
+		must(t, err)
+		if l[0] != []string{"Jan 2024", "Feb 2024", "Mar 2024"}[i] || !near(got, want[i]) || l[5] != found[i] {
+			t.Errorf("line %q: want %.9g tCO2e, %s rows with an amount", l, want[i], found[i])
+		}
+	}
+}
+
+// By fuel, the demo fuel log's own words stand next to fluecell's ids:
+// "Gas oil", "Diesel" and "Heating oil" are gas_diesel_oil; the misspelt
+// "Natral gas" is no known name and its row is left out.
+func TestSummaryByFuelWords(t *testing.T) {
+	_, out := annotateDemo(t, 0, Options{})
+	g, err := excelize.OpenFile(out)
+	must(t, err)
+	defer g.Close()
+	rows, err := g.GetRows(SheetSummary)
+	must(t, err)
+	_, header, lines, _ := summaryBlock(t, rows, "By fuel: "+KindLabel(KindStationary))
+	if header[0] != "as written in the workbook" || header[1] != "fluecell id" {
+		t.Fatalf("header %q", header)
+	}
+	got := map[string]string{}
+	for _, l := range lines {
+		got[l[1]] = l[0]
+	}
+	for id, words := range map[string]string{"gas_diesel_oil": "Gas oil; Diesel; Heating oil", "natural_gas": "Natural gas", "lpg": "LPG", "wood": "Wood pellets"} {
+		if got[id] != words {
+			t.Errorf("%s: %q, want %q (lines %q)", id, got[id], words, lines)
+		}
+	}
+	if got["(unknown names)"] != "not read as a fuel: Natral gas" {
+		t.Errorf("the misspelt fuel: %q", got["(unknown names)"])
+	}
+}
