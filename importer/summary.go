@@ -15,11 +15,8 @@ type sumWriter struct {
 	st     *styles
 	row    int
 	err    error
-	charts []placedChart
+	charts []chartSpec // drawn below the tables once they are written
 }
-
-// placedChart is a chart waiting for its place below the tables.
-type placedChart struct{ chartSpec }
 
 func (w *sumWriter) set(ref string, v any, style int) {
 	if w.err != nil {
@@ -223,8 +220,8 @@ func (res *ScanResult) writePeriodBlock(w *sumWriter, t *table) {
 			for _, l := range labels {
 				ml = max(ml, labelLen(l))
 			}
-			w.charts = append(w.charts, placedChart{chartSpec{title: "tCO2e by " + grain + ": " + KindLabel(kind) + ", " + t.spec.sheet,
-				catCol: 1, valCols: []int{3}, first: first, last: last, maxLabel: ml}})
+			w.charts = append(w.charts, chartSpec{title: "tCO2e by " + grain + ": " + KindLabel(kind) + ", " + t.spec.sheet,
+				catCol: 1, valCols: []int{3}, first: first, last: last, maxLabel: ml})
 		}
 	}
 }
@@ -255,7 +252,7 @@ func (res *ScanResult) writeGroupBlock(w *sumWriter, t *table) {
 		w.row++
 		last, title := chartEnd(ks.byKind[kind], keys, first, "tCO2e by "+strings.ToLower(g.hdr.Text)+": "+KindLabel(kind)+", "+t.spec.sheet)
 		if len(w.charts) < maxCharts && last > first {
-			w.charts = append(w.charts, placedChart{chartSpec{title: title, catCol: 1, valCols: []int{3}, first: first, last: last, horizontal: true}})
+			w.charts = append(w.charts, chartSpec{title: title, catCol: 1, valCols: []int{3}, first: first, last: last, horizontal: true})
 		}
 	}
 }
@@ -364,7 +361,7 @@ func (res *ScanResult) writeFuelBlock(w *sumWriter) {
 		}
 		last, title := chartEnd(m, keys, first, title)
 		if len(w.charts) < maxCharts && last > first {
-			w.charts = append(w.charts, placedChart{chartSpec{title: title, catCol: 2, valCols: vals, first: first, last: last, horizontal: true}})
+			w.charts = append(w.charts, chartSpec{title: title, catCol: 2, valCols: vals, first: first, last: last, horizontal: true})
 		}
 	}
 	w.set(cellRef(1, w.row), "Rows are counted per fuel, and a row of two kinds (a fuel and its purchased energy) in each; the totals by kind above are the sums.", w.st.note)

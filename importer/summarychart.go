@@ -30,7 +30,8 @@ type chartSpec struct {
 	maxLabel    int  // longest category label, characters
 }
 
-// chartHeight is the height, in pixels, that gives each category room.
+// size is the width and height of the chart, pixels: each category gets
+// room for its bars and its label.
 func (c *chartSpec) size() (w, h uint) {
 	n := c.last - c.first + 1
 	if c.horizontal {

@@ -224,6 +224,9 @@ type periodPlan struct {
 // summary; nil, with why, when no column holds dates in at least half the
 // data rows.
 func (t *table) readDates() (*periodPlan, string) {
+	if t.rowState == nil {
+		return nil, ""
+	}
 	var best *periodPlan
 	for _, c := range t.spec.cols {
 		s, stored := t.slotOf[c.col]
@@ -256,9 +259,6 @@ func (t *table) readDates() (*periodPlan, string) {
 		if best == nil || p.dated > best.dated || p.dated == best.dated && p.grain < best.grain {
 			best = p
 		}
-	}
-	if t.rowState == nil {
-		return nil, ""
 	}
 	if best == nil {
 		return nil, ""
