@@ -16,6 +16,7 @@ type sumWriter struct {
 	row    int
 	err    error
 	charts []chartSpec // drawn below the tables once they are written
+	wrap   int         // wrapped text style (wrapStyle)
 }
 
 func (w *sumWriter) set(ref string, v any, style int) {
@@ -29,6 +30,21 @@ func (w *sumWriter) set(ref string, v any, style int) {
 	}
 	if w.err == nil && style != 0 {
 		w.err = w.f.SetCellStyle(w.name, ref, ref, style)
+	}
+}
+
+// wrapStyle is a wrapped, top-aligned text style, made once.
+func (w *sumWriter) wrapStyle() int {
+	if w.wrap == 0 && w.err == nil {
+		w.wrap, w.err = w.f.NewStyle(&excelize.Style{Alignment: &excelize.Alignment{WrapText: true, Vertical: "top"}})
+	}
+	return w.wrap
+}
+
+// tall gives the current row the height of n lines of text.
+func (w *sumWriter) tall(n int) {
+	if n > 1 && w.err == nil {
+		w.err = w.f.SetRowHeight(w.name, w.row, min(float64(n*lineHeight), excelize.MaxRowHeight))
 	}
 }
 
@@ -221,7 +237,7 @@ func (res *ScanResult) writePeriodBlock(w *sumWriter, t *table) {
 				ml = max(ml, labelLen(l))
 			}
 			w.charts = append(w.charts, chartSpec{title: "tCO2e by " + grain + ": " + KindLabel(kind) + ", " + t.spec.sheet,
-				catCol: 1, valCols: []int{3}, first: first, last: last, maxLabel: ml})
+				catCol: 1, valCols: []int{3}, first: first, last: last, maxLabel: ml, maxValue: maxOf(ks.byKind[kind], labels)})
 		}
 	}
 }
@@ -252,7 +268,7 @@ func (res *ScanResult) writeGroupBlock(w *sumWriter, t *table) {
 		w.row++
 		last, title := chartEnd(ks.byKind[kind], keys, first, "tCO2e by "+strings.ToLower(g.hdr.Text)+": "+KindLabel(kind)+", "+t.spec.sheet)
 		if len(w.charts) < maxCharts && last > first {
-			w.charts = append(w.charts, chartSpec{title: title, catCol: 1, valCols: []int{3}, first: first, last: last, horizontal: true})
+			w.charts = append(w.charts, chartSpec{title: title, catCol: 1, valCols: []int{3}, first: first, last: last, horizontal: true, maxValue: maxOf(ks.byKind[kind], keys)})
 		}
 	}
 }
@@ -271,6 +287,17 @@ func chartEnd(m map[string]*share, keys []string, first int, title string) (int,
 		return first + maxChartBar - 1, title + " (the largest " + itoa(maxChartBar) + " of " + itoa(n) + ")"
 	}
 	return first + n - 1, title
+}
+
+// maxOf is the largest tCO2e or biogenic CO2 of the lines keys.
+func maxOf(m map[string]*share, keys []string) float64 {
+	x := 0.0
+	for _, k := range keys {
+		if s := m[k]; s != nil {
+			x = max(x, s.co2e, s.bio)
+		}
+	}
+	return x
 }
 
 // byShare orders keys by tCO2e, then fossil tCO2, largest first, then
@@ -348,7 +375,8 @@ func (res *ScanResult) writeFuelBlock(w *sumWriter) {
 			if len(quiet) > maxFuelWords {
 				text += "; and " + plural(len(quiet)-maxFuelWords, "other name")
 			}
-			w.set(cellRef(1, w.row), "not read as a fuel: "+text, 0)
+			w.set(cellRef(1, w.row), "not read as a fuel: "+text, w.wrapStyle())
+			w.tall(textLines("not read as a fuel: "+text, 44))
 			w.set(cellRef(2, w.row), "(unknown names)", 0)
 			w.set(cellRef(6, w.row), 0, w.st.int)
 			w.set(cellRef(7, w.row), quietRows, w.st.int)
@@ -361,7 +389,7 @@ func (res *ScanResult) writeFuelBlock(w *sumWriter) {
 		}
 		last, title := chartEnd(m, keys, first, title)
 		if len(w.charts) < maxCharts && last > first {
-			w.charts = append(w.charts, chartSpec{title: title, catCol: 2, valCols: vals, first: first, last: last, horizontal: true})
+			w.charts = append(w.charts, chartSpec{title: title, catCol: 2, valCols: vals, first: first, last: last, horizontal: true, maxValue: maxOf(m, keys)})
 		}
 	}
 	w.set(cellRef(1, w.row), "Rows are counted per fuel, and a row of two kinds (a fuel and its purchased energy) in each; the totals by kind above are the sums.", w.st.note)

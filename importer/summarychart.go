@@ -26,8 +26,22 @@ type chartSpec struct {
 	catCol      int
 	valCols     []int // each a series; its header (row first-1) names it
 	first, last int
-	horizontal  bool // bars across: long category names stay readable
-	maxLabel    int  // longest category label, characters
+	horizontal  bool    // bars across: long category names stay readable
+	maxLabel    int     // longest category label, characters
+	maxValue    float64 // largest value shown, t: the scale of the value axis
+}
+
+// valueAxis is the number format and title of the value axis: tonnes, or
+// thousands or millions of tonnes for large values, so that the axis
+// labels stay short.
+func (c *chartSpec) valueAxis() (numFmt, title string) {
+	switch {
+	case c.maxValue >= 1e7:
+		return `#,##0,,`, "million t"
+	case c.maxValue >= 1e4:
+		return `#,##0,`, "thousand t"
+	}
+	return "General", "t"
 }
 
 // size is the width and height of the chart, pixels: each category gets
@@ -68,6 +82,7 @@ func (c *chartSpec) add(f *excelize.File, sheet, cell string) error {
 		legend.Position = "none" // the title says what the bars are
 	}
 	gap := uint(60)
+	numFmt, unit := c.valueAxis()
 	return f.AddChart(sheet, cell, &excelize.Chart{
 		Type:      typ,
 		Series:    series,
@@ -75,8 +90,9 @@ func (c *chartSpec) add(f *excelize.File, sheet, cell string) error {
 		Legend:    legend,
 		Dimension: excelize.ChartDimension{Width: w, Height: h},
 		XAxis:     x,
-		YAxis:     excelize.ChartAxis{MajorGridLines: true, Font: axisFont(), Title: excelize.ChartTitle{Paragraph: []excelize.RichTextRun{{Text: "t", Font: &excelize.Font{Size: 9, Color: axisColor}}}}},
-		GapWidth:  &gap,
+		YAxis: excelize.ChartAxis{MajorGridLines: true, Font: axisFont(), NumFmt: excelize.ChartNumFmt{CustomNumFmt: numFmt},
+			Title: excelize.ChartTitle{Paragraph: []excelize.RichTextRun{{Text: unit, Font: &excelize.Font{Size: 9, Color: axisColor}}}}},
+		GapWidth: &gap,
 		// One colour per series: bars of one series are one thing.
 		VaryColors: boolPtr(false),
 	})

@@ -186,6 +186,13 @@ func (res *ScanResult) fuelShares() (*keyedShares, *fuelWords) {
 					}
 				}
 			}
+			if t.rowKind[i] == rowScope2 {
+				// Purchased energy named in the fuel column: its carrier,
+				// as in the totals by fuel ("Scope 2: steam").
+				if c := res.sc.rowCarrier(t, i); c != carrierNone {
+					key, unknown = c.byTotal(), false
+				}
+			}
 			for j := 0; j < n; j++ {
 				k := key
 				if buf[j].scope2Col {
