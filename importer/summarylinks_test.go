@@ -416,3 +416,42 @@ func TestCautionsFitTables(t *testing.T) {
 	must(t, err)
 	check("fuel and electricity", texts(out), []string{CautionTier1, CautionGrid, CautionRegulated}, []string{CautionLifeCycle})
 }
+
+// A sheet name with an apostrophe is quoted in the link as in a formula
+// reference ('Brae''s log'!C3), and the cell column keeps the cell as text.
+// Names are invented.
+func TestWarningLinkQuotesSheet(t *testing.T) {
+	const sheet = "Brae's log"
+	f := newBook(t, sheet)
+	setRows(t, f, sheet, 1, [][]any{
+		{"Fuel", "Quantity", "Unit"},
+		{"diesel", 1200, "L"},
+		{"diesel", 300, "furlongs"},
+	})
+	dir := t.TempDir()
+	in := save(t, f, filepath.Join(dir, "brae.xlsx"))
+	out := filepath.Join(dir, "brae.carbon.xlsx")
+	rep, err := Annotate(context.Background(), testEngine(t), in, out, Options{})
+	must(t, err)
+	at := -1
+	for i, w := range rep.Warnings {
+		if w.Sheet == sheet && w.Cell == "C3" {
+			at = i
+		}
+	}
+	if at < 0 {
+		t.Fatalf("no finding at C3: %s", listFindings(rep))
+	}
+	ref := cellRef(2, at+2)
+	g, err := excelize.OpenFile(out)
+	must(t, err)
+	defer g.Close()
+	want := "'Brae''s log'!C3"
+	if ok, target, _ := g.GetCellHyperLink(SheetWarnings, ref); !ok || target != want {
+		t.Errorf("excelize: %s links to %q, want %q", ref, target, want)
+	}
+	links, _ := openpyxlLinks(t, out)
+	if got := links[SheetWarnings+"!"+ref]; got != want {
+		t.Errorf("openpyxl: %s links to %q, want %q", ref, got, want)
+	}
+}
