@@ -418,7 +418,7 @@ func TestCautionsFitTables(t *testing.T) {
 }
 
 // A sheet name with an apostrophe is quoted in the link as in a formula
-// reference ('Brae''s log'!C3), and the cell column keeps the cell as text.
+// reference ('Brae”s log'!C3), and the cell column keeps the cell as text.
 // Names are invented.
 func TestWarningLinkQuotesSheet(t *testing.T) {
 	const sheet = "Brae's log"
