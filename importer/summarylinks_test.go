@@ -418,8 +418,8 @@ func TestCautionsFitTables(t *testing.T) {
 }
 
 // A sheet name with an apostrophe is quoted in the link as in a formula
-// reference ('Brae”s log'!C3), and the cell column keeps the cell as text.
-// Names are invented.
+// reference (the name in single quotes, its apostrophe doubled), and the
+// cell column keeps the cell as text. Names are invented.
 func TestWarningLinkQuotesSheet(t *testing.T) {
 	const sheet = "Brae's log"
 	f := newBook(t, sheet)
