@@ -113,11 +113,22 @@ func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
 		}
 		w.row = writeBuildPlanBlock(w.set, st, sci, w.row, bp)
 	}
+	// The breakdowns read every row once each: a stop is honoured between
+	// tables.
+	if err := res.sc.cancelled(); err != nil {
+		return err
+	}
 	res.writeFuelBlock(w)
 	for _, t := range res.sc.tables {
+		if err := res.sc.cancelled(); err != nil {
+			return err
+		}
 		res.writePeriodBlock(w, t)
 	}
 	for _, t := range res.sc.tables {
+		if err := res.sc.cancelled(); err != nil {
+			return err
+		}
 		res.writeGroupBlock(w, t)
 	}
 	res.writeTableList(w)
