@@ -74,8 +74,8 @@ func (sc *scanCtx) newTable(spec *tableSpec, merges []rangeRef) (*table, error) 
 		}
 	}
 	for _, c := range spec.cols {
-		if c.role != roleNone || wideBiogenic(spec, c) {
-			t.slot(c)
+		if c.role != roleNone || wideBiogenic(spec, c) || periodColumn(spec, c) {
+			t.slot(c) // a date column too, for the summary by period (summaryperiod.go)
 		}
 	}
 	if err := sc.compileRules(t); err != nil {

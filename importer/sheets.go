@@ -1,7 +1,6 @@
 package importer
 
 import (
-	"path/filepath"
 	"sort"
 	"strconv"
 	"strings"
@@ -10,202 +9,19 @@ import (
 	"github.com/xuri/excelize/v2"
 )
 
-// Cautions written to the Carbon sources sheet (and the summary).
-const (
-	CautionTier1     = "Default factors are Tier 1 estimates (IPCC 2006 defaults, US EPA Hub averages), not measurements of these fuels or plants."
-	CautionRegulated = "Regulated reporting follows the jurisdiction's rules and accredited verification: check the figures and factors before relying on them."
-)
-
 // quoteSheet writes a sheet name for a formula reference.
 func quoteSheet(s string) string { return "'" + strings.ReplaceAll(s, "'", "''") + "'" }
 
-type sumRow struct {
-	key string
-	sum
-}
-
-// sortedSums orders totals by tCO2e (then tCO2), largest first.
-func sortedSums(m map[string]*sum) []sumRow {
-	out := make([]sumRow, 0, len(m))
-	for k, s := range m {
-		out = append(out, sumRow{k, *s})
-	}
-	sort.Slice(out, func(i, j int) bool {
-		if out[i].TCO2e != out[j].TCO2e {
-			return out[i].TCO2e > out[j].TCO2e
-		}
-		if out[i].TCO2 != out[j].TCO2 {
-			return out[i].TCO2 > out[j].TCO2
-		}
-		return out[i].key < out[j].key
-	})
-	return out
-}
-
-// writeSummary writes totals by fuel and by each table's grouping column,
-// with a column chart of the totals by fuel.
-func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
-	name := SheetSummary
-	if _, err := f.NewSheet(name); err != nil {
-		return excelErr(res.Path, "sheet "+name, err)
-	}
-	var werr error
-	set := func(ref string, v any, style int) {
-		if werr != nil {
-			return
-		}
-		if s, ok := v.(string); ok {
-			werr = f.SetCellStr(name, ref, s)
-		} else {
-			werr = f.SetCellValue(name, ref, v)
-		}
-		if werr == nil && style != 0 {
-			werr = f.SetCellStyle(name, ref, ref, style)
-		}
-	}
-	rep := res.Report
-	set("A1", "Carbon summary", st.title)
-	set("A2", "Workbook: "+filepath.Base(res.Path)+"; rules: "+strings.Join(rep.Rules, "; "), st.note)
-	set("A3", CautionTier1+" "+CautionRegulated, st.note)
-	row := 5
-	header := func(first string) {
-		for i, h := range []string{first, "tCO2", "tCO2e", "rows"} {
-			set(cellRef(1+i, row), h, st.head)
-		}
-		row++
-	}
-	row, kerr := res.writeKindBlock(f, name, set, st, row)
-	if kerr != nil {
-		return excelErr(res.Path, "sheet "+name, kerr)
-	}
-	if bp := rep.BuildPlan; bp != nil {
-		// GtC and ppm of a plan are small numbers: three significant figures
-		sciFmt := "0.000E+00"
-		sci, err := f.NewStyle(&excelize.Style{CustomNumFmt: &sciFmt})
-		if err != nil {
-			return excelErr(res.Path, "sheet "+name, err)
-		}
-		row = writeBuildPlanBlock(set, st, sci, row, bp)
-	}
-
-	fuels := map[string]*sum{}
-	for _, t := range res.sc.tables {
-		for k, s := range t.byFuel {
-			a := fuels[k]
-			if a == nil {
-				a = &sum{}
-				fuels[k] = a
-			}
-			a.TCO2 += s.TCO2
-			a.TCO2e += s.TCO2e
-			a.rows += s.rows
-		}
-	}
-	set(cellRef(1, row), "By fuel (technology for build plans)", st.head)
-	row++
-	header("fuel")
-	fuelFirst := row
-	for _, s := range sortedSums(fuels) {
-		set(cellRef(1, row), s.key, 0)
-		set(cellRef(2, row), summaryValue(s.TCO2, nil), st.num)
-		set(cellRef(3, row), summaryValue(s.TCO2e, nil), st.num)
-		set(cellRef(4, row), s.rows, st.int)
-		row++
-	}
-	fuelLast := row - 1
-	row++
-	type groupBlock struct{ first, last int }
-	var groups []groupBlock
-	for _, t := range res.sc.tables {
-		if t.spec.group == nil || len(t.byGroup) == 0 {
-			continue
-		}
-		main, _ := t.baseKinds()
-		set(cellRef(1, row), "By "+t.spec.group.hdr.Text+" ("+t.spec.sheet+"!"+cellRef(t.spec.firstCol, t.spec.headerRow)+"; "+KindLabel(main)+" only)", st.head)
-		row++
-		header(strings.ToLower(t.spec.group.hdr.Text))
-		g := groupBlock{first: row}
-		for _, s := range sortedSums(t.byGroup) {
-			set(cellRef(1, row), s.key, 0)
-			set(cellRef(2, row), summaryValue(s.TCO2, nil), st.num)
-			set(cellRef(3, row), summaryValue(s.TCO2e, nil), st.num)
-			set(cellRef(4, row), s.rows, st.int)
-			row++
-		}
-		g.last = row - 1
-		groups = append(groups, g)
-		row++
-	}
-	// Every sheet and table, with what happened to it: nothing is skipped
-	// without a word.
-	set(cellRef(1, row), "Sheets and tables: what was computed, and why not", st.head)
-	row++
-	for i, h := range []string{"sheet or table", "status", "rows", "computed", "reason"} {
-		set(cellRef(1+i, row), h, st.head)
-	}
-	row++
-	for _, sh := range rep.Sheets {
-		set(cellRef(1, row), sh.Name, 0)
-		set(cellRef(2, row), sh.Status, 0)
-		set(cellRef(3, row), sh.Rows, st.int)
-		set(cellRef(4, row), sh.Computed, st.int)
-		set(cellRef(5, row), sh.Reason, 0)
-		row++
-		for _, tb := range rep.Tables {
-			if tb.Sheet != sh.Name {
-				continue
-			}
-			set(cellRef(1, row), "  table "+tb.Range+" ("+tb.Kind+")", 0)
-			set(cellRef(2, row), tb.Status, 0)
-			set(cellRef(3, row), tb.Rows, st.int)
-			set(cellRef(4, row), tb.Computed, st.int)
-			set(cellRef(5, row), tb.Reason, 0)
-			row++
-		}
-	}
-	if werr != nil {
-		return excelErr(res.Path, "sheet "+name, werr)
-	}
-	_ = f.SetColWidth(name, "A", "A", 40)
-	_ = f.SetColWidth(name, "B", "F", 14)
-	_ = f.SetColWidth(name, "G", "G", 26)
-	_ = f.SetColWidth(name, "H", "J", 16)
-	q := quoteSheet(name)
-	chart := func(cell, title string, first, last int) error {
-		if last < first {
-			return nil
-		}
-		cats := q + "!$A$" + strconv.Itoa(first) + ":$A$" + strconv.Itoa(last)
-		return f.AddChart(name, cell, &excelize.Chart{
-			Type: excelize.Col,
-			Series: []excelize.ChartSeries{
-				{Name: q + "!$B$" + strconv.Itoa(first-1), Categories: cats, Values: q + "!$B$" + strconv.Itoa(first) + ":$B$" + strconv.Itoa(last)},
-				{Name: q + "!$C$" + strconv.Itoa(first-1), Categories: cats, Values: q + "!$C$" + strconv.Itoa(first) + ":$C$" + strconv.Itoa(last)},
-			},
-			Title:     excelize.ChartTitle{Paragraph: []excelize.RichTextRun{{Text: title}}},
-			Legend:    excelize.ChartLegend{Position: "bottom"},
-			Dimension: excelize.ChartDimension{Width: 560, Height: 300},
-			YAxis:     excelize.ChartAxis{Title: excelize.ChartTitle{Paragraph: []excelize.RichTextRun{{Text: "t"}}}},
-		})
-	}
-	if err := chart("L5", "Emissions by fuel (t)", fuelFirst, fuelLast); err != nil {
-		return excelErr(res.Path, "the summary chart", err)
-	}
-	for i, g := range groups {
-		if i >= 3 {
-			break
-		}
-		if err := chart("L"+strconv.Itoa(22+18*i), "Emissions by group (t)", g.first, g.last); err != nil {
-			return excelErr(res.Path, "the summary chart", err)
-		}
-	}
-	return nil
-}
-
-// writeWarnings streams the warnings, one per row.
+// writeWarnings streams the warnings, one per row; the cell of each is a
+// link to it, and a finding in a table whose computed columns went to a side
+// sheet links to that row of the side sheet too (warnlinks.go).
 func (res *ScanResult) writeWarnings(f *excelize.File, st *styles) error {
 	name := SheetWarnings
 	if _, err := f.NewSheet(name); err != nil {
+		return excelErr(res.Path, "sheet "+name, err)
+	}
+	linkStyle, err := f.NewStyle(&excelize.Style{Font: &excelize.Font{Color: "1F5FA8", Underline: "single"}})
+	if err != nil {
 		return excelErr(res.Path, "sheet "+name, err)
 	}
 	sw, err := f.NewStreamWriter(name)
@@ -217,25 +33,47 @@ func (res *ScanResult) writeWarnings(f *excelize.File, st *styles) error {
 	_ = sw.SetColWidth(3, 3, 9)
 	_ = sw.SetColWidth(4, 4, 18)
 	_ = sw.SetColWidth(5, 5, 110)
+	_ = sw.SetColWidth(6, 6, 22)
 	_ = sw.SetPanes(&excelize.Panes{Freeze: true, YSplit: 1, TopLeftCell: "A2", ActivePane: "bottomLeft"})
 	head := []any{}
-	for _, h := range []string{"sheet", "cell", "severity", "code", "message"} {
+	for _, h := range []string{"sheet", "cell", "severity", "code", "message", "computed columns"} {
 		head = append(head, excelize.Cell{StyleID: st.head, Value: h})
 	}
 	if err := sw.SetRow("A1", head); err != nil {
 		return excelErr(res.Path, "sheet "+name, err)
 	}
-	vals := make([]any, 5)
+	links := res.newWarnLinks(f, name)
+	vals := make([]any, 6)
 	for i, w := range res.Report.Warnings {
-		vals[0], vals[1], vals[2], vals[3], vals[4] = w.Sheet, w.Cell, w.Severity, w.Code, w.Message
-		if err := sw.SetRow("A"+strconv.Itoa(i+2), vals); err != nil {
+		r := i + 2
+		cellLink, side := links.targets(w)
+		vals[0], vals[1], vals[2], vals[3], vals[4], vals[5] = w.Sheet, w.Cell, w.Severity, w.Code, w.Message, nil
+		if cellLink != "" && links.room() {
+			vals[1] = excelize.Cell{StyleID: linkStyle, Value: w.Cell}
+			links.add(cellRef(2, r), cellLink)
+		}
+		if side != "" && links.room() {
+			vals[5] = excelize.Cell{StyleID: linkStyle, Value: side}
+			links.add(cellRef(6, r), linkTarget(side))
+		}
+		if err := sw.SetRow("A"+strconv.Itoa(r), vals); err != nil {
 			return excelErr(res.Path, "sheet "+name, err)
 		}
 	}
-	if len(res.Report.Warnings) == 0 {
+	n := len(res.Report.Warnings)
+	if n == 0 {
 		if err := sw.SetRow("A2", []any{"", "", "", "", "no warnings: every unit and value was read as written"}); err != nil {
 			return excelErr(res.Path, "sheet "+name, err)
 		}
+	}
+	if links.skipped > 0 {
+		msg := "the first " + itoa(maxWarnLinks) + " links were written; the cells of the other rows are named without a link"
+		if err := sw.SetRow("A"+strconv.Itoa(n+3), []any{"", "", "", "", msg}); err != nil {
+			return excelErr(res.Path, "sheet "+name, err)
+		}
+	}
+	if links.err != nil {
+		return excelErr(res.Path, "sheet "+name, links.err)
 	}
 	if err := sw.Flush(); err != nil {
 		return excelErr(res.Path, "sheet "+name, err)
@@ -244,58 +82,48 @@ func (res *ScanResult) writeWarnings(f *excelize.File, st *styles) error {
 }
 
 // writeSources streams the provenance: cautions, rules, packs with their
-// versions, every factor used with its citation, and the notes.
+// versions, every factor used with its citation, and the notes. Long texts
+// wrap: a caution or note spans the sheet's width, a source wraps in its
+// column, and each row is as tall as its longest text needs (sourcewrap.go),
+// on screen and on a printed page (one page wide, landscape).
 func (res *ScanResult) writeSources(f *excelize.File, st *styles) error {
 	name := SheetSources
 	if _, err := f.NewSheet(name); err != nil {
 		return excelErr(res.Path, "sheet "+name, err)
 	}
-	sw, err := f.NewStreamWriter(name)
+	ww, err := newWrapWriter(f, name, st, []float64{44, 16, 14, 10, 10, 10, 10, 70})
 	if err != nil {
 		return excelErr(res.Path, "sheet "+name, err)
 	}
-	_ = sw.SetColWidth(1, 1, 42)
-	_ = sw.SetColWidth(2, 3, 16)
-	_ = sw.SetColWidth(4, 7, 11)
-	_ = sw.SetColWidth(8, 8, 70)
-	row := 1
-	var werr error
-	put := func(style int, vals ...any) {
-		if werr != nil {
-			return
-		}
-		if style != 0 {
-			for i, v := range vals {
-				vals[i] = excelize.Cell{StyleID: style, Value: v}
-			}
-		}
-		werr = sw.SetRow("A"+strconv.Itoa(row), vals)
-		row++
-	}
+	put, span := ww.put, ww.span
 	put(st.title, "Carbon sources")
-	put(0, CautionTier1)
-	put(0, CautionRegulated)
-	row++
-	put(st.head, "rule", "table", "rows computed", "of rows")
+	for _, c := range res.cautions() {
+		span(0, c)
+	}
+	ww.skip()
+	// Each table, then its rules across the sheet's width: a rule of a
+	// table of many fuel columns is long.
+	put(st.head, "table, then its rules", "rows computed", "of rows")
 	for i, t := range res.sc.tables {
 		info := res.Report.Tables[i]
+		put(0, info.Sheet+"!"+info.Range, t.computed, t.dataRows)
 		for _, r := range t.rules {
-			put(0, r.src, info.Sheet+"!"+info.Range, t.computed, t.dataRows)
+			span(0, "rule: "+r.src)
 		}
 		if len(t.rules) == 0 {
-			put(0, "(no rule: see Carbon warnings)", info.Sheet+"!"+info.Range, 0, t.dataRows)
+			span(0, "(no rule: see Carbon warnings)")
 		}
 	}
-	row++
+	ww.skip()
 	put(st.head, "factor pack", "version", "basis", "rows", "", "", "", "title")
 	for _, p := range res.Report.Packs {
 		put(0, p.Name, p.Version, p.Basis, p.Rows, "", "", "", p.Title)
 	}
-	put(0, "engine version "+res.e.Version()+"; default pack "+res.e.DefaultPackName()+"; GWP set "+funcs.DefaultGWPSet+" unless a rule names another")
+	span(0, "engine version "+res.e.Version()+"; default pack "+res.e.DefaultPackName()+"; GWP set "+funcs.DefaultGWPSet+" unless a rule names another")
 	if m := res.Report.Mapping; m != nil {
-		put(0, "tables read with the mapping "+m.Path+" (sha256 "+m.SHA256+"): header rows, roles, units and fuel names as it says")
+		span(0, "tables read with the mapping "+m.Path+" (sha256 "+m.SHA256+"): header rows, roles, units and fuel names as it says")
 	}
-	row++
+	ww.skip()
 	put(st.head, "factor", "value", "unit", "low", "high", "basis", "rows using it", "source")
 	used := append([]*funcs.Factor(nil), res.sc.usedOrd...)
 	sort.SliceStable(used, func(i, j int) bool { return used[i].Key() < used[j].Key() })
@@ -308,20 +136,20 @@ func (res *ScanResult) writeSources(f *excelize.File, st *styles) error {
 		put(0, fa.Key(), fa.Value, fa.Unit, optFloat(fa.Low), optFloat(fa.High), fa.BasisName, u.rows, src)
 	}
 	if len(used) == 0 {
-		put(0, "(no factor was used: no row was computed)")
+		span(0, "(no factor was used: no row was computed)")
 	}
-	row++
-	put(st.head, "note", "rows")
+	ww.skip()
+	put(st.head, "note", "", "", "", "", "", "", "rows")
 	for _, n := range res.sc.noteOrd {
-		put(0, n, res.sc.notes[n])
+		ww.note(n, res.sc.notes[n])
 	}
 	for _, n := range res.readingNotes() {
-		put(0, n)
+		span(0, n)
 	}
-	if werr != nil {
-		return excelErr(res.Path, "sheet "+name, werr)
+	if ww.err != nil {
+		return excelErr(res.Path, "sheet "+name, ww.err)
 	}
-	if err := sw.Flush(); err != nil {
+	if err := ww.sw.Flush(); err != nil {
 		return excelErr(res.Path, "sheet "+name, err)
 	}
 	return nil
