@@ -120,7 +120,7 @@ func TestWarningsLinkToCells(t *testing.T) {
 		if len(r) == 0 {
 			continue
 		}
-		if strings.HasSuffix(r[0], "(Fuel log!A4)") || strings.HasPrefix(r[0], "  table A4:G20") {
+		if strings.HasSuffix(r[0], "(Fuel log!A4)") || strings.HasPrefix(r[0], "  table A4:G21") {
 			headings++
 			ref := cellRef(1, i+1)
 			if ok, target, _ := g.GetCellHyperLink(SheetSummary, ref); !ok || target != "'Fuel log'!A4" {
@@ -169,7 +169,7 @@ func TestWarningsLinkToSideSheet(t *testing.T) {
 	rows, err := g.GetRows(SheetSummary)
 	must(t, err)
 	for i, r := range rows {
-		if len(r) > 6 && strings.HasPrefix(r[0], "  table A4:G20") {
+		if len(r) > 6 && strings.HasPrefix(r[0], "  table A4:G21") {
 			if ok, target, _ := g.GetCellHyperLink(SheetSummary, cellRef(7, i+1)); !ok || target != "'"+SheetColumns+"'!A4" {
 				t.Errorf("the table's computed columns %q link to %q", r[6], target)
 			}

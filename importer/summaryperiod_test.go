@@ -153,7 +153,7 @@ func TestSummaryByPeriodDemo(t *testing.T) {
 	co2eCol := colOf(t, g, sheet, hr, "tCO2e")
 	want := map[string]float64{}
 	found := map[string]int{}
-	for r := hr + 1; r <= 20; r++ {
+	for r := hr + 1; r <= 21; r++ { // the demo's 17 data rows
 		raw, err := g.GetCellValue(sheet, cellRef(1, r), excelize.Options{RawCellValue: true})
 		must(t, err)
 		label := excelDate(t, raw).Format("2006-01-02")
