@@ -81,7 +81,10 @@ func (d *detector) fleetEvidence(t *tableSpec) {
 // fleetWhy names the evidence that t is a fleet's; "" when there is none.
 func (d *detector) fleetWhy(t *tableSpec) string {
 	for _, c := range t.cols {
-		if c.st.hint.Any(tables.HintVehicle|tables.HintDistance) && c.role != roleQuantity {
+		// A column of amounts of one fuel ("Natural Gas Deliveries to
+		// Commercial Consumers (Including Vehicle Fuel...)") names vehicles
+		// among its consumers, not a fleet's records.
+		if c.st.hint.Any(tables.HintVehicle|tables.HintDistance) && c.role != roleQuantity && !c.perColumn() && c.sameAs == nil && c.partOf == nil {
 			return "the column " + quoteText(c.hdr.Text)
 		}
 	}
