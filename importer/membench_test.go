@@ -72,16 +72,21 @@ func TestMembench(t *testing.T) {
 	script, err := filepath.Abs(filepath.Join("testdata", "bench", "openpyxl_append.py"))
 	must(t, err)
 
-	var table []string
+	// The floor runs in a child of this test binary; the binary's own
+	// peak, doing nothing, is the part of the floor's that is not the
+	// floor's work.
+	idle := measure(t, 1, "idle", os.Args[0], []string{"-test.run=^TestMembenchFloor$"}, "", nil)
+	table := []string{fmt.Sprintf("| test binary, idle (part of the floor's figures) | %.2f s | %.2f s | %d MB | | | | |",
+		idle.wall.Seconds(), idle.cpu.Seconds(), idle.rssKB/1024)}
 	for _, n := range sizes {
 		in := fuelLogN(t, n)
 		label := strconv.Itoa(n/1000) + "k"
 		floor := measure(t, runs, "floor", os.Args[0], []string{"-test.run=^TestMembenchFloor$"},
-			"FLUECELL_MEMBENCH_FLOOR="+in+"|"+filepath.Join(dir, "floor.xlsx"))
+			"FLUECELL_MEMBENCH_FLOOR="+in+"|"+filepath.Join(dir, "floor.xlsx"), nil)
 		table = append(table, floor.row(label+" physical floor", floor, ""))
 
 		rep := filepath.Join(dir, "report-"+label+".json")
-		ann := measure(t, runs, "annotate", bin, []string{"annotate", in, "-o", filepath.Join(dir, "annotated-"+label+".xlsx"), "--report", rep}, "")
+		ann := measure(t, runs, "annotate", bin, []string{"annotate", in, "-o", filepath.Join(dir, "annotated-"+label+".xlsx"), "--report", rep}, "", nil)
 		layout, computed := reportLayout(t, rep)
 		if computed != n {
 			t.Errorf("%s: annotate computed %d rows, want %d", label, computed, n)
@@ -89,7 +94,7 @@ func TestMembench(t *testing.T) {
 		table = append(table, ann.row(label+" fluecell annotate", floor, "layout "+layout))
 
 		if pyMode != "0" && (n == 100_000 || pyMode == "all") {
-			py := measure(t, 1, "openpyxl", "/usr/bin/python3", []string{script, in, filepath.Join(dir, "openpyxl-"+label+".xlsx")}, "")
+			py := measure(t, 1, "openpyxl", "/usr/bin/python3", []string{script, in, filepath.Join(dir, "openpyxl-"+label+".xlsx")}, "", nil)
 			table = append(table, py.row(label+" openpyxl (load, 3 columns, save)", floor, "inline; not the carbon computation"))
 		}
 		if n == 100_000 {
@@ -100,9 +105,14 @@ func TestMembench(t *testing.T) {
 			}
 			for _, jobs := range []string{"1", "2"} {
 				out := filepath.Join(dir, "batch-out-"+jobs)
-				b := measure(t, runs, "batch", bin, []string{"batch", batchIn, out, "--jobs", jobs}, "")
+				// A fresh output folder for each run: batch would skip
+				// the outputs already there.
+				b := measure(t, runs, "batch", bin, []string{"batch", batchIn, out, "--jobs", jobs}, "",
+					func() { must(t, os.RemoveAll(out)) })
+				if got, _ := filepath.Glob(filepath.Join(out, "*.xlsx")); len(got) != 3 {
+					t.Errorf("batch --jobs %s wrote %d workbooks, want 3", jobs, len(got))
+				}
 				table = append(table, b.row("3 x 100k fluecell batch --jobs "+jobs, floor, ""))
-				must(t, os.RemoveAll(out))
 			}
 		}
 	}
@@ -141,12 +151,16 @@ func (u usage) row(name string, floor usage, note string) string {
 }
 
 // measure runs exe with args runs times under /usr/bin/time -v (env, if
-// not empty, added to ours) and returns the best times and largest peak.
-// A failing run fails t with its output.
-func measure(t *testing.T, runs int, what, exe string, args []string, env string) usage {
+// not empty, added to ours) and returns the best times and largest peak;
+// prep, if not nil, runs before each run. A failing run fails t with its
+// output.
+func measure(t *testing.T, runs int, what, exe string, args []string, env string, prep func()) usage {
 	t.Helper()
 	var u usage
 	for i := 0; i < runs; i++ {
+		if prep != nil {
+			prep()
+		}
 		cmd := exec.Command(timeBin, append([]string{"-v", exe}, args...)...)
 		cmd.Env = os.Environ()
 		if env != "" {
