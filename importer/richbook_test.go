@@ -30,7 +30,8 @@ import (
 //	          of the quantities.
 //	Notes     a rich-text inline string (A2), a formula through the
 //	          external link (B3), a plain text cell.
-//	Pivot     a pivot table (and its cache) of quantity by fuel.
+//	Pivot     a pivot table of quantity by fuel and its cache definition
+//	          (saveData false, refreshed on load: no records part).
 //
 // Workbook-level: defined names (global and sheet-local), an external link
 // part, and xl/vbaProject.bin. The vbaProject.bin is NOT a working macro
