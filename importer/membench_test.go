@@ -35,7 +35,9 @@ import (
 //	FLUECELL_MEMBENCH=1 go test ./importer -run TestMembench -v -timeout 60m
 //
 // FLUECELL_MEMBENCH_BIN=path uses a fluecell binary built elsewhere (e.g.
-// from another branch) instead of building this module's;
+// from another branch) instead of building this module's, and
+// FLUECELL_MEMBENCH_BIN=before=path1,after=path2 measures two against the
+// same floor;
 // FLUECELL_MEMBENCH_RUNS=n runs each Go program n times (default 3; the
 // best time and the largest peak are kept); FLUECELL_MEMBENCH_OPENPYXL=0
 // leaves openpyxl out (it runs once, and only on the 100k workbook unless
@@ -48,14 +50,7 @@ func TestMembench(t *testing.T) {
 		t.Fatalf("%s is missing: apt-get install -y time", timeBin)
 	}
 	dir := t.TempDir()
-	bin := os.Getenv("FLUECELL_MEMBENCH_BIN")
-	if bin == "" {
-		bin = filepath.Join(dir, "fluecell")
-		cmd := exec.Command("go", "build", "-o", bin, "github.com/fluecell/fluecell/cmd/fluecell")
-		if out, err := cmd.CombinedOutput(); err != nil {
-			t.Fatalf("go build: %v\n%s", err, out)
-		}
-	}
+	bins := membenchBins(t, dir)
 	runs := 3
 	if s := os.Getenv("FLUECELL_MEMBENCH_RUNS"); s != "" {
 		n, err := strconv.Atoi(s)
@@ -85,13 +80,15 @@ func TestMembench(t *testing.T) {
 			"FLUECELL_MEMBENCH_FLOOR="+in+"|"+filepath.Join(dir, "floor.xlsx"), nil)
 		table = append(table, floor.row(label+" physical floor", floor, ""))
 
-		rep := filepath.Join(dir, "report-"+label+".json")
-		ann := measure(t, runs, "annotate", bin, []string{"annotate", in, "-o", filepath.Join(dir, "annotated-"+label+".xlsx"), "--report", rep}, "", nil)
-		layout, computed := reportLayout(t, rep)
-		if computed != n {
-			t.Errorf("%s: annotate computed %d rows, want %d", label, computed, n)
+		for _, bin := range bins {
+			rep := filepath.Join(dir, "report-"+label+".json")
+			ann := measure(t, runs, "annotate", bin.path, []string{"annotate", in, "-o", filepath.Join(dir, "annotated-"+label+".xlsx"), "--report", rep}, "", nil)
+			layout, computed := reportLayout(t, rep)
+			if computed != n {
+				t.Errorf("%s: annotate computed %d rows, want %d", label, computed, n)
+			}
+			table = append(table, ann.row(label+" fluecell"+bin.label+" annotate", floor, "layout "+layout))
 		}
-		table = append(table, ann.row(label+" fluecell annotate", floor, "layout "+layout))
 
 		if pyMode != "0" && (n == 100_000 || pyMode == "all") {
 			py := measure(t, 1, "openpyxl", "/usr/bin/python3", []string{script, in, filepath.Join(dir, "openpyxl-"+label+".xlsx")}, "", nil)
@@ -103,21 +100,56 @@ func TestMembench(t *testing.T) {
 			for i := 1; i <= 3; i++ {
 				copyFile(t, in, filepath.Join(batchIn, "depot-"+strconv.Itoa(i)+".xlsx"))
 			}
-			for _, jobs := range []string{"1", "2"} {
-				out := filepath.Join(dir, "batch-out-"+jobs)
-				// A fresh output folder for each run: batch would skip
-				// the outputs already there.
-				b := measure(t, runs, "batch", bin, []string{"batch", batchIn, out, "--jobs", jobs}, "",
-					func() { must(t, os.RemoveAll(out)) })
-				if got, _ := filepath.Glob(filepath.Join(out, "*.xlsx")); len(got) != 3 {
-					t.Errorf("batch --jobs %s wrote %d workbooks, want 3", jobs, len(got))
+			for _, bin := range bins {
+				for _, jobs := range []string{"1", "2"} {
+					out := filepath.Join(dir, "batch-out-"+jobs)
+					// A fresh output folder for each run: batch would
+					// skip the outputs already there.
+					b := measure(t, runs, "batch", bin.path, []string{"batch", batchIn, out, "--jobs", jobs}, "",
+						func() { must(t, os.RemoveAll(out)) })
+					if got, _ := filepath.Glob(filepath.Join(out, "*.xlsx")); len(got) != 3 {
+						t.Errorf("batch --jobs %s wrote %d workbooks, want 3", jobs, len(got))
+					}
+					table = append(table, b.row("3 x 100k fluecell"+bin.label+" batch --jobs "+jobs, floor, ""))
 				}
-				table = append(table, b.row("3 x 100k fluecell batch --jobs "+jobs, floor, ""))
 			}
 		}
 	}
 	t.Logf("\n| program | wall | CPU | peak RSS | wall / floor | CPU / floor | RSS / floor | note |\n|---|---|---|---|---|---|---|---|\n%s",
 		strings.Join(table, "\n"))
+}
+
+// membenchBin is one fluecell binary to measure; label ("" or " NAME")
+// goes into the table.
+type membenchBin struct{ label, path string }
+
+// membenchBins reads FLUECELL_MEMBENCH_BIN: "" builds this module's
+// cmd/fluecell into dir; "PATH" is one binary; "NAME=PATH,NAME=PATH" are
+// several, measured one after the other against the same floor (e.g. a
+// branch before and after a change).
+func membenchBins(t *testing.T, dir string) []membenchBin {
+	t.Helper()
+	env := os.Getenv("FLUECELL_MEMBENCH_BIN")
+	if env == "" {
+		bin := filepath.Join(dir, "fluecell")
+		cmd := exec.Command("go", "build", "-o", bin, "github.com/fluecell/fluecell/cmd/fluecell")
+		if out, err := cmd.CombinedOutput(); err != nil {
+			t.Fatalf("go build: %v\n%s", err, out)
+		}
+		return []membenchBin{{"", bin}}
+	}
+	if !strings.Contains(env, "=") {
+		return []membenchBin{{"", env}}
+	}
+	var bins []membenchBin
+	for _, item := range strings.Split(env, ",") {
+		name, path, ok := strings.Cut(item, "=")
+		if !ok || name == "" || path == "" {
+			t.Fatalf("FLUECELL_MEMBENCH_BIN: %q: want PATH or NAME=PATH,NAME=PATH", item)
+		}
+		bins = append(bins, membenchBin{" " + name, path})
+	}
+	return bins
 }
 
 // TestMembenchFloor is the floor's child process of TestMembench.
