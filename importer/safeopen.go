@@ -11,6 +11,7 @@ import (
 	"sort"
 	"strings"
 
+	"github.com/fluecell/fluecell/importer/bookio"
 	"github.com/xuri/excelize/v2"
 )
 
@@ -137,7 +138,7 @@ func inflateCounting(zf *zip.File, limit int64, si, keep bool) (n, items int64, 
 		return 0, 0, nil, err
 	}
 	defer rc.Close()
-	lr := &limitedPart{r: rc, name: zf.Name, limit: limit}
+	lr := &bookio.LimitedPart{R: rc, Name: zf.Name, Limit: limit}
 	var buf bytes.Buffer
 	chunk := make([]byte, 64<<10)
 	for {
@@ -153,12 +154,12 @@ func inflateCounting(zf *zip.File, limit int64, si, keep bool) (n, items int64, 
 		}
 		if rerr != nil {
 			if strings.Contains(rerr.Error(), "zip-bomb") {
-				return lr.n, items, nil, &Error{Code: ErrTooLarge, Msg: rerr.Error()}
+				return lr.N, items, nil, &Error{Code: ErrTooLarge, Msg: rerr.Error()}
 			}
-			return lr.n, items, nil, rerr
+			return lr.N, items, nil, rerr
 		}
 	}
-	return lr.n, items, buf.Bytes(), nil
+	return lr.N, items, buf.Bytes(), nil
 }
 
 // wellFormed decodes data as excelize's XML decoder will: every token, with
