@@ -1,6 +1,7 @@
 package importer
 
 import (
+	"archive/zip"
 	"context"
 	"errors"
 	"fmt"
@@ -11,6 +12,7 @@ import (
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs"
+	"github.com/fluecell/fluecell/importer/bookio"
 )
 
 // Annotate scans the workbook (or CSV file) at inPath like Scan and writes
@@ -75,25 +77,27 @@ func Annotate(ctx context.Context, e *funcs.Engine, inPath, outPath string, opt 
 				return nil, newErr(ErrInput, inPath, "the workbook already has a sheet %q: it is an annotated output; annotate the original workbook instead", s)
 			}
 		}
-		loaded := sheetParts(readPath, lim, res.inlineSheets())
-		f := fe.takeExcelize() // opened to evaluate formulas: check it for writing too
-		if f != nil {
-			err = checkFile(readPath, lim, loaded, true)
-		} else {
-			f, err = openChecked(readPath, lim, loaded, true)
+		if f := fe.takeExcelize(); f != nil {
+			f.Close() // opened to evaluate formulas; the writing streams
 		}
-		if err != nil {
-			if f != nil {
-				f.Close()
-			}
+		if err := checkFile(readPath, lim, nil, true); err != nil {
 			err.(*Error).Path = inPath
 			return nil, err
 		}
-		defer f.Close()
 		if err := ctx.Err(); err != nil {
 			return nil, res.sc.cancelled()
 		}
-		if err := res.writeWorkbook(f, readPath); err != nil {
+		zr, err := zip.OpenReader(readPath)
+		if err != nil {
+			return nil, &Error{Code: ErrCorrupt, Path: inPath, Msg: "the workbook cannot be read as a zip: " + err.Error(), Err: err}
+		}
+		defer zr.Close()
+		b, _, err := bookio.OpenPackage(&zr.Reader, lim.maxUnzipped)
+		if err != nil {
+			return nil, bookError(inPath, err)
+		}
+		ed, err := res.writeWorkbook(b, readPath)
+		if err != nil {
 			return nil, namePart(err, readPath, inPath, lim)
 		}
 		err = writeAtomic(ctx, outPath, func(w io.Writer) (err error) {
@@ -102,12 +106,13 @@ func Annotate(ctx context.Context, e *funcs.Engine, inPath, outPath string, opt 
 					err = panicError(inPath, r)
 				}
 			}()
-			if err := f.Write(w); err != nil {
+			if err := ed.Write(w); err != nil {
 				var pe *fs.PathError
 				if errors.As(err, &pe) {
 					return err
 				}
-				return namePart(excelErr(inPath, "the annotated workbook", err), readPath, inPath, lim)
+				return &Error{Code: ErrCorrupt, Path: inPath, Err: err,
+					Msg: "cannot annotate the workbook: " + err.Error() + "; open the workbook in Excel or LibreOffice and save it again"}
 			}
 			return nil
 		})
@@ -217,16 +222,4 @@ func namePart(err error, readPath, inPath string, lim limits) error {
 		return e
 	}
 	return err
-}
-
-// inlineSheets are the sheets with a table whose computed columns go beside
-// it: excelize loads them to write into them.
-func (res *ScanResult) inlineSheets() []string {
-	var out []string
-	for _, t := range res.sc.tables {
-		if t.layout == LayoutInline && len(t.rules) > 0 && len(t.rowNums) > 0 {
-			out = append(out, t.spec.sheet)
-		}
-	}
-	return out
 }

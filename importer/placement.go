@@ -3,98 +3,98 @@ package importer
 import (
 	"archive/zip"
 	"fmt"
-	"strconv"
 	"strings"
 	"unicode/utf16"
 
-	"github.com/xuri/excelize/v2"
+	"github.com/fluecell/fluecell/importer/bookio"
 )
 
 // CodeColumnsMoved is the finding of a table whose computed columns could
 // not be written beside it: its rows reach the last columns of the sheet,
-// so the columns would cover occupied cells, or its sheet has too many
-// merged ranges to rewrite in reasonable time. They are in a side sheet
+// so the columns would cover occupied cells. They are in a side sheet
 // instead, and the table's sheet is left untouched.
 const CodeColumnsMoved = "columns-moved"
-
-// maxInlineMerges is the largest number of merged ranges of a sheet that
-// gets computed columns written into it. excelize looks through every
-// merged range on each cell it writes (measured: 40 000 ranges and a few
-// thousand rows take tens of seconds), so a sheet with more gets its
-// columns in a side sheet.
-const maxInlineMerges = 2000
 
 // lastColumn is the last column of a worksheet (XFD).
 const lastColumn = 16384
 
 // sheetOccupancy is what a sheet holds where computed columns might go: the
 // rightmost occupied column (a value or a formula) of each row asked for,
-// and the sheet's merged ranges.
+// the sheet's merged ranges, and the style of the cells asked for (the
+// header cells, the cells with findings), by row and column.
 type sheetOccupancy struct {
 	right  map[int]int
 	merges []rangeRef
+	style  map[[2]int]int
 }
 
 // readOccupancy streams the sheet named sheet of the workbook at path with
 // the package reader and records, for each row in rows, its rightmost cell
-// with a value or a formula, and the merged ranges. It honours sc's context.
-func readOccupancy(sc *scanCtx, path string, sheet string, rows map[int]bool) (*sheetOccupancy, error) {
+// with a value or a formula, the merged ranges, and the style of each cell
+// in cells (row, column) that has one. It honours sc's context.
+func readOccupancy(sc *scanCtx, path string, sheet string, rows map[int]bool, cells map[[2]int]bool) (*sheetOccupancy, error) {
 	lim := sc.lim
 	zr, err := zip.OpenReader(path)
 	if err != nil {
 		return nil, err
 	}
 	defer zr.Close()
-	b, err := openBook(&zr.Reader, lim.maxUnzipped)
+	b, _, err := bookio.OpenPackage(&zr.Reader, lim.maxUnzipped)
 	if err != nil {
 		return nil, err
 	}
-	s, ok := b.sheet(sheet)
+	s, ok := b.Sheet(sheet)
 	if !ok {
 		return nil, fmt.Errorf("no sheet %q", sheet)
 	}
-	occ := &sheetOccupancy{right: map[int]int{}}
-	if occ.merges, err = b.readMerges(s); err != nil {
-		return nil, err
-	}
-	rd, err := b.openSheet(s)
+	occ := &sheetOccupancy{right: map[int]int{}, style: map[[2]int]int{}}
+	ms, err := b.ReadMerges(s)
 	if err != nil {
 		return nil, err
 	}
-	defer rd.close()
+	for _, m := range ms {
+		occ.merges = append(occ.merges, rangeRef{m.C1, m.R1, m.C2, m.R2})
+	}
+	rd, err := b.OpenSheet(s)
+	if err != nil {
+		return nil, err
+	}
+	defer rd.Close()
+	rd.KeepStyled, rd.NoText = true, true
 	for n := 1; ; n++ {
 		if n&4095 == 0 {
 			if err := sc.cancelled(); err != nil {
 				return nil, err
 			}
 		}
-		r, ok := rd.next()
+		r, ok := rd.Next()
 		if !ok {
 			break
 		}
-		if !rows[r.num] {
+		for i := range r.Cells {
+			if c := &r.Cells[i]; c.Style != 0 && cells[[2]int{r.Num, c.Col}] {
+				occ.style[[2]int{r.Num, c.Col}] = c.Style
+			}
+		}
+		if !rows[r.Num] {
 			continue
 		}
-		for i := len(r.cells) - 1; i >= 0; i-- {
-			if c := &r.cells[i]; c.kind != kEmpty || c.formula {
-				occ.right[r.num] = max(occ.right[r.num], c.col)
+		for i := len(r.Cells) - 1; i >= 0; i-- {
+			if c := &r.Cells[i]; c.Kind != bookio.Empty || c.Formula {
+				occ.right[r.Num] = max(occ.right[r.Num], c.Col)
 				break
 			}
 		}
 	}
-	return occ, rd.err
+	return occ, rd.Err()
 }
 
 // placeInline chooses the first of the k computed columns of t in its own
 // sheet: right of the table, or right of whatever else the header row and
 // the computed rows hold, clear of merged cells. ok is false, with the
 // reason, when no such place exists: the columns would run past the last
-// column of the sheet (they are never written over an occupied cell), or
-// the sheet has more than maxInlineMerges merged ranges.
+// column of the sheet (they are never written over an occupied cell).
 func placeInline(occ *sheetOccupancy, t *table, k int) (col int, why string, ok bool) {
-	if n := len(occ.merges); n > maxInlineMerges {
-		return 0, fmt.Sprintf("its sheet has %d merged ranges, more than the %d rewritten in place", n, maxInlineMerges), false
-	}
 	used := max(t.maxUsed, t.spec.lastCol)
 	for r := range tableRows(t) {
 		used = max(used, occ.right[r])
@@ -140,7 +140,20 @@ func (res *ScanResult) occupancy(occs map[string]*sheetOccupancy, readPath, shee
 			}
 		}
 	}
-	occ, err := readOccupancy(res.sc, readPath, sheet, rows)
+	cells := map[[2]int]bool{}
+	for _, t := range res.sc.tables {
+		if t.spec.sheet == sheet {
+			cells[[2]int{t.spec.headerRow, t.spec.lastCol}] = true
+		}
+	}
+	for _, w := range res.Report.Warnings {
+		if w.Sheet == sheet {
+			if c, r, ok := parseRef(w.Cell); ok {
+				cells[[2]int{r, c}] = true
+			}
+		}
+	}
+	occ, err := readOccupancy(res.sc, readPath, sheet, rows, cells)
 	if err != nil {
 		return nil, err
 	}
@@ -169,20 +182,6 @@ func (res *ScanResult) moveToSide(i int, t *table, why, sideName string) {
 		"; computed columns are never written over the workbook's cells, and this sheet is left untouched"
 	res.Report.Warnings = append(res.Report.Warnings, Warning{Sheet: t.spec.sheet, Cell: cellRef(t.spec.firstCol, t.spec.headerRow),
 		Severity: SevInfo, Code: CodeColumnsMoved, Message: msg})
-}
-
-// rewritable reports whether excelize can write into sheet: a name Excel
-// accepts (excelize refuses to touch any other) and a part it can load
-// (column widths, merged ranges and cells it can decode). why says what
-// is wrong when it cannot.
-func rewritable(f *excelize.File, sheet string) (why string, ok bool) {
-	if why := badSheetName(sheet); why != "" {
-		return "its sheet's name " + strconv.Quote(sheet) + " " + why, false
-	}
-	if _, err := f.GetCellValue(sheet, "A1"); err != nil {
-		return "its sheet's part cannot be rewritten (" + err.Error() + ")", false
-	}
-	return "", true
 }
 
 // badSheetName says why Excel would not accept name as a sheet name ("" when

@@ -75,7 +75,9 @@ func checkPackage(zr *zip.Reader, lim limits, loaded map[string]bool, write bool
 			}
 			continue
 		}
-		keep := structural(name) && zf.UncompressedSize64 <= maxStructuralPartSize
+		// The shared strings are copied as they are into the annotated
+		// workbook: a malformed part is named now, not met by Excel.
+		keep := (structural(name) || write && kind == kindSharedStrings) && zf.UncompressedSize64 <= maxStructuralPartSize
 		n, si, data, err := inflateCounting(zf, limit, kind == kindSharedStrings, keep)
 		if err != nil {
 			var ie *Error

@@ -384,14 +384,14 @@ func cleanZero(x float64) float64 {
 	return x
 }
 
-// layoutFor decides where a table's computed columns go: beside it when its
-// sheet is small enough to rewrite, else in a side sheet.
+// layoutFor decides where a table's computed columns go: beside it, unless
+// side sheets are asked for (Options.Layout, Options.InlineMaxCells).
 func (res *ScanResult) layoutFor(t *table) string {
 	if res.csv != nil {
 		return LayoutInline
 	}
 	lim := res.sc.lim
-	if lim.inlineCells < 0 || res.sheetCells[t.spec.sheet] > lim.inlineCells {
+	if lim.layoutCells < 0 || res.sheetCells[t.spec.sheet] > lim.layoutCells {
 		return LayoutSideSheet
 	}
 	return LayoutInline

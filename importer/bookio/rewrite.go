@@ -56,7 +56,7 @@ type ColWidth struct {
 type SheetEdit struct {
 	Rows RowSource // cells to append (nil: none)
 	// Marks are the cells whose style changes, sorted by row, then
-	// column; Restyle maps a marked cell's style (0 when it has none) and
+	// column (a mark where a cell is appended is dropped); Restyle maps a marked cell's style (0 when it has none) and
 	// the mark's code to the new style.
 	Marks   []Mark
 	Restyle func(style int, code uint8) int
@@ -129,6 +129,7 @@ type rewriter struct {
 	legacy   bool // the legacy drawing is written
 	scratch  []byte
 	ops      []op
+	cur      []NewCell // the appended cells of the row being written
 }
 
 // op is one change in a row: an appended cell or a mark.
@@ -167,10 +168,12 @@ func (rw *rewriter) nextRowWork() (int, bool) {
 // rowOps gathers the work of row n into rw.ops, sorted by column.
 func (rw *rewriter) rowOps(n int) error {
 	rw.ops = rw.ops[:0]
-	var cells []NewCell
+	// The source may reuse its slice on the next call: copy.
+	rw.cur = rw.cur[:0]
 	if rw.pendOK && rw.pendRow == n {
-		cells = rw.pendCells
+		rw.cur = append(rw.cur, rw.pendCells...)
 	}
+	cells := rw.cur
 	ci := 0
 	for {
 		var mk *Mark
@@ -184,7 +187,7 @@ func (rw *rewriter) rowOps(n int) error {
 				return rw.fail("row %d: appended cells must be in increasing columns within A..XFD (column %d)", n, c.Col)
 			}
 			if mk != nil && mk.Col == c.Col {
-				return rw.fail("cell %s is both appended and marked", CellRef(c.Col, n))
+				rw.mark++ // the appended cell takes the place: its own style wins
 			}
 			rw.ops = append(rw.ops, op{col: c.Col, cell: c})
 			ci++

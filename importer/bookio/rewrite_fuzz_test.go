@@ -1,14 +1,14 @@
 package bookio
 
 import (
-	"fmt"
-	"time"
 	"archive/zip"
 	"bytes"
 	"encoding/xml"
+	"fmt"
 	"io"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/xuri/excelize/v2"
 )

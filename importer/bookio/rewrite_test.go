@@ -13,6 +13,7 @@ import (
 type rowList struct {
 	rows []rowCells
 	i    int
+	buf  []NewCell
 }
 
 type rowCells struct {
@@ -26,7 +27,8 @@ func (l *rowList) Next() (int, []NewCell, bool) {
 	}
 	r := l.rows[l.i]
 	l.i++
-	return r.row, r.cells, true
+	l.buf = append(l.buf[:0], r.cells...) // reused, as a source may
+	return r.row, l.buf, true
 }
 
 func num(col int, v float64) NewCell      { return NewCell{Col: col, Kind: NewNumber, Num: v} }

@@ -22,6 +22,14 @@ type SheetReader struct {
 	rowNum int
 	cells  []Cell
 	err    error
+
+	// KeepStyled keeps cells that hold nothing but have a style (their
+	// Style set, Kind Empty), which Next otherwise leaves out.
+	KeepStyled bool
+	// NoText leaves the text of shared strings unread (Kind Text, Text ""):
+	// for a reader that needs only where cells are, on a Book opened
+	// without its shared strings.
+	NoText bool
 }
 
 // Err is the error that ended the rows, if any.
@@ -155,7 +163,7 @@ func (s *SheetReader) readRow() bool {
 					return false
 				}
 			}
-			if c.Kind != Empty || c.Formula {
+			if c.Kind != Empty || c.Formula || s.KeepStyled && c.Style != 0 {
 				s.cells = append(s.cells, c)
 			}
 		}
@@ -273,6 +281,10 @@ func (s *SheetReader) finishCell(c *Cell, typ string, v []byte, hasV bool, inlin
 	switch typ {
 	case "s":
 		if !hasV {
+			break
+		}
+		if s.NoText {
+			c.Kind = Text
 			break
 		}
 		i, err := strconv.Atoi(string(bytes.TrimSpace(v)))
