@@ -96,10 +96,11 @@ func Annotate(ctx context.Context, e *funcs.Engine, inPath, outPath string, opt 
 		if err != nil {
 			return nil, bookError(inPath, err)
 		}
-		ed, err := res.writeWorkbook(b, readPath)
+		ed, g, err := res.writeWorkbook(b, readPath)
 		if err != nil {
 			return nil, namePart(err, readPath, inPath, lim)
 		}
+		defer g.Close()
 		err = writeAtomic(ctx, outPath, func(w io.Writer) (err error) {
 			defer func() {
 				if r := recover(); r != nil { // the temporary file is removed: an error, not a panic, leaves writeAtomic

@@ -168,37 +168,37 @@ func (res *ScanResult) markFindings(g *excelize.File, ed *bookio.Edit, work map[
 			continue
 		}
 		cells := findingCells(occ.merges, bySheet[sheet], a.cols, a.rows)
-		w.marks, w.notes = markSheet(cells, func(r, c int) int { return occ.style[[2]int{r, c}] }, fill, false)
-		w.restyle = func(old int, code uint8) int {
-			sev := sevByRank(code)
-			if id, ok := cache[fillKey{old, sev}]; ok && id >= 0 {
-				return id
-			}
-			if id := cache[fillKey{0, sev}]; id >= 0 {
-				return id // a style the occupancy did not see
-			}
-			return old
-		}
+		w.marks, w.notes = markSheet(cells, false)
+		w.restyle = restyler(fill)
 	}
 	return nil
 }
 
-// markSheet gives each cell of cells a mark (the fill of its worst
-// severity over its own style, styleOf; none where fill fails, giving -1)
-// and, unless the sheet has comments of its own, a note, for the first
-// maxCellNotes cells.
-func markSheet(cells []*cellFinding, styleOf func(row, col int) int, fill func(old int, sev string) int, ownNotes bool) ([]bookio.Mark, []bookio.Note) {
+// markSheet gives each cell of cells a mark (coded by its worst
+// severity, sevRank) and, unless the sheet has comments of its own
+// (ownNotes), a note, for the first maxCellNotes cells.
+func markSheet(cells []*cellFinding, ownNotes bool) ([]bookio.Mark, []bookio.Note) {
 	var marks []bookio.Mark
 	var notes []bookio.Note
 	for _, cf := range cells {
-		if fill(styleOf(cf.row, cf.col), cf.worst) >= 0 {
-			marks = append(marks, bookio.Mark{Row: cf.row, Col: cf.col, Code: uint8(sevRank(cf.worst))})
-		}
+		marks = append(marks, bookio.Mark{Row: cf.row, Col: cf.col, Code: uint8(sevRank(cf.worst))})
 		if !ownNotes && len(notes) < maxCellNotes {
 			notes = append(notes, bookio.Note{Col: cf.col, Row: cf.row, Text: noteText(cf.list)})
 		}
 	}
 	return marks, notes
+}
+
+// restyler is the style of a marked cell from its own style and its
+// mark's code: fill's derived style, or its own where fill fails (-1: a
+// style that cannot be read back leaves the cell unfilled).
+func restyler(fill func(old int, sev string) int) func(old int, code uint8) int {
+	return func(old int, code uint8) int {
+		if id := fill(old, sevByRank(code)); id >= 0 {
+			return id
+		}
+		return old
+	}
 }
 
 // sevByRank is the severity of a sevRank.

@@ -225,21 +225,23 @@ func TestMarkSheetBounds(t *testing.T) {
 		cache[k] = filledStyle(f, old, sevFill(sev))
 		return cache[k]
 	}
-	styleOf := func(r, c int) int {
-		if c == 1 {
-			return numStyle
-		}
-		return 0
-	}
-	marks, notes := markSheet(cells, styleOf, fill, false)
+	marks, notes := markSheet(cells, false)
 	if len(notes) != maxCellNotes || len(marks) != n+1 {
 		t.Errorf("%d notes, %d marks; want %d and %d", len(notes), len(marks), maxCellNotes, n+1)
+	}
+	restyle := restyler(fill)
+	var last int
+	for _, m := range marks {
+		old := 0
+		if m.Col == 1 {
+			old = numStyle
+		}
+		last = restyle(old, m.Code)
 	}
 	if len(cache) > 4 {
 		t.Errorf("%d derived styles for %d cells, want at most 4", len(cache), n)
 	}
-	last := marks[len(marks)-1]
-	st, err := f.GetStyle(cache[fillKey{numStyle, sevByRank(last.Code)}])
+	st, err := f.GetStyle(last)
 	must(t, err)
 	if len(st.Fill.Color) == 0 || st.Fill.Color[0] != sevFill([]string{SevError, SevWarning, SevInfo}[n%3]) || st.NumFmt != 4 {
 		t.Errorf("last cell (no comment) fill %v, number format %d", st.Fill.Color, st.NumFmt)
@@ -256,7 +258,7 @@ func TestMarkSheetBounds(t *testing.T) {
 	if !merged {
 		t.Error("the finding in the merged range C1:D2 is not at C1")
 	}
-	if _, notes := markSheet(cells, styleOf, fill, true); len(notes) != 0 {
+	if _, notes := markSheet(cells, true); len(notes) != 0 {
 		t.Errorf("a sheet with comments of its own got %d notes", len(notes))
 	}
 }

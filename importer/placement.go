@@ -19,20 +19,26 @@ const CodeColumnsMoved = "columns-moved"
 const lastColumn = 16384
 
 // sheetOccupancy is what a sheet holds where computed columns might go: the
-// rightmost occupied column (a value or a formula) of each row asked for,
-// the sheet's merged ranges, and the style of the cells asked for (the
-// header cells, the cells with findings), by row and column.
+// rightmost occupied column (a value or a formula) of each row, by row
+// number, and the sheet's merged ranges.
 type sheetOccupancy struct {
-	right  map[int]int
+	right  []uint16
 	merges []rangeRef
-	style  map[[2]int]int
+}
+
+// rightOf is the rightmost occupied column of row r (0 for none).
+func (occ *sheetOccupancy) rightOf(r int) int {
+	if r < len(occ.right) {
+		return int(occ.right[r])
+	}
+	return 0
 }
 
 // readOccupancy streams the sheet named sheet of the workbook at path with
-// the package reader and records, for each row in rows, its rightmost cell
-// with a value or a formula, the merged ranges, and the style of each cell
-// in cells (row, column) that has one. It honours sc's context.
-func readOccupancy(sc *scanCtx, path string, sheet string, rows map[int]bool, cells map[[2]int]bool) (*sheetOccupancy, error) {
+// the package reader and records the rightmost cell with a value or a
+// formula of each row, and the merged ranges: for a sheet the scan did not
+// record (sheetLayouts). It honours sc's context.
+func readOccupancy(sc *scanCtx, path string, sheet string) (*sheetOccupancy, error) {
 	lim := sc.lim
 	zr, err := zip.OpenReader(path)
 	if err != nil {
@@ -47,7 +53,7 @@ func readOccupancy(sc *scanCtx, path string, sheet string, rows map[int]bool, ce
 	if !ok {
 		return nil, fmt.Errorf("no sheet %q", sheet)
 	}
-	occ := &sheetOccupancy{right: map[int]int{}, style: map[[2]int]int{}}
+	occ := &sheetOccupancy{}
 	ms, err := b.ReadMerges(s)
 	if err != nil {
 		return nil, err
@@ -60,7 +66,7 @@ func readOccupancy(sc *scanCtx, path string, sheet string, rows map[int]bool, ce
 		return nil, err
 	}
 	defer rd.Close()
-	rd.KeepStyled, rd.NoText = true, true
+	rd.NoText = true
 	for n := 1; ; n++ {
 		if n&4095 == 0 {
 			if err := sc.cancelled(); err != nil {
@@ -71,22 +77,19 @@ func readOccupancy(sc *scanCtx, path string, sheet string, rows map[int]bool, ce
 		if !ok {
 			break
 		}
-		for i := range r.Cells {
-			if c := &r.Cells[i]; c.Style != 0 && cells[[2]int{r.Num, c.Col}] {
-				occ.style[[2]int{r.Num, c.Col}] = c.Style
-			}
-		}
-		if !rows[r.Num] {
-			continue
-		}
-		for i := len(r.Cells) - 1; i >= 0; i-- {
-			if c := &r.Cells[i]; c.Kind != bookio.Empty || c.Formula {
-				occ.right[r.Num] = max(occ.right[r.Num], c.Col)
-				break
-			}
+		if k := len(r.Cells); k > 0 {
+			occ.setRight(r.Num, r.Cells[k-1].Col)
 		}
 	}
 	return occ, rd.Err()
+}
+
+// setRight records column c as occupied in row r.
+func (occ *sheetOccupancy) setRight(r, c int) {
+	for len(occ.right) <= r {
+		occ.right = append(occ.right, 0)
+	}
+	occ.right[r] = uint16(max(int(occ.right[r]), c))
 }
 
 // placeInline chooses the first of the k computed columns of t in its own
@@ -95,9 +98,9 @@ func readOccupancy(sc *scanCtx, path string, sheet string, rows map[int]bool, ce
 // reason, when no such place exists: the columns would run past the last
 // column of the sheet (they are never written over an occupied cell).
 func placeInline(occ *sheetOccupancy, t *table, k int) (col int, why string, ok bool) {
-	used := max(t.maxUsed, t.spec.lastCol)
-	for r := range tableRows(t) {
-		used = max(used, occ.right[r])
+	used := max(t.maxUsed, t.spec.lastCol, occ.rightOf(t.spec.headerRow))
+	for _, r := range t.rowNums {
+		used = max(used, occ.rightOf(int(r)))
 	}
 	col = t.spec.lastCol + 1
 	if used > t.spec.lastCol {
@@ -121,54 +124,32 @@ func placeInline(occ *sheetOccupancy, t *table, k int) (col int, why string, ok 
 
 // take records columns up to last as occupied in the rows of t.
 func (occ *sheetOccupancy) take(t *table, last int) {
-	for r := range tableRows(t) {
-		occ.right[r] = max(occ.right[r], last)
+	occ.setRight(t.spec.headerRow, last)
+	for _, r := range t.rowNums {
+		occ.setRight(int(r), last)
 	}
 }
 
-// occupancy is the occupancy of sheet, read on first use with the rows of
-// every table on it whose columns may go beside it, and kept in occs.
+// occupancy is the occupancy of sheet, as the scan recorded it (read
+// again for a sheet it did not record), kept in occs.
 func (res *ScanResult) occupancy(occs map[string]*sheetOccupancy, readPath, sheet string) (*sheetOccupancy, error) {
 	if occ, ok := occs[sheet]; ok {
 		return occ, nil
 	}
-	rows := map[int]bool{}
-	for _, t := range res.sc.tables {
-		if t.spec.sheet == sheet && t.layout == LayoutInline {
-			for r := range tableRows(t) {
-				rows[r] = true
-			}
+	var occ *sheetOccupancy
+	if l := res.layouts; l != nil {
+		if right, ok := l.right[sheet]; ok {
+			occ = &sheetOccupancy{right: right, merges: l.merges[sheet]}
 		}
 	}
-	cells := map[[2]int]bool{}
-	for _, t := range res.sc.tables {
-		if t.spec.sheet == sheet {
-			cells[[2]int{t.spec.headerRow, t.spec.lastCol}] = true
+	if occ == nil {
+		var err error
+		if occ, err = readOccupancy(res.sc, readPath, sheet); err != nil {
+			return nil, err
 		}
-	}
-	for _, w := range res.Report.Warnings {
-		if w.Sheet == sheet {
-			if c, r, ok := parseRef(w.Cell); ok {
-				cells[[2]int{r, c}] = true
-			}
-		}
-	}
-	occ, err := readOccupancy(res.sc, readPath, sheet, rows, cells)
-	if err != nil {
-		return nil, err
 	}
 	occs[sheet] = occ
 	return occ, nil
-}
-
-// tableRows is the set of rows the computed columns of t are written in:
-// its header row and its computed rows.
-func tableRows(t *table) map[int]bool {
-	rows := map[int]bool{t.spec.headerRow: true}
-	for _, rn := range t.rowNums {
-		rows[int(rn)] = true
-	}
-	return rows
 }
 
 // moveToSide records that table i's computed columns go to a side sheet

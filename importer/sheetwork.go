@@ -21,6 +21,8 @@ type sheetWork struct {
 	marks   []bookio.Mark
 	restyle func(style int, code uint8) int
 	notes   []bookio.Note
+	// maxStyle is the number of cell formats of the workbook's own styles.
+	maxStyle int
 }
 
 // inlineCols are the computed columns of one table, from column col on.
@@ -46,7 +48,7 @@ func (w *sheetWork) plan(b *bookio.Book, ed *bookio.Edit) error {
 	if !ok || s.Part == "" {
 		return fmt.Errorf("no sheet %q", w.sheet)
 	}
-	edit := &bookio.SheetEdit{Marks: w.marks, Restyle: w.restyle, Extent: w.ext, Cols: w.cols}
+	edit := &bookio.SheetEdit{Marks: w.marks, Restyle: w.restyle, Extent: w.ext, Cols: w.cols, MaxStyle: w.maxStyle}
 	if len(w.notes) > 0 {
 		id, err := ed.AddComments(s.Part, noteAuthor, w.notes, 1000+sheetIndex(b, w.sheet))
 		if err != nil {
@@ -150,9 +152,9 @@ func (tc *tableCursor) appendCells(out []bookio.NewCell) []bookio.NewCell {
 	k := t.outCount() + 1
 	if tc.i < 0 {
 		for j := range t.outCount() {
-			out = append(out, bookio.NewCell{Col: c.col + j, Kind: bookio.NewInline, Text: t.outName(j), Style: c.head})
+			out = append(out, bookio.NewCell{Col: c.col + j, Kind: bookio.NewInline, Text: t.outName(j), Style: c.head, StyleFrom: t.spec.lastCol})
 		}
-		return append(out, bookio.NewCell{Col: c.col + k - 1, Kind: bookio.NewInline, Text: "source", Style: c.head})
+		return append(out, bookio.NewCell{Col: c.col + k - 1, Kind: bookio.NewInline, Text: "source", Style: c.head, StyleFrom: t.spec.lastCol})
 	}
 	i := tc.i
 	why := c.reason(i)

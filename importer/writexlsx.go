@@ -52,17 +52,21 @@ func newStyles(f *excelize.File) (*styles, error) {
 // into a small book of their own (addedBook) and spliced in. The edit
 // writes the package with Write; no sheet of the workbook is ever held in
 // memory.
-func (res *ScanResult) writeWorkbook(b *bookio.Book, readPath string) (*bookio.Edit, error) {
+func (res *ScanResult) writeWorkbook(b *bookio.Book, readPath string) (ed *bookio.Edit, g *excelize.File, err error) {
 	g, stylesPart, err := addedBook(b)
 	if err != nil {
-		return nil, excelErr(res.Path, "styles", err)
+		return nil, nil, excelErr(res.Path, "styles", err)
 	}
-	defer g.Close()
+	defer func() {
+		if err != nil {
+			g.Close()
+		}
+	}()
 	st, err := newStyles(g)
 	if err != nil {
-		return nil, excelErr(res.Path, "styles", err)
+		return nil, nil, excelErr(res.Path, "styles", err)
 	}
-	ed := bookio.NewEdit(b)
+	ed = bookio.NewEdit(b)
 	work := map[string]*sheetWork{} // by sheet name
 	side := 0
 	occs := map[string]*sheetOccupancy{} // per sheet, read once for all its tables
@@ -72,7 +76,7 @@ func (res *ScanResult) writeWorkbook(b *bookio.Book, readPath string) (*bookio.E
 		}
 		if i%4 == 0 {
 			if err := res.sc.cancelled(); err != nil {
-				return nil, err
+				return nil, nil, err
 			}
 		}
 		k := t.outCount() + 1
@@ -81,7 +85,7 @@ func (res *ScanResult) writeWorkbook(b *bookio.Book, readPath string) (*bookio.E
 		if t.layout == LayoutInline {
 			occ, err = res.occupancy(occs, readPath, t.spec.sheet)
 			if err != nil {
-				return nil, bookError(res.Path, err) // an *Error (cancelled) passes as it is
+				return nil, nil, bookError(res.Path, err) // an *Error (cancelled) passes as it is
 			}
 			var why string
 			var ok bool
@@ -92,11 +96,11 @@ func (res *ScanResult) writeWorkbook(b *bookio.Book, readPath string) (*bookio.E
 			}
 		}
 		if t.layout == LayoutInline {
-			res.planInline(work, occ, t, st, col)
+			res.planInline(work, t, st, col)
 		} else {
 			side++
 			if err := res.writeSide(g, t, sideSheetName(side), st); err != nil {
-				return nil, err
+				return nil, nil, err
 			}
 		}
 		first := t.outCol
@@ -107,39 +111,37 @@ func (res *ScanResult) writeWorkbook(b *bookio.Book, readPath string) (*bookio.E
 		res.Report.Tables[i].Output = t.outSheet + "!" + rangeRef{first, t.spec.headerRow, last, max(t.lastRow, t.spec.headerRow)}.String()
 	}
 	if err := res.markFindings(g, ed, work, occs); err != nil { // notes and fills at the data cells: cellnotes.go
-		return nil, err
+		return nil, nil, err
 	}
 	if err := res.writeSummary(g, st); err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	if err := res.writeWarnings(g, st); err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	if err := res.writeSources(g, st); err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	for _, w := range work {
 		if err := w.plan(b, ed); err != nil {
-			return nil, bookError(res.Path, err)
+			return nil, nil, bookError(res.Path, err)
 		}
 	}
 	buf, err := g.WriteToBuffer()
 	if err != nil {
-		return nil, excelErr(res.Path, "fluecell's sheets", err)
+		return nil, nil, excelErr(res.Path, "fluecell's sheets", err)
 	}
 	zr, err := zip.NewReader(bytes.NewReader(buf.Bytes()), int64(buf.Len()))
 	if err != nil {
-		return nil, excelErr(res.Path, "fluecell's sheets", err)
+		return nil, nil, excelErr(res.Path, "fluecell's sheets", err)
 	}
 	if err := ed.Splice(zr, map[string]bool{placeholderSheet: true}); err != nil {
-		return nil, excelErr(res.Path, "fluecell's sheets", err)
+		return nil, nil, excelErr(res.Path, "fluecell's sheets", err)
 	}
-	styles, err := addedStyles(g)
-	if err != nil {
-		return nil, excelErr(res.Path, "styles", err)
-	}
-	ed.ReplaceLate(stylesPart, func() ([]byte, error) { return styles, nil })
-	return ed, nil
+	// The styles last: the rewrites make the fills of marked cells in g
+	// as they meet the cells' own styles.
+	ed.ReplaceLate(stylesPart, func() ([]byte, error) { return addedStyles(g) })
+	return ed, g, nil
 }
 
 // sideSheetName is the name of the n-th side sheet (1-based).
@@ -152,20 +154,18 @@ func sideSheetName(n int) string {
 
 // planInline records the computed columns of t beside the table, in its
 // sheet, from column col on (see placeInline), for the sheet's rewrite.
-func (res *ScanResult) planInline(work map[string]*sheetWork, occ *sheetOccupancy, t *table, st *styles, col int) {
+func (res *ScanResult) planInline(work map[string]*sheetWork, t *table, st *styles, col int) {
 	sheet := t.spec.sheet
 	k := t.outCount() + 1
 	t.outSheet, t.outCol = sheet, col
-	head := st.head
-	if id := occ.style[[2]int{t.spec.headerRow, t.spec.lastCol}]; id > 0 && id < st.count {
-		head = id // the header's own style, when the workbook defines it
-	}
 	w := work[sheet]
 	if w == nil {
-		w = &sheetWork{sheet: sheet}
+		w = &sheetWork{sheet: sheet, maxStyle: st.count}
 		work[sheet] = w
 	}
-	w.tables = append(w.tables, &inlineCols{t: t, col: col, head: head, num: st.num, reason: res.rowReasons(t), cancelled: res.sc.cancelled})
+	// The header cells take the style of the header's last cell when it
+	// has one (StyleFrom), else fluecell's.
+	w.tables = append(w.tables, &inlineCols{t: t, col: col, head: st.head, num: st.num, reason: res.rowReasons(t), cancelled: res.sc.cancelled})
 	last := max(t.lastRow, t.spec.headerRow, int(t.rowNums[len(t.rowNums)-1]))
 	w.extent(bookio.Range{C1: col, R1: t.spec.headerRow, C2: col + k - 1, R2: last})
 	w.cols = append(w.cols, bookio.ColWidth{Min: col, Max: col + k - 2, Width: 12}, bookio.ColWidth{Min: col + k - 1, Max: col + k - 1, Width: 48})

@@ -10,8 +10,25 @@ import (
 // with the importer's names for what it reads.
 type book struct {
 	*bookio.Book
-	sheets []sheetRef
-	sst    []string
+	sheets  []sheetRef
+	sst     []string
+	layouts *sheetLayouts // when not nil, what each sheet read holds where (placement.go)
+}
+
+// sheetLayouts is recorded while the scan reads the sheets, for placing
+// the computed columns without reading the sheets again: per sheet, the
+// rightmost column with a value or formula of each row (by row number),
+// and the merged ranges.
+type sheetLayouts struct {
+	right  map[string][]uint16
+	merges map[string][]rangeRef
+}
+
+// recordLayouts has b record the layout of each sheet it reads into
+// res (see sheetLayouts).
+func (res *ScanResult) recordLayouts(b *book) {
+	b.layouts = &sheetLayouts{right: map[string][]uint16{}, merges: map[string][]rangeRef{}}
+	res.layouts = b.layouts
 }
 
 // sheetRef is one sheet of the workbook in tab order.
@@ -55,6 +72,9 @@ func (b *book) readMerges(s sheetRef) ([]rangeRef, error) {
 	out := make([]rangeRef, len(ms))
 	for i, m := range ms {
 		out[i] = rangeRef{m.C1, m.R1, m.C2, m.R2}
+	}
+	if b.layouts != nil {
+		b.layouts.merges[s.Name] = out
 	}
 	return out, nil
 }

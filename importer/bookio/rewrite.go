@@ -28,6 +28,10 @@ type NewCell struct {
 	Text  string  // NewInline
 	SST   int     // NewShared
 	Style int     // index into cellXfs; 0 writes no style
+	// StyleFrom, when not 0, is a column of the same row whose cell's
+	// style the new cell takes, when that cell comes before it in the row
+	// and has a style below SheetEdit.MaxStyle; else Style.
+	StyleFrom int
 }
 
 // RowSource gives the cells to append, one row at a time.
@@ -66,6 +70,10 @@ type SheetEdit struct {
 	// Cols are widths for new columns; a column the sheet already gives a
 	// width keeps it.
 	Cols []ColWidth
+	// MaxStyle bounds the styles StyleFrom takes from the sheet: the
+	// number of cell formats the styles part had (a cell naming one past
+	// them is malformed).
+	MaxStyle int
 	// LegacyDrawing, when not "", is the relationship id of a VML drawing
 	// (the shapes of cell comments): a <legacyDrawing> element naming it is
 	// added. The sheet must not have one already.
@@ -130,6 +138,8 @@ type rewriter struct {
 	scratch  []byte
 	ops      []op
 	cur      []NewCell // the appended cells of the row being written
+	from     []int     // columns whose style cells of the row take (StyleFrom)
+	fromSt   []int     // their styles, as met
 }
 
 // op is one change in a row: an appended cell or a mark.
@@ -168,6 +178,7 @@ func (rw *rewriter) nextRowWork() (int, bool) {
 // rowOps gathers the work of row n into rw.ops, sorted by column.
 func (rw *rewriter) rowOps(n int) error {
 	rw.ops = rw.ops[:0]
+	rw.from, rw.fromSt = rw.from[:0], rw.fromSt[:0]
 	// The source may reuse its slice on the next call: copy.
 	rw.cur = rw.cur[:0]
 	if rw.pendOK && rw.pendRow == n {
@@ -190,6 +201,10 @@ func (rw *rewriter) rowOps(n int) error {
 				rw.mark++ // the appended cell takes the place: its own style wins
 			}
 			rw.ops = append(rw.ops, op{col: c.Col, cell: c})
+			if c.StyleFrom > 0 {
+				rw.from = append(rw.from, c.StyleFrom)
+				rw.fromSt = append(rw.fromSt, -1)
+			}
 			ci++
 		case mk != nil:
 			if mk.Col < 1 || mk.Col > MaxCol || len(rw.ops) > 0 && rw.ops[len(rw.ops)-1].col >= mk.Col {

@@ -256,3 +256,17 @@ func TestRewriteRefusals(t *testing.T) {
 }
 
 func nan() float64 { var z float64; return z / z }
+
+// TestRewriteStyleFrom: a new cell takes the style of a cell of its row
+// when the workbook defines that style, else its own.
+func TestRewriteStyleFrom(t *testing.T) {
+	src := wsOpen + `<sheetData><row r="1"><c r="B1" s="5" t="s"><v>0</v></c></row><row r="2"><c r="B2" s="12"><v>1</v></c></row></sheetData></worksheet>`
+	from := func(row int) []NewCell {
+		return []NewCell{{Col: 3, Kind: NewInline, Text: "tCO2", Style: 9, StyleFrom: 2}, {Col: 4, Kind: NewInline, Text: "source", Style: 9, StyleFrom: 1}}
+	}
+	e := &SheetEdit{MaxStyle: 10, Rows: &rowList{rows: []rowCells{{1, from(1)}, {2, from(2)}, {3, from(3)}}}}
+	got := rewrite(t, src, e)
+	mustContain(t, got, `<c r="C1" s="5" t="inlineStr">`, `<c r="D1" s="9" t="inlineStr">`, // column A has no cell
+		`<c r="C2" s="9" t="inlineStr">`, // style 12 is past the workbook's 10
+		`<row r="3"><c r="C3" s="9" t="inlineStr">`)
+}

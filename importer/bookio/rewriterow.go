@@ -109,6 +109,14 @@ func (rw *rewriter) rowCells(n int) error {
 				}
 				inserted = true
 			}
+			for i, fc := range rw.from {
+				if fc == col {
+					rw.fromSt[i] = 0
+					if v, ok := RawAttr(t.Attrs, "s", false); ok {
+						rw.fromSt[i] = atoiStyle(v)
+					}
+				}
+			}
 			raw := t.Raw
 			if inserted && !hasR {
 				raw = replaceAttr(nil, raw, "r", CellRef(col, n))
@@ -196,6 +204,13 @@ func (rw *rewriter) writeOp(n int, o *op, keep int) error {
 		return rw.err
 	}
 	style := c.Style
+	if c.StyleFrom > 0 {
+		for i, fc := range rw.from {
+			if fc == c.StyleFrom && rw.fromSt[i] > 0 && rw.fromSt[i] < rw.e.MaxStyle {
+				style = rw.fromSt[i]
+			}
+		}
+	}
 	if style == 0 {
 		style = keep
 	}
