@@ -10,6 +10,8 @@ import (
 	"strconv"
 	"strings"
 	"time"
+
+	"github.com/klauspost/compress/flate"
 )
 
 // Content types and relationship types of the parts bookio adds.
@@ -187,6 +189,7 @@ func (e *Edit) HasRels(part, typ string) bool {
 func (e *Edit) Write(w io.Writer) error {
 	bw := bufio.NewWriterSize(w, 256<<10)
 	zw := zip.NewWriter(bw)
+	zw.RegisterCompressor(zip.Deflate, newDeflater)
 	edited, err := e.editedParts()
 	if err != nil {
 		return err
@@ -276,7 +279,16 @@ func (e *Edit) rewritePart(zw *zip.Writer, f *zip.File, name string) error {
 	if err != nil {
 		return err
 	}
-	return e.stream[name](fw, rc)
+	// Three stages side by side: inflating the original, the rewrite,
+	// deflating the result.
+	ra := newReadAhead(rc)
+	defer ra.Close()
+	wb := newWriteBehind(fw)
+	err = e.stream[name](wb, ra)
+	if cerr := wb.Close(); err == nil {
+		err = cerr
+	}
+	return err
 }
 
 // editedParts builds the small parts the edit changes: content types, the
@@ -532,4 +544,14 @@ func inferContentTypes(b *Book) []byte {
 	}
 	sb.WriteString(`</Types>`)
 	return []byte(sb.String())
+}
+
+// deflateLevel is the compression level of the parts bookio writes.
+const deflateLevel = 5
+
+// newDeflater is the compressor of the parts bookio writes:
+// github.com/klauspost/compress/flate, which writes the same deflate
+// format as the standard library's compress/flate, faster.
+func newDeflater(w io.Writer) (io.WriteCloser, error) {
+	return flate.NewWriter(w, deflateLevel)
 }

@@ -44,7 +44,20 @@ func (b *Book) OpenSheet(s SheetRef) (*SheetReader, error) {
 	if err != nil {
 		return nil, err
 	}
-	return &SheetReader{part: s.Part, t: NewTok(rc), rc: rc, sst: b.SST}, nil
+	// The part inflates in its own goroutine, beside the tokenizer.
+	ra := newReadAhead(rc)
+	return &SheetReader{part: s.Part, t: NewTok(ra), rc: aheadCloser{ra, rc}, sst: b.SST}, nil
+}
+
+// aheadCloser stops the read-ahead, then closes the part.
+type aheadCloser struct {
+	ra *readAhead
+	rc io.Closer
+}
+
+func (c aheadCloser) Close() error {
+	c.ra.Close()
+	return c.rc.Close()
 }
 
 // Close closes the part.
