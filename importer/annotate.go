@@ -17,9 +17,9 @@ import (
 
 // Annotate scans the workbook (or CSV file) at inPath like Scan and writes
 // outPath: the original, unchanged cell for cell, plus the computed columns
-// of each table (tCO2, tCO2e and source by default; beside the table, or in
-// a side sheet "Carbon columns" when its sheet is too large to rewrite) and
-// the sheets "Carbon summary", "Carbon warnings" and "Carbon sources". A CSV
+// of each table (tCO2, tCO2e and source by default; beside the table at
+// any size, or in a side sheet "Carbon columns" when Options.Layout asks
+// for one) and the sheets "Carbon summary", "Carbon warnings" and "Carbon sources". A CSV
 // file gives a CSV file with the computed fields appended to the table's
 // records (the warnings are in the report only). A legacy .xls workbook is
 // converted by LibreOffice (see openLegacy) and written as .xlsx: the
@@ -31,17 +31,21 @@ import (
 // .xls input). Annotate is safe for concurrent use and honours ctx until
 // the output is renamed into place. Errors are *Error (see Scan).
 //
-// Computed columns are never written over a cell of the workbook: a table
-// whose rows reach the last columns of its sheet, whose sheet has more than
-// maxInlineMerges merged ranges, a name Excel does not accept or a part
-// excelize cannot load gets them in a side sheet, with a columns-moved
-// finding. Before excelize opens the workbook, every part but the
-// worksheets is inflated and counted against the limit of its kind
-// (partLimit), the parts excelize decodes first must be well-formed, and
-// the memory excelize would hold is estimated and bounded by
-// Options.MaxUnzippedBytes (checkPackage): over a limit is ErrTooLarge, a
-// malformed part ErrCorrupt naming it. A panic inside excelize is recovered
-// into ErrCorrupt, its stack kept out of the message.
+// The workbook is written as an edit of its package (importer/bookio):
+// each sheet that gets computed columns is rewritten as a stream, the
+// cells appended to their rows and everything else of the sheet kept as it
+// was written; every part that does not change is copied as its raw
+// compressed bytes; fluecell's sheets are written by excelize into a small
+// book of their own, on the workbook's styles, and spliced in. No sheet of
+// the workbook is held in memory, whatever its size. Computed columns are
+// never written over a cell of the workbook: a table whose rows reach the
+// last columns of its sheet gets them in a side sheet, with a
+// columns-moved finding. Before the workbook is written, every part but
+// the worksheets is inflated and counted against the limit of its kind
+// (partLimit), the parts decoded whole must be well-formed (checkPackage):
+// over a limit is ErrTooLarge, a malformed part ErrCorrupt naming it. A
+// panic inside excelize is recovered into ErrCorrupt, its stack kept out of
+// the message.
 func Annotate(ctx context.Context, e *funcs.Engine, inPath, outPath string, opt Options) (rep *Report, err error) {
 	defer recoverInternal(&err, inPath)
 	defer func() {

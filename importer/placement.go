@@ -164,20 +164,3 @@ func (res *ScanResult) moveToSide(i int, t *table, why, sideName string) {
 	res.Report.Warnings = append(res.Report.Warnings, Warning{Sheet: t.spec.sheet, Cell: cellRef(t.spec.firstCol, t.spec.headerRow),
 		Severity: SevInfo, Code: CodeColumnsMoved, Message: msg})
 }
-
-// badSheetName says why Excel would not accept name as a sheet name ("" when
-// it would): blank, longer than 31 characters, with one of : \ / ? * [ ],
-// or starting or ending with an apostrophe.
-func badSheetName(name string) string {
-	switch {
-	case strings.TrimSpace(name) == "":
-		return "is blank, which Excel does not accept"
-	case len(utf16.Encode([]rune(name))) > 31:
-		return "is longer than the 31 characters Excel accepts"
-	case strings.ContainsAny(name, ":\\/?*[]"):
-		return "holds one of : \\ / ? * [ ], which Excel does not accept in a sheet name"
-	case strings.HasPrefix(name, "'") || strings.HasSuffix(name, "'"):
-		return "starts or ends with an apostrophe, which Excel does not accept"
-	}
-	return ""
-}

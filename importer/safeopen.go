@@ -355,24 +355,3 @@ func oneLineOf(r any) string {
 	}
 	return s
 }
-
-// sheetParts maps the named sheets of the workbook at path to their zip
-// paths, for checkPackage's loaded worksheets.
-func sheetParts(path string, lim limits, sheets []string) map[string]bool {
-	out := map[string]bool{}
-	zr, err := zip.OpenReader(path)
-	if err != nil {
-		return out
-	}
-	defer zr.Close()
-	b, _, err := openPackage(&zr.Reader, lim.maxUnzipped)
-	if err != nil {
-		return out
-	}
-	for _, name := range sheets {
-		if s, ok := b.sheet(name); ok && s.Part != "" {
-			out[s.Part] = true
-		}
-	}
-	return out
-}
