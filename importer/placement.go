@@ -3,8 +3,6 @@ package importer
 import (
 	"archive/zip"
 	"fmt"
-	"strings"
-	"unicode/utf16"
 
 	"github.com/fluecell/fluecell/importer/bookio"
 )
