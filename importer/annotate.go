@@ -56,6 +56,9 @@ func Annotate(ctx context.Context, e *funcs.Engine, inPath, outPath string, opt 
 	if err := checkOutPath(inPath, outPath); err != nil {
 		return nil, err
 	}
+	if l := opt.Layout; l != "" && l != LayoutInline && l != LayoutSideSheet {
+		return nil, newErr(ErrInput, inPath, "Options.Layout %q is not a layout: use %q or %q", l, LayoutInline, LayoutSideSheet)
+	}
 	lim := opt.limits()
 	conv, err := openLegacy(ctx, inPath, lim)
 	if err != nil {

@@ -121,15 +121,16 @@ func newWriteBehind(w io.Writer) *writeBehind {
 		wb.free <- make([]byte, 0, pipeBuf)
 	}
 	wb.cur = make([]byte, 0, pipeBuf)
+	full, free, errc := wb.full, wb.free, wb.errc // Close sets wb.full to nil
 	go func() {
 		var err error
-		for b := range wb.full {
+		for b := range full {
 			if err == nil {
 				_, err = w.Write(b)
 			}
-			wb.free <- b[:0]
+			free <- b[:0]
 		}
-		wb.errc <- err
+		errc <- err
 	}()
 	return wb
 }

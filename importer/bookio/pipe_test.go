@@ -64,3 +64,15 @@ func TestPipes(t *testing.T) {
 type errWriter struct{ err error }
 
 func (e errWriter) Write([]byte) (int, error) { return 0, e.err }
+
+// TestWriteBehindQuickClose: a writer closed at once, before its goroutine
+// runs, ends.
+func TestWriteBehindQuickClose(t *testing.T) {
+	for range 1000 {
+		var out bytes.Buffer
+		wb := newWriteBehind(&out)
+		if err := wb.Close(); err != nil {
+			t.Fatal(err)
+		}
+	}
+}
