@@ -1,6 +1,7 @@
 package importer
 
 import (
+	"archive/zip"
 	"context"
 	"errors"
 	"fmt"
@@ -11,13 +12,14 @@ import (
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs"
+	"github.com/fluecell/fluecell/importer/bookio"
 )
 
 // Annotate scans the workbook (or CSV file) at inPath like Scan and writes
 // outPath: the original, unchanged cell for cell, plus the computed columns
-// of each table (tCO2, tCO2e and source by default; beside the table, or in
-// a side sheet "Carbon columns" when its sheet is too large to rewrite) and
-// the sheets "Carbon summary", "Carbon warnings" and "Carbon sources". A CSV
+// of each table (tCO2, tCO2e and source by default; beside the table at
+// any size, or in a side sheet "Carbon columns" when Options.Layout asks
+// for one) and the sheets "Carbon summary", "Carbon warnings" and "Carbon sources". A CSV
 // file gives a CSV file with the computed fields appended to the table's
 // records (the warnings are in the report only). A legacy .xls workbook is
 // converted by LibreOffice (see openLegacy) and written as .xlsx: the
@@ -29,17 +31,21 @@ import (
 // .xls input). Annotate is safe for concurrent use and honours ctx until
 // the output is renamed into place. Errors are *Error (see Scan).
 //
-// Computed columns are never written over a cell of the workbook: a table
-// whose rows reach the last columns of its sheet, whose sheet has more than
-// maxInlineMerges merged ranges, a name Excel does not accept or a part
-// excelize cannot load gets them in a side sheet, with a columns-moved
-// finding. Before excelize opens the workbook, every part but the
-// worksheets is inflated and counted against the limit of its kind
-// (partLimit), the parts excelize decodes first must be well-formed, and
-// the memory excelize would hold is estimated and bounded by
-// Options.MaxUnzippedBytes (checkPackage): over a limit is ErrTooLarge, a
-// malformed part ErrCorrupt naming it. A panic inside excelize is recovered
-// into ErrCorrupt, its stack kept out of the message.
+// The workbook is written as an edit of its package (importer/bookio):
+// each sheet that gets computed columns is rewritten as a stream, the
+// cells appended to their rows and everything else of the sheet kept as it
+// was written; every part that does not change is copied as its raw
+// compressed bytes; fluecell's sheets are written by excelize into a small
+// book of their own, on the workbook's styles, and spliced in. No sheet of
+// the workbook is held in memory, whatever its size. Computed columns are
+// never written over a cell of the workbook: a table whose rows reach the
+// last columns of its sheet gets them in a side sheet, with a
+// columns-moved finding. Before the workbook is written, every part but
+// the worksheets is inflated and counted against the limit of its kind
+// (partLimit), the parts decoded whole must be well-formed (checkPackage):
+// over a limit is ErrTooLarge, a malformed part ErrCorrupt naming it. A
+// panic inside excelize is recovered into ErrCorrupt, its stack kept out of
+// the message.
 func Annotate(ctx context.Context, e *funcs.Engine, inPath, outPath string, opt Options) (rep *Report, err error) {
 	defer recoverInternal(&err, inPath)
 	defer func() {
@@ -49,6 +55,9 @@ func Annotate(ctx context.Context, e *funcs.Engine, inPath, outPath string, opt 
 	}()
 	if err := checkOutPath(inPath, outPath); err != nil {
 		return nil, err
+	}
+	if l := opt.Layout; l != "" && l != LayoutInline && l != LayoutSideSheet {
+		return nil, newErr(ErrInput, inPath, "Options.Layout %q is not a layout: use %q or %q", l, LayoutInline, LayoutSideSheet)
 	}
 	lim := opt.limits()
 	conv, err := openLegacy(ctx, inPath, lim)
@@ -75,39 +84,43 @@ func Annotate(ctx context.Context, e *funcs.Engine, inPath, outPath string, opt 
 				return nil, newErr(ErrInput, inPath, "the workbook already has a sheet %q: it is an annotated output; annotate the original workbook instead", s)
 			}
 		}
-		loaded := sheetParts(readPath, lim, res.inlineSheets())
-		f := fe.takeExcelize() // opened to evaluate formulas: check it for writing too
-		if f != nil {
-			err = checkFile(readPath, lim, loaded, true)
-		} else {
-			f, err = openChecked(readPath, lim, loaded, true)
+		if f := fe.takeExcelize(); f != nil {
+			f.Close() // opened to evaluate formulas; the writing streams
 		}
-		if err != nil {
-			if f != nil {
-				f.Close()
-			}
+		if err := checkFile(readPath, lim, nil, true); err != nil {
 			err.(*Error).Path = inPath
 			return nil, err
 		}
-		defer f.Close()
 		if err := ctx.Err(); err != nil {
 			return nil, res.sc.cancelled()
 		}
-		if err := res.writeWorkbook(f, readPath); err != nil {
+		zr, err := zip.OpenReader(readPath)
+		if err != nil {
+			return nil, &Error{Code: ErrCorrupt, Path: inPath, Msg: "the workbook cannot be read as a zip: " + err.Error(), Err: err}
+		}
+		defer zr.Close()
+		b, _, err := bookio.OpenPackage(&zr.Reader, lim.maxUnzipped)
+		if err != nil {
+			return nil, bookError(inPath, err)
+		}
+		ed, g, err := res.writeWorkbook(b, readPath)
+		if err != nil {
 			return nil, namePart(err, readPath, inPath, lim)
 		}
+		defer g.Close()
 		err = writeAtomic(ctx, outPath, func(w io.Writer) (err error) {
 			defer func() {
 				if r := recover(); r != nil { // the temporary file is removed: an error, not a panic, leaves writeAtomic
 					err = panicError(inPath, r)
 				}
 			}()
-			if err := f.Write(w); err != nil {
+			if err := ed.Write(w); err != nil {
 				var pe *fs.PathError
 				if errors.As(err, &pe) {
 					return err
 				}
-				return namePart(excelErr(inPath, "the annotated workbook", err), readPath, inPath, lim)
+				return &Error{Code: ErrCorrupt, Path: inPath, Err: err,
+					Msg: "cannot annotate the workbook: " + err.Error() + "; open the workbook in Excel or LibreOffice and save it again"}
 			}
 			return nil
 		})
@@ -217,16 +230,4 @@ func namePart(err error, readPath, inPath string, lim limits) error {
 		return e
 	}
 	return err
-}
-
-// inlineSheets are the sheets with a table whose computed columns go beside
-// it: excelize loads them to write into them.
-func (res *ScanResult) inlineSheets() []string {
-	var out []string
-	for _, t := range res.sc.tables {
-		if t.layout == LayoutInline && len(t.rules) > 0 && len(t.rowNums) > 0 {
-			out = append(out, t.spec.sheet)
-		}
-	}
-	return out
 }

@@ -1,9 +1,11 @@
 package importer
 
 import (
+	"archive/zip"
 	"bytes"
 	"context"
 	"errors"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -360,5 +362,76 @@ func TestErrorsAreTyped(t *testing.T) {
 	var ie *Error
 	if !errors.As(err, &ie) {
 		t.Fatalf("%T", err)
+	}
+}
+
+// TestAnnotateLayoutOption: Options.Layout side-sheet puts the columns in a
+// side sheet at any size and leaves the table's sheet as it was; an
+// unknown layout is refused, naming the option.
+func TestAnnotateLayoutOption(t *testing.T) {
+	dir := t.TempDir()
+	in := smallLog(t, filepath.Join(dir, "log.xlsx"))
+	e := testEngine(t)
+	rep, err := Annotate(context.Background(), e, in, filepath.Join(dir, "side.xlsx"), Options{Layout: LayoutSideSheet})
+	must(t, err)
+	if rep.Layout != LayoutSideSheet || !strings.HasPrefix(rep.Tables[0].Output, SheetColumns+"!") {
+		t.Errorf("layout %s, output %s: want the side sheet", rep.Layout, rep.Tables[0].Output)
+	}
+	before, after := partsOf(t, in), partsOf(t, filepath.Join(dir, "side.xlsx"))
+	if !bytes.Equal(before[partSheet], after[partSheet]) {
+		t.Error("the table's sheet changed with a side sheet")
+	}
+	_, err = Annotate(context.Background(), e, in, filepath.Join(dir, "bad.xlsx"), Options{Layout: "sideways"})
+	if err == nil || !strings.Contains(err.Error(), "Options.Layout") {
+		t.Errorf("err = %v, want a refusal naming Options.Layout", err)
+	}
+}
+
+// TestAnnotateRawCopy: annotating in place changes only the sheets that
+// get computed columns or marks, the styles, the workbook's sheet list,
+// relationships and content types; every other part of the input is in
+// the output with the same compressed bytes (copied raw, not inflated and
+// deflated again).
+func TestAnnotateRawCopy(t *testing.T) {
+	dir := t.TempDir()
+	in := richWorkbook(t, dir)
+	out := filepath.Join(dir, "out.xlsx")
+	_, err := Annotate(context.Background(), testEngine(t), in, out, Options{})
+	must(t, err)
+	raw := func(path string) map[string][]byte {
+		zr, err := zip.OpenReader(path)
+		must(t, err)
+		defer zr.Close()
+		m := map[string][]byte{}
+		for _, f := range zr.File {
+			rc, err := f.OpenRaw()
+			must(t, err)
+			b, err := io.ReadAll(rc)
+			must(t, err)
+			m[f.Name] = b
+		}
+		return m
+	}
+	a, b := raw(in), raw(out)
+	changed := 0
+	for name, data := range a {
+		got, ok := b[name]
+		if !ok {
+			t.Errorf("%s is missing from the output", name)
+			continue
+		}
+		if bytes.Equal(got, data) {
+			continue
+		}
+		changed++
+		switch {
+		case strings.HasPrefix(name, "xl/worksheets/sheet"), name == "xl/styles.xml", name == "xl/workbook.xml",
+			name == "[Content_Types].xml", strings.HasSuffix(name, ".rels"), strings.HasPrefix(name, "xl/comments"), strings.HasSuffix(name, ".vml"):
+		default:
+			t.Errorf("%s changed", name)
+		}
+	}
+	if changed == 0 || len(b) <= len(a) {
+		t.Errorf("%d parts changed, %d parts in, %d out: the annotation wrote nothing", changed, len(a), len(b))
 	}
 }

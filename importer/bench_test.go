@@ -147,7 +147,7 @@ func BenchmarkAnnotate100k(b *testing.B) {
 		if err != nil {
 			b.Fatal(err)
 		}
-		if rep.Computed != 100_000 || rep.Layout != LayoutSideSheet {
+		if rep.Computed != 100_000 || rep.Layout != LayoutInline {
 			b.Fatalf("computed %d rows, layout %s", rep.Computed, rep.Layout)
 		}
 	}

@@ -6,6 +6,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/fluecell/fluecell/importer/bookio"
 	"github.com/xuri/excelize/v2"
 )
 
@@ -88,16 +89,18 @@ type fillKey struct {
 	sev   string
 }
 
-// markFindings marks, in the data sheets of f, each cell with a finding of
-// the report: a comment listing the findings' severity, code and message,
-// and a light fill by the most severe one (see fillError and the others),
+// markFindings marks, in the data sheets that get computed columns in
+// place (work, with their occupancy occs), each cell with a finding of the
+// report: a comment listing the findings' severity, code and message, and
+// a light fill by the most severe one (see fillError and the others),
 // added to the cell's own style so that its value, number format, font,
-// border and alignment stay as they were.
+// border and alignment stay as they were. The styles are made in g (the
+// added book, whose styles become the workbook's); the comments are added
+// to the edit ed.
 //
 // Only sheets that hold computed columns written in place are marked: a
-// sheet whose table went to a side sheet (too large, or a part excelize
-// cannot rewrite) is left untouched, and so is every sheet with no
-// computed table. Within a marked sheet:
+// sheet whose table went to a side sheet is left untouched, and so is
+// every sheet with no computed table. Within a marked sheet:
 //   - a finding is marked only inside the area of the sheet's tables
 //     (column A to the tables' last column, row 1 to their last row),
 //     which lies within the sheet's used range; findings elsewhere are in
@@ -113,9 +116,8 @@ type fillKey struct {
 // findings add only a few styles. The new style repeats what excelize reads
 // of the old one (number format, font, border, alignment, protection); a
 // link to a named cell style ("Heading 1") is not carried over, and a
-// conditional format of the sheet still draws over the fill. Errors come from excelize and name the
-// sheet.
-func (res *ScanResult) markFindings(f *excelize.File) error {
+// conditional format of the sheet still draws over the fill.
+func (res *ScanResult) markFindings(g *excelize.File, ed *bookio.Edit, work map[string]*sheetWork, occs map[string]*sheetOccupancy) error {
 	type area struct{ cols, rows int }
 	areas := map[string]*area{}
 	side := map[string]bool{}
@@ -148,36 +150,72 @@ func (res *ScanResult) markFindings(f *excelize.File) error {
 	}
 	sort.Strings(sheets)
 	cache := map[fillKey]int{}
+	fill := func(old int, sev string) int {
+		k := fillKey{old, sev}
+		id, ok := cache[k]
+		if !ok {
+			id = filledStyle(g, old, sevFill(sev))
+			cache[k] = id
+		}
+		return id
+	}
 	for _, sheet := range sheets {
 		if err := res.sc.cancelled(); err != nil {
 			return err
 		}
-		a := areas[sheet]
-		cells, err := findingCells(f, sheet, bySheet[sheet], a.cols, a.rows)
-		if err != nil {
-			return excelErr(res.Path, "sheet "+sheet, err)
+		a, occ, w := areas[sheet], occs[sheet], work[sheet]
+		if occ == nil || w == nil {
+			continue
 		}
-		if err := markSheet(f, sheet, cells, cache); err != nil {
-			return excelErr(res.Path, "sheet "+sheet, err)
-		}
+		cells := findingCells(occ.merges, bySheet[sheet], a.cols, a.rows)
+		w.marks, w.notes = markSheet(cells, false)
+		w.restyle = restyler(fill)
 	}
 	return nil
 }
 
-// findingCells groups ws by the cell they mark, within columns 1..cols and
-// rows 1..rows, moving a cell inside a merged range to its top-left cell.
-// The cells come in row, then column order.
-func findingCells(f *excelize.File, sheet string, ws []Warning, cols, rows int) ([]*cellFinding, error) {
-	merges, err := f.GetMergeCells(sheet, true)
-	if err != nil {
-		return nil, err
-	}
-	var spans []rangeRef
-	for _, m := range merges {
-		if r, ok := parseRange(m.GetStartAxis() + ":" + m.GetEndAxis()); ok {
-			spans = append(spans, r)
+// markSheet gives each cell of cells a mark (coded by its worst
+// severity, sevRank) and, unless the sheet has comments of its own
+// (ownNotes), a note, for the first maxCellNotes cells.
+func markSheet(cells []*cellFinding, ownNotes bool) ([]bookio.Mark, []bookio.Note) {
+	var marks []bookio.Mark
+	var notes []bookio.Note
+	for _, cf := range cells {
+		marks = append(marks, bookio.Mark{Row: cf.row, Col: cf.col, Code: uint8(sevRank(cf.worst))})
+		if !ownNotes && len(notes) < maxCellNotes {
+			notes = append(notes, bookio.Note{Col: cf.col, Row: cf.row, Text: noteText(cf.list)})
 		}
 	}
+	return marks, notes
+}
+
+// restyler is the style of a marked cell from its own style and its
+// mark's code: fill's derived style, or its own where fill fails (-1: a
+// style that cannot be read back leaves the cell unfilled).
+func restyler(fill func(old int, sev string) int) func(old int, code uint8) int {
+	return func(old int, code uint8) int {
+		if id := fill(old, sevByRank(code)); id >= 0 {
+			return id
+		}
+		return old
+	}
+}
+
+// sevByRank is the severity of a sevRank.
+func sevByRank(r uint8) string {
+	switch r {
+	case 3:
+		return SevError
+	case 2:
+		return SevWarning
+	}
+	return SevInfo
+}
+
+// findingCells groups ws by the cell they mark, within columns 1..cols and
+// rows 1..rows, moving a cell inside a merged range (spans) to its
+// top-left cell. The cells come in row, then column order.
+func findingCells(spans []rangeRef, ws []Warning, cols, rows int) []*cellFinding {
 	at := map[[2]int]*cellFinding{}
 	var out []*cellFinding
 	for _, w := range ws {
@@ -208,58 +246,7 @@ func findingCells(f *excelize.File, sheet string, ws []Warning, cols, rows int) 
 		}
 		return out[i].col < out[j].col
 	})
-	return out, nil
-}
-
-// markSheet fills every cell of cells and comments on the first
-// maxCellNotes that have no comment of their own.
-func markSheet(f *excelize.File, sheet string, cells []*cellFinding, cache map[fillKey]int) error {
-	own, err := f.GetComments(sheet)
-	if err != nil {
-		return err
-	}
-	hasNote := make(map[string]bool, len(own))
-	for _, c := range own {
-		hasNote[strings.ToUpper(c.Cell)] = true
-	}
-	notes := 0
-	for _, cf := range cells {
-		ref := cellRef(cf.col, cf.row)
-		if err := fillCell(f, sheet, ref, cf.worst, cache); err != nil {
-			return err
-		}
-		if hasNote[ref] || notes >= maxCellNotes {
-			continue
-		}
-		if err := f.AddComment(sheet, excelize.Comment{Author: noteAuthor, Cell: ref, Text: noteText(cf.list),
-			Width: 300, Height: 120}); err != nil {
-			return err
-		}
-		hasNote[ref] = true
-		notes++
-	}
-	return nil
-}
-
-// fillCell gives the cell at ref the fill of sev on top of its own style.
-// A style that excelize cannot read back or rebuild (a damaged styles
-// part) leaves the cell as it is: the fill is a help, and the finding is
-// still in its comment and in Carbon warnings. Errors come from writing.
-func fillCell(f *excelize.File, sheet, ref, sev string, cache map[fillKey]int) error {
-	old, err := f.GetCellStyle(sheet, ref)
-	if err != nil {
-		return err
-	}
-	k := fillKey{old, sev}
-	id, ok := cache[k]
-	if !ok {
-		id = filledStyle(f, old, sevFill(sev))
-		cache[k] = id
-	}
-	if id < 0 {
-		return nil
-	}
-	return f.SetCellStyle(sheet, ref, ref, id)
+	return out
 }
 
 // filledStyle returns a new style: style old with the solid fill color,
@@ -409,18 +396,4 @@ func fillReasons(vals []any, why string) {
 	for j := range vals {
 		vals[j] = why
 	}
-}
-
-// writeReason writes why into the n computed cells of row from column col
-// on, when why is not "".
-func writeReason(f *excelize.File, sheet string, col, n, row int, why string) error {
-	if why == "" {
-		return nil
-	}
-	for j := range n {
-		if err := f.SetCellStr(sheet, cellRef(col+j, row), why); err != nil {
-			return err
-		}
-	}
-	return nil
 }

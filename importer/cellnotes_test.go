@@ -198,8 +198,9 @@ func TestNoteText(t *testing.T) {
 }
 
 // TestMarkSheetBounds: a sheet with more findings than maxCellNotes gets
-// that many comments and fills every cell; the cells share a few styles;
-// a finding inside a merged range marks the range's first cell.
+// that many comments and marks every cell; the cells share a few styles;
+// a finding inside a merged range marks the range's first cell, and one
+// outside the tables' area is left to Carbon warnings.
 func TestMarkSheetBounds(t *testing.T) {
 	f := excelize.NewFile()
 	defer f.Close()
@@ -207,50 +208,58 @@ func TestMarkSheetBounds(t *testing.T) {
 	n := maxCellNotes + 50
 	var ws []Warning
 	for r := 1; r <= n; r++ {
-		must(t, f.SetCellInt(sh, cellRef(1, r), int64(r)))
 		sev := []string{SevError, SevWarning, SevInfo}[r%3]
 		ws = append(ws, Warning{Sheet: sh, Cell: cellRef(1, r), Severity: sev, Code: "x", Message: "m"})
 	}
-	must(t, f.MergeCell(sh, "C1", "D2"))
 	ws = append(ws, Warning{Sheet: sh, Cell: "D2", Severity: SevWarning, Code: "y", Message: "merged"},
 		Warning{Sheet: sh, Cell: "Z9", Severity: SevError, Code: "z", Message: "outside"})
-	before, err := f.NewStyle(&excelize.Style{})
+	numStyle, err := f.NewStyle(&excelize.Style{NumFmt: 4})
 	must(t, err)
-	cells, err := findingCells(f, sh, ws, 4, n)
-	must(t, err)
+	cells := findingCells([]rangeRef{{3, 1, 4, 2}}, ws, 4, n)
 	cache := map[fillKey]int{}
-	must(t, markSheet(f, sh, cells, cache))
-	cs, err := f.GetComments(sh)
-	must(t, err)
-	if len(cs) != maxCellNotes {
-		t.Errorf("%d comments, want %d", len(cs), maxCellNotes)
+	fill := func(old int, sev string) int {
+		k := fillKey{old, sev}
+		if id, ok := cache[k]; ok {
+			return id
+		}
+		cache[k] = filledStyle(f, old, sevFill(sev))
+		return cache[k]
+	}
+	marks, notes := markSheet(cells, false)
+	if len(notes) != maxCellNotes || len(marks) != n+1 {
+		t.Errorf("%d notes, %d marks; want %d and %d", len(notes), len(marks), maxCellNotes, n+1)
+	}
+	restyle := restyler(fill)
+	var last int
+	for _, m := range marks {
+		old := 0
+		if m.Col == 1 {
+			old = numStyle
+		}
+		last = restyle(old, m.Code)
 	}
 	if len(cache) > 4 {
 		t.Errorf("%d derived styles for %d cells, want at most 4", len(cache), n)
 	}
-	after, err := f.NewStyle(&excelize.Style{Font: &excelize.Font{Italic: true}})
+	st, err := f.GetStyle(last)
 	must(t, err)
-	if after-before > 6 {
-		t.Errorf("%d styles added", after-before-1)
+	if len(st.Fill.Color) == 0 || st.Fill.Color[0] != sevFill([]string{SevError, SevWarning, SevInfo}[n%3]) || st.NumFmt != 4 {
+		t.Errorf("last cell (no comment) fill %v, number format %d", st.Fill.Color, st.NumFmt)
 	}
-	id, err := f.GetCellStyle(sh, cellRef(1, n))
-	must(t, err)
-	st, err := f.GetStyle(id)
-	must(t, err)
-	if len(st.Fill.Color) == 0 || st.Fill.Color[0] != sevFill([]string{SevError, SevWarning, SevInfo}[n%3]) {
-		t.Errorf("last cell (no comment) fill %v", st.Fill.Color)
-	}
-	id, err = f.GetCellStyle(sh, "C1")
-	must(t, err)
-	st, err = f.GetStyle(id)
-	must(t, err)
-	if len(st.Fill.Color) == 0 || st.Fill.Color[0] != fillWarning {
-		t.Errorf("merged range's first cell fill %v, want %s", st.Fill.Color, fillWarning)
-	}
-	for _, c := range cells {
-		if c.col > 4 {
-			t.Errorf("a finding outside the area was kept: %s", cellRef(c.col, c.row))
+	merged := false
+	for _, m := range marks {
+		if m.Col == 3 && m.Row == 1 && sevByRank(m.Code) == SevWarning {
+			merged = true
 		}
+		if m.Col > 4 {
+			t.Errorf("a finding outside the area was kept: %s", cellRef(m.Col, m.Row))
+		}
+	}
+	if !merged {
+		t.Error("the finding in the merged range C1:D2 is not at C1")
+	}
+	if _, notes := markSheet(cells, true); len(notes) != 0 {
+		t.Errorf("a sheet with comments of its own got %d notes", len(notes))
 	}
 }
 

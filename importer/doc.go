@@ -31,13 +31,14 @@
 // holds the problem. A row that cannot be computed gets no number.
 //
 // Writing (Annotate) keeps the original workbook cell for cell. Computed
-// columns go beside each table when its sheet has at most
-// Options.InlineMaxCells cells; a larger sheet is left untouched (excelize's
-// per-cell API would load it whole, about 800 bytes a cell) and its columns
-// are streamed into a side sheet "Carbon columns", row for row. The sheets
-// "Carbon summary", "Carbon warnings" and "Carbon sources" are added. The
-// output goes to a temporary file in its folder and is renamed; the input is
-// only read.
+// columns go beside each table, at any size: the table's sheet is
+// rewritten as a stream with the cells appended to its rows (bookio), the
+// other parts copied as they are. With Options.Layout "side-sheet" (or a
+// table whose rows reach the sheet's last columns) they are streamed into
+// a side sheet "Carbon columns", row for row, and the table's sheet is
+// left untouched. The sheets "Carbon summary", "Carbon warnings" and
+// "Carbon sources" are added. The output goes to a temporary file in its
+// folder and is renamed; the input is only read.
 //
 // Scan and Annotate keep no shared state: they are safe to call from many
 // goroutines, with one engine.

@@ -5,7 +5,6 @@ import (
 	"bytes"
 	"context"
 	"fmt"
-	"io"
 	"os"
 	"path/filepath"
 	"strings"
@@ -97,27 +96,5 @@ func TestAnnotateMemoryBudget(t *testing.T) {
 	}
 	if _, err := Annotate(context.Background(), e, path, filepath.Join(dir, "out.xlsx"), Options{}); err != nil {
 		t.Errorf("with the default budget: %v", err)
-	}
-}
-
-// TestLimitedPart: the inflated bytes of a part are counted as they come,
-// whatever the zip directory says: one byte past the limit fails, naming
-// the part, its kind and the limit.
-func TestLimitedPart(t *testing.T) {
-	lr := &limitedPart{r: bytes.NewReader(make([]byte, 5000)), name: "xl/styles.xml", limit: 4096}
-	_, err := io.Copy(io.Discard, lr)
-	if err == nil || !strings.Contains(err.Error(), "part xl/styles.xml (styles) unpacks to more than 4.0 kB") {
-		t.Fatalf("err = %v, want the styles part over 4.0 kB", err)
-	}
-	lr = &limitedPart{r: bytes.NewReader(make([]byte, 4096)), name: "xl/styles.xml", limit: 4096}
-	if _, err := io.Copy(io.Discard, lr); err != nil {
-		t.Fatalf("at the limit: %v", err)
-	}
-	for name, want := range map[string]partKind{"xl/sharedStrings.xml": kindSharedStrings, "xl/SharedStrings2.xml": kindSharedStrings,
-		"xl/styles.xml": kindStyles, "xl/worksheets/sheet9.xml": kindWorksheet, "xl/worksheets/_rels/sheet1.xml.rels": kindOther,
-		"xl/drawings/drawing1.xml": kindDrawing, "xl/charts/chart1.xml": kindDrawing, "xl/media/image1.png": kindOther} {
-		if got := kindOf(name); got != want {
-			t.Errorf("kindOf(%s) = %s, want %s", name, got, want)
-		}
 	}
 }

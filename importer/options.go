@@ -1,6 +1,10 @@
 package importer
 
-import "github.com/fluecell/fluecell/funcs"
+import (
+	"math"
+
+	"github.com/fluecell/fluecell/funcs"
+)
 
 // Options configures Scan and Annotate. The zero value is usable.
 type Options struct {
@@ -32,10 +36,18 @@ type Options struct {
 	// them. When nil, the user files are taken from e.Packs().
 	FactorFiles []string
 
-	// InlineMaxCells is the largest sheet (cells with a value or formula)
-	// that gets its computed columns written beside the table; a larger one
-	// is left untouched and the columns go to a side sheet. 0 means
-	// DefaultInlineMaxCells; a negative value always uses side sheets.
+	// Layout is where computed columns go: "" or LayoutInline, beside
+	// each table in its own sheet, at any size (a table whose columns
+	// cannot go there, its rows reaching the sheet's last columns, gets
+	// them in a side sheet with a columns-moved finding);
+	// LayoutSideSheet, always in a side sheet "Carbon columns", row for
+	// row, each table's sheet left untouched.
+	Layout string
+	// InlineMaxCells, when positive, is the largest sheet (cells with a
+	// value or formula) that gets its computed columns written beside the
+	// table; a larger one is left untouched and the columns go to a side
+	// sheet. 0 means no limit; a negative value always uses side sheets
+	// (as Layout LayoutSideSheet does).
 	InlineMaxCells int
 	// MaxUnzippedBytes bounds the total uncompressed size of a workbook
 	// (zip-bomb protection) and the size of a CSV file. 0 means
@@ -52,9 +64,11 @@ type Options struct {
 
 // Defaults of Options.
 const (
-	// DefaultInlineMaxCells: excelize's per-cell API loads a whole sheet at
-	// about 800 bytes per cell (measured), so 200 000 cells cost about
-	// 160 MB; bigger sheets are left untouched.
+	// DefaultInlineMaxCells bounds the sheets whose formulas excelize
+	// evaluates (formulaeval.go): excelize loads a whole sheet at about
+	// 800 bytes per cell (measured), so 200 000 cells cost about 160 MB.
+	// It no longer bounds where computed columns go: sheets are rewritten
+	// as streams (importer/bookio) at any size.
 	DefaultInlineMaxCells       = 200_000
 	DefaultMaxUnzippedBytes     = 1 << 30 // 1 GB
 	DefaultMaxWarningsPerColumn = 100
@@ -65,7 +79,8 @@ type limits struct {
 	maxUnzipped int64
 	maxParts    int
 	maxRatio    int
-	inlineCells int
+	inlineCells int // formulas: the sheets excelize evaluates (DefaultInlineMaxCells when not set)
+	layoutCells int // the largest sheet with computed columns in place: math.MaxInt for any, -1 for none
 	maxWarn     int
 }
 
@@ -73,6 +88,14 @@ func (o *Options) limits() limits {
 	l := limits{maxUnzipped: o.MaxUnzippedBytes, maxParts: 10_000, maxRatio: 500, inlineCells: o.InlineMaxCells, maxWarn: o.MaxWarningsPerColumn}
 	if l.maxUnzipped <= 0 {
 		l.maxUnzipped = DefaultMaxUnzippedBytes
+	}
+	switch {
+	case o.Layout == LayoutSideSheet || o.InlineMaxCells < 0:
+		l.layoutCells = -1
+	case o.InlineMaxCells > 0:
+		l.layoutCells = o.InlineMaxCells
+	default:
+		l.layoutCells = math.MaxInt
 	}
 	if l.inlineCells == 0 {
 		l.inlineCells = DefaultInlineMaxCells

@@ -3,101 +3,102 @@ package importer
 import (
 	"archive/zip"
 	"fmt"
-	"strconv"
-	"strings"
-	"unicode/utf16"
 
-	"github.com/xuri/excelize/v2"
+	"github.com/fluecell/fluecell/importer/bookio"
 )
 
 // CodeColumnsMoved is the finding of a table whose computed columns could
 // not be written beside it: its rows reach the last columns of the sheet,
-// so the columns would cover occupied cells, or its sheet has too many
-// merged ranges to rewrite in reasonable time. They are in a side sheet
+// so the columns would cover occupied cells. They are in a side sheet
 // instead, and the table's sheet is left untouched.
 const CodeColumnsMoved = "columns-moved"
-
-// maxInlineMerges is the largest number of merged ranges of a sheet that
-// gets computed columns written into it. excelize looks through every
-// merged range on each cell it writes (measured: 40 000 ranges and a few
-// thousand rows take tens of seconds), so a sheet with more gets its
-// columns in a side sheet.
-const maxInlineMerges = 2000
 
 // lastColumn is the last column of a worksheet (XFD).
 const lastColumn = 16384
 
 // sheetOccupancy is what a sheet holds where computed columns might go: the
-// rightmost occupied column (a value or a formula) of each row asked for,
-// and the sheet's merged ranges.
+// rightmost occupied column (a value or a formula) of each row, by row
+// number, and the sheet's merged ranges.
 type sheetOccupancy struct {
-	right  map[int]int
+	right  []uint16
 	merges []rangeRef
 }
 
+// rightOf is the rightmost occupied column of row r (0 for none).
+func (occ *sheetOccupancy) rightOf(r int) int {
+	if r < len(occ.right) {
+		return int(occ.right[r])
+	}
+	return 0
+}
+
 // readOccupancy streams the sheet named sheet of the workbook at path with
-// the package reader and records, for each row in rows, its rightmost cell
-// with a value or a formula, and the merged ranges. It honours sc's context.
-func readOccupancy(sc *scanCtx, path string, sheet string, rows map[int]bool) (*sheetOccupancy, error) {
+// the package reader and records the rightmost cell with a value or a
+// formula of each row, and the merged ranges: for a sheet the scan did not
+// record (sheetLayouts). It honours sc's context.
+func readOccupancy(sc *scanCtx, path string, sheet string) (*sheetOccupancy, error) {
 	lim := sc.lim
 	zr, err := zip.OpenReader(path)
 	if err != nil {
 		return nil, err
 	}
 	defer zr.Close()
-	b, err := openBook(&zr.Reader, lim.maxUnzipped)
+	b, _, err := bookio.OpenPackage(&zr.Reader, lim.maxUnzipped)
 	if err != nil {
 		return nil, err
 	}
-	s, ok := b.sheet(sheet)
+	s, ok := b.Sheet(sheet)
 	if !ok {
 		return nil, fmt.Errorf("no sheet %q", sheet)
 	}
-	occ := &sheetOccupancy{right: map[int]int{}}
-	if occ.merges, err = b.readMerges(s); err != nil {
-		return nil, err
-	}
-	rd, err := b.openSheet(s)
+	occ := &sheetOccupancy{}
+	ms, err := b.ReadMerges(s)
 	if err != nil {
 		return nil, err
 	}
-	defer rd.close()
+	for _, m := range ms {
+		occ.merges = append(occ.merges, rangeRef{m.C1, m.R1, m.C2, m.R2})
+	}
+	rd, err := b.OpenSheet(s)
+	if err != nil {
+		return nil, err
+	}
+	defer rd.Close()
+	rd.NoText = true
 	for n := 1; ; n++ {
 		if n&4095 == 0 {
 			if err := sc.cancelled(); err != nil {
 				return nil, err
 			}
 		}
-		r, ok := rd.next()
+		r, ok := rd.Next()
 		if !ok {
 			break
 		}
-		if !rows[r.num] {
-			continue
-		}
-		for i := len(r.cells) - 1; i >= 0; i-- {
-			if c := &r.cells[i]; c.kind != kEmpty || c.formula {
-				occ.right[r.num] = max(occ.right[r.num], c.col)
-				break
-			}
+		if k := len(r.Cells); k > 0 {
+			occ.setRight(r.Num, r.Cells[k-1].Col)
 		}
 	}
-	return occ, rd.err
+	return occ, rd.Err()
+}
+
+// setRight records column c as occupied in row r.
+func (occ *sheetOccupancy) setRight(r, c int) {
+	for len(occ.right) <= r {
+		occ.right = append(occ.right, 0)
+	}
+	occ.right[r] = uint16(max(int(occ.right[r]), c))
 }
 
 // placeInline chooses the first of the k computed columns of t in its own
 // sheet: right of the table, or right of whatever else the header row and
 // the computed rows hold, clear of merged cells. ok is false, with the
 // reason, when no such place exists: the columns would run past the last
-// column of the sheet (they are never written over an occupied cell), or
-// the sheet has more than maxInlineMerges merged ranges.
+// column of the sheet (they are never written over an occupied cell).
 func placeInline(occ *sheetOccupancy, t *table, k int) (col int, why string, ok bool) {
-	if n := len(occ.merges); n > maxInlineMerges {
-		return 0, fmt.Sprintf("its sheet has %d merged ranges, more than the %d rewritten in place", n, maxInlineMerges), false
-	}
-	used := max(t.maxUsed, t.spec.lastCol)
-	for r := range tableRows(t) {
-		used = max(used, occ.right[r])
+	used := max(t.maxUsed, t.spec.lastCol, occ.rightOf(t.spec.headerRow))
+	for _, r := range t.rowNums {
+		used = max(used, occ.rightOf(int(r)))
 	}
 	col = t.spec.lastCol + 1
 	if used > t.spec.lastCol {
@@ -121,41 +122,32 @@ func placeInline(occ *sheetOccupancy, t *table, k int) (col int, why string, ok 
 
 // take records columns up to last as occupied in the rows of t.
 func (occ *sheetOccupancy) take(t *table, last int) {
-	for r := range tableRows(t) {
-		occ.right[r] = max(occ.right[r], last)
+	occ.setRight(t.spec.headerRow, last)
+	for _, r := range t.rowNums {
+		occ.setRight(int(r), last)
 	}
 }
 
-// occupancy is the occupancy of sheet, read on first use with the rows of
-// every table on it whose columns may go beside it, and kept in occs.
+// occupancy is the occupancy of sheet, as the scan recorded it (read
+// again for a sheet it did not record), kept in occs.
 func (res *ScanResult) occupancy(occs map[string]*sheetOccupancy, readPath, sheet string) (*sheetOccupancy, error) {
 	if occ, ok := occs[sheet]; ok {
 		return occ, nil
 	}
-	rows := map[int]bool{}
-	for _, t := range res.sc.tables {
-		if t.spec.sheet == sheet && t.layout == LayoutInline {
-			for r := range tableRows(t) {
-				rows[r] = true
-			}
+	var occ *sheetOccupancy
+	if l := res.layouts; l != nil {
+		if right, ok := l.right[sheet]; ok {
+			occ = &sheetOccupancy{right: right, merges: l.merges[sheet]}
 		}
 	}
-	occ, err := readOccupancy(res.sc, readPath, sheet, rows)
-	if err != nil {
-		return nil, err
+	if occ == nil {
+		var err error
+		if occ, err = readOccupancy(res.sc, readPath, sheet); err != nil {
+			return nil, err
+		}
 	}
 	occs[sheet] = occ
 	return occ, nil
-}
-
-// tableRows is the set of rows the computed columns of t are written in:
-// its header row and its computed rows.
-func tableRows(t *table) map[int]bool {
-	rows := map[int]bool{t.spec.headerRow: true}
-	for _, rn := range t.rowNums {
-		rows[int(rn)] = true
-	}
-	return rows
 }
 
 // moveToSide records that table i's computed columns go to a side sheet
@@ -169,35 +161,4 @@ func (res *ScanResult) moveToSide(i int, t *table, why, sideName string) {
 		"; computed columns are never written over the workbook's cells, and this sheet is left untouched"
 	res.Report.Warnings = append(res.Report.Warnings, Warning{Sheet: t.spec.sheet, Cell: cellRef(t.spec.firstCol, t.spec.headerRow),
 		Severity: SevInfo, Code: CodeColumnsMoved, Message: msg})
-}
-
-// rewritable reports whether excelize can write into sheet: a name Excel
-// accepts (excelize refuses to touch any other) and a part it can load
-// (column widths, merged ranges and cells it can decode). why says what
-// is wrong when it cannot.
-func rewritable(f *excelize.File, sheet string) (why string, ok bool) {
-	if why := badSheetName(sheet); why != "" {
-		return "its sheet's name " + strconv.Quote(sheet) + " " + why, false
-	}
-	if _, err := f.GetCellValue(sheet, "A1"); err != nil {
-		return "its sheet's part cannot be rewritten (" + err.Error() + ")", false
-	}
-	return "", true
-}
-
-// badSheetName says why Excel would not accept name as a sheet name ("" when
-// it would): blank, longer than 31 characters, with one of : \ / ? * [ ],
-// or starting or ending with an apostrophe.
-func badSheetName(name string) string {
-	switch {
-	case strings.TrimSpace(name) == "":
-		return "is blank, which Excel does not accept"
-	case len(utf16.Encode([]rune(name))) > 31:
-		return "is longer than the 31 characters Excel accepts"
-	case strings.ContainsAny(name, ":\\/?*[]"):
-		return "holds one of : \\ / ? * [ ], which Excel does not accept in a sheet name"
-	case strings.HasPrefix(name, "'") || strings.HasSuffix(name, "'"):
-		return "starts or ends with an apostrophe, which Excel does not accept"
-	}
-	return ""
 }

@@ -74,9 +74,9 @@ func (p *provenance) noteCount(note string) {
 	p.notes[note]++
 }
 
-// srcKey identifies the factor rows behind a row's numbers (up to eight;
+// srcKey identifies the factor rows behind a row's numbers (up to sixteen:
 // longer lists are joined each time).
-type srcKey [8]*funcs.Factor
+type srcKey [16]*funcs.Factor
 
 // sourceIndex returns the index of the row's source text, building it once
 // per distinct set of factors.

@@ -11,6 +11,7 @@ import (
 	"sort"
 	"strings"
 
+	"github.com/fluecell/fluecell/importer/bookio"
 	"github.com/xuri/excelize/v2"
 )
 
@@ -74,7 +75,9 @@ func checkPackage(zr *zip.Reader, lim limits, loaded map[string]bool, write bool
 			}
 			continue
 		}
-		keep := structural(name) && zf.UncompressedSize64 <= maxStructuralPartSize
+		// The shared strings are copied as they are into the annotated
+		// workbook: a malformed part is named now, not met by Excel.
+		keep := (structural(name) || write && kind == kindSharedStrings) && zf.UncompressedSize64 <= maxStructuralPartSize
 		n, si, data, err := inflateCounting(zf, limit, kind == kindSharedStrings, keep)
 		if err != nil {
 			var ie *Error
@@ -137,7 +140,7 @@ func inflateCounting(zf *zip.File, limit int64, si, keep bool) (n, items int64, 
 		return 0, 0, nil, err
 	}
 	defer rc.Close()
-	lr := &limitedPart{r: rc, name: zf.Name, limit: limit}
+	lr := &bookio.LimitedPart{R: rc, Name: zf.Name, Limit: limit}
 	var buf bytes.Buffer
 	chunk := make([]byte, 64<<10)
 	for {
@@ -153,12 +156,12 @@ func inflateCounting(zf *zip.File, limit int64, si, keep bool) (n, items int64, 
 		}
 		if rerr != nil {
 			if strings.Contains(rerr.Error(), "zip-bomb") {
-				return lr.n, items, nil, &Error{Code: ErrTooLarge, Msg: rerr.Error()}
+				return lr.N, items, nil, &Error{Code: ErrTooLarge, Msg: rerr.Error()}
 			}
-			return lr.n, items, nil, rerr
+			return lr.N, items, nil, rerr
 		}
 	}
-	return lr.n, items, buf.Bytes(), nil
+	return lr.N, items, buf.Bytes(), nil
 }
 
 // wellFormed decodes data as excelize's XML decoder will: every token, with
@@ -351,25 +354,4 @@ func oneLineOf(r any) string {
 		s = strings.ToValidUTF8(s[:200], "") + "…"
 	}
 	return s
-}
-
-// sheetParts maps the named sheets of the workbook at path to their zip
-// paths, for checkPackage's loaded worksheets.
-func sheetParts(path string, lim limits, sheets []string) map[string]bool {
-	out := map[string]bool{}
-	zr, err := zip.OpenReader(path)
-	if err != nil {
-		return out
-	}
-	defer zr.Close()
-	b, _, err := openPackage(&zr.Reader, lim.maxUnzipped)
-	if err != nil {
-		return out
-	}
-	for _, name := range sheets {
-		if s, ok := b.sheet(name); ok && s.Part != "" {
-			out[s.Part] = true
-		}
-	}
-	return out
 }

@@ -35,6 +35,7 @@ type ScanResult struct {
 	csv        *csvInput
 	sheetCells map[string]int // cells with a value or formula, per scanned sheet
 	sheets     []string       // every sheet of the workbook, in order
+	layouts    *sheetLayouts  // where each scanned sheet's cells are (placement.go)
 }
 
 // Scan reads the workbook or CSV file at path, finds its tables, runs the
@@ -122,6 +123,7 @@ func scan(ctx context.Context, e *funcs.Engine, path string, opt Options, calc f
 	if err != nil {
 		return nil, bookError(path, err)
 	}
+	res.recordLayouts(b)
 	res.sheets = b.sheetNames()
 	var factorCSV []byte
 	if s, ok := b.sheet(SheetFactors); ok {
@@ -385,14 +387,14 @@ func cleanZero(x float64) float64 {
 	return x
 }
 
-// layoutFor decides where a table's computed columns go: beside it when its
-// sheet is small enough to rewrite, else in a side sheet.
+// layoutFor decides where a table's computed columns go: beside it, unless
+// side sheets are asked for (Options.Layout, Options.InlineMaxCells).
 func (res *ScanResult) layoutFor(t *table) string {
 	if res.csv != nil {
 		return LayoutInline
 	}
 	lim := res.sc.lim
-	if lim.inlineCells < 0 || res.sheetCells[t.spec.sheet] > lim.inlineCells {
+	if lim.layoutCells < 0 || res.sheetCells[t.spec.sheet] > lim.layoutCells {
 		return LayoutSideSheet
 	}
 	return LayoutInline

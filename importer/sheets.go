@@ -1,6 +1,7 @@
 package importer
 
 import (
+	"math"
 	"sort"
 	"strconv"
 	"strings"
@@ -174,9 +175,11 @@ func (res *ScanResult) readingNotes() []string {
 		out = append(out, "blank cells and dashes in a per-fuel or per-period column count as zero use")
 	}
 	if side {
-		why := "on sheets with more than " + strconv.Itoa(res.sc.lim.inlineCells) + " cells"
-		if res.sc.lim.inlineCells < 0 {
+		why := "where they could not go beside the table (see the " + CodeColumnsMoved + " findings)"
+		if n := res.sc.lim.layoutCells; n < 0 {
 			why = "(side sheets were asked for)"
+		} else if n < math.MaxInt {
+			why = "on sheets with more than " + strconv.Itoa(n) + " cells, or " + why
 		}
 		out = append(out, "tables "+why+" get their computed columns in a \""+SheetColumns+"\" sheet, row for row; their own sheet is left untouched")
 	}

@@ -1,9 +1,12 @@
 package importer
 
 import (
+	"archive/zip"
+	"bytes"
 	"math"
 	"strconv"
 
+	"github.com/fluecell/fluecell/importer/bookio"
 	"github.com/xuri/excelize/v2"
 )
 
@@ -41,14 +44,30 @@ func newStyles(f *excelize.File) (*styles, error) {
 	return st, nil
 }
 
-// writeWorkbook adds the computed columns and fluecell's sheets to f, which
-// holds the original workbook read from readPath (the input, or the
-// converted copy of a legacy .xls).
-func (res *ScanResult) writeWorkbook(f *excelize.File, readPath string) error {
-	st, err := newStyles(f)
+// writeWorkbook plans the annotated copy of the workbook b (read from
+// readPath: the input, or the converted copy of a legacy .xls) as an edit
+// of its package: the computed columns appended to their tables' rows by
+// a streaming rewrite of each sheet (inlineSheet), the findings marked at
+// their cells (cellnotes.go), and fluecell's sheets written with excelize
+// into a small book of their own (addedBook) and spliced in. The edit
+// writes the package with Write; no sheet of the workbook is ever held in
+// memory.
+func (res *ScanResult) writeWorkbook(b *bookio.Book, readPath string) (ed *bookio.Edit, g *excelize.File, err error) {
+	g, stylesPart, err := addedBook(b)
 	if err != nil {
-		return excelErr(res.Path, "styles", err)
+		return nil, nil, excelErr(res.Path, "styles", err)
 	}
+	defer func() {
+		if err != nil {
+			g.Close()
+		}
+	}()
+	st, err := newStyles(g)
+	if err != nil {
+		return nil, nil, excelErr(res.Path, "styles", err)
+	}
+	ed = bookio.NewEdit(b)
+	work := map[string]*sheetWork{} // by sheet name
 	side := 0
 	occs := map[string]*sheetOccupancy{} // per sheet, read once for all its tables
 	for i, t := range res.sc.tables {
@@ -57,36 +76,32 @@ func (res *ScanResult) writeWorkbook(f *excelize.File, readPath string) error {
 		}
 		if i%4 == 0 {
 			if err := res.sc.cancelled(); err != nil {
-				return err
+				return nil, nil, err
 			}
 		}
 		k := t.outCount() + 1
 		col := 0
+		var occ *sheetOccupancy
 		if t.layout == LayoutInline {
-			occ, err := res.occupancy(occs, readPath, t.spec.sheet)
+			occ, err = res.occupancy(occs, readPath, t.spec.sheet)
 			if err != nil {
-				return bookError(res.Path, err) // an *Error (cancelled) passes as it is
+				return nil, nil, bookError(res.Path, err) // an *Error (cancelled) passes as it is
 			}
 			var why string
 			var ok bool
 			if col, why, ok = placeInline(occ, t, k); ok {
-				why, ok = rewritable(f, t.spec.sheet)
-			}
-			if ok {
 				occ.take(t, col+k-1) // a table beside this one, in the same rows, goes further right
-			}
-			if !ok {
+			} else {
 				res.moveToSide(i, t, why, sideSheetName(side+1))
 			}
 		}
 		if t.layout == LayoutInline {
-			err = res.writeInline(f, t, st, col)
+			res.planInline(work, t, st, col)
 		} else {
 			side++
-			err = res.writeSide(f, t, sideSheetName(side), st)
-		}
-		if err != nil {
-			return err
+			if err := res.writeSide(g, t, sideSheetName(side), st); err != nil {
+				return nil, nil, err
+			}
 		}
 		first := t.outCol
 		last := first + k - 1
@@ -95,16 +110,38 @@ func (res *ScanResult) writeWorkbook(f *excelize.File, readPath string) error {
 		}
 		res.Report.Tables[i].Output = t.outSheet + "!" + rangeRef{first, t.spec.headerRow, last, max(t.lastRow, t.spec.headerRow)}.String()
 	}
-	if err := res.markFindings(f); err != nil { // notes and fills at the data cells: cellnotes.go
-		return err
+	if err := res.markFindings(g, ed, work, occs); err != nil { // notes and fills at the data cells: cellnotes.go
+		return nil, nil, err
 	}
-	if err := res.writeSummary(f, st); err != nil {
-		return err
+	if err := res.writeSummary(g, st); err != nil {
+		return nil, nil, err
 	}
-	if err := res.writeWarnings(f, st); err != nil {
-		return err
+	if err := res.writeWarnings(g, st); err != nil {
+		return nil, nil, err
 	}
-	return res.writeSources(f, st)
+	if err := res.writeSources(g, st); err != nil {
+		return nil, nil, err
+	}
+	for _, w := range work {
+		if err := w.plan(b, ed); err != nil {
+			return nil, nil, bookError(res.Path, err)
+		}
+	}
+	buf, err := g.WriteToBuffer()
+	if err != nil {
+		return nil, nil, excelErr(res.Path, "fluecell's sheets", err)
+	}
+	zr, err := zip.NewReader(bytes.NewReader(buf.Bytes()), int64(buf.Len()))
+	if err != nil {
+		return nil, nil, excelErr(res.Path, "fluecell's sheets", err)
+	}
+	if err := ed.Splice(zr, map[string]bool{placeholderSheet: true}); err != nil {
+		return nil, nil, excelErr(res.Path, "fluecell's sheets", err)
+	}
+	// The styles last: the rewrites make the fills of marked cells in g
+	// as they meet the cells' own styles.
+	ed.ReplaceLate(stylesPart, func() ([]byte, error) { return addedStyles(g) })
+	return ed, g, nil
 }
 
 // sideSheetName is the name of the n-th side sheet (1-based).
@@ -115,59 +152,23 @@ func sideSheetName(n int) string {
 	return SheetColumns
 }
 
-// writeInline writes the computed columns beside the table, in its sheet,
-// from column col on (see placeInline).
-func (res *ScanResult) writeInline(f *excelize.File, t *table, st *styles, col int) error {
+// planInline records the computed columns of t beside the table, in its
+// sheet, from column col on (see placeInline), for the sheet's rewrite.
+func (res *ScanResult) planInline(work map[string]*sheetWork, t *table, st *styles, col int) {
 	sheet := t.spec.sheet
 	k := t.outCount() + 1
 	t.outSheet, t.outCol = sheet, col
-	hr := t.spec.headerRow
-	head := st.head
-	if id, err := f.GetCellStyle(sheet, cellRef(t.spec.lastCol, hr)); err == nil && id > 0 && id < st.count {
-		head = id // the header's own style, when the workbook defines it
+	w := work[sheet]
+	if w == nil {
+		w = &sheetWork{sheet: sheet, maxStyle: st.count}
+		work[sheet] = w
 	}
-	for j := range t.outCount() {
-		if err := f.SetCellStr(sheet, cellRef(col+j, hr), t.outName(j)); err != nil {
-			return excelErr(res.Path, "sheet "+sheet, err)
-		}
-	}
-	if err := f.SetCellStr(sheet, cellRef(col+k-1, hr), "source"); err != nil {
-		return excelErr(res.Path, "sheet "+sheet, err)
-	}
-	if err := f.SetCellStyle(sheet, cellRef(col, hr), cellRef(col+k-1, hr), head); err != nil {
-		return excelErr(res.Path, "sheet "+sheet, err)
-	}
-	reason := res.rowReasons(t) // a row with no number says why (cellnotes.go)
-	for i, rn := range t.rowNums {
-		if i&4095 == 0 {
-			if err := res.sc.cancelled(); err != nil {
-				return err
-			}
-		}
-		r := int(rn)
-		for j := range t.outCount() {
-			if v := t.outValue(j, i); !math.IsNaN(v) {
-				if err := f.SetCellFloat(sheet, cellRef(col+j, r), v, -1, 64); err != nil {
-					return excelErr(res.Path, "sheet "+sheet, err)
-				}
-			}
-		}
-		if err := writeReason(f, sheet, col, k-1, r, reason(i)); err != nil {
-			return excelErr(res.Path, "sheet "+sheet, err)
-		}
-		if s := t.src[i]; s >= 0 {
-			if err := f.SetCellStr(sheet, cellRef(col+k-1, r), t.srcText[s]); err != nil {
-				return excelErr(res.Path, "sheet "+sheet, err)
-			}
-		}
-	}
-	first, last := int(t.rowNums[0]), int(t.rowNums[len(t.rowNums)-1])
-	if err := f.SetCellStyle(sheet, cellRef(col, first), cellRef(col+k-2, last), st.num); err != nil {
-		return excelErr(res.Path, "sheet "+sheet, err)
-	}
-	_ = f.SetColWidth(sheet, colName(col), colName(col+k-2), 12)
-	_ = f.SetColWidth(sheet, colName(col+k-1), colName(col+k-1), 48)
-	return nil
+	// The header cells take the style of the header's last cell when it
+	// has one (StyleFrom), else fluecell's.
+	w.tables = append(w.tables, &inlineCols{t: t, col: col, head: st.head, num: st.num, reason: res.rowReasons(t), cancelled: res.sc.cancelled})
+	last := max(t.lastRow, t.spec.headerRow, int(t.rowNums[len(t.rowNums)-1]))
+	w.extent(bookio.Range{C1: col, R1: t.spec.headerRow, C2: col + k - 1, R2: last})
+	w.cols = append(w.cols, bookio.ColWidth{Min: col, Max: col + k - 2, Width: 12}, bookio.ColWidth{Min: col + k - 1, Max: col + k - 1, Width: 48})
 }
 
 // writeSide streams the computed columns into a new sheet, row for row

@@ -23,7 +23,7 @@ import (
 const exitFailOn = 3
 
 func cmdAnnotate(ctx context.Context, s stdio, args []string) int {
-	fs := newFlags("annotate", "annotate IN.xlsx|IN.xlsm|IN.xls|IN.csv [-o OUT] [--rule 'COLUMN = EXPR']... [--sheet S] [--report R.json] [--pack P] [--grid G] [--factors F]... [--fail-on warning|error] [--uncertainty approach1|approach2 [--seed N] [--draws N]]", s.err, true)
+	fs := newFlags("annotate", "annotate IN.xlsx|IN.xlsm|IN.xls|IN.csv [-o OUT] [--rule 'COLUMN = EXPR']... [--sheet S] [--report R.json] [--pack P] [--grid G] [--factors F]... [--layout inline|side] [--fail-on warning|error] [--uncertainty approach1|approach2 [--seed N] [--draws N]]", s.err, true)
 	out := fs.String("o", "", "write the annotated workbook to `OUT` (default: IN with .carbon before the extension; a legacy .xls, read through LibreOffice, gives .carbon.xlsx)")
 	report := fs.String("report", "", "also write the report as JSON to `R.json` (- for standard output)")
 	failOn := fs.String("fail-on", "", "exit with code 3 when a finding of this `severity` or worse exists: warning or error (the output is still written)")
@@ -173,9 +173,10 @@ func writeReport(path string, out io.Writer, rep *importer.Report) error {
 type annotateFlags struct {
 	engineFlags
 	mappingFlag
-	rules listFlag
-	sheet string
-	grid  string
+	rules  listFlag
+	sheet  string
+	grid   string
+	layout layoutFlag
 }
 
 func (f *annotateFlags) register(fs *flag.FlagSet) {
@@ -183,10 +184,29 @@ func (f *annotateFlags) register(fs *flag.FlagSet) {
 	fs.Var(&f.rules, "rule", "compute a column: `'COLUMN = EXPR'` over the header identifiers, e.g. 'tCO2e = fuel_co2e(fuel, quantity, unit)'; repeatable (default: rules proposed from each table's columns)")
 	fs.StringVar(&f.sheet, "sheet", "", "look for tables on sheet `S` only")
 	fs.StringVar(&f.grid, "grid", "", "electricity `GRID` of purchased electricity rows and columns (Scope 2, location-based) where no column or mapping names one: a country or grid id, e.g. DE, Germany, UK, CAMX (see fluecell functions electricity_co2e)")
+	fs.Var(&f.layout, "layout", "where computed columns go: `inline` (beside each table, at any size; the default) or side (a \"Carbon columns\" sheet, row for row, each table's sheet left untouched)")
 	f.mappingFlag.register(fs)
+}
+
+// layoutFlag is --layout: inline or side.
+type layoutFlag string
+
+func (l *layoutFlag) String() string { return string(*l) }
+
+func (l *layoutFlag) Set(v string) error {
+	switch strings.ToLower(strings.TrimSpace(v)) {
+	case "inline":
+		*l = importer.LayoutInline
+	case "side", "side-sheet":
+		*l = importer.LayoutSideSheet
+	default:
+		return fmt.Errorf("%q is not a layout: use inline or side", v)
+	}
+	return nil
 }
 
 // options are the importer options the flags give.
 func (f *annotateFlags) options() importer.Options {
-	return importer.Options{Rules: f.rules, Sheet: f.sheet, Pack: f.pack, Grid: f.grid, FactorFiles: append([]string{}, f.factors...), Mapping: f.loaded}
+	return importer.Options{Rules: f.rules, Sheet: f.sheet, Pack: f.pack, Grid: f.grid, FactorFiles: append([]string{}, f.factors...), Mapping: f.loaded,
+		Layout: string(f.layout)}
 }

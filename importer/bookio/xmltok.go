@@ -1,4 +1,4 @@
-package importer
+package bookio
 
 import (
 	"bytes"
@@ -9,15 +9,15 @@ import (
 	"unicode/utf8"
 )
 
-// xmlTok is a small pull tokenizer for the XML parts of a workbook. It is
+// Tok is a small pull tokenizer for the XML parts of a workbook. It is
 // much faster than encoding/xml on worksheet data because it allocates
 // nothing per token: names, attributes and text are slices of its buffer,
-// valid until the next call of next. It understands start, end and empty
+// valid until the next call of Next. It understands start, end and empty
 // tags, text, CDATA, comments and processing instructions; it refuses a
 // DOCTYPE (workbook parts never have one, and skipping it safely would need
 // a full parser). Element and attribute names are compared by local name, so
 // prefixed parts (<x:row>) read like unprefixed ones.
-type xmlTok struct {
+type Tok struct {
 	r   io.Reader
 	buf []byte
 	pos int // next unread byte
@@ -26,42 +26,54 @@ type xmlTok struct {
 	err error
 	max int // largest token accepted, bytes
 
-	kind  tokKind
-	name  []byte // local name of a start or end tag
-	attrs []byte // raw attribute text of a start tag
-	empty bool   // start tag closed with "/>"
-	text  []byte // raw text (entities not decoded) or CDATA content
-	cdata bool
+	// The current token; the slices point into the buffer and are valid
+	// until the next call of Next.
+	Kind  TokKind
+	Name  []byte // local name of a start or end tag
+	Attrs []byte // raw attribute text of a start tag
+	Empty bool   // start tag closed with "/>"
+	Text  []byte // raw text (entities not decoded) or CDATA content
+	CDATA bool
+	Raw   []byte // the token as it is in the input, for copying it through
+
+	// Verbatim makes Next return comments, processing instructions and
+	// the XML declaration as TokOther tokens (with Raw) instead of
+	// skipping them: a rewriter copies them through.
+	Verbatim bool
 }
 
-type tokKind uint8
+// TokKind is the kind of a token.
+type TokKind uint8
 
+// The kinds of tokens: TokOther (a comment, processing instruction or the
+// XML declaration) only in Verbatim mode.
 const (
-	tokEOF tokKind = iota
-	tokStart
-	tokEnd
-	tokText
+	TokEOF TokKind = iota
+	TokStart
+	TokEnd
+	TokText
+	TokOther
 )
 
-// errXML marks malformed XML.
-var errXML = errors.New("malformed XML")
+// ErrXML marks malformed XML.
+var ErrXML = errors.New("malformed XML")
 
 const (
 	tokBufSize = 64 << 10
 	tokMax     = 64 << 20
 )
 
-func newXMLTok(r io.Reader) *xmlTok { return newXMLTokSize(r, tokBufSize) }
+func NewTok(r io.Reader) *Tok { return NewTokSize(r, tokBufSize) }
 
-// newXMLTokSize starts with a buffer of size bytes (tests use tiny ones to
+// NewTokSize starts with a buffer of size bytes (tests use tiny ones to
 // put every token across a buffer boundary).
-func newXMLTokSize(r io.Reader, size int) *xmlTok {
-	return &xmlTok{r: r, buf: make([]byte, max(size, 16)), max: tokMax}
+func NewTokSize(r io.Reader, size int) *Tok {
+	return &Tok{r: r, buf: make([]byte, max(size, 16)), max: tokMax}
 }
 
 // fill moves the unread bytes to the front of the buffer and reads more,
 // growing the buffer when it is full. It reports whether new bytes arrived.
-func (t *xmlTok) fill() bool {
+func (t *Tok) fill() bool {
 	if t.eof || t.err != nil {
 		return false
 	}
@@ -96,7 +108,7 @@ func (t *xmlTok) fill() bool {
 }
 
 // ensure makes at least n unread bytes available if the input has them.
-func (t *xmlTok) ensure(n int) bool {
+func (t *Tok) ensure(n int) bool {
 	for t.end-t.pos < n {
 		if !t.fill() {
 			return false
@@ -107,7 +119,7 @@ func (t *xmlTok) ensure(n int) bool {
 
 // find returns the offset (from pos) of pat at or after offset from,
 // reading more input as needed; -1 when the input ends first.
-func (t *xmlTok) find(from int, pat []byte) int {
+func (t *Tok) find(from int, pat []byte) int {
 	for {
 		if i := bytes.Index(t.buf[t.pos+from:t.end], pat); i >= 0 {
 			return from + i
@@ -126,13 +138,13 @@ var (
 	patCDATA      = []byte("<![CDATA[")
 )
 
-// next reads the next token; tokEOF at the end of input or on an error
-// (see fail).
-func (t *xmlTok) next() tokKind {
+// Next reads the next token; TokEOF at the end of input or on an error
+// (see Err).
+func (t *Tok) Next() TokKind {
 	for {
 		if t.pos >= t.end && !t.fill() {
-			t.kind = tokEOF
-			return tokEOF
+			t.Kind = TokEOF
+			return TokEOF
 		}
 		if t.buf[t.pos] != '<' {
 			return t.readText()
@@ -146,6 +158,9 @@ func (t *xmlTok) next() tokKind {
 			if i < 0 {
 				return t.malformed()
 			}
+			if t.Verbatim {
+				return t.other(i + 2)
+			}
 			t.pos += i + 2
 			continue
 		case '!':
@@ -157,6 +172,9 @@ func (t *xmlTok) next() tokKind {
 				if i < 0 {
 					return t.malformed()
 				}
+				if t.Verbatim {
+					return t.other(i + 3)
+				}
 				t.pos += i + 3
 				continue
 			case bytes.HasPrefix(rest, patCDATA):
@@ -164,59 +182,71 @@ func (t *xmlTok) next() tokKind {
 				if i < 0 {
 					return t.malformed()
 				}
-				t.text = t.buf[t.pos+len(patCDATA) : t.pos+i]
-				t.cdata = true
+				t.Text = t.buf[t.pos+len(patCDATA) : t.pos+i]
+				t.Raw = t.buf[t.pos : t.pos+i+3]
+				t.CDATA = true
 				t.pos += i + 3
-				t.kind = tokText
-				return tokText
+				t.Kind = TokText
+				return TokText
 			}
 			t.err = errors.New("the XML holds a DOCTYPE or other declaration, which workbook parts never have")
-			t.kind = tokEOF
-			return tokEOF
+			t.Kind = TokEOF
+			return TokEOF
 		case '/':
 			i := t.find(2, []byte{'>'})
 			if i < 0 {
 				return t.malformed()
 			}
-			t.name = localName(bytes.TrimSpace(t.buf[t.pos+2 : t.pos+i]))
+			t.Name = localName(bytes.TrimSpace(t.buf[t.pos+2 : t.pos+i]))
+			t.Raw = t.buf[t.pos : t.pos+i+1]
 			t.pos += i + 1
-			t.kind = tokEnd
-			return tokEnd
+			t.Kind = TokEnd
+			return TokEnd
 		}
 		return t.readStart()
 	}
 }
 
-func (t *xmlTok) malformed() tokKind {
-	if t.err == nil {
-		t.err = errXML
-	}
-	t.kind = tokEOF
-	return tokEOF
+// other returns the n bytes at pos as a TokOther token.
+func (t *Tok) other(n int) TokKind {
+	t.Raw = t.buf[t.pos : t.pos+n]
+	t.pos += n
+	t.Kind = TokOther
+	return TokOther
 }
 
-func (t *xmlTok) readText() tokKind {
+func (t *Tok) malformed() TokKind {
+	if t.err == nil {
+		t.err = ErrXML
+	}
+	t.Kind = TokEOF
+	return TokEOF
+}
+
+func (t *Tok) readText() TokKind {
 	from := 0
 	for {
 		if i := bytes.IndexByte(t.buf[t.pos+from:t.end], '<'); i >= 0 {
-			t.text = t.buf[t.pos : t.pos+from+i]
+			t.Text = t.buf[t.pos : t.pos+from+i]
+			t.Raw = t.Text
 			t.pos += from + i
 			break
 		}
 		from = t.end - t.pos
 		if !t.fill() {
-			t.text = t.buf[t.pos:t.end]
+			t.Text = t.buf[t.pos:t.end]
+			t.Raw = t.Text
 			t.pos = t.end
 			break
 		}
 	}
-	t.cdata = false
-	t.kind = tokText
-	return tokText
+	t.CDATA = false
+	t.Kind = TokText
+	return TokText
 }
 
 // readStart reads a start tag; '>' inside quoted attribute values is legal.
-func (t *xmlTok) readStart() tokKind {
+func (t *Tok) readStart() TokKind {
 	off := 1
 	var quote byte
 	for {
@@ -231,8 +261,8 @@ func (t *xmlTok) readStart() tokKind {
 				quote = c
 			case c == '>':
 				tag := t.buf[t.pos+1 : t.pos+off]
-				t.empty = len(tag) > 0 && tag[len(tag)-1] == '/'
-				if t.empty {
+				t.Empty = len(tag) > 0 && tag[len(tag)-1] == '/'
+				if t.Empty {
 					tag = tag[:len(tag)-1]
 				}
 				n := 0
@@ -242,11 +272,12 @@ func (t *xmlTok) readStart() tokKind {
 				if n == 0 {
 					return t.malformed()
 				}
-				t.name = localName(tag[:n])
-				t.attrs = tag[n:]
+				t.Name = localName(tag[:n])
+				t.Attrs = tag[n:]
+				t.Raw = t.buf[t.pos : t.pos+off+1]
 				t.pos += off + 1
-				t.kind = tokStart
-				return tokStart
+				t.Kind = TokStart
+				return TokStart
 			}
 		}
 		if !t.fill() {
@@ -264,25 +295,25 @@ func localName(b []byte) []byte {
 	return b
 }
 
-// is reports whether the current token's local name is name.
-func (t *xmlTok) is(name string) bool { return string(t.name) == name }
+// Is reports whether the current token's local name is name.
+func (t *Tok) Is(name string) bool { return string(t.Name) == name }
 
-// fail returns the tokenizer's error, if any.
-func (t *xmlTok) fail() error { return t.err }
+// Err returns the tokenizer's error, if any.
+func (t *Tok) Err() error { return t.err }
 
-// attr returns the decoded value of the attribute with the given local
+// Attr returns the decoded value of the attribute with the given local
 // name (prefix ignored unless prefixed is set, which requires a prefix, as
 // for r:id) of the current start tag.
-func (t *xmlTok) attr(name string, prefixed bool) (string, bool) {
-	v, ok := rawAttr(t.attrs, name, prefixed)
+func (t *Tok) Attr(name string, prefixed bool) (string, bool) {
+	v, ok := RawAttr(t.Attrs, name, prefixed)
 	if !ok {
 		return "", false
 	}
-	return unescape(v), true
+	return Unescape(v), true
 }
 
-// rawAttr finds an attribute in raw attribute text without decoding it.
-func rawAttr(a []byte, name string, prefixed bool) ([]byte, bool) {
+// RawAttr finds an attribute in raw attribute text without decoding it.
+func RawAttr(a []byte, name string, prefixed bool) ([]byte, bool) {
 	i := 0
 	for i < len(a) {
 		for i < len(a) && isSpace(a[i]) {
@@ -328,10 +359,10 @@ func rawAttr(a []byte, name string, prefixed bool) ([]byte, bool) {
 	return nil, false
 }
 
-// unescape decodes the five predefined entities and character references.
+// Unescape decodes the five predefined entities and character references.
 // Text that is not valid UTF-8 or holds a malformed reference is kept as
 // written, with invalid bytes replaced.
-func unescape(b []byte) string {
+func Unescape(b []byte) string {
 	if bytes.IndexByte(b, '&') < 0 {
 		if utf8.Valid(b) {
 			return string(b)
@@ -396,46 +427,46 @@ func charRef(ent []byte) (rune, bool) {
 	return rune(n), true
 }
 
-// collectText reads up to the end tag of the element just started (whose
+// CollectText reads up to the end tag of the element just started (whose
 // local name is name) and returns its text. With inner set, only text inside
 // elements of that local name counts (the <t> runs of a shared or inline
 // string; white space between elements is not content). Text inside elements
 // named skip (rPh, phonetic runs) is left out.
-func (t *xmlTok) collectText(name, inner, skip string) (string, error) {
+func (t *Tok) CollectText(name, inner, skip string) (string, error) {
 	var sb []byte
 	depth, skipAt, innerAt := 0, -1, -1
 	for {
-		switch t.next() {
-		case tokEOF:
+		switch t.Next() {
+		case TokEOF:
 			if t.err != nil {
 				return "", t.err
 			}
-			return "", errXML
-		case tokText:
+			return "", ErrXML
+		case TokText:
 			if skipAt < 0 && (inner == "" || innerAt >= 0) {
-				if t.cdata {
-					sb = append(sb, bytes.ReplaceAll(t.text, []byte("&"), []byte("&amp;"))...)
+				if t.CDATA {
+					sb = append(sb, bytes.ReplaceAll(t.Text, []byte("&"), []byte("&amp;"))...)
 				} else {
-					sb = append(sb, t.text...)
+					sb = append(sb, t.Text...)
 				}
 			}
-		case tokStart:
-			if t.empty {
+		case TokStart:
+			if t.Empty {
 				continue
 			}
 			depth++
-			if skipAt < 0 && skip != "" && t.is(skip) {
+			if skipAt < 0 && skip != "" && t.Is(skip) {
 				skipAt = depth
 			}
-			if innerAt < 0 && inner != "" && t.is(inner) {
+			if innerAt < 0 && inner != "" && t.Is(inner) {
 				innerAt = depth
 			}
-		case tokEnd:
+		case TokEnd:
 			if depth == 0 {
-				if !t.is(name) {
-					return "", errXML
+				if !t.Is(name) {
+					return "", ErrXML
 				}
-				return unescape(sb), nil
+				return Unescape(sb), nil
 			}
 			if depth == skipAt {
 				skipAt = -1

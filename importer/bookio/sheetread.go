@@ -1,0 +1,454 @@
+package bookio
+
+import (
+	"bytes"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+)
+
+// SheetReader streams the rows of one worksheet part. Unlike excelize's
+// Rows iterator it keeps what each cell is (number, text, formula, formula
+// without a cached value), which the checks need, and it allocates nothing
+// per cell beyond the strings it returns.
+type SheetReader struct {
+	part   string
+	t      *Tok
+	rc     io.Closer
+	sst    []string
+	inData bool
+	done   bool
+	rowNum int
+	cells  []Cell
+	err    error
+
+	// KeepStyled keeps cells that hold nothing but have a style (their
+	// Style set, Kind Empty), which Next otherwise leaves out.
+	KeepStyled bool
+	// NoText leaves the text of shared strings unread (Kind Text, Text ""):
+	// for a reader that needs only where cells are, on a Book opened
+	// without its shared strings.
+	NoText bool
+}
+
+// Err is the error that ended the rows, if any.
+func (s *SheetReader) Err() error { return s.err }
+
+// OpenSheet starts streaming the rows of sheet s.
+func (b *Book) OpenSheet(s SheetRef) (*SheetReader, error) {
+	if s.Part == "" {
+		return nil, fmt.Errorf("sheet %q has no part in the package", s.Name)
+	}
+	rc, err := b.OpenPart(s.Part)
+	if err != nil {
+		return nil, err
+	}
+	// The part inflates in its own goroutine, beside the tokenizer.
+	ra := newReadAhead(rc)
+	return &SheetReader{part: s.Part, t: NewTok(ra), rc: aheadCloser{ra, rc}, sst: b.SST}, nil
+}
+
+// aheadCloser stops the read-ahead, then closes the part.
+type aheadCloser struct {
+	ra *readAhead
+	rc io.Closer
+}
+
+func (c aheadCloser) Close() error {
+	c.ra.Close()
+	return c.rc.Close()
+}
+
+// Close closes the part.
+func (s *SheetReader) Close() { s.rc.Close() }
+
+// Next returns the next row that has at least one cell element; the cells
+// slice is reused by the following call.
+func (s *SheetReader) Next() (Row, bool) {
+	t := s.t
+	for !s.done {
+		k := t.Next()
+		switch k {
+		case TokEOF:
+			s.done = true
+			if err := t.Err(); err != nil {
+				s.err = fmt.Errorf("%s: %v", s.part, err)
+			}
+		case TokStart:
+			switch {
+			case !s.inData:
+				if t.Is("sheetData") {
+					if t.Empty {
+						s.done = true
+					}
+					s.inData = true
+				}
+			case t.Is("row"):
+				n := s.rowNum + 1
+				if v, ok := RawAttr(t.Attrs, "r", false); ok {
+					r, err := strconv.Atoi(string(v))
+					if err != nil || r < 1 || r > 1048576 {
+						s.fail("row number %q is not valid", v)
+						return Row{}, false
+					}
+					n = r
+				}
+				s.rowNum = n
+				if t.Empty {
+					continue
+				}
+				if !s.readRow() {
+					return Row{}, false
+				}
+				if len(s.cells) > 0 {
+					return Row{Num: s.rowNum, Cells: s.cells}, true
+				}
+			}
+		case TokEnd:
+			if s.inData && t.Is("sheetData") {
+				s.done = true
+			}
+		}
+	}
+	return Row{}, false
+}
+
+func (s *SheetReader) fail(format string, args ...any) {
+	s.err = fmt.Errorf("%s: "+format, append([]any{s.part}, args...)...)
+	s.done = true
+}
+
+// readRow reads the cells of the row just started, up to </row>.
+func (s *SheetReader) readRow() bool {
+	t := s.t
+	s.cells = s.cells[:0]
+	col := 0
+	for {
+		switch t.Next() {
+		case TokEOF:
+			if t.Err() == nil {
+				s.fail("the sheet ends inside row %d (truncated?)", s.rowNum)
+			} else {
+				s.fail("%v", t.Err())
+			}
+			return false
+		case TokEnd:
+			if t.Is("row") {
+				return true
+			}
+		case TokStart:
+			if !t.Is("c") {
+				if !t.Empty {
+					if _, err := t.CollectText(string(t.Name), "", ""); err != nil {
+						s.fail("row %d: %v", s.rowNum, err)
+						return false
+					}
+				}
+				continue
+			}
+			col++
+			if v, ok := RawAttr(t.Attrs, "r", false); ok {
+				c, r, ok := ParseRef(string(v))
+				if !ok || r != s.rowNum {
+					s.fail("cell reference %q in row %d is not valid", v, s.rowNum)
+					return false
+				}
+				if c < col {
+					s.fail("cell %s comes after a cell to its right (the sheet is corrupt)", v)
+					return false
+				}
+				col = c
+			}
+			if col > 16384 {
+				s.fail("row %d has more than 16384 columns", s.rowNum)
+				return false
+			}
+			// Copy the type now: reading the children may move the buffer.
+			rawTyp, _ := RawAttr(t.Attrs, "t", false)
+			typ := cellType(rawTyp)
+			c := Cell{Col: col}
+			if v, ok := RawAttr(t.Attrs, "s", false); ok {
+				c.Style = atoiStyle(v)
+			}
+			if !t.Empty {
+				if !s.readCell(&c, typ) {
+					return false
+				}
+			}
+			if c.Kind != Empty || c.Formula || s.KeepStyled && c.Style != 0 {
+				s.cells = append(s.cells, c)
+			}
+		}
+	}
+}
+
+// atoiStyle reads a style index; 0 for anything that is not one.
+func atoiStyle(b []byte) int {
+	n := 0
+	for _, c := range b {
+		if c < '0' || c > '9' || n > 1<<24 {
+			return 0
+		}
+		n = n*10 + int(c-'0')
+	}
+	return n
+}
+
+// cellType interns the t attribute of a cell (no allocation for the usual
+// values).
+func cellType(b []byte) string {
+	switch string(b) {
+	case "":
+		return ""
+	case "s":
+		return "s"
+	case "n":
+		return "n"
+	case "str":
+		return "str"
+	case "inlineStr":
+		return "inlineStr"
+	case "b":
+		return "b"
+	case "e":
+		return "e"
+	case "d":
+		return "d"
+	}
+	return string(b)
+}
+
+// readCell reads the children of <c> (<v>, <f>, <is>) up to </c>.
+func (s *SheetReader) readCell(c *Cell, typ string) bool {
+	t := s.t
+	var v []byte
+	hasV := false
+	var inline string
+	hasInline := false
+	for {
+		switch t.Next() {
+		case TokEOF:
+			s.fail("the sheet ends inside cell %s", CellRef(c.Col, s.rowNum))
+			return false
+		case TokEnd:
+			if !t.Is("c") {
+				continue
+			}
+			return s.finishCell(c, typ, v, hasV, inline, hasInline)
+		case TokStart:
+			switch {
+			case t.Is("v"):
+				hasV = true
+				if t.Empty {
+					continue
+				}
+				// The value is almost always a single text token.
+				if t.Next() == TokText && !t.CDATA {
+					v = append(v[:0], t.Text...)
+					if t.Next() != TokEnd {
+						s.fail("cell %s: unexpected content in <v>", CellRef(c.Col, s.rowNum))
+						return false
+					}
+				} else if t.Kind == TokText {
+					v = append(v[:0], bytes.ReplaceAll(t.Text, []byte("&"), []byte("&amp;"))...)
+					t.Next()
+				} else if t.Kind != TokEnd {
+					s.fail("cell %s: unexpected content in <v>", CellRef(c.Col, s.rowNum))
+					return false
+				}
+			case t.Is("f"):
+				c.Formula = true
+				if !t.Empty {
+					if _, err := t.CollectText("f", "", ""); err != nil {
+						s.fail("cell %s: %v", CellRef(c.Col, s.rowNum), err)
+						return false
+					}
+				}
+			case t.Is("is"):
+				hasInline = true
+				if !t.Empty {
+					str, err := t.CollectText("is", "t", "rPh")
+					if err != nil {
+						s.fail("cell %s: %v", CellRef(c.Col, s.rowNum), err)
+						return false
+					}
+					inline = str
+				}
+			default:
+				if !t.Empty {
+					if _, err := t.CollectText(string(t.Name), "", ""); err != nil {
+						s.fail("cell %s: %v", CellRef(c.Col, s.rowNum), err)
+						return false
+					}
+				}
+			}
+		}
+	}
+}
+
+func (s *SheetReader) finishCell(c *Cell, typ string, v []byte, hasV bool, inline string, hasInline bool) bool {
+	if hasV && typ != "str" && typ != "inlineStr" && len(bytes.TrimSpace(v)) == 0 {
+		hasV = false // an empty <v> holds no number, shared string, boolean or error
+	}
+	switch typ {
+	case "s":
+		if !hasV {
+			break
+		}
+		if s.NoText {
+			c.Kind = Text
+			break
+		}
+		i, err := strconv.Atoi(string(bytes.TrimSpace(v)))
+		if err != nil || i < 0 || i >= len(s.sst) {
+			s.fail("cell %s refers to shared string %q, which does not exist (the workbook is corrupt)", CellRef(c.Col, s.rowNum), v)
+			return false
+		}
+		c.Kind, c.Text = Text, s.sst[i]
+	case "inlineStr":
+		if hasInline {
+			c.Kind, c.Text = Text, inline
+		} else if hasV {
+			c.Kind, c.Text = Text, Unescape(v)
+		}
+	case "str":
+		if hasV {
+			c.Kind, c.Text = Text, Unescape(v)
+		}
+	case "b":
+		if hasV {
+			c.Kind, c.Text = Bool, "FALSE"
+			if string(bytes.TrimSpace(v)) == "1" {
+				c.Text = "TRUE"
+			}
+		}
+	case "e":
+		if hasV {
+			c.Kind, c.Text = Error, Unescape(v)
+		}
+	case "d":
+		// An ISO 8601 date stored as text; keep it as text.
+		if hasV {
+			c.Kind, c.Text = Text, Unescape(v)
+		}
+	default: // "n" or absent
+		if hasV {
+			raw := bytes.TrimSpace(v)
+			f, err := strconv.ParseFloat(string(raw), 64)
+			if err != nil || math.IsInf(f, 0) || math.IsNaN(f) {
+				s.fail("cell %s holds %q, which is not a number (the workbook is corrupt)", CellRef(c.Col, s.rowNum), raw)
+				return false
+			}
+			c.Kind, c.Num = Number, f
+		}
+	}
+	c.NoCache = formulaWithoutResult(c, typ, hasV)
+	return true
+}
+
+// formulaWithoutResult reports a formula cell whose file holds no stored
+// result: no <v>, or an empty <v></v> (openpyxl writes <f>2*300</f><v></v>;
+// other libraries write <v/>). An empty <v> is a stored result only for a
+// string formula (t="str", Excel's and LibreOffice's way of storing ""); for
+// a number, boolean or error it holds nothing.
+func formulaWithoutResult(c *Cell, typ string, hasV bool) bool {
+	return c.Formula && c.Kind == Empty && !(hasV && typ == "str")
+}
+
+// ReadMerges returns the merged ranges of a worksheet part. They follow the
+// cell data, so the part is read to its end; only the tail after
+// </sheetData> is tokenized.
+func (b *Book) ReadMerges(s SheetRef) ([]Range, error) {
+	if s.Part == "" {
+		return nil, nil
+	}
+	rc, err := b.OpenPart(s.Part)
+	if err != nil {
+		return nil, err
+	}
+	defer rc.Close()
+	tail, err := afterSheetData(rc)
+	if err != nil {
+		return nil, err
+	}
+	if tail == nil {
+		return nil, nil
+	}
+	t := NewTok(bytes.NewReader(tail))
+	var out []Range
+	for k := t.Next(); k != TokEOF; k = t.Next() {
+		if k == TokStart && t.Is("mergeCell") {
+			ref, _ := t.Attr("ref", false)
+			if r, ok := ParseRange(ref); ok {
+				out = append(out, r)
+			}
+			if len(out) > 1<<20 {
+				return nil, fmt.Errorf("%s: more than a million merged ranges", s.Part)
+			}
+		}
+	}
+	if err := t.Err(); err != nil {
+		return nil, fmt.Errorf("%s: %v", s.Part, err)
+	}
+	return out, nil
+}
+
+// afterSheetData reads r to its end and returns what follows the end tag
+// </sheetData> (nil when there is none).
+func afterSheetData(r io.Reader) ([]byte, error) {
+	const keep = 64
+	pat := []byte("sheetData>")
+	chunk := make([]byte, 256<<10)
+	win := make([]byte, 0, len(chunk)+keep)
+	var tail []byte
+	found := false
+	for {
+		n, err := r.Read(chunk)
+		if n > 0 {
+			if found {
+				tail = append(tail, chunk[:n]...)
+				if len(tail) > 64<<20 {
+					return nil, fmt.Errorf("the part after its cell data is over 64 MB")
+				}
+			} else {
+				win = append(win, chunk[:n]...)
+				for i := bytes.Index(win, pat); i >= 0; {
+					if isEndTag(win, i) {
+						found = true
+						tail = append([]byte(nil), win[i+len(pat):]...)
+						break
+					}
+					next := bytes.Index(win[i+1:], pat)
+					if next < 0 {
+						break
+					}
+					i += 1 + next
+				}
+				if !found {
+					cut := max(0, len(win)-keep)
+					win = append(win[:0], win[cut:]...)
+				}
+			}
+		}
+		if err == io.EOF {
+			return tail, nil
+		}
+		if err != nil {
+			return nil, err
+		}
+	}
+}
+
+// isEndTag reports whether the name at buf[j:] is preceded by "</" or
+// "</prefix:".
+func isEndTag(buf []byte, j int) bool {
+	k := j - 1
+	if k >= 0 && buf[k] == ':' {
+		k--
+		for k >= 0 && buf[k] != '<' && buf[k] != '/' && !isSpace(buf[k]) {
+			k--
+		}
+	}
+	return k >= 1 && buf[k] == '/' && buf[k-1] == '<'
+}
