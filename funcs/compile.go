@@ -118,7 +118,8 @@ func (e *Engine) Compile(src string, opts ...CompileOption) (*Program, error) {
 	if err != nil {
 		return nil, e.parseError(src, err)
 	}
-	return &Program{e: e, src: src, prog: prog, vars: c.vars, unit: e.staticUnit(tree.Node), signs: e.callSigns(tree.Node)}, nil
+	return &Program{e: e, src: src, prog: prog, vars: c.vars, unit: e.staticUnit(tree.Node), signs: e.callSigns(tree.Node),
+		gwpSet: e.appliedGWPSet(tree.Node, cfg.gwpSet)}, nil
 }
 
 func (e *Engine) parseError(src string, err error) error {

@@ -162,3 +162,47 @@ func (p gwpPatcher) Visit(node *ast.Node) {
 	}
 	n.Arguments = append(n.Arguments, fill...)
 }
+
+// appliedGWPSet is set when gwpPatcher writes it into at least one call of
+// the tree, else "".
+func (e *Engine) appliedGWPSet(root ast.Node, set string) string {
+	if set == "" {
+		return ""
+	}
+	applied := false
+	ast.Walk(&root, gwpFinder(func(n *ast.CallNode) {
+		if id, ok := n.Callee.(*ast.IdentifierNode); ok {
+			if f, ok := e.catalog.byName[id.Value]; ok {
+				fill, err := e.gwpFill(f, len(n.Arguments), set)
+				applied = applied || (err == nil && len(fill) > 0)
+			}
+		}
+	}))
+	if !applied {
+		return ""
+	}
+	return set
+}
+
+type gwpFinder func(*ast.CallNode)
+
+func (f gwpFinder) Visit(node *ast.Node) {
+	if n, ok := (*node).(*ast.CallNode); ok {
+		f(n)
+	}
+}
+
+// GWPSet is the GWP set that WithGWPSet wrote into at least one call of the
+// expression (a call that names none), in its canonical spelling ("ar6"); ""
+// when the option was not given or every call names its own set or takes
+// none.
+func (p *Program) GWPSet() string { return p.gwpSet }
+
+// GWPSets lists the GWP-100 sets the loaded packs hold (ar4, ar5, ar6 and any
+// a user pack adds), sorted.
+func (e *Engine) GWPSets() []string { return e.gwpSets() }
+
+// ResolveGWPSet maps a GWP set as a person writes it ("AR6", " ar6 ") to its
+// canonical name; "" gives DefaultGWPSet. The error is an *Error with Param
+// "gwp_set" listing the accepted sets.
+func (e *Engine) ResolveGWPSet(s string) (string, error) { return e.resolveGWPSet(s) }

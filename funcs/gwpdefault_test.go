@@ -121,6 +121,19 @@ func TestWithGWPSetCalls(t *testing.T) {
 	if p.Source() != src {
 		t.Errorf("Source() = %q, want the expression as written", p.Source())
 	}
+	for src, want := range map[string]string{
+		`fuel_co2e("natural_gas", 1, "TJ")`:        "ar6",
+		`fuel_co2e("natural_gas", 1, "TJ", "ar4")`: "",
+		`fuel_co2("natural_gas", 1, "TJ")`:         "",
+	} {
+		p, err := e.Compile(src, WithGWPSet(" AR6 "))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if p.GWPSet() != want {
+			t.Errorf("%s: GWPSet() = %q, want %q", src, p.GWPSet(), want)
+		}
+	}
 	for _, blank := range []string{"", "  "} {
 		if got := evalGWP(t, e, `fuel_co2e("natural_gas", 1, "TJ")`, WithGWPSet(blank)); got.Value != evalGWP(t, e, `fuel_co2e("natural_gas", 1, "TJ")`).Value {
 			t.Errorf("WithGWPSet(%q) changed the value", blank)
