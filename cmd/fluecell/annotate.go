@@ -23,7 +23,7 @@ import (
 const exitFailOn = 3
 
 func cmdAnnotate(ctx context.Context, s stdio, args []string) int {
-	fs := newFlags("annotate", "annotate IN.xlsx|IN.xlsm|IN.xls|IN.csv [-o OUT] [--rule 'COLUMN = EXPR']... [--sheet S] [--report R.json] [--pack P] [--grid G] [--factors F]... [--fail-on warning|error]", s.err, true)
+	fs := newFlags("annotate", "annotate IN.xlsx|IN.xlsm|IN.xls|IN.csv [-o OUT] [--rule 'COLUMN = EXPR']... [--sheet S] [--report R.json] [--pack P] [--grid G] [--gwp-set SET] [--factors F]... [--fail-on warning|error]", s.err, true)
 	out := fs.String("o", "", "write the annotated workbook to `OUT` (default: IN with .carbon before the extension; a legacy .xls, read through LibreOffice, gives .carbon.xlsx)")
 	report := fs.String("report", "", "also write the report as JSON to `R.json` (- for standard output)")
 	failOn := fs.String("fail-on", "", "exit with code 3 when a finding of this `severity` or worse exists: warning or error (the output is still written)")
@@ -161,6 +161,7 @@ func writeReport(path string, out io.Writer, rep *importer.Report) error {
 type annotateFlags struct {
 	engineFlags
 	mappingFlag
+	gwpSetFlag
 	rules listFlag
 	sheet string
 	grid  string
@@ -172,9 +173,10 @@ func (f *annotateFlags) register(fs *flag.FlagSet) {
 	fs.StringVar(&f.sheet, "sheet", "", "look for tables on sheet `S` only")
 	fs.StringVar(&f.grid, "grid", "", "electricity `GRID` of purchased electricity rows and columns (Scope 2, location-based) where no column or mapping names one: a country or grid id, e.g. DE, Germany, UK, CAMX (see fluecell functions electricity_co2e)")
 	f.mappingFlag.register(fs)
+	f.gwpSetFlag.register(fs)
 }
 
 // options are the importer options the flags give.
 func (f *annotateFlags) options() importer.Options {
-	return importer.Options{Rules: f.rules, Sheet: f.sheet, Pack: f.pack, Grid: f.grid, FactorFiles: append([]string{}, f.factors...), Mapping: f.loaded}
+	return importer.Options{Rules: f.rules, Sheet: f.sheet, Pack: f.pack, Grid: f.grid, GWPSet: f.gwpSet, FactorFiles: append([]string{}, f.factors...), Mapping: f.loaded}
 }
