@@ -16,6 +16,9 @@ type Param struct {
 
 	kind  paramKind                       // what a string argument names, for checks at compile time
 	check func(e *Engine, s string) error // a check of a literal string argument, for kinds declared outside this file
+	// omitted is the literal argument that means the same as leaving the parameter out, for a
+	// parameter whose Default describes the default in words (year: "latest loaded for the grid").
+	omitted string
 }
 
 type paramKind uint8
@@ -35,6 +38,9 @@ const (
 )
 
 func (p Param) with(k paramKind) Param { p.kind = k; return p }
+
+// omittedAs returns p with the literal argument that stands for leaving it out.
+func (p Param) omittedAs(lit string) Param { p.omitted = lit; return p }
 
 // checked returns p with a compile-time check of literal string arguments; a
 // family of functions in its own file declares its parameter kinds this way.

@@ -28,8 +28,9 @@ type CompileOption func(*compileConfig)
 type compileConfig struct {
 	vars     map[string]bool // nil: any variable name is accepted
 	list     []string
-	maxLen   int // 0: MaxExprLength
-	maxNodes int // 0: MaxExprNodes
+	maxLen   int    // 0: MaxExprLength
+	maxNodes int    // 0: MaxExprNodes
+	gwpSet   string // "": each call's own gwp_set or its default (see WithGWPSet)
 }
 
 // WithSizeLimit raises the length and syntax-tree limits for an expression a
@@ -80,6 +81,9 @@ func (e *Engine) Compile(src string, opts ...CompileOption) (*Program, error) {
 	for _, o := range opts {
 		o(&cfg)
 	}
+	if err := e.resolveCompileGWPSet(&cfg); err != nil {
+		return nil, err
+	}
 	maxLen, maxNodes := cfg.limits()
 	if n := len([]rune(src)); n > maxLen {
 		return nil, &Error{Code: CodeLimit, Param: "expr", Msg: "expression is " + strconv.Itoa(n) + " characters long; the limit is " + strconv.Itoa(maxLen)}
@@ -102,6 +106,7 @@ func (e *Engine) Compile(src string, opts ...CompileOption) (*Program, error) {
 		expr.AllowUndefinedVariables(),
 		expr.DisableAllBuiltins(),
 		expr.MaxNodes(uint(4 * maxNodes)),
+		expr.Patch(gwpPatcher{e: e, set: cfg.gwpSet}),
 		expr.Patch(runPatcher{e: e}),
 		expr.Function(divFunc, checkedDiv),
 		expr.Function(modFunc, checkedMod),
@@ -113,7 +118,8 @@ func (e *Engine) Compile(src string, opts ...CompileOption) (*Program, error) {
 	if err != nil {
 		return nil, e.parseError(src, err)
 	}
-	return &Program{e: e, src: src, prog: prog, vars: c.vars, unit: e.staticUnit(tree.Node), signs: e.callSigns(tree.Node)}, nil
+	return &Program{e: e, src: src, prog: prog, vars: c.vars, unit: e.staticUnit(tree.Node), signs: e.callSigns(tree.Node),
+		gwpSet: e.appliedGWPSet(tree.Node, cfg.gwpSet)}, nil
 }
 
 func (e *Engine) parseError(src string, err error) error {
@@ -247,6 +253,9 @@ func (c *checker) call(n *ast.CallNode) error {
 	}
 	if len(n.Arguments) < f.MinArgs() || len(n.Arguments) > len(f.Params) {
 		return c.fail(n, f.Name+" takes "+arity(f)+", got "+strconv.Itoa(len(n.Arguments))+": "+f.Name+"("+signature(f)+")")
+	}
+	if err := c.gwpCheck(f, n); err != nil {
+		return err
 	}
 	for i, arg := range n.Arguments {
 		if err := c.check(arg); err != nil {

@@ -22,7 +22,7 @@ func gridFunctions(e *Engine) []*Function {
 	unit := Param{Name: "unit", Type: typeString, Unit: "unit string", Doc: "energy unit of amount (kWh, MWh, GWh, GJ, MMBtu...)", kind: kindEnergyUnit}
 	grid := paramStr("grid", "grid id or name: us, us_camx (eGRID subregion), eu27, de, fr, pl (EU member states), gb, \"Germany\", \"eGRID SRVC\", or the id of a user's supplier or residual-mix row (fluecell grids lists them)").checked(checkGrid)
 	method := optional(paramStr("method", "Scope 2 method: location (grid average) or market (supplier or residual-mix row)", MethodLocation, MethodMarket), MethodLocation).checked(checkMethod)
-	year := optional(paramNum("year", "yr", "data year of the grid factor; 0 means the latest loaded"), "latest loaded for the grid")
+	year := optional(paramNum("year", "yr", "data year of the grid factor; 0 means the latest loaded"), "latest loaded for the grid").omittedAs("0")
 	gwpSet := optional(paramStr("gwp_set", "IPCC assessment whose GWP-100 values weight CH4 and N2O", e.gwpSets()...), DefaultGWPSet).with(kindGWPSet)
 	carrier := optional(paramStr("carrier", "what was purchased", "steam", "hot_water", "heat", "chilled_water"), "steam").checked(checkCarrier)
 	set := optional(paramStr("set", "set of published heat factors", e.grids.heatSets()...), defaultHeatSet).checked(checkHeatSet)

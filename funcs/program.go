@@ -21,7 +21,9 @@ type Program struct {
 	// signs are the signs of the catalog calls in evaluation order when the
 	// expression is a sum or difference of calls and numbers; nil otherwise.
 	signs []float64
-	pool  sync.Pool
+	// gwpSet is the set WithGWPSet wrote into at least one call; "" when none.
+	gwpSet string
+	pool   sync.Pool
 }
 
 // Source is the expression as compiled.

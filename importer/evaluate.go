@@ -395,10 +395,10 @@ func (sc *scanCtx) wideFactors(t *table) map[*column][2]float64 {
 			continue
 		}
 		a, err1 := sc.e.CallValues("fuel_co2", c.fuelID, 1.0, c.hdr.UnitText)
-		b, err2 := sc.e.CallValues("fuel_co2e", c.fuelID, 1.0, c.hdr.UnitText)
+		b, err2 := sc.e.CallValues("fuel_co2e", c.fuelID, 1.0, c.hdr.UnitText, sc.gwpSetOrDefault())
 		if t.spec.mobile != "" {
 			a, err1 = sc.e.CallValues("mobile_co2", c.fuelID, 1.0, c.hdr.UnitText, modeFor(c.fuelID))
-			b, err2 = sc.e.CallValues("mobile_co2e", c.fuelID, 1.0, c.hdr.UnitText, modeFor(c.fuelID))
+			b, err2 = sc.e.CallValues("mobile_co2e", c.fuelID, 1.0, c.hdr.UnitText, modeFor(c.fuelID), sc.gwpSetOrDefault())
 		}
 		if err1 == nil && err2 == nil {
 			out[c] = [2]float64{a.Value, b.Value}

@@ -3,7 +3,6 @@ package importer
 import (
 	"strings"
 
-	"github.com/fluecell/fluecell/funcs"
 	"github.com/fluecell/fluecell/importer/tables"
 )
 
@@ -150,7 +149,7 @@ func (d *detector) chooseSector(t *tableSpec) {
 	default:
 		return
 	}
-	t.sectorArgs = ", " + quoteRuleString(funcs.DefaultGWPSet) + ", " + quoteRuleString(d.sc.e.DefaultPackName()) + ", " + arg
+	t.sectorArgs = ", " + quoteRuleString(d.sc.gwpSetOrDefault()) + ", " + quoteRuleString(d.sc.e.DefaultPackName()) + ", " + arg
 }
 
 // combustionCalls returns the CO2 and CO2e calls of a fuel amount: mobile

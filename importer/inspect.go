@@ -20,7 +20,8 @@ type Inspection struct {
 	Names   []NameReading `json:"names"`
 	Caution []string      `json:"caution"`
 
-	from []*mapTable // per table of the report: the mapping entry it was read with, or nil
+	from   []*mapTable // per table of the report: the mapping entry it was read with, or nil
+	gwpSet string      // the GWP set the options or the mapping chose; "" when none
 }
 
 // NameReading is one distinct text of a fuel column and how it was read.
@@ -53,7 +54,7 @@ func Inspect(ctx context.Context, e *funcs.Engine, path string, opt Options) (in
 	}
 	ins = &Inspection{Path: path, Format: res.Format, Report: res.Report, Names: []NameReading{},
 		Caution: []string{CautionTier1, CautionRegulated}}
-	ins.from = make([]*mapTable, len(res.sc.tables))
+	ins.from, ins.gwpSet = make([]*mapTable, len(res.sc.tables)), res.sc.opt.GWPSet
 	for i, t := range res.sc.tables {
 		res.explain(t.spec, &res.Report.Tables[i])
 		if run := res.sc.mapRun; run != nil {
@@ -113,9 +114,9 @@ func Inspect(ctx context.Context, e *funcs.Engine, path string, opt Options) (in
 // overrides of the mapping it was read with), and the names read through
 // aliases, phrases or the mapping. A name read as no fuel is written with
 // an empty id, which LoadMapping refuses until a person fills it in or
-// removes it.
+// removes it. It carries the GWP set the options or the mapping chose.
 func (ins *Inspection) MappingFile() MappingFile {
-	f := MappingFile{Version: MappingVersion, Tables: []MappedTable{}, Names: map[string]string{}}
+	f := MappingFile{Version: MappingVersion, Tables: []MappedTable{}, Names: map[string]string{}, GWPSet: ins.gwpSet}
 	for i, t := range ins.Report.Tables {
 		mt := MappedTable{Sheet: t.Sheet, HeaderRow: t.HeaderRow, Kind: t.Kind, Columns: []MappedColumn{}}
 		hasFuel, hasUnit := false, false

@@ -39,7 +39,7 @@ const maxMappingBytes = 16 << 20
 //	             "columns": [{"column": "B", "header": "Fuel", "role": "fuel"},
 //	                         {"column": "C", "header": "Litres", "role": "quantity", "unit": "L"}]}],
 //	 "names": {"Unl 87": "motor_gasoline"},
-//	 "grid": "DE"}
+//	 "grid": "DE", "gwp_set": "ar6"}
 type MappingFile struct {
 	Version int           `json:"fluecell_mapping"`
 	Tables  []MappedTable `json:"tables"`
@@ -53,6 +53,9 @@ type MappingFile struct {
 	// Names maps a fuel cell's exact text to a fuel id; it is consulted
 	// before the engine's own names and aliases.
 	Names map[string]string `json:"names"`
+	// GWPSet is the IPCC assessment whose GWP-100 values weight CH4 and N2O
+	// in every call naming no set (ar4, ar5, ar6); "" = funcs.DefaultGWPSet.
+	GWPSet string `json:"gwp_set,omitempty"`
 }
 
 // MappedTable is one table of a mapping: where its header row is and what
@@ -105,6 +108,7 @@ type Mapping struct {
 	names   map[string]string // cell text -> fuel id
 	grid    string            // the workbook's grid
 	gallons string            // "us" or "imperial"; "" = us
+	gwpSet  string            // canonical GWP set; "" = none named
 }
 
 type mapTable struct {
@@ -176,7 +180,7 @@ func ParseMapping(e *funcs.Engine, name string, data []byte) (*Mapping, error) {
 	sum := sha256.Sum256(data)
 	m := &Mapping{ref: MappingRef{Path: name, SHA256: hex.EncodeToString(sum[:])}, names: map[string]string{}}
 	p := &mapParser{e: e, fail: fail}
-	root, err := p.object(doc, "", "fluecell_mapping", "tables", "names", "grid", "gallons")
+	root, err := p.object(doc, "", "fluecell_mapping", "tables", "names", "grid", "gallons", "gwp_set")
 	if err != nil {
 		return nil, err
 	}
@@ -212,6 +216,9 @@ func ParseMapping(e *funcs.Engine, name string, data []byte) (*Mapping, error) {
 		return nil, err
 	}
 	if m.gallons, err = p.gallons(root, ""); err != nil {
+		return nil, err
+	}
+	if m.gwpSet, err = p.gwpSet(root, ""); err != nil {
 		return nil, err
 	}
 	if v, ok := root["names"]; ok {
@@ -308,7 +315,7 @@ func (f *MappingFile) encode(b *bytes.Buffer) {
 		b.WriteString("\n  ")
 	}
 	b.WriteString("}")
-	for _, kv := range [][2]string{{"grid", f.Grid}, {"gallons", f.Gallons}} {
+	for _, kv := range [][2]string{{"grid", f.Grid}, {"gallons", f.Gallons}, {"gwp_set", f.GWPSet}} {
 		if kv[1] != "" {
 			fmt.Fprintf(b, ",\n  %q: %s", kv[0], js(kv[1]))
 		}

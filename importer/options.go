@@ -29,6 +29,11 @@ type Options struct {
 	// Pack is the factor pack used by calls that name none ("" = the
 	// engine's default pack).
 	Pack string
+	// GWPSet is the IPCC assessment whose GWP-100 values weight CH4 and N2O in
+	// every call of the rules (proposed or given) that names no gwp_set: ar4,
+	// ar5 or ar6, case-insensitive ("" = the mapping's gwp_set, else
+	// funcs.DefaultGWPSet). A mapping naming another set is an error.
+	GWPSet string
 	// FactorFiles are the user factor files the engine was built with
 	// (funcs.WithFactorFiles). They are needed only when Annotate must build
 	// a derived engine: for a Pack other than the engine's default, or for a

@@ -40,6 +40,10 @@ type Report struct {
 	// BuildPlan is what the build-plan tables add to the atmosphere; nil
 	// without a computed build-plan row.
 	BuildPlan *BuildPlanTotal `json:"build_plan,omitempty"`
+	// GWPSet is the IPCC assessment whose GWP-100 values weight CH4 and N2O in
+	// every call that names no set: Options.GWPSet, the mapping's gwp_set, or
+	// funcs.DefaultGWPSet. Rules whose calls took it say so: "(GWP set ar6)".
+	GWPSet string `json:"gwp_set"`
 	// Mapping is the mapping file the tables were read with (Options.Mapping).
 	Mapping *MappingRef `json:"mapping,omitempty"`
 	// Uncertainty says how the 95 % intervals of the totals were computed:

@@ -83,12 +83,12 @@ func (sc *scanCtx) compileRowRules(t *table) error {
 // compileRowRule compiles call as the rule of main's column for some rows.
 func (sc *scanCtx) compileRowRule(t *table, main *rule, call string) (*rule, error) {
 	spec := t.spec
-	p, err := sc.e.Compile(call, funcs.WithVariables(identList(spec)...))
+	p, err := sc.e.Compile(call, funcs.WithVariables(identList(spec)...), sc.withGWPSet())
 	if err != nil {
 		return nil, &Error{Code: ErrRule, Path: sc.path, Err: err,
 			Msg: "rule " + quoteText(main.column+" = "+call) + " for the table at " + spec.sheet + "!" + cellRef(spec.firstCol, spec.headerRow) + ": " + err.Error()}
 	}
-	r := &rule{column: main.column, src: main.column + " = " + call, prog: p, run: p.NewRunner(), paramVar: paramVars(sc.e, call), total: main.total}
+	r := &rule{column: main.column, src: ruleText(main.column, call, p), prog: p, run: p.NewRunner(), paramVar: paramVars(sc.e, call), total: main.total}
 	for _, v := range p.Variables() {
 		r.vars = append(r.vars, t.bind(v))
 	}

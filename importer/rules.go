@@ -38,7 +38,7 @@ func splitRule(s string) (column, expr string, ok bool) {
 }
 
 // parseUserRules checks and compiles the rules of the options.
-func parseUserRules(e *funcs.Engine, rules []string) ([]*userRule, error) {
+func parseUserRules(e *funcs.Engine, rules []string, opts ...funcs.CompileOption) ([]*userRule, error) {
 	var out []*userRule
 	seen := map[string]bool{}
 	for _, src := range rules {
@@ -55,7 +55,7 @@ func parseUserRules(e *funcs.Engine, rules []string) ([]*userRule, error) {
 			return nil, &Error{Code: ErrRule, Msg: "rule " + quoteText(src) + ": column " + col + " is computed by two rules; keep one"}
 		}
 		seen[key] = true
-		p, err := e.Compile(ex)
+		p, err := e.Compile(ex, opts...)
 		if err != nil {
 			return nil, &Error{Code: ErrRule, Msg: "rule " + quoteText(col+" = "+ex) + ": " + err.Error(), Err: err}
 		}
@@ -277,7 +277,7 @@ func (sc *scanCtx) compileRules(t *table) error {
 	idents := identList(t.spec)
 	for _, src := range srcs {
 		col, ex, _ := splitRule(src)
-		opts := []funcs.CompileOption{funcs.WithVariables(idents...)}
+		opts := []funcs.CompileOption{funcs.WithVariables(idents...), sc.withGWPSet()}
 		if len(sc.userRules) == 0 {
 			// A proposed rule sums one call per column: its size follows the
 			// table's width, not a person's typing.
@@ -288,7 +288,7 @@ func (sc *scanCtx) compileRules(t *table) error {
 			return &Error{Code: ErrRule, Path: sc.path, Err: err,
 				Msg: "rule " + quoteText(src) + " for the table at " + t.spec.sheet + "!" + cellRef(t.spec.firstCol, t.spec.headerRow) + ": " + err.Error()}
 		}
-		r := &rule{column: col, src: col + " = " + ex, prog: p, run: p.NewRunner(), paramVar: paramVars(sc.e, ex)}
+		r := &rule{column: col, src: ruleText(col, ex, p), prog: p, run: p.NewRunner(), paramVar: paramVars(sc.e, ex)}
 		switch strings.ToLower(col) {
 		case "tco2":
 			r.total = 1
@@ -332,11 +332,11 @@ func (sc *scanCtx) buildPlanVariants(t *table, r *rule) error {
 	}
 	srcs := []string{base + ")", base + ", " + cf + ")"}
 	for k := range r.optional {
-		p, err := sc.e.Compile(srcs[k], funcs.WithVariables(identList(spec)...))
+		p, err := sc.e.Compile(srcs[k], funcs.WithVariables(identList(spec)...), sc.withGWPSet())
 		if err != nil {
 			return &Error{Code: ErrRule, Path: sc.path, Msg: "rule " + quoteText(srcs[k]) + ": " + err.Error(), Err: err}
 		}
-		v := &rule{column: r.column, src: r.column + " = " + srcs[k], prog: p, run: p.NewRunner(), paramVar: paramVars(sc.e, srcs[k]), total: r.total}
+		v := &rule{column: r.column, src: ruleText(r.column, srcs[k], p), prog: p, run: p.NewRunner(), paramVar: paramVars(sc.e, srcs[k]), total: r.total}
 		for _, name := range p.Variables() {
 			v.vars = append(v.vars, t.bind(name))
 		}

@@ -83,7 +83,10 @@ func scan(ctx context.Context, e *funcs.Engine, path string, opt Options, calc f
 	if err != nil {
 		return nil, err
 	}
-	userRules, err := parseUserRules(e, opt.Rules)
+	if opt.GWPSet, err = gwpSetFor(e, opt); err != nil {
+		return nil, err
+	}
+	userRules, err := parseUserRules(e, opt.Rules, funcs.WithGWPSet(opt.GWPSet))
 	if err != nil {
 		return nil, err
 	}
@@ -319,6 +322,7 @@ func (res *ScanResult) finish() error {
 		rep.Incomplete = rep.Incomplete || kt.Incomplete
 	}
 	rep.Totals.TCO2, rep.Totals.TCO2e = cleanZero(rep.Totals.TCO2), cleanZero(rep.Totals.TCO2e)
+	rep.GWPSet = sc.gwpSetOrDefault()
 	for _, p := range res.e.Packs() {
 		rep.Packs = append(rep.Packs, PackVersion{Name: p.Name, Title: p.Title, Basis: p.Basis, Version: p.Version, Rows: p.Rows})
 	}

@@ -120,7 +120,7 @@ func (res *ScanResult) writeSources(f *excelize.File, st *styles) error {
 	for _, p := range res.Report.Packs {
 		put(0, p.Name, p.Version, p.Basis, p.Rows, "", "", "", p.Title)
 	}
-	span(0, "engine version "+res.e.Version()+"; default pack "+res.e.DefaultPackName()+"; GWP set "+funcs.DefaultGWPSet+" unless a rule names another")
+	span(0, "engine version "+res.e.Version()+"; default pack "+res.e.DefaultPackName()+"; GWP set "+res.Report.GWPSet+" unless a rule names another")
 	if m := res.Report.Mapping; m != nil {
 		span(0, "tables read with the mapping "+m.Path+" (sha256 "+m.SHA256+"): header rows, roles, units and fuel names as it says")
 	}

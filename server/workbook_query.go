@@ -4,6 +4,7 @@ import (
 	"net/url"
 	"strconv"
 
+	"github.com/fluecell/fluecell/funcs"
 	"github.com/fluecell/fluecell/importer"
 )
 
@@ -27,18 +28,18 @@ type workbookRequest struct {
 }
 
 // parseQuery checks the query of a workbook request against the handler's engine: rule
-// (repeatable), sheet, pack, grid, name and uncertainty (seed, draws) on both routes, report=json on /v1/annotate,
+// (repeatable), sheet, pack, grid, gwp_set, name and uncertainty (seed, draws) on both routes, report=json on /v1/annotate,
 // rows on /v1/inspect. Errors name the parameter.
 func (h *annotateHandler) parseQuery(q url.Values, inspect bool) (workbookRequest, *apiError) {
 	req := workbookRequest{rows: defaultPreviewRows}
 	for k := range q {
 		switch k {
-		case "rule", "sheet", "pack", "grid", "name", "token", "uncertainty", "seed", "draws":
+		case "rule", "sheet", "pack", "grid", "gwp_set", "name", "token", "uncertainty", "seed", "draws":
 		case "report":
 			if !inspect {
 				continue
 			}
-			return req, badRequest(k, "unknown parameter "+quoteText(k)+": /v1/inspect takes rule, sheet, pack, grid, name, uncertainty (with seed and draws) and rows (the report is in its answer)")
+			return req, badRequest(k, "unknown parameter "+quoteText(k)+": /v1/inspect takes rule, sheet, pack, grid, gwp_set, name, uncertainty (with seed and draws) and rows (the report is in its answer)")
 		case "rows":
 			if inspect {
 				continue
@@ -46,9 +47,9 @@ func (h *annotateHandler) parseQuery(q url.Values, inspect bool) (workbookReques
 			fallthrough
 		default:
 			if inspect {
-				return req, badRequest(k, "unknown parameter "+quoteText(k)+": /v1/inspect takes rule, sheet, pack, grid, name, uncertainty (with seed and draws) and rows")
+				return req, badRequest(k, "unknown parameter "+quoteText(k)+": /v1/inspect takes rule, sheet, pack, grid, gwp_set, name, uncertainty (with seed and draws) and rows")
 			}
-			return req, badRequest(k, "unknown parameter "+quoteText(k)+": /v1/annotate takes rule, sheet, pack, grid, name, report=json and uncertainty=approach1|approach2 (with seed and draws)")
+			return req, badRequest(k, "unknown parameter "+quoteText(k)+": /v1/annotate takes rule, sheet, pack, grid, gwp_set, name, report=json and uncertainty=approach1|approach2 (with seed and draws)")
 		}
 	}
 	switch v := q.Get("report"); v {
@@ -79,6 +80,12 @@ func (h *annotateHandler) parseQuery(q url.Values, inspect bool) (workbookReques
 		}
 		opt.Grid = g
 	}
+	if g := q.Get("gwp_set"); g != "" {
+		if _, err := h.e.ResolveGWPSet(g); err != nil {
+			return req, badRequest("gwp_set", "gwp_set="+quoteText(g)+": "+gwpSetMessage(err))
+		}
+		opt.GWPSet = g
+	}
 	if p := q.Get("pack"); p != "" {
 		if _, err := h.e.Factors(p, ""); err != nil {
 			return req, fromFuncs(err, false)
@@ -87,4 +94,12 @@ func (h *annotateHandler) parseQuery(q url.Values, inspect bool) (workbookReques
 	}
 	req.opt = opt
 	return req, nil
+}
+
+// gwpSetMessage is the message of an unknown GWP set: the accepted sets.
+func gwpSetMessage(err error) string {
+	if fe, ok := funcs.AsError(err); ok {
+		return fe.Msg
+	}
+	return err.Error()
 }

@@ -23,7 +23,7 @@ import (
 const exitFailOn = 3
 
 func cmdAnnotate(ctx context.Context, s stdio, args []string) int {
-	fs := newFlags("annotate", "annotate IN.xlsx|IN.xlsm|IN.xls|IN.csv [-o OUT] [--rule 'COLUMN = EXPR']... [--sheet S] [--report R.json] [--pack P] [--grid G] [--factors F]... [--layout inline|side] [--fail-on warning|error] [--uncertainty approach1|approach2 [--seed N] [--draws N]]", s.err, true)
+	fs := newFlags("annotate", "annotate IN.xlsx|IN.xlsm|IN.xls|IN.csv [-o OUT] [--rule 'COLUMN = EXPR']... [--sheet S] [--report R.json] [--pack P] [--grid G] [--gwp-set SET] [--factors F]... [--layout inline|side] [--fail-on warning|error] [--uncertainty approach1|approach2 [--seed N] [--draws N]]", s.err, true)
 	out := fs.String("o", "", "write the annotated workbook to `OUT` (default: IN with .carbon before the extension; a legacy .xls, read through LibreOffice, gives .carbon.xlsx)")
 	report := fs.String("report", "", "also write the report as JSON to `R.json` (- for standard output)")
 	failOn := fs.String("fail-on", "", "exit with code 3 when a finding of this `severity` or worse exists: warning or error (the output is still written)")
@@ -173,6 +173,7 @@ func writeReport(path string, out io.Writer, rep *importer.Report) error {
 type annotateFlags struct {
 	engineFlags
 	mappingFlag
+	gwpSetFlag
 	rules  listFlag
 	sheet  string
 	grid   string
@@ -186,6 +187,7 @@ func (f *annotateFlags) register(fs *flag.FlagSet) {
 	fs.StringVar(&f.grid, "grid", "", "electricity `GRID` of purchased electricity rows and columns (Scope 2, location-based) where no column or mapping names one: a country or grid id, e.g. DE, Germany, UK, CAMX (see fluecell functions electricity_co2e)")
 	fs.Var(&f.layout, "layout", "where computed columns go: `inline` (beside each table, at any size; the default) or side (a \"Carbon columns\" sheet, row for row, each table's sheet left untouched)")
 	f.mappingFlag.register(fs)
+	f.gwpSetFlag.register(fs)
 }
 
 // layoutFlag is --layout: inline or side.
@@ -207,6 +209,6 @@ func (l *layoutFlag) Set(v string) error {
 
 // options are the importer options the flags give.
 func (f *annotateFlags) options() importer.Options {
-	return importer.Options{Rules: f.rules, Sheet: f.sheet, Pack: f.pack, Grid: f.grid, FactorFiles: append([]string{}, f.factors...), Mapping: f.loaded,
+	return importer.Options{Rules: f.rules, Sheet: f.sheet, Pack: f.pack, Grid: f.grid, GWPSet: f.gwpSet, FactorFiles: append([]string{}, f.factors...), Mapping: f.loaded,
 		Layout: string(f.layout)}
 }

@@ -15,7 +15,7 @@ import (
 )
 
 func cmdBatch(ctx context.Context, s stdio, args []string) int {
-	fs := newFlags("batch", "batch IN_DIR OUT_DIR [--jobs N] [--shard I/N] [--summary FILE.csv] [--rule 'COLUMN = EXPR']... [--sheet S] [--pack P] [--grid G] [--factors FILE]... [--uncertainty approach1|approach2 [--seed N] [--draws N]]", s.err, true)
+	fs := newFlags("batch", "batch IN_DIR OUT_DIR [--jobs N] [--shard I/N] [--summary FILE.csv] [--rule 'COLUMN = EXPR']... [--sheet S] [--pack P] [--grid G] [--gwp-set SET] [--factors FILE]... [--uncertainty approach1|approach2 [--seed N] [--draws N]]", s.err, true)
 	jobs := fs.Int("jobs", 0, "annotate `N` workbooks at a time (default: the number of CPUs)")
 	shardFlag := fs.String("shard", "", "take only shard `I/N` of the files (1 <= I <= N), chosen by relative path, for job arrays")
 	summary := fs.String("summary", "", "write one CSV row per workbook to `FILE.csv`: file, status, rows, tCO2, tCO2e, warnings, error, seconds, output (a legacy .xls gives an .xlsx output)")
@@ -56,7 +56,7 @@ func cmdBatch(ctx context.Context, s stdio, args []string) int {
 	opt.Uncertainty = ivOpt
 	cfg := batch.Config{
 		InDir: pos[0], OutDir: pos[1], Jobs: *jobs, Shard: shard,
-		Fingerprint: strings.Join(append(append([]string{"fluecell " + version, "packs " + e.Version(), "pack " + af.pack, "sheet " + af.sheet, "grid " + af.grid}, af.rules...), append(af.fingerprint(), uf.fingerprint())...), "\n"),
+		Fingerprint: strings.Join(append(append([]string{"fluecell " + version, "packs " + e.Version(), "pack " + af.pack, "sheet " + af.sheet, "grid " + af.grid, "gwp_set " + af.gwpSet}, af.rules...), append(af.fingerprint(), uf.fingerprint())...), "\n"),
 		Annotate: func(ctx context.Context, in, out string) (batch.Outcome, error) {
 			rep, err := importer.Annotate(ctx, e, in, out, opt)
 			if err != nil {

@@ -17,7 +17,7 @@ import (
 )
 
 func cmdInspect(ctx context.Context, s stdio, args []string) int {
-	fs := newFlags("inspect", "inspect IN.xlsx|IN.xlsm|IN.xls|IN.csv [--sheet S] [--mapping M.json] [--write-mapping M.json] [--json] [--rule 'COLUMN = EXPR']... [--pack P] [--factors F]...", s.err, true)
+	fs := newFlags("inspect", "inspect IN.xlsx|IN.xlsm|IN.xls|IN.csv [--sheet S] [--mapping M.json] [--write-mapping M.json] [--json] [--rule 'COLUMN = EXPR']... [--pack P] [--gwp-set SET] [--factors F]...", s.err, true)
 	write := fs.String("write-mapping", "", "write how the workbook was read to `M.json`: a mapping to check, edit and pass to annotate or batch with --mapping")
 	asJSON := fs.Bool("json", false, "print the inspection as JSON")
 	var af annotateFlags

@@ -55,5 +55,8 @@ func (f *annotateFlags) engine() (*funcs.Engine, error) {
 	if err := f.mappingFlag.load(e); err != nil {
 		return nil, err
 	}
+	if err := f.gwpSetFlag.check(e); err != nil {
+		return nil, err
+	}
 	return e, nil
 }

@@ -170,6 +170,11 @@ const fluecellPage = (() => {
     const pack = fc && fc.params.find((p) => p.name === "pack");
     sel.replaceChildren(el("option", { value: "", text: "the server's default" + (pack ? " (" + pack.default + ")" : "") }));
     for (const p of (pack && pack.allowed) || []) sel.append(el("option", { value: p, text: p }));
+    const gwpSel = $("opt-gwp");
+    const gwp = fns.find((f) => f.name === "fuel_co2e");
+    const set = gwp && gwp.params.find((p) => p.name === "gwp_set");
+    gwpSel.replaceChildren(el("option", { value: "", text: "the default" + (set ? " (" + set.default + ")" : "") }));
+    for (const s of (set && set.allowed) || []) gwpSel.append(el("option", { value: s, text: s.toUpperCase() }));
     loadGrids();
   });
 
@@ -210,12 +215,13 @@ const fluecellPage = (() => {
     read();
   }
 
-  // query is the options of the form as a query string (pack, grid, sheet, rules).
+  // query is the options of the form as a query string (pack, grid, GWP set, sheet, rules).
   function query(extra) {
     const parts = [];
     const add = (k, v) => parts.push(k + "=" + encodeURIComponent(v));
     if ($("opt-pack").value) add("pack", $("opt-pack").value);
     if ($("opt-grid").value.trim()) add("grid", $("opt-grid").value.trim());
+    if ($("opt-gwp").value) add("gwp_set", $("opt-gwp").value);
     if ($("opt-sheet").value) add("sheet", $("opt-sheet").value);
     for (const r of $("opt-rules").value.split("\n")) if (r.trim()) add("rule", r.trim());
     for (const [k, v] of Object.entries(extra || {})) add(k, v);
@@ -223,10 +229,12 @@ const fluecellPage = (() => {
   }
 
   // mappingToSend is the edited mapping without the names still lacking a fuel id (a mapping
-  // file may not hold an empty id).
+  // file may not hold an empty id), with the GWP set chosen in the form (none: the default).
   function mappingToSend() {
     const m = clone(st.mapping);
     for (const [k, v] of Object.entries(m.names || {})) if (!v) delete m.names[k];
+    if ($("opt-gwp").value) m.gwp_set = $("opt-gwp").value;
+    else delete m.gwp_set;
     return m;
   }
 
@@ -320,7 +328,7 @@ const fluecellPage = (() => {
   function render() {
     const ins = st.ins, rep = ins.report;
     $("result").hidden = false;
-    $("sum-file").textContent = ins.path + " · " + ins.format + " · " + rep.tables.length + " table(s) · " + rep.computed + " of " + rep.rows + " rows computed" + (rep.mapping ? " · read with a mapping" : "");
+    $("sum-file").textContent = ins.path + " · " + ins.format + " · " + rep.tables.length + " table(s) · " + rep.computed + " of " + rep.rows + " rows computed" + (rep.mapping ? " · read with a mapping" : "") + (rep.gwp_set ? " · GWP set " + rep.gwp_set.toUpperCase() : "");
     table("kinds", ["Kind", "Scope", "tCO2e", "tCO2 (fossil)", "Biogenic CO2, t (memo)", "Completeness", "First rows left out"],
       rep.totals_by_kind.map((k) => el("tr", {},
         td(k.kind), td(k.scope), td(fmt(k.tCO2e), "num"), td(fmt(k.tCO2), "num"), td(fmt(k.tCO2_biogenic), "num"),
@@ -448,6 +456,7 @@ const fluecellPage = (() => {
     if (!a) return;
     const out = [];
     const line = (what, x, y) => { if (x !== y) out.push(what + ": " + x + " → " + y); };
+    line("GWP set", a.report.gwp_set, b.report.gwp_set);
     line("rows computed", a.report.computed + " of " + a.report.rows, b.report.computed + " of " + b.report.rows);
     const kinds = new Map();
     for (const k of a.report.totals_by_kind) kinds.set(k.kind, [k, null]);
