@@ -3,7 +3,6 @@ package importer
 import (
 	"context"
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -21,10 +20,6 @@ import (
 // litres / 1000 x 832.5 kg/m3 (EN 590 midpoint, the pack's density, from
 // memory) x 43.0 TJ/Gg (IPCC 2006 Vol 2 Ch 1 Table 1.2) x 74 100 kg CO2/TJ
 // (Table 1.4).
-//
-// A build that still moves such a table's columns to a side sheet skips
-// this test, unless FLUECELL_EXPECT_INLINE is set (then it fails): the
-// variable is to be set where the streaming rewrite is in.
 func TestLargeTableInPlace(t *testing.T) {
 	if testing.Short() {
 		t.Skip("a 25 000-row workbook")
@@ -37,9 +32,6 @@ func TestLargeTableInPlace(t *testing.T) {
 	rep, err := Annotate(context.Background(), testEngine(t), in, out, Options{})
 	if err != nil {
 		t.Fatal(err)
-	}
-	if rep.Layout == LayoutSideSheet && os.Getenv("FLUECELL_EXPECT_INLINE") == "" {
-		t.Skip("this build writes a 250 000-cell table's columns to a side sheet; set FLUECELL_EXPECT_INLINE=1 to make that a failure")
 	}
 	if rep.Layout != LayoutInline || len(rep.Tables) != 1 || rep.Computed != n {
 		t.Fatalf("layout %s, %d tables, %d rows computed; want inline, 1 table, %d", rep.Layout, len(rep.Tables), rep.Computed, n)
