@@ -31,6 +31,12 @@ func (w *sumWriter) set(ref string, v any, style int) {
 	if w.err == nil && style != 0 {
 		w.err = w.f.SetCellStyle(w.name, ref, ref, style)
 	}
+	if w.err == nil && style == w.st.headWrap && style != 0 {
+		// two lines for a heading that wraps in its narrow column
+		if _, r, err := excelize.CellNameToCoordinates(ref); err == nil {
+			w.err = w.f.SetRowHeight(w.name, r, 30)
+		}
+	}
 }
 
 // wrapStyle is a wrapped, top-aligned text style, made once.
@@ -135,15 +141,18 @@ func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
 	if w.err != nil {
 		return excelErr(res.Path, "sheet "+name, w.err)
 	}
-	// Widths that hold the headers ("tCO2 biogenic (memo)"); printed in
-	// landscape at full size: the columns past the page go to the next.
-	_ = f.SetColWidth(name, "A", "A", 44)
-	_ = f.SetColWidth(name, "B", "C", 16)
-	_ = f.SetColWidth(name, "D", "E", 21)
-	_ = f.SetColWidth(name, "F", "F", 15)
-	_ = f.SetColWidth(name, "G", "G", 30)
-	_ = f.SetColWidth(name, "H", "M", 16)
-	_ = f.SetPageLayout(name, &excelize.PageLayoutOptions{Orientation: strPtr("landscape")})
+	// Widths that hold the figures (a national total has 18 characters),
+	// the column headings wrapping within them; printed in landscape at
+	// 70 %, the columns of a total up to its completeness (A to I) fit
+	// one page, the links to the rows left out follow on the next.
+	_ = f.SetColWidth(name, "A", "A", 28)
+	_ = f.SetColWidth(name, "B", "E", 14)
+	_ = f.SetColWidth(name, "F", "F", 14)
+	_ = f.SetColWidth(name, "G", "G", 10)
+	_ = f.SetColWidth(name, "H", "H", 9)
+	_ = f.SetColWidth(name, "I", "I", 22)
+	_ = f.SetColWidth(name, "J", "M", 14)
+	_ = f.SetPageLayout(name, &excelize.PageLayoutOptions{Orientation: strPtr("landscape"), AdjustTo: uintPtr(70)})
 	// The charts go below the tables, one under the other, each as wide
 	// as the tables: readable on screen and on a printed page.
 	if len(w.charts) > 0 {
@@ -177,6 +186,7 @@ func (res *ScanResult) writeSummary(f *excelize.File, st *styles) error {
 func boolPtr(b bool) *bool    { return &b }
 func intPtr(n int) *int       { return &n }
 func strPtr(s string) *string { return &s }
+func uintPtr(n uint) *uint    { return &n }
 
 // breakdownColumns are the headers of a period or group line: those of the
 // totals by kind, so that the columns read the same in every block.
@@ -233,7 +243,7 @@ func (res *ScanResult) writePeriodBlock(w *sumWriter, t *table) {
 	for _, kind := range ks.kinds() {
 		w.heading("By "+grain+": "+KindLabel(kind)+" ("+tableAnchor(t)+")", t)
 		for i, h := range breakdownColumns(grain) {
-			w.set(cellRef(1+i, w.row), h, w.st.head)
+			w.set(cellRef(1+i, w.row), h, w.st.headWrap)
 		}
 		w.row++
 		first, last := w.writeLines(ks, kind, labels)
@@ -271,7 +281,7 @@ func (res *ScanResult) writeGroupBlock(w *sumWriter, t *table) {
 	for _, kind := range ks.kinds() {
 		w.heading("By "+g.hdr.Text+": "+KindLabel(kind)+" ("+tableAnchor(t)+")", t)
 		for i, h := range breakdownColumns(strings.ToLower(g.hdr.Text)) {
-			w.set(cellRef(1+i, w.row), h, w.st.head)
+			w.set(cellRef(1+i, w.row), h, w.st.headWrap)
 		}
 		w.row++
 		keys := byShare(ks.byKind[kind], ks.order[kind])
@@ -344,7 +354,7 @@ func (res *ScanResult) writeFuelBlock(w *sumWriter) {
 		w.set(cellRef(1, w.row), "By fuel: "+KindLabel(kind), w.st.head)
 		w.row++
 		for i, h := range []string{"as written in the workbook", "fluecell id", "tCO2 (fossil)", "tCO2e", "tCO2 biogenic (memo)", "rows computed", "rows found"} {
-			w.set(cellRef(1+i, w.row), h, w.st.head)
+			w.set(cellRef(1+i, w.row), h, w.st.headWrap)
 		}
 		w.row++
 		m := ks.byKind[kind]
@@ -415,7 +425,7 @@ func (res *ScanResult) writeTableList(w *sumWriter) {
 	w.row++
 	for i, h := range []string{"sheet or table", "status", "rows", "computed", "reason", "", "computed columns"} {
 		if h != "" {
-			w.set(cellRef(1+i, w.row), h, w.st.head)
+			w.set(cellRef(1+i, w.row), h, w.st.headWrap)
 		}
 	}
 	w.row++

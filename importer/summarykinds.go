@@ -19,7 +19,7 @@ func (res *ScanResult) writeKindBlock(f *excelize.File, name string, set func(st
 	set(cellRef(1, row), "Totals by kind: kinds are never added together (Scope 1, Scope 2 and embodied emissions answer different questions)", st.head)
 	row++
 	for i, h := range kindColumns() {
-		set(cellRef(1+i, row), h, st.head)
+		set(cellRef(1+i, row), h, st.headWrap)
 	}
 	row++
 	line := func(label string, k KindTotal) error {

@@ -13,6 +13,7 @@ import (
 // styles are the cell styles fluecell adds to a workbook.
 type styles struct {
 	num, int, head, title, note int
+	headWrap                    int // head, wrapped at the top: the column headings of the summary's narrow columns
 	count                       int // the workbook's cell formats before fluecell's were added
 }
 
@@ -33,6 +34,12 @@ func newStyles(f *excelize.File) (*styles, error) {
 	if st.head, err = f.NewStyle(&excelize.Style{Font: &excelize.Font{Bold: true},
 		Fill:   excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{"E7EEF3"}},
 		Border: []excelize.Border{{Type: "bottom", Color: "7F8C8D", Style: 1}}}); err != nil {
+		return nil, err
+	}
+	if st.headWrap, err = f.NewStyle(&excelize.Style{Font: &excelize.Font{Bold: true},
+		Fill:      excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{"E7EEF3"}},
+		Border:    []excelize.Border{{Type: "bottom", Color: "7F8C8D", Style: 1}},
+		Alignment: &excelize.Alignment{WrapText: true, Vertical: "top"}}); err != nil {
 		return nil, err
 	}
 	if st.title, err = f.NewStyle(&excelize.Style{Font: &excelize.Font{Bold: true, Size: 14}}); err != nil {
