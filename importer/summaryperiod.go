@@ -2,6 +2,7 @@ package importer
 
 import (
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -217,6 +218,45 @@ type periodPlan struct {
 	from, to time.Time
 	dated    int // data rows with a date
 	rows     int // data rows
+	// days holds the distinct dates seen (as days since 1970), up to
+	// maxSpacingDays of them, for spacingGrain.
+	days map[int64]struct{}
+}
+
+// maxSpacingDays bounds the distinct dates kept to judge their spacing: more
+// distinct dates than this are spaced finely enough for any grain.
+const maxSpacingDays = 4096
+
+// spacingGrain is the finest grain the spacing of the distinct dates
+// allows: dates a year or more apart (annual rows written as year-end
+// dates, "2011-12-31", "2012-12-31") are summed by year, never spread over
+// quarters that hold nothing; a quarter or more apart by quarter; a month
+// (28 days) or more by month; a week or more by week. grainDay for one date
+// or too many to judge.
+func (p *periodPlan) spacingGrain() grain {
+	if len(p.days) < 2 || len(p.days) > maxSpacingDays {
+		return grainDay
+	}
+	ds := make([]int64, 0, len(p.days))
+	for d := range p.days {
+		ds = append(ds, d)
+	}
+	slices.Sort(ds)
+	gap := ds[1] - ds[0]
+	for i := 2; i < len(ds); i++ {
+		gap = min(gap, ds[i]-ds[i-1])
+	}
+	switch {
+	case gap >= 365:
+		return grainYear
+	case gap >= 89:
+		return grainQuarter
+	case gap >= 28:
+		return grainMonth
+	case gap >= 7:
+		return grainWeek
+	}
+	return grainDay
 }
 
 // readDates chooses the date column of t (the one whose values read as
@@ -250,6 +290,12 @@ func (t *table) readDates() (*periodPlan, string) {
 				p.to = rp.at
 			}
 			p.dated++
+			if p.days == nil {
+				p.days = map[int64]struct{}{}
+			}
+			if len(p.days) <= maxSpacingDays {
+				p.days[rp.at.Unix()/86400] = struct{}{}
+			}
 			p.grain = min(p.grain, rp.res)
 			p.fiscal = p.fiscal && rp.fiscal
 		}
@@ -269,8 +315,8 @@ func (t *table) readDates() (*periodPlan, string) {
 	if best.grain != grainYear {
 		best.fiscal = false
 	}
-	g := chooseGrain(best.from, best.to, best.grain)
-	best.grain = g
+	g := chooseGrain(best.from, best.to, max(best.grain, best.spacingGrain()))
+	best.grain, best.days = g, nil
 	best.first, best.last = periodIndex(best.from, g), periodIndex(best.to, g)
 	return best, ""
 }
@@ -307,7 +353,7 @@ func (p *periodPlan) note() string {
 	case p.grain > grainDay:
 		s += "; the finest grain that gives at most " + itoa(maxPeriods) + " periods"
 		if p.grain == grainMonth || p.grain == grainYear || p.grain == grainQuarter {
-			s += " and is no finer than the dates are written"
+			s += " and is no finer than the dates are written and spaced"
 		}
 	default:
 		s += "; at most " + itoa(maxPeriods) + " periods, so each day is its own"

@@ -409,3 +409,43 @@ func TestSummaryByFuelWords(t *testing.T) {
 		t.Errorf("the misspelt fuel: %q", got["(unknown names)"])
 	}
 }
+
+// TestSpacingGrain: annual rows written as year-end dates (an
+// energy-benchmarking export's "Year Ending" 2011-12-31, 2012-12-31,
+// 2013-12-31) are summed by year, not spread over quarters that hold
+// nothing; monthly readings by month; daily fill-ups keep the day.
+func TestSpacingGrain(t *testing.T) {
+	plan := func(dates ...string) *periodPlan {
+		p := &periodPlan{days: map[int64]struct{}{}}
+		for _, d := range dates {
+			at, err := time.Parse("2006-01-02", d)
+			if err != nil {
+				t.Fatal(err)
+			}
+			p.days[at.Unix()/86400] = struct{}{}
+		}
+		return p
+	}
+	cases := []struct {
+		dates []string
+		want  grain
+	}{
+		{[]string{"2011-12-31", "2012-12-31", "2013-12-31"}, grainYear},
+		{[]string{"2025-03-31", "2025-06-30", "2025-09-30", "2025-12-31"}, grainQuarter},
+		{[]string{"2025-01-31", "2025-02-28", "2025-03-31"}, grainMonth},
+		{[]string{"2026-03-30", "2026-04-06", "2026-04-13"}, grainWeek},
+		{[]string{"2026-03-30", "2026-03-31", "2026-04-03"}, grainDay},
+		{[]string{"2026-03-30"}, grainDay},
+	}
+	for _, c := range cases {
+		if got := plan(c.dates...).spacingGrain(); got != c.want {
+			t.Errorf("%v: grain %v, want %v", c.dates, got, c.want)
+		}
+	}
+	// Year-end dates over three years: by year, three lines.
+	from, _ := time.Parse("2006-01-02", "2011-12-31")
+	to, _ := time.Parse("2006-01-02", "2013-12-31")
+	if g := chooseGrain(from, to, max(grainDay, plan("2011-12-31", "2012-12-31", "2013-12-31").spacingGrain())); g != grainYear {
+		t.Errorf("year-end dates: grain %v, want year", g)
+	}
+}
