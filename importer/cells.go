@@ -5,6 +5,7 @@ import (
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs"
+	"github.com/fluecell/fluecell/importer/bookio"
 )
 
 // cellKind says what a cell holds.
@@ -191,80 +192,23 @@ func grouped(s, sep string) bool {
 	return true
 }
 
-// colName is the column letter(s) of a 1-based column.
-func colName(col int) string {
-	var b [4]byte
-	i := len(b)
-	for col > 0 {
-		col--
-		i--
-		b[i] = byte('A' + col%26)
-		col /= 26
-	}
-	return string(b[i:])
-}
+// colName is the column letter(s) of a 1-based column (bookio.ColName).
+func colName(col int) string { return bookio.ColName(col) }
 
 // cellRef is "B7" for column 2, row 7.
-func cellRef(col, row int) string { return colName(col) + strconv.Itoa(row) }
+func cellRef(col, row int) string { return bookio.CellRef(col, row) }
 
-// parseRef reads "AB12" (optionally with $ signs) into column and row.
-func parseRef(s string) (col, row int, ok bool) {
-	i := 0
-	for i < len(s) && s[i] == '$' {
-		i++
-	}
-	for ; i < len(s); i++ {
-		c := s[i]
-		if c >= 'a' && c <= 'z' {
-			c -= 'a' - 'A'
-		}
-		if c < 'A' || c > 'Z' {
-			break
-		}
-		col = col*26 + int(c-'A'+1)
-		if col > 16384 {
-			return 0, 0, false
-		}
-	}
-	if col == 0 {
-		return 0, 0, false
-	}
-	if i < len(s) && s[i] == '$' {
-		i++
-	}
-	if i == len(s) {
-		return 0, 0, false
-	}
-	for ; i < len(s); i++ {
-		c := s[i]
-		if c < '0' || c > '9' {
-			return 0, 0, false
-		}
-		row = row*10 + int(c-'0')
-		if row > 1048576 {
-			return 0, 0, false
-		}
-	}
-	return col, row, row > 0
-}
+// parseRef reads "AB12" (optionally with $ signs) into column and row
+// (bookio.ParseRef).
+func parseRef(s string) (col, row int, ok bool) { return bookio.ParseRef(s) }
 
 // rangeRef is a rectangle of cells, 1-based and inclusive.
 type rangeRef struct{ c1, r1, c2, r2 int }
 
+// parseRange reads "A1:C9" or "B2" (bookio.ParseRange).
 func parseRange(s string) (rangeRef, bool) {
-	a, b, found := strings.Cut(s, ":")
-	c1, r1, ok := parseRef(a)
-	if !ok {
-		return rangeRef{}, false
-	}
-	if !found {
-		return rangeRef{c1, r1, c1, r1}, true
-	}
-	c2, r2, ok := parseRef(b)
-	if !ok {
-		return rangeRef{}, false
-	}
-	return rangeRef{min(c1, c2), min(r1, r2), max(c1, c2), max(r1, r2)}, true
+	r, ok := bookio.ParseRange(s)
+	return rangeRef{r.C1, r.R1, r.C2, r.R2}, ok
 }
 
 func (r rangeRef) String() string {
