@@ -76,6 +76,8 @@ func (lx *lexicon) readCarrier(s string) carrier {
 		return carrierHeat
 	case hasWord(ws, "electricity", "electric", "elec", "electrical") || hasWord(ws, "power", "grid") && lx.fewUnknown(ws):
 		return carrierElectricity
+	case touPeriod(ws):
+		return carrierElectricity // time-of-use periods are an electricity tariff's
 	}
 	return carrierNone
 }
@@ -105,4 +107,14 @@ func gridPurchase(ws []string) bool {
 // Generated from Onsite Renewable Systems").
 func withOnsite(ws []string) bool {
 	return hasWord(ws, "onsite", "generated", "generation") || hasPhrase(ws, "on site")
+}
+
+// touPeriod reports a header naming a time-of-use period of an electricity
+// tariff ("On Peak", "Partial Peak", "Off Peak Usage", "Super Off Peak",
+// "Mid-Peak", "Shoulder"): the usage columns of a utility's billing export,
+// which name no carrier because only electricity is billed by time of use
+// (common practice of utility tariffs).
+func touPeriod(ws []string) bool {
+	return hasPhrase(ws, "on peak", "off peak", "partial peak", "mid peak", "super off peak", "part peak") ||
+		len(ws) <= 3 && hasWord(ws, "onpeak", "offpeak", "shoulder")
 }

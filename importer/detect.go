@@ -61,6 +61,7 @@ type column struct {
 	numStyle   numStyle // how its numbers stored as text are written (decimal point or comma)
 	styleGuess bool     // numStyle comes from values that only lean one way: said in a finding
 	fuelAlias  bool
+	fromUnit   bool    // roleWideFuel: the fuel read from a unit only natural gas is billed in (unitfuel.go)
 	carrier    carrier // roleCarrier: the energy bought
 	gallonText string  // a bare gallon of the header read as imperial, as the mapping says (gallons.go)
 	carbon     carbonCol

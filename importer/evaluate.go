@@ -274,7 +274,9 @@ func (sc *scanCtx) headerWarnings(t *table) {
 			}
 			sc.delivered = false
 		}
-		if c.role == roleWideFuel && c.fuelAlias && !sameName(c.hdr.Base, c.fuelID) {
+		if c.role == roleWideFuel && c.fromUnit {
+			sc.warn.add(sheet, c.col, hr, SevInfo, CodeReadAs, unitFuelNote(c))
+		} else if c.role == roleWideFuel && c.fuelAlias && !sameName(c.hdr.Base, c.fuelID) {
 			sc.warn.add(sheet, c.col, hr, SevInfo, CodeFuelAlias, quoteText(c.hdr.Base)+" read as "+c.fuelID)
 		}
 		if c.role == roleWideFuel && c.hdr.UnitErr == nil && c.unitIdent != "" {
@@ -310,6 +312,11 @@ func (sc *scanCtx) headerWarnings(t *table) {
 				continue
 			}
 			ws := words(c.hdr.Base)
+			if hasWord(ws, "total", "totals", "sum", "all") && sameUnitBeside(spec, c) {
+				sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.Text)+
+					" is a total: left out, so that the amounts of the columns beside it are not counted twice")
+				continue
+			}
 			if hasWord(ws, "total", "totals", "sum", "all", "month", "year", "period") {
 				continue
 			}

@@ -176,8 +176,11 @@ func (d *detector) assignRoles(t *tableSpec) {
 				continue
 			}
 			f := d.lx.headerFuel(c.hdr.Base)
+			fromUnit := false
 			if f.kind != nameFuel {
-				continue
+				if f, fromUnit = d.unitFuel(c); !fromUnit {
+					continue
+				}
 			}
 			if c.hdr.Unit.Dim == units.Energy && electricOutput(c.hdr.Unit.Symbol) && (c.st.hint.Any(tables.HintOutput) || t.output) {
 				continue // electricity generated from the fuel, not the fuel burned
@@ -195,7 +198,7 @@ func (d *detector) assignRoles(t *tableSpec) {
 			if c.hdr.UnitErr == nil && !isQuantityDim(c.hdr.Unit) {
 				continue
 			}
-			c.role, c.fuelID, c.fuelAlias = roleWideFuel, f.id, f.alias || f.name != c.hdr.Base
+			c.role, c.fuelID, c.fuelAlias, c.fromUnit = roleWideFuel, f.id, f.alias || f.name != c.hdr.Base, fromUnit
 			t.wide = append(t.wide, c)
 		}
 		t.wide = dropParts(t.wide)
