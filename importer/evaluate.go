@@ -307,35 +307,7 @@ func (sc *scanCtx) headerWarnings(t *table) {
 		}
 	}
 	if spec.kind == kindWide {
-		for _, c := range spec.cols {
-			if c.role != roleNone || !c.numeric || c.hdr.UnitText == "" || !isQuantityDim(c.hdr.Unit) || c.sameAs != nil || c.biogenic || c.partOf != nil {
-				continue
-			}
-			ws := words(c.hdr.Base)
-			if hasWord(ws, "total", "totals", "sum", "all") && sameUnitBeside(spec, c) {
-				sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.Text)+
-					" is a total: left out, so that the amounts of the columns beside it are not counted twice")
-				continue
-			}
-			if hasWord(ws, "total", "totals", "sum", "all", "month", "year", "period") {
-				continue
-			}
-			if hasWord(ws, "electricity", "electric", "grid", "power", "heat", "steam", "cooling") {
-				sc.warn.add(sheet, c.col, hr, SevInfo, CodeFuelUnknown, quoteText(c.hdr.Text)+
-					" is purchased energy, not a fuel burned on site (Scope 2, which needs the supplier's or the grid's factor): the column is left out of the totals")
-				continue
-			}
-			if what := notOneFuel(sc.vocab, ws); what != "" {
-				sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.Text)+" is "+what+
-					", not an amount of one fuel: the column is left out of the totals")
-				continue
-			}
-			msg := "column " + quoteText(c.hdr.Text) + " has a unit but names no known fuel"
-			if f := sc.fuel(c.hdr.Base); f.err != nil {
-				msg = sc.fuelMessage(c.hdr.Base)
-			}
-			sc.warn.add(sheet, c.col, hr, SevWarning, CodeFuelUnknown, msg+"; the column is left out of the totals")
-		}
+		sc.wideColumnNotes(t)
 	}
 }
 
@@ -403,7 +375,7 @@ func (sc *scanCtx) wideFactors(t *table) map[*column][2]float64 {
 		}
 		a, err1 := sc.e.CallValues("fuel_co2", c.fuelID, 1.0, c.hdr.UnitText)
 		b, err2 := sc.e.CallValues("fuel_co2e", c.fuelID, 1.0, c.hdr.UnitText, sc.gwpSetOrDefault())
-		if t.spec.mobile != "" {
+		if t.spec.mobile != "" && !t.spec.stationary[c.fuelID] {
 			a, err1 = sc.e.CallValues("mobile_co2", c.fuelID, 1.0, c.hdr.UnitText, modeFor(c.fuelID))
 			b, err2 = sc.e.CallValues("mobile_co2e", c.fuelID, 1.0, c.hdr.UnitText, modeFor(c.fuelID), sc.gwpSetOrDefault())
 		}

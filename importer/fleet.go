@@ -3,6 +3,7 @@ package importer
 import (
 	"strings"
 
+	"github.com/fluecell/fluecell/funcs/units"
 	"github.com/fluecell/fluecell/importer/tables"
 )
 
@@ -70,11 +71,45 @@ func (d *detector) fleetEvidence(t *tableSpec) {
 		return
 	}
 	t.stationary = map[string]bool{}
+	siteTable := len(t.wide) > 0 && !d.vehicleRecords(t)
 	for _, id := range append([]string{t.ctxFuel}, wideFuels(t)...) {
-		if id != "" && d.lx.roadModeOf(id) == "" {
+		if id != "" && (d.lx.roadModeOf(id) == "" || siteTable && !roadLiquid(id)) {
 			t.stationary[id] = true
 		}
 	}
+	if siteTable {
+		t.mobile += "; only its diesel and petrol columns, the rows being sites with distances beside their heating fuels, whose row totals count as stationary combustion"
+	}
+}
+
+// vehicleRecords reports a table whose rows are vehicles: a column naming
+// vehicles (registration, vehicle, fleet number), or a title or sheet name
+// about a fleet. A column of distances alone (a site table's "Business
+// mileage (miles)") is not such evidence for its other columns.
+func (d *detector) vehicleRecords(t *tableSpec) bool {
+	for _, c := range t.cols {
+		distance := c.st.hint.Any(tables.HintDistance) || c.hdr.UnitErr == nil && c.hdr.Unit.Dim == units.Length
+		if c.st.hint.Any(tables.HintVehicle) && !distance && c.role != roleQuantity && !c.perColumn() {
+			return true
+		}
+	}
+	for _, s := range t.titles {
+		if len(s) <= 120 && hasWord(words(s), fleetWords...) {
+			return true
+		}
+	}
+	return hasWord(words(d.sheet), fleetWords...)
+}
+
+// roadLiquid reports the fuels a site table's columns hold for its road
+// vehicles: diesel, petrol and their bio blends (common practice: the gas,
+// heating oil, LPG or coal of a site are burned in its boilers).
+func roadLiquid(id string) bool {
+	switch id {
+	case "gas_diesel_oil", "motor_gasoline", "biodiesel", "ethanol", "renewable_diesel":
+		return true
+	}
+	return false
 }
 
 // fleetWhy names the evidence that t is a fleet's; "" when there is none.
