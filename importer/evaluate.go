@@ -76,6 +76,11 @@ func (sc *scanCtx) evaluate(t *table) error {
 	forest := sc.sumForest(t)
 	var rowNotes []string
 
+	cumulative := t.cumulativeWhy()
+	if cumulative != "" {
+		sc.warn.add(sheet, spec.qty.col, spec.headerRow, SevWarning, CodeNotComputed, cumulative+
+			"; rows not computed: give the amounts used (the differences) in a column of their own")
+	}
 	for i := 0; i < n; i++ {
 		if i&4095 == 0 {
 			if err := sc.cancelled(); err != nil {
@@ -104,6 +109,10 @@ func (sc *scanCtx) evaluate(t *table) error {
 			}
 			sc.warn.add(sheet, c.col, rowNum, SevInfo, CodeNotComputed, "not computed: "+spec.headerErr.Message[:strings.IndexByte(spec.headerErr.Message+";", ';')]+
 				" (the error at "+spec.headerErr.Cell+")")
+			continue
+		}
+		if cumulative != "" {
+			sc.warn.add(sheet, spec.qty.col, rowNum, SevInfo, CodeNotComputed, "a meter reading, not an amount used (see "+sheet+"!"+cellRef(spec.qty.col, spec.headerRow)+"); row not computed")
 			continue
 		}
 		if spec.kind == kindCharge {
