@@ -348,9 +348,13 @@ func (d *detector) tryHeader(rows []row, h int) *tableSpec {
 		return nil
 	}
 	// A banner over the real header ("Fuel use" merged over "Amount | Unit")
-	// is not the header.
-	if len(sample) > 0 && headerLike(sample[0]) && d.lx.keywordHits(sample[0]) >= 2 {
-		return nil
+	// is not the header. A data row naming fewer roles than this row
+	// ("Farm | Red diesel | 2400 | litres" under "Site | Fuel type |
+	// Quantity | Unit") is no header below a banner.
+	if len(sample) > 0 && headerLike(sample[0]) {
+		if n := d.lx.keywordHits(sample[0]); n >= 2 && (n >= d.lx.keywordHits(hdr) || !hasNumber(sample[0])) {
+			return nil
+		}
 	}
 	// A row of units right under the header ("L", "kWh", "t").
 	if len(sample) > 0 && unitRowLike(sample[0]) {
