@@ -46,3 +46,24 @@ func TestSiteTableWithMileage(t *testing.T) {
 		t.Errorf("no note at the mileage column; findings: %s", listFindings(rep))
 	}
 }
+
+// TestWaterColumnNoted: a monthly utilities table with water beside gas
+// and electricity says why water is not computed, instead of passing it
+// over (the amounts are invented).
+func TestWaterColumnNoted(t *testing.T) {
+	rows := [][]any{
+		{"Month", "Electricity kWh", "Gas kWh", "Water m3", "Spend GBP"},
+		{"Apr-24", 12000, 30000, 150, 5400},
+		{"May-24", 11500, 21000, 140, 4700},
+	}
+	rep := scanWith(t, "utilities.xlsx", "Monthly", rows, Options{Grid: "UK"})
+	if rep.Computed != 2 {
+		t.Fatalf("computed %d of %d rows; findings: %s", rep.Computed, rep.Rows, listFindings(rep))
+	}
+	for _, w := range rep.Warnings {
+		if w.Cell == "D1" && w.Code == CodeNotComputed && strings.Contains(w.Message, "is water, not fuel burned or energy bought") {
+			return
+		}
+	}
+	t.Errorf("no note at the water column; findings: %s", listFindings(rep))
+}

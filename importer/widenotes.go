@@ -10,6 +10,11 @@ func (sc *scanCtx) wideColumnNotes(t *table) {
 	spec := t.spec
 	sheet, hr := spec.sheet, spec.headerRow
 	for _, c := range spec.cols {
+		if c.role == roleNone && c.numeric && hasWord(words(c.hdr.Base), "water", "wastewater", "sewer", "sewage") {
+			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.Text)+
+				" is water, not fuel burned or energy bought: not computed (its supply and treatment emissions are outside these functions)")
+			continue
+		}
 		if c.role == roleNone && c.numeric && c.hdr.UnitErr == nil && c.hdr.Unit.Dim == units.Length {
 			sc.warn.add(sheet, c.col, hr, SevInfo, CodeNotComputed, quoteText(c.hdr.Text)+
 				" is a distance driven with no vehicle type: not computed (vehicle_co2e needs the vehicle type, which a mapping can give; the fuel bought, where known, is the better basis)")
