@@ -42,6 +42,7 @@ type Edit struct {
 	rels     map[string][]Relation // relationships added to a part (by the part's name)
 	replace  map[string][]byte     // parts replaced whole
 	ids      map[string]int        // relationship ids handed out, per part
+	sstDone  bool                  // AppendShared has been called
 }
 
 type addedPart struct {
