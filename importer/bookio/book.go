@@ -50,8 +50,10 @@ func Open(zr *zip.Reader, limit int64) (*Book, error) {
 
 // OpenPackage reads the package structure (parts, sheets) without the
 // shared strings, and names the shared-strings part ("" when there is
-// none).
+// none). It registers bookio's inflater (newInflater) with zr for the
+// parts read through it.
 func OpenPackage(zr *zip.Reader, limit int64) (*Book, string, error) {
+	zr.RegisterDecompressor(zip.Deflate, newInflater)
 	b := &Book{zr: zr, files: map[string]*zip.File{}, folded: map[string]*zip.File{}, limit: limit}
 	for _, f := range zr.File {
 		name := strings.TrimPrefix(f.Name, "/")
