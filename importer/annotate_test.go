@@ -388,8 +388,10 @@ func TestAnnotateLayoutOption(t *testing.T) {
 }
 
 // TestAnnotateRawCopy: annotating in place changes only the sheets that
-// get computed columns or marks, the styles, the workbook's sheet list,
-// relationships and content types; every other part of the input is in
+// get computed columns or marks, the styles, the shared strings (the
+// source texts appended at their end: TestPreservationRich checks the
+// existing ones), the workbook's sheet list, relationships and content
+// types; every other part of the input is in
 // the output with the same compressed bytes (copied raw, not inflated and
 // deflated again).
 func TestAnnotateRawCopy(t *testing.T) {
@@ -425,7 +427,7 @@ func TestAnnotateRawCopy(t *testing.T) {
 		}
 		changed++
 		switch {
-		case strings.HasPrefix(name, "xl/worksheets/sheet"), name == "xl/styles.xml", name == "xl/workbook.xml",
+		case strings.HasPrefix(name, "xl/worksheets/sheet"), name == "xl/styles.xml", name == "xl/workbook.xml", name == "xl/sharedStrings.xml",
 			name == "[Content_Types].xml", strings.HasSuffix(name, ".rels"), strings.HasPrefix(name, "xl/comments"), strings.HasSuffix(name, ".vml"):
 		default:
 			t.Errorf("%s changed", name)

@@ -32,6 +32,10 @@ type inlineCols struct {
 	head, num int // styles of the header cells and of the computed cells
 	reason    func(i int) string
 	cancelled func() error
+	// sst is the index in the workbook's shared strings of t.srcText[0]
+	// (the texts follow in order), or -1: the source texts are written as
+	// inline strings.
+	sst int
 }
 
 func (w *sheetWork) extent(r bookio.Range) {
@@ -165,7 +169,9 @@ func (tc *tableCursor) appendCells(out []bookio.NewCell) []bookio.NewCell {
 			out = append(out, bookio.NewCell{Col: c.col + j, Kind: bookio.NewInline, Text: why, Style: c.num})
 		}
 	}
-	if s := t.src[i]; s >= 0 {
+	if s := t.src[i]; s >= 0 && c.sst >= 0 {
+		out = append(out, bookio.NewCell{Col: c.col + k - 1, Kind: bookio.NewShared, SST: c.sst + int(s)})
+	} else if s >= 0 {
 		out = append(out, bookio.NewCell{Col: c.col + k - 1, Kind: bookio.NewInline, Text: t.srcText[s]})
 	}
 	return out

@@ -77,6 +77,7 @@ func (res *ScanResult) writeWorkbook(b *bookio.Book, readPath string) (ed *booki
 	work := map[string]*sheetWork{} // by sheet name
 	side := 0
 	occs := map[string]*sheetOccupancy{} // per sheet, read once for all its tables
+	var inl []*inlineCols                // the inline tables, in table order
 	for i, t := range res.sc.tables {
 		if len(t.rules) == 0 || len(t.rowNums) == 0 {
 			continue
@@ -103,7 +104,7 @@ func (res *ScanResult) writeWorkbook(b *bookio.Book, readPath string) (ed *booki
 			}
 		}
 		if t.layout == LayoutInline {
-			res.planInline(work, t, st, col)
+			inl = append(inl, res.planInline(work, t, st, col))
 		} else {
 			side++
 			if err := res.writeSide(g, t, sideSheetName(side), st); err != nil {
@@ -128,6 +129,9 @@ func (res *ScanResult) writeWorkbook(b *bookio.Book, readPath string) (ed *booki
 	}
 	if err := res.writeSources(g, st); err != nil {
 		return nil, nil, err
+	}
+	if err := sharedSources(ed, inl); err != nil {
+		return nil, nil, bookError(res.Path, err)
 	}
 	for _, w := range work {
 		if err := w.plan(b, ed); err != nil {
@@ -161,7 +165,7 @@ func sideSheetName(n int) string {
 
 // planInline records the computed columns of t beside the table, in its
 // sheet, from column col on (see placeInline), for the sheet's rewrite.
-func (res *ScanResult) planInline(work map[string]*sheetWork, t *table, st *styles, col int) {
+func (res *ScanResult) planInline(work map[string]*sheetWork, t *table, st *styles, col int) *inlineCols {
 	sheet := t.spec.sheet
 	k := t.outCount() + 1
 	t.outSheet, t.outCol = sheet, col
@@ -172,10 +176,49 @@ func (res *ScanResult) planInline(work map[string]*sheetWork, t *table, st *styl
 	}
 	// The header cells take the style of the header's last cell when it
 	// has one (StyleFrom), else fluecell's.
-	w.tables = append(w.tables, &inlineCols{t: t, col: col, head: st.head, num: st.num, reason: res.rowReasons(t), cancelled: res.sc.cancelled})
+	c := &inlineCols{t: t, col: col, head: st.head, num: st.num, reason: res.rowReasons(t), cancelled: res.sc.cancelled, sst: -1}
+	w.tables = append(w.tables, c)
 	last := max(t.lastRow, t.spec.headerRow, int(t.rowNums[len(t.rowNums)-1]))
 	w.extent(bookio.Range{C1: col, R1: t.spec.headerRow, C2: col + k - 1, R2: last})
 	w.cols = append(w.cols, bookio.ColWidth{Min: col, Max: col + k - 2, Width: 12}, bookio.ColWidth{Min: col + k - 1, Max: col + k - 1, Width: 48})
+	return c
+}
+
+// sharedSources appends the source texts of the inline tables to the
+// workbook's shared strings (they repeat down the rows: a few texts for
+// many cells), so that each source cell holds an index, not its text.
+// When the workbook's strings cannot take them the cells stay inline.
+func sharedSources(ed *bookio.Edit, inl []*inlineCols) error {
+	var texts []string
+	refs := 0
+	for _, c := range inl {
+		t := c.t
+		if len(t.srcText) == 0 {
+			continue
+		}
+		c.sst = len(texts)
+		texts = append(texts, t.srcText...)
+		for _, s := range t.src {
+			if s >= 0 {
+				refs++
+			}
+		}
+	}
+	first, ok, err := ed.AppendShared(texts, refs)
+	if err != nil {
+		return err
+	}
+	for _, c := range inl {
+		switch {
+		case len(c.t.srcText) == 0:
+			c.sst = -1
+		case ok:
+			c.sst += first
+		default:
+			c.sst = -1
+		}
+	}
+	return nil
 }
 
 // writeSide streams the computed columns into a new sheet, row for row

@@ -18,6 +18,11 @@ type Book struct {
 	SST    []string   // the shared strings' texts (nil when opened by OpenPackage)
 	limit  int64      // uncompressed bytes allowed in all (each part: PartLimit)
 	wbPart string
+	// sstPart is the shared strings part ("" when none); sstRel is true
+	// when the workbook's relationships name it (else it was found by its
+	// usual name only).
+	sstPart string
+	sstRel  bool
 }
 
 // SheetRef is one sheet of the workbook in tab order.
@@ -45,8 +50,10 @@ func Open(zr *zip.Reader, limit int64) (*Book, error) {
 
 // OpenPackage reads the package structure (parts, sheets) without the
 // shared strings, and names the shared-strings part ("" when there is
-// none).
+// none). It registers bookio's inflater (newInflater) with zr for the
+// parts read through it.
 func OpenPackage(zr *zip.Reader, limit int64) (*Book, string, error) {
+	zr.RegisterDecompressor(zip.Deflate, newInflater)
 	b := &Book{zr: zr, files: map[string]*zip.File{}, folded: map[string]*zip.File{}, limit: limit}
 	for _, f := range zr.File {
 		name := strings.TrimPrefix(f.Name, "/")
@@ -75,6 +82,7 @@ func OpenPackage(zr *zip.Reader, limit int64) (*Book, string, error) {
 		byID[r.ID] = r
 		if strings.HasSuffix(r.Type, "/sharedStrings") {
 			sstPart = ResolvePart(path.Dir(wbPart), r.Target)
+			b.sstRel = true
 		}
 	}
 	if err := b.readWorkbook(wbPart, byID); err != nil {
@@ -86,6 +94,7 @@ func OpenPackage(zr *zip.Reader, limit int64) (*Book, string, error) {
 	if sstPart != "" && b.File(sstPart) == nil {
 		sstPart = ""
 	}
+	b.sstPart = sstPart
 	return b, sstPart, nil
 }
 
