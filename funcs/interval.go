@@ -46,7 +46,7 @@ func ParseApproach(s string) (Approach, error) {
 // IntervalOptions asks for the 95 % interval of a result.
 type IntervalOptions struct {
 	Approach Approach // zero: Approach1
-	Seed     uint64   // Approach2: the seed of the draws
+	Seed     uint64   // Approach2: seed of the draws
 	Draws    int      // Approach2: the number of draws, 0: DefaultDraws
 }
 

@@ -50,7 +50,7 @@ const maxTermCache = 4096
 // NewTotalModel returns an empty model. activity gives the 95 % half-width, in per cent, of the
 // amounts of kind (ActivityStationaryFuel ...) recorded in group (a table); nil means amounts
 // are exact. The amounts of one group and kind are one quantity: a table's records share how
-// they were kept (the same meters, invoices and transcription), and the default uncertainties
+// they were kept (the same meters, invoices and data entry), and the default uncertainties
 // are published for the statistics of a whole category, not for one record, so their errors do
 // not average out over the rows (IPCC 2006 Vol 1 Ch 3 on correlated inputs, from memory).
 func NewTotalModel(activity func(group, kind string) float64) *TotalModel {

@@ -25,7 +25,7 @@ const fuzzAllocCap = 1 << 30
 // ones (an empty one is kept as it was; "-" removes the part). Scan,
 // Inspect and Annotate must return nil or an input error (never a panic,
 // an internal or I/O error, or a stack in a message), finish in 20 s and
-// allocate under fuzzAllocCap. The seed corpus (every malformation of
+// allocate under fuzzAllocCap. The corpus of seeds (every malformation of
 // TestMalformedWorkbooks, a shared-strings bomb, truncated and damaged
 // zips) runs with go test; .ci/run fuzzes for FLUECELL_FUZZTIME when set.
 func FuzzAnnotate(f *testing.F) {

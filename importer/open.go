@@ -10,6 +10,7 @@ import (
 	"path/filepath"
 	"strings"
 
+	"github.com/fluecell/fluecell/importer/bookio"
 	"github.com/richardlehane/mscfb"
 )
 
@@ -191,14 +192,5 @@ func openZip(path string, f *os.File, size int64, lim limits) (*zip.Reader, erro
 	return zr, nil
 }
 
-func byteSize(n int64) string {
-	switch {
-	case n >= 1<<30:
-		return fmt.Sprintf("%.1f GB", float64(n)/(1<<30))
-	case n >= 1<<20:
-		return fmt.Sprintf("%.1f MB", float64(n)/(1<<20))
-	case n >= 1<<10:
-		return fmt.Sprintf("%.1f kB", float64(n)/(1<<10))
-	}
-	return fmt.Sprintf("%d bytes", n)
-}
+// byteSize writes n bytes for a message: "1.5 MB" (bookio.ByteSize).
+func byteSize(n int64) string { return bookio.ByteSize(n) }

@@ -19,7 +19,7 @@ import (
 //   - the amounts of one table and kind of record share one activity-data quantity, with the
 //     default uncertainty of that kind (funcs.ActivityDefaults) or the mapping's
 //     activity_uncertainty for the table. A table's rows come from the same records (the same
-//     meters, invoices and transcription), and the default ranges are published for the
+//     meters, invoices and data entry), and the default ranges are published for the
 //     statistics of a whole category rather than one record, so their errors are not taken to
 //     average out over the rows: treating rows as independent would shrink the range by the
 //     square root of their number, a precision no record-keeping shows (IPCC 2006 Vol 1 Ch 3

@@ -158,7 +158,7 @@ func TestTotalMonteCarloAgreesWithPropagation(t *testing.T) {
 	nearRel(t, "low", a2.Low, a1.Low, 0.005*v/a1.Low)
 	nearRel(t, "high", a2.High, a1.High, 0.005*v/a1.High)
 	if u := rep.Uncertainty; u.Seed != 4 || u.Draws != 100_000 || !strings.Contains(u.Method, "seed 4") {
-		t.Errorf("the report does not say the seed and draws: %+v", u)
+		t.Errorf("the report gives no seed and draws: %+v", u)
 	}
 	if again := kindTotalOf(twinScan(t, rows, opt), KindStationary); again.Low != a2.Low || again.High != a2.High {
 		t.Errorf("same seed, different intervals: %+v %+v", a2.TotalInterval, again.TotalInterval)

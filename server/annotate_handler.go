@@ -253,9 +253,15 @@ func uploadError(err error, msg string) *apiError {
 // an empty body.
 func (h *annotateHandler) writeReport(w http.ResponseWriter, r *http.Request, rep *importer.Report) {
 	rep.Output = "" // a path on the server
-	body, err := marshalJSON(rep)
+	h.writeJSON(w, r, "the report", rep)
+}
+
+// writeJSON answers v as JSON (200, not cached), encoded before anything is
+// written; what cannot be encoded is a 500 naming what, never an empty 200.
+func (h *annotateHandler) writeJSON(w http.ResponseWriter, r *http.Request, what string, v any) {
+	body, err := marshalJSON(v)
 	if err != nil {
-		h.fail(w, r, internalError(fmt.Errorf("encoding the report: %w", err)))
+		h.fail(w, r, internalError(fmt.Errorf("encoding %s: %w", what, err)))
 		return
 	}
 	body = append(body, '\n')

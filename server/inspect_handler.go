@@ -2,9 +2,7 @@ package server
 
 import (
 	"context"
-	"fmt"
 	"net/http"
-	"strconv"
 
 	"github.com/fluecell/fluecell/importer"
 )
@@ -36,15 +34,5 @@ func (h *annotateHandler) inspect(ctx context.Context, w http.ResponseWriter, r 
 	ins.Path = up.name // not the server's spool path
 	ins.Report.Output = ""
 	ans := inspection{Inspection: ins, Preview: prev, MappingFile: ins.MappingFile(), Roles: importer.RoleNames()}
-	body, err := marshalJSON(ans)
-	if err != nil {
-		h.fail(w, r, internalError(fmt.Errorf("encoding the inspection: %w", err)))
-		return
-	}
-	body = append(body, '\n')
-	w.Header().Set("Content-Type", "application/json; charset=utf-8")
-	w.Header().Set("Cache-Control", "no-store")
-	w.Header().Set("Content-Length", strconv.Itoa(len(body)))
-	w.WriteHeader(http.StatusOK)
-	_, _ = w.Write(body)
+	h.writeJSON(w, r, "the inspection", ans)
 }
