@@ -37,8 +37,8 @@ func (res *ScanResult) cautions() []string {
 			grid = true
 		}
 		if t.rowKind != nil {
-			for _, k := range t.rowKind {
-				if k == rowScope2 {
+			for i := range t.rowKind.len() {
+				if t.rowKind.at(i) == rowScope2 {
 					grid = true
 					break
 				}

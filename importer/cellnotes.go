@@ -122,7 +122,7 @@ func (res *ScanResult) markFindings(g *excelize.File, ed *bookio.Edit, work map[
 	areas := map[string]*area{}
 	side := map[string]bool{}
 	for _, t := range res.sc.tables {
-		if len(t.rules) == 0 || len(t.rowNums) == 0 {
+		if len(t.rules) == 0 || t.n() == 0 {
 			continue
 		}
 		sh := t.spec.sheet
@@ -376,11 +376,11 @@ func (res *ScanResult) rowReasons(t *table) func(i int) string {
 	}
 	return func(i int) string {
 		for j := range t.rules {
-			if !math.IsNaN(t.res[j][i]) {
+			if !math.IsNaN(t.res[j].at(i)) {
 				return ""
 			}
 		}
-		if why := byRow[int(t.rowNums[i])]; why != "" {
+		if why := byRow[t.rowNum(i)]; why != "" {
 			return notComputedPrefix + why
 		}
 		return notComputedPrefix + table

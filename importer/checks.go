@@ -14,9 +14,9 @@ import (
 
 // collectSamples keeps positive quantities by fuel and unit for the
 // outlier check, and a fuel log's unit prices when it has a cost column
-// (outliers.go, prices.go). Every positive amount of the table is kept:
-// the table's rows are in memory already, and a sample is 24 bytes.
-func (sc *scanCtx) collectSamples(t *table, i, rowNum int, vars map[string]any, samples map[string][]sample) {
+// (outliers.go, prices.go). Every positive amount of the table is kept,
+// in pages (samples.go).
+func (sc *scanCtx) collectSamples(t *table, i, rowNum int, vars map[string]any, samples *sampleSet) {
 	spec := t.spec
 	switch spec.kind {
 	case kindFuelLog:
@@ -42,7 +42,7 @@ func (sc *scanCtx) collectSamples(t *table, i, rowNum int, vars map[string]any, 
 			return
 		}
 		k := spec.sheet + "|" + colName(spec.qty.col) + "|" + f.id + "|" + u.u.String()
-		samples[k] = append(samples[k], sample{row: rowNum, col: spec.qty.col, v: q, word: foldWord(fs)})
+		samples.add(k, rowNum, spec.qty.col, q, fs, 0)
 		t.priceSample(k, i, rowNum, q, samples)
 		sc.gasKWh(spec.sheet, spec.qty.col, rowNum, f.id, u.u)
 	case kindPeriods:
@@ -61,14 +61,14 @@ func (sc *scanCtx) collectSamples(t *table, i, rowNum int, vars map[string]any, 
 		k := spec.sheet + "|" + colName(spec.periods[0].col) + "|" + f.id + "|" + u.u.String()
 		for _, c := range spec.periods {
 			if q, ok := vars[c.ident].(float64); ok && q > 0 {
-				samples[k] = append(samples[k], sample{row: rowNum, col: c.col, v: q, word: foldWord(fs)})
+				samples.add(k, rowNum, c.col, q, fs, 0)
 			}
 		}
 	case kindWide:
 		for _, c := range spec.wide {
 			if q, ok := vars[c.ident].(float64); ok && q > 0 {
 				k := spec.sheet + "|" + colName(c.col) + "|" + c.fuelID
-				samples[k] = append(samples[k], sample{row: rowNum, col: c.col, v: q})
+				samples.add(k, rowNum, c.col, q, "", 0)
 			}
 		}
 	}
@@ -137,7 +137,7 @@ func (sc *scanCtx) checkExisting(t *table, i, rowNum int) {
 		if want < 0 {
 			continue
 		}
-		ours := t.res[want][i]
+		ours := t.res[want].at(i)
 		if math.IsNaN(ours) {
 			continue
 		}

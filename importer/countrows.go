@@ -29,7 +29,7 @@ func (sc *scanCtx) countRow(t *table, i int) bool {
 	if v.kind != kText || !tables.CountUnit(strings.TrimSpace(v.text)) {
 		return false
 	}
-	sc.warn.add(t.spec.sheet, u.col, int(t.rowNums[i]), SevInfo, CodeNotComputed, quoteText(strings.TrimSpace(v.text))+
+	sc.warn.add(t.spec.sheet, u.col, t.rowNum(i), SevInfo, CodeNotComputed, quoteText(strings.TrimSpace(v.text))+
 		" counts items, not an amount of fuel: a line of goods or services, not a purchase of fuel; left out and not counted among the rows")
 	return true
 }

@@ -47,14 +47,15 @@ func (res *ScanResult) writeCSV(w io.Writer) error {
 			head = append(head, safetext.CSVField(t.outName(j)))
 		}
 		add[t.spec.headerRow] = extra{width, append(head, "source")}
-		for i, rn := range t.rowNums {
+		for i := range t.n() {
+			rn := t.rowNums.at(i)
 			fields := make([]string, k+1)
 			for j := range k {
 				if v := t.outValue(j, i); !math.IsNaN(v) {
 					fields[j] = funcs.FormatNumber(v)
 				}
 			}
-			if s := t.src[i]; s >= 0 {
+			if s := t.src.at(i); s >= 0 {
 				fields[k] = safetext.CSVField(t.srcText[s])
 			}
 			add[int(rn)] = extra{width, fields}

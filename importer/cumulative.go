@@ -46,7 +46,7 @@ func (t *table) cumulativeWhy() string {
 	var steps []float64
 	n, falls := 0, 0
 	level := 0.0
-	for i := range t.rowNums {
+	for i := range t.n() {
 		v := t.val(i, qs)
 		if v.kind != kNumber {
 			continue

@@ -25,9 +25,9 @@ func (t *table) rowSigs() []uint64 {
 			cols = append(cols, s)
 		}
 	}
-	out := make([]uint64, len(t.rowNums))
+	out := make([]uint64, t.n())
 	var b [8]byte
-	for i := range t.rowNums {
+	for i := range t.n() {
 		h := fnv.New64a()
 		for _, s := range cols {
 			v := t.val(i, s)
@@ -94,7 +94,7 @@ func (sc *scanCtx) dropSummaries() {
 			continue
 		}
 		for _, u := range sc.tables {
-			if u == t || u.copyOf != nil || u.computed == 0 || len(u.rowNums) <= len(t.rowNums) || len(u.byFuel) != len(t.byFuel) {
+			if u == t || u.copyOf != nil || u.computed == 0 || u.n() <= t.n() || len(u.byFuel) != len(t.byFuel) {
 				continue
 			}
 			same := true
@@ -117,8 +117,8 @@ func (sc *scanCtx) dropSummaries() {
 func (t *table) dropAsCopy(sc *scanCtx, u *table, why string) {
 	t.copyOf = u
 	for ri := range t.res {
-		for k := range t.res[ri] {
-			t.res[ri][k] = math.NaN()
+		for k := range t.res[ri].len() {
+			t.res[ri].set(k, math.NaN())
 		}
 	}
 	t.computed = 0

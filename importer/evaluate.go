@@ -22,6 +22,8 @@ type sample struct {
 	// word is the workbook's own fuel name of the row, folded (lower case,
 	// spaces collapsed); "" where the table gives none per row.
 	word string
+	// q is the amount a unit price was computed from (price samples only).
+	q float64
 }
 
 // evaluate runs the table's rules over its rows and makes the checks that
@@ -29,12 +31,12 @@ type sample struct {
 func (sc *scanCtx) evaluate(t *table) error {
 	spec := t.spec
 	sheet := spec.sheet
-	n := len(t.rowNums)
-	t.res = make([][]float64, len(t.rules))
+	n := t.n()
+	t.res = make([]*paged[float64], len(t.rules))
 	for i := range t.res {
-		t.res[i] = make([]float64, n)
+		t.res[i] = newFixed(t.ps, n, math.NaN())
 	}
-	t.src = make([]int32, n)
+	t.src = newFixed(t.ps, n, int32(-1))
 	t.byFuel, t.byGroup = map[string]*sum{}, map[string]*sum{}
 	t.decideStyles()
 	sc.headerWarnings(t)
@@ -69,7 +71,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 	good := make(map[string]bool, len(main.binds))
 	vars := make(map[string]any, len(main.binds))
 	srcIndex := map[srcKey]int32{}
-	samples := map[string][]sample{}
+	samples := newSampleSet(t.ps)
 	wideK := sc.wideFactors(t)
 	annual := t.annualRows()
 	again, againPart := t.sameAgain()
@@ -88,9 +90,9 @@ func (sc *scanCtx) evaluate(t *table) error {
 			}
 		}
 		for ri := range t.res {
-			t.res[ri][i] = math.NaN()
+			t.res[ri].set(i, math.NaN())
 		}
-		t.src[i] = -1
+		t.src.set(i, -1)
 		if t.blankRoles(i) {
 			continue
 		}
@@ -99,7 +101,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 		}
 		t.dataRows++
 		t.markRow(i, rowFound, nil)
-		rowNum := int(t.rowNums[i])
+		rowNum := t.rowNum(i)
 		if len(t.rules) == 0 && spec.headerErr != nil {
 			// No rule could be written (no unit anywhere): each row says so
 			// at its own cell, pointing at the header finding.
@@ -145,7 +147,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 		}
 		rs, skip := sc.rowRules(t, main, i)
 		if skip {
-			t.rowKind[i] = rowScope2 // purchased energy that cannot be computed
+			t.rowKind.set(i, rowScope2) // purchased energy that cannot be computed
 			continue
 		}
 		if rs != main {
@@ -190,7 +192,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 				all = false
 				continue
 			}
-			t.res[ri][i] = out.Value
+			t.res[ri].set(i, out.Value)
 			for _, f := range out.Sources {
 				if nk < len(key) {
 					key[nk] = f
@@ -207,7 +209,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 			}
 		}
 		if nk > 0 {
-			t.src[i] = sc.sourceIndex(t, srcIndex, key, long)
+			t.src.set(i, sc.sourceIndex(t, srcIndex, key, long))
 		}
 		state := rowFound
 		if all {
@@ -324,7 +326,7 @@ func (sc *scanCtx) headerWarnings(t *table) {
 // parameter that failed.
 func (sc *scanCtx) ruleError(t *table, i int, r *rule, err error) {
 	sheet := t.spec.sheet
-	rowNum := int(t.rowNums[i])
+	rowNum := t.rowNum(i)
 	code, msg := CodeRuleError, err.Error()
 	var target *binding
 	if fe, ok := funcs.AsError(err); ok {
@@ -402,7 +404,7 @@ func (sc *scanCtx) rowTotals(t *table, i int, vars map[string]any, wideK map[*co
 	var co2, co2e, scope2 float64
 	has1, has2, has3 := false, false, false
 	for ri, r := range t.rules {
-		v := t.res[ri][i]
+		v := t.res[ri].at(i)
 		if math.IsNaN(v) {
 			continue
 		}
@@ -522,7 +524,7 @@ func (sc *scanCtx) variantFor(t *table, r *rule, i int, good map[string]bool) *r
 		if good[c.ident] || !t.omitted(i, &binding{col: c, slot: t.slotOf[c.col]}) {
 			continue
 		}
-		rowNum := int(t.rowNums[i])
+		rowNum := t.rowNum(i)
 		msg := "empty " + strings.ToLower(c.hdr.Base) + ": the technology's default is used (see " + SheetSources + ")"
 		if k+1 < len(r.optional) {
 			if next := r.optional[k+1]; good[next.ident] {
@@ -546,7 +548,7 @@ func (t *table) decideStyles() {
 			continue
 		}
 		var texts []string
-		for i := range t.rowNums {
+		for i := range t.n() {
 			if v := t.val(i, s); v.kind == kText {
 				if _, ok, amb := textNumber(v.text); ok || amb {
 					texts = append(texts, v.text)

@@ -266,7 +266,7 @@ func (sc *scanCtx) rowMode(t *table, i int) *ruleSet {
 		if mode == stationaryMode {
 			msg = quoteText(v.text) + " in a fleet: pack " + sc.e.DefaultPackName() + " has no road CH4 and N2O for it, so rows of fuels without them take those of stationary combustion, as \"" + ruleCalls(rs) + "\""
 		}
-		sc.warn.add(t.spec.sheet, t.spec.fuel.col, int(t.rowNums[i]), SevInfo, CodeReadAs, msg)
+		sc.warn.add(t.spec.sheet, t.spec.fuel.col, t.rowNum(i), SevInfo, CodeReadAs, msg)
 	}
 	return rs
 }

@@ -46,7 +46,7 @@ func rowDate(v *cellVal) (time.Time, bool) {
 // spacing before it. NaN where a row has no date.
 func (t *table) periodDays() []float64 {
 	c := t.spec.when
-	n := len(t.rowNums)
+	n := t.n()
 	out := make([]float64, n)
 	dates := make([]time.Time, n)
 	has := make([]bool, n)

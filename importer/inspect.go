@@ -77,7 +77,7 @@ func Inspect(ctx context.Context, e *funcs.Engine, path string, opt Options) (in
 		if !ok {
 			continue
 		}
-		for i := range t.rowNums {
+		for i := range t.n() {
 			v := t.val(i, slot)
 			if v.kind != kText || strings.TrimSpace(v.text) == "" {
 				continue
@@ -86,7 +86,7 @@ func Inspect(ctx context.Context, e *funcs.Engine, path string, opt Options) (in
 				ins.Names[k].Rows++
 				continue
 			}
-			n := NameReading{Text: v.text, Cell: spec.sheet + "!" + cellRef(spec.fuel.col, int(t.rowNums[i])), Rows: 1}
+			n := NameReading{Text: v.text, Cell: spec.sheet + "!" + cellRef(spec.fuel.col, t.rowNum(i)), Rows: 1}
 			fr := res.sc.fuelName(v.text)
 			switch {
 			case mapped[v.text] != "":

@@ -134,19 +134,16 @@ func (t *table) baseKinds() (main string, scope2 bool) {
 // markRow records row i's state and, for a row of its own rules, its kind.
 func (t *table) markRow(i int, state int8, rs *ruleSet) {
 	if t.rowState == nil {
-		n := len(t.rowNums)
-		t.rowState, t.rowKind = make([]int8, n), make([]uint8, n)
-		for k := range t.rowState {
-			t.rowState[k] = rowBlank
-		}
+		n := t.n()
+		t.rowState, t.rowKind = newFixed(t.ps, n, int8(rowBlank)), newFixed(t.ps, n, uint8(0))
 	}
-	t.rowState[i] = state
+	t.rowState.set(i, state)
 	switch {
 	case rs == nil:
 	case rs.key != "":
-		t.rowKind[i] = rowScope2
+		t.rowKind.set(i, rowScope2)
 	case t.spec.mobile != "" && len(rs.rules) > 0 && strings.Contains(rs.rules[0].src, "= fuel_co2"):
-		t.rowKind[i] = rowStationary
+		t.rowKind.set(i, rowStationary)
 	}
 }
 
@@ -161,14 +158,11 @@ func (sc *scanCtx) biogenicSplit(t *table, i int, vars map[string]any, notes []s
 			ri = k
 		}
 	}
-	if ri < 0 || math.IsNaN(t.res[ri][i]) {
+	if ri < 0 || math.IsNaN(t.res[ri].at(i)) {
 		return
 	}
 	if t.bio == nil {
-		t.bio = make([]float64, len(t.rowNums))
-		for k := range t.bio {
-			t.bio[k] = math.NaN()
-		}
+		t.bio = newFixed(t.ps, t.n(), math.NaN())
 	}
 	bio := 0.0
 	name := t.spec.ctxFuel
@@ -176,19 +170,20 @@ func (sc *scanCtx) biogenicSplit(t *table, i int, vars map[string]any, notes []s
 		name, _ = vars[f.ident].(string)
 	}
 	if name != "" && sc.fuel(name).bio {
-		bio, t.res[ri][i] = t.res[ri][i], 0
+		bio = t.res[ri].at(i)
+		t.res[ri].set(i, 0)
 		col := t.spec.firstCol
 		if t.spec.fuel != nil {
 			col = t.spec.fuel.col
 		}
-		sc.warn.addOnce("biogenic|"+t.spec.sheet+"|"+itoa(t.spec.headerRow), t.spec.sheet, col, int(t.rowNums[i]), SevInfo, CodeNotComputed,
+		sc.warn.addOnce("biogenic|"+t.spec.sheet+"|"+itoa(t.spec.headerRow), t.spec.sheet, col, t.rowNum(i), SevInfo, CodeNotComputed,
 			quoteText(name)+" is a biogenic fuel: its CO2 is a memo item, in the column "+BiogenicColumn+" and its own total, not in tCO2 or tCO2e (fossil only; here and in every row of a biogenic fuel)")
 	} else {
 		for _, n := range notes {
 			bio += memoCO2(n)
 		}
 	}
-	t.bio[i] = bio
+	t.bio.set(i, bio)
 	if bio != 0 {
 		t.hasBio = true
 	}
@@ -228,12 +223,13 @@ func (t *table) kindTotals(m map[string]*KindTotal) {
 		}
 		return kt
 	}
-	for i, st := range t.rowState {
+	for i := range t.rowState.len() {
+		st := t.rowState.at(i)
 		if st == rowBlank {
 			continue
 		}
 		comb, s2 := main, scope2
-		switch t.rowKind[i] {
+		switch t.rowKind.at(i) {
 		case rowScope2:
 			comb, s2 = KindScope2, false
 		case rowStationary:
@@ -248,11 +244,11 @@ func (t *table) kindTotals(m map[string]*KindTotal) {
 			if st == rowComputed {
 				kt.Computed++
 			} else if len(kt.LeftOut) < maxLeftOut {
-				kt.LeftOut = append(kt.LeftOut, t.spec.sheet+"!"+cellRef(t.spec.firstCol, int(t.rowNums[i])))
+				kt.LeftOut = append(kt.LeftOut, t.spec.sheet+"!"+cellRef(t.spec.firstCol, t.rowNum(i)))
 			}
 		}
 		for ri, r := range t.rules {
-			v := t.res[ri][i]
+			v := t.res[ri].at(i)
 			if math.IsNaN(v) {
 				continue
 			}
@@ -265,8 +261,8 @@ func (t *table) kindTotals(m map[string]*KindTotal) {
 				get(comb).TCO2e += v
 			}
 		}
-		if t.bio != nil && !math.IsNaN(t.bio[i]) && comb != "" {
-			get(comb).Biogenic += t.bio[i]
+		if t.bio != nil && !math.IsNaN(t.bio.at(i)) && comb != "" {
+			get(comb).Biogenic += t.bio.at(i)
 		}
 	}
 }
@@ -339,15 +335,12 @@ func (sc *scanCtx) wideBiogenicRow(t *table, i int) {
 			x *= c.hdr.Scale
 		}
 		if t.bio == nil {
-			t.bio = make([]float64, len(t.rowNums))
-			for k := range t.bio {
-				t.bio[k] = math.NaN()
-			}
+			t.bio = newFixed(t.ps, t.n(), math.NaN())
 		}
-		if math.IsNaN(t.bio[i]) {
-			t.bio[i] = 0
+		if math.IsNaN(t.bio.at(i)) {
+			t.bio.set(i, 0)
 		}
-		t.bio[i] += x * r.Value
+		t.bio.set(i, t.bio.at(i)+x*r.Value)
 		t.hasBio = true
 	}
 }

@@ -62,6 +62,15 @@ type Options struct {
 	// code in one column; the rest are counted in one summary warning. 0
 	// means DefaultMaxWarningsPerColumn; negative means no limit.
 	MaxWarningsPerColumn int
+	// PageBudget bounds the memory the rows of a workbook's tables take
+	// (their stored cells, results and checks' samples), in bytes: beyond
+	// it, pages of rows go to a temporary file (in TMPDIR) and are read
+	// back when used, with the same results. 0 means DefaultPageBudget;
+	// negative keeps every row in memory.
+	PageBudget int64
+	// pageShift, in tests, makes pages of 1<<pageShift rows (0: the
+	// default), so that small workbooks exercise the temporary file.
+	pageShift uint
 	// Uncertainty chooses how the 95 % intervals of the totals are computed:
 	// Approach 1 (the zero value) or Approach 2 with its seed and draws.
 	Uncertainty funcs.IntervalOptions

@@ -26,10 +26,10 @@ func (t *table) outName(j int) string {
 // outValue is computed column j of row i; NaN when there is none.
 func (t *table) outValue(j, i int) float64 {
 	if j < len(t.rules) {
-		return t.res[j][i]
+		return t.res[j].at(i)
 	}
 	if t.bio == nil {
 		return math.NaN()
 	}
-	return t.bio[i]
+	return t.bio.at(i)
 }

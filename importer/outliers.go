@@ -140,18 +140,14 @@ type outlierFinding struct {
 // (robustOutliers; groups of 3 or 4 rows only at a factor of 100), and
 // rows whose unit price is far from the others' (checkPrices). A row
 // flagged by both gets one finding that gives both figures.
-func (sc *scanCtx) checkOutliers(sheet string, samples map[string][]sample) {
-	keys := make([]string, 0, len(samples))
-	for k := range samples {
-		if !strings.HasPrefix(k, pricePrefix) {
-			keys = append(keys, k)
-		}
-	}
-	sort.Strings(keys)
+func (sc *scanCtx) checkOutliers(sheet string, samples *sampleSet) {
 	var found []*outlierFinding
 	at := map[[2]int]*outlierFinding{}
-	for _, k := range keys {
-		for _, g := range outlierGroups(k, samples[k]) {
+	for _, k := range samples.sortedKeys() {
+		if strings.HasPrefix(k, pricePrefix) {
+			continue
+		}
+		for _, g := range outlierGroups(k, samples.group(k)) {
 			for _, f := range testGroup(g) {
 				found = append(found, f)
 				at[[2]int{f.row, f.col}] = f

@@ -97,8 +97,8 @@ func (occ *sheetOccupancy) setRight(r, c int) {
 // column of the sheet (they are never written over an occupied cell).
 func placeInline(occ *sheetOccupancy, t *table, k int) (col int, why string, ok bool) {
 	used := max(t.maxUsed, t.spec.lastCol, occ.rightOf(t.spec.headerRow))
-	for _, r := range t.rowNums {
-		used = max(used, occ.rightOf(int(r)))
+	for i := range t.n() {
+		used = max(used, occ.rightOf(t.rowNum(i)))
 	}
 	col = t.spec.lastCol + 1
 	if used > t.spec.lastCol {
@@ -123,8 +123,8 @@ func placeInline(occ *sheetOccupancy, t *table, k int) (col int, why string, ok 
 // take records columns up to last as occupied in the rows of t.
 func (occ *sheetOccupancy) take(t *table, last int) {
 	occ.setRight(t.spec.headerRow, last)
-	for _, r := range t.rowNums {
-		occ.setRight(int(r), last)
+	for i := range t.n() {
+		occ.setRight(t.rowNum(i), last)
 	}
 }
 

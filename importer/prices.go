@@ -2,7 +2,6 @@ package importer
 
 import (
 	"math"
-	"sort"
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs"
@@ -28,7 +27,7 @@ const pricePrefix = "\x01price|"
 // (NaN when the cell holds no number): one float64 per row, as the results.
 type costCells struct {
 	col *column
-	v   []float64
+	v   *paged[float64] // per stored row: the cost, NaN for none
 }
 
 // costColumn finds the cost column of a fuel log: a numeric column with no
@@ -82,37 +81,29 @@ func (t *table) keepCost(r *row) {
 			}
 		}
 	}
-	t.cost.v = append(t.cost.v, v)
+	t.cost.v.push(v)
 }
 
 // priceSample adds row i's unit price to the price group of amount group k.
-func (t *table) priceSample(k string, i, rowNum int, q float64, samples map[string][]sample) {
-	if t.cost == nil || i >= len(t.cost.v) || !(t.cost.v[i] > 0) || math.IsInf(t.cost.v[i], 0) {
+func (t *table) priceSample(k string, i, rowNum int, q float64, samples *sampleSet) {
+	if t.cost == nil || i >= t.cost.v.len() || !(t.cost.v.at(i) > 0) || math.IsInf(t.cost.v.at(i), 0) {
 		return
 	}
 	pk := pricePrefix + colName(t.cost.col.col) + "|" + k
-	samples[pk] = append(samples[pk], sample{row: rowNum, col: t.spec.qty.col, v: t.cost.v[i] / q})
+	samples.add(pk, rowNum, t.spec.qty.col, t.cost.v.at(i)/q, "", q)
 }
 
 // checkPrices flags unit prices (cost / quantity, grouped by cost column,
 // fuel and unit) far from their group's median, by the same robust test.
 // A row whose amount is already flagged gets the price in its finding; any
 // other gets a finding of its own at the quantity cell.
-func (sc *scanCtx) checkPrices(samples map[string][]sample, found []*outlierFinding, at map[[2]int]*outlierFinding) []*outlierFinding {
-	var keys []string
-	for k := range samples {
-		if strings.HasPrefix(k, pricePrefix) {
-			keys = append(keys, k)
+func (sc *scanCtx) checkPrices(samples *sampleSet, found []*outlierFinding, at map[[2]int]*outlierFinding) []*outlierFinding {
+	for _, k := range samples.sortedKeys() {
+		if !strings.HasPrefix(k, pricePrefix) {
+			continue
 		}
-	}
-	sort.Strings(keys)
-	for _, k := range keys {
-		ss := samples[k]
+		ss := samples.group(k)
 		costCol, qk, _ := strings.Cut(strings.TrimPrefix(k, pricePrefix), "|")
-		qty := map[[2]int]float64{}
-		for _, s := range samples[qk] {
-			qty[[2]int{s.row, s.col}] = s.v
-		}
 		vals := make([]float64, len(ss))
 		for i, s := range ss {
 			vals[i] = s.v
@@ -120,7 +111,7 @@ func (sc *scanCtx) checkPrices(samples map[string][]sample, found []*outlierFind
 		med, flagged := robustOutliers(vals)
 		for _, i := range flagged {
 			s := ss[i]
-			q := qty[[2]int{s.row, s.col}]
+			q := s.q
 			cost := roundSig(s.v * q)
 			price := "a unit price of " + funcs.FormatNumber(sig3(s.v)) + " (cost " + funcs.FormatNumber(cost) + " in " + costCol + itoa(s.row) +
 				" / " + funcs.FormatNumber(q) + "), " + timesText(s.v/med) + " the median " + funcs.FormatNumber(sig3(med)) +

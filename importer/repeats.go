@@ -17,7 +17,7 @@ func (t *table) annualRows() []bool {
 		return nil
 	}
 	s := t.slotOf[c.col]
-	n := len(t.rowNums)
+	n := t.n()
 	kind := make([]uint8, n) // 1 monthly, 2 annual
 	year := make([]int, n)
 	monthsOf := map[int]bool{} // years with monthly rows
@@ -76,7 +76,7 @@ func (t *table) sameAgain() (rows []int, part []bool) {
 		unit string
 		row  int
 	}
-	n := len(t.rowNums)
+	n := t.n()
 	keys := make([]string, n)
 	isPart := make([]bool, n)
 	units := make([]string, n)
@@ -115,7 +115,7 @@ func (t *table) sameAgain() (rows []int, part []bool) {
 		}
 		keys[i], units[i] = text, strings.ToLower(strings.TrimSpace(u.text))
 		if _, ok := whole[text]; !ok && !isPart[i] {
-			whole[text] = first{units[i], int(t.rowNums[i])}
+			whole[text] = first{units[i], t.rowNum(i)}
 		}
 	}
 	for i := 0; i < n; i++ {
@@ -127,7 +127,7 @@ func (t *table) sameAgain() (rows []int, part []bool) {
 		case !ok:
 			continue
 		case isPart[i]:
-		case w.row != int(t.rowNums[i]) && w.unit != units[i]:
+		case w.row != t.rowNum(i) && w.unit != units[i]:
 		default:
 			continue
 		}

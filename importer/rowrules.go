@@ -130,13 +130,13 @@ func (sc *scanCtx) rowRules(t *table, main *ruleSet, i int) (rs *ruleSet, skip b
 			}
 			t.noted[c] = true
 			f := t.spec.fuel
-			sc.warn.add(t.spec.sheet, f.col, int(t.rowNums[i]), SevInfo, CodeReadAs, quoteText(t.val(i, t.slotOf[f.col]).text)+
+			sc.warn.add(t.spec.sheet, f.col, t.rowNum(i), SevInfo, CodeReadAs, quoteText(t.val(i, t.slotOf[f.col]).text)+
 				" is purchased "+c.String()+" (Scope 2): its rows are computed with "+sc.carrierBasis(t.spec, c)+", as \""+ruleCalls(rs)+"\"")
 		}
 		return rs, false
 	}
 	f := t.spec.fuel
-	rowNum := int(t.rowNums[i])
+	rowNum := t.rowNum(i)
 	text := quoteText(t.val(i, t.slotOf[f.col]).text)
 	if c == carrierElectricity && !t.spec.grid.known() {
 		at := sc.gridUnknown(t.spec.sheet, f.col, rowNum, text+" ("+t.spec.sheet+"!"+cellRef(f.col, rowNum)+")")

@@ -334,6 +334,9 @@ func firstMalformed(path string, lim limits) (string, error) {
 // malformed part when one is found; the stack is kept in Err for logs, never
 // in the message.
 func panicError(path string, r any) *Error {
+	if pe, ok := asPageError(r); ok {
+		return &Error{Code: ErrIO, Path: path, Msg: pe.Error(), Err: pe}
+	}
 	cause := fmt.Errorf("panic: %v\n%s", r, debug.Stack())
 	if name, perr := firstMalformed(path, limits{maxUnzipped: DefaultMaxUnzippedBytes}); name != "" {
 		e := malformedPart(name, perr)

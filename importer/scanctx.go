@@ -16,6 +16,7 @@ type scanCtx struct {
 	opt       Options
 	lim       limits
 	path      string
+	pages     *pageSet // the per-row columns of the tables (pages.go)
 	csv       bool
 	packName  string
 	packBasis units.Basis
@@ -71,7 +72,7 @@ func newScanCtx(ctx context.Context, e *funcs.Engine, path string, opt Options) 
 	if err != nil {
 		panic(err) // the embedded vocabulary is malformed: a build defect, caught by the tables tests
 	}
-	sc := &scanCtx{ctx: ctx, e: e, opt: opt, lim: opt.limits(), path: path, lexicon: lx,
+	sc := &scanCtx{ctx: ctx, e: e, opt: opt, lim: opt.limits(), path: path, pages: newPageSet(opt.PageBudget, opt.pageShift), lexicon: lx,
 		sheetOrd: map[string]int{}, skipWhy: map[string]string{}}
 	sc.packName = e.DefaultPackName()
 	for _, p := range e.Packs() {

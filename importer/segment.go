@@ -19,8 +19,9 @@ type table struct {
 	spec      *tableSpec
 	slots     []*column // stored columns
 	slotOf    map[int]int
-	rowNums   []int32
-	vals      []cellVal // len(rowNums) x len(slots)
+	ps        *pageSet        // where the per-row columns below keep their pages
+	rowNums   *paged[int32]   // the sheet row of each stored row (tablerows.go)
+	vals      *paged[cellVal] // the stored cells: len(slots) per row
 	totalRows []int
 	sections  []sectionLabel // rows of one label inside the table ("Commercial Sector")
 	lastRow   int
@@ -38,12 +39,12 @@ type table struct {
 	unc       *tableUnc  // the uncertainty models of its totals (uncertainty.go)
 
 	// Results (see evaluate).
-	res       [][]float64 // per rule, per row; NaN when not computed
-	src       []int32     // per row: index into srcText, -1 for none
-	bio       []float64   // per row: biogenic CO2 moved out of tCO2 (kinds.go); nil without a tCO2 rule
-	hasBio    bool        // some row has biogenic CO2: the table gets a tCO2_biogenic column
-	rowState  []int8      // per row: rowBlank, rowFound or rowComputed (kinds.go)
-	rowKind   []uint8     // per row: rowDefault, rowScope2 or rowStationary
+	res       []*paged[float64] // per rule, per row; NaN when not computed
+	src       *paged[int32]     // per row: index into srcText, -1 for none
+	bio       *paged[float64]   // per row: biogenic CO2 moved out of tCO2 (kinds.go); nil without a tCO2 rule
+	hasBio    bool              // some row has biogenic CO2: the table gets a tCO2_biogenic column
+	rowState  *paged[int8]      // per row: rowBlank, rowFound or rowComputed (kinds.go)
+	rowKind   *paged[uint8]     // per row: rowDefault, rowScope2 or rowStationary
 	srcText   []string
 	dataRows  int
 	computed  int
@@ -67,7 +68,7 @@ type sum struct {
 // newTable sets up a table for a detected spec: it compiles the rules and
 // decides which columns are stored.
 func (sc *scanCtx) newTable(spec *tableSpec, merges []rangeRef) (*table, error) {
-	t := &table{spec: spec, slotOf: map[int]int{}, intern: map[string]string{}, lastRow: spec.dataStart - 1, maxUsed: spec.lastCol}
+	t := &table{spec: spec, ps: sc.pages, slotOf: map[int]int{}, intern: map[string]string{}, lastRow: spec.dataStart - 1, maxUsed: spec.lastCol}
 	for _, m := range merges {
 		if m.r2 >= spec.dataStart {
 			t.merges = append(t.merges, m)
@@ -81,7 +82,9 @@ func (sc *scanCtx) newTable(spec *tableSpec, merges []rangeRef) (*table, error) 
 	if err := sc.compileRules(t); err != nil {
 		return nil, err
 	}
-	t.cost = costColumn(spec)
+	if t.cost = costColumn(spec); t.cost != nil {
+		t.cost.v = newFixed(t.ps, 0, 0.0)
+	}
 	return t, nil
 }
 
@@ -143,18 +146,14 @@ func (t *table) add(r *row) {
 		t.sections = append(t.sections, sectionLabel{r.num, r.cells[0].col})
 		return
 	}
-	t.rowNums = append(t.rowNums, int32(r.num))
-	base := len(t.vals)
-	for range t.slots {
-		t.vals = append(t.vals, cellVal{})
-	}
+	vals := t.storeRow(r.num)
 	for i := range r.cells {
 		c := &r.cells[i]
 		s, ok := t.slotOf[c.col]
 		if !ok {
 			continue
 		}
-		v := &t.vals[base+s]
+		v := &vals[s]
 		v.kind, v.formula, v.noCache, v.num = c.kind, c.formula, c.noCache, c.num
 		if c.kind != kNumber {
 			v.text = t.internStr(c.text)
@@ -176,28 +175,11 @@ func (t *table) internStr(s string) string {
 	return s
 }
 
-func (t *table) val(i, slot int) *cellVal { return &t.vals[i*len(t.slots)+slot] }
-
 // fillMerged copies the top-left value of merged ranges into the covered
 // rows of the stored columns (a site or fuel merged down over its rows).
 func (t *table) fillMerged() {
-	if len(t.merges) == 0 || len(t.rowNums) == 0 {
+	if len(t.merges) == 0 || t.n() == 0 {
 		return
-	}
-	index := func(rowNum int) int {
-		lo, hi := 0, len(t.rowNums)
-		for lo < hi {
-			m := (lo + hi) / 2
-			if int(t.rowNums[m]) < rowNum {
-				lo = m + 1
-			} else {
-				hi = m
-			}
-		}
-		if lo < len(t.rowNums) && int(t.rowNums[lo]) == rowNum {
-			return lo
-		}
-		return -1
 	}
 	for _, m := range t.merges {
 		if m.r1 == m.r2 {
@@ -207,16 +189,17 @@ func (t *table) fillMerged() {
 		if !ok {
 			continue
 		}
-		top := index(m.r1)
+		top := t.indexOfRow(m.r1)
 		if top < 0 {
 			continue
 		}
 		src := *t.val(top, s)
 		for r := m.r1 + 1; r <= m.r2; r++ {
-			if i := index(r); i >= 0 {
-				if v := t.val(i, s); v.kind == kEmpty && !v.formula {
-					*v = src
-					v.merged = true
+			if i := t.indexOfRow(r); i >= 0 {
+				if v := *t.val(i, s); v.kind == kEmpty && !v.formula {
+					src.merged = true
+					t.setVal(i, s, src)
+					src.merged = false
 				}
 			}
 		}
@@ -256,7 +239,7 @@ func (s *segmenter) feed(r row) error {
 				return err
 			}
 		case !t.dataLike(&r) && !t.blankIn(&r) && headerLike(&r) && (s.sc.keywordHits(&r) >= 2 || t.repeatsHeader(&r)):
-			if len(t.rowNums) == 0 {
+			if t.n() == 0 {
 				s.cur = nil // a header row straight after a header: the first was a banner
 				break
 			}

@@ -116,10 +116,10 @@ func (tc *tableCursor) row() (int, bool) {
 	if tc.i < 0 {
 		return t.spec.headerRow, true
 	}
-	if tc.i >= len(t.rowNums) {
+	if tc.i >= t.n() {
 		return 0, false
 	}
-	return int(t.rowNums[tc.i]), true
+	return t.rowNum(tc.i), true
 }
 
 // Next returns the next row with cells of any table.
@@ -169,7 +169,7 @@ func (tc *tableCursor) appendCells(out []bookio.NewCell) []bookio.NewCell {
 			out = append(out, bookio.NewCell{Col: c.col + j, Kind: bookio.NewInline, Text: why, Style: c.num})
 		}
 	}
-	if s := t.src[i]; s >= 0 && c.sst >= 0 {
+	if s := t.src.at(i); s >= 0 && c.sst >= 0 {
 		out = append(out, bookio.NewCell{Col: c.col + k - 1, Kind: bookio.NewShared, SST: c.sst + int(s)})
 	} else if s >= 0 {
 		out = append(out, bookio.NewCell{Col: c.col + k - 1, Kind: bookio.NewInline, Text: t.srcText[s]})

@@ -166,7 +166,7 @@ func sameUnits(cols []*column) bool {
 // rounding (0.5 % or one unit per part); checked counts the rows looked at
 // (a mismatch stops at the first).
 func (t *table) sumsTo(total *sumNode, parts []*sumNode) (ok bool, checked int) {
-	for i := range t.rowNums {
+	for i := range t.n() {
 		x, ok := t.number(i, total.slot)
 		if !ok {
 			continue
@@ -227,7 +227,7 @@ func (t *table) maskRow(i int, roots []*sumNode, vars map[string]any) {
 // are given, the total is at least their sum: the parts are a subset.
 func (t *table) covers(total *sumNode, parts []*sumNode) bool {
 	n := 0
-	for i := range t.rowNums {
+	for i := range t.n() {
 		x, ok := t.number(i, total.slot)
 		if !ok {
 			continue

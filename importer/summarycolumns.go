@@ -90,7 +90,7 @@ func (t *table) columnShares(cp *columnPeriods) *keyedShares {
 	amount := make([]float64, len(cols))
 	part := make([]float64, len(cp.labels))
 	var buf [2]rowShare
-	for i := range t.rowState {
+	for i := range t.rowState.len() {
 		n, data := t.rowShares(i, main, scope2, &buf)
 		if !data {
 			continue
@@ -132,7 +132,7 @@ func (t *table) columnShares(cp *columnPeriods) *keyedShares {
 			for j := 0; j < n; j++ {
 				r := buf[j]
 				r.co2, r.co2e, r.bio = r.co2*f, r.co2e*f, r.bio*f
-				ks.add(&r, cp.labels[p], t.rowState[i] == rowComputed)
+				ks.add(&r, cp.labels[p], t.rowState.at(i) == rowComputed)
 			}
 		}
 	}

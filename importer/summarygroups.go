@@ -35,7 +35,8 @@ func (t *table) groupShares() (ks *keyedShares, why string) {
 	}
 	distinct := map[string]bool{}
 	rows := 0
-	for i, st := range t.rowState {
+	for i := range t.rowState.len() {
+		st := t.rowState.at(i)
 		if st == rowBlank {
 			continue
 		}
@@ -55,14 +56,14 @@ func (t *table) groupShares() (ks *keyedShares, why string) {
 	ks = newKeyedShares(maxGroups+1, "(other)")
 	main, scope2 := t.baseKinds()
 	var buf [2]rowShare
-	for i := range t.rowState {
+	for i := range t.rowState.len() {
 		n, data := t.rowShares(i, main, scope2, &buf)
 		if !data {
 			continue
 		}
 		key := cellText(t.val(i, s))
 		for j := 0; j < n; j++ {
-			ks.add(&buf[j], key, t.rowState[i] == rowComputed)
+			ks.add(&buf[j], key, t.rowState.at(i) == rowComputed)
 		}
 	}
 	return ks, ""
@@ -166,7 +167,7 @@ func (res *ScanResult) fuelShares() (*keyedShares, *fuelWords) {
 				return ""
 			}
 		}
-		for i := range t.rowState {
+		for i := range t.rowState.len() {
 			n, data := t.rowShares(i, main, scope2, &buf)
 			if !data {
 				continue
@@ -186,7 +187,7 @@ func (res *ScanResult) fuelShares() (*keyedShares, *fuelWords) {
 					}
 				}
 			}
-			if t.rowKind[i] == rowScope2 {
+			if t.rowKind.at(i) == rowScope2 {
 				// Purchased energy named in the fuel column: its carrier,
 				// as in the totals by fuel ("Scope 2: steam").
 				if c := res.sc.rowCarrier(t, i); c != carrierNone {
@@ -198,7 +199,7 @@ func (res *ScanResult) fuelShares() (*keyedShares, *fuelWords) {
 				if buf[j].scope2Col {
 					k = scope2Key(spec)
 				}
-				ks.add(&buf[j], k, t.rowState[i] == rowComputed)
+				ks.add(&buf[j], k, t.rowState.at(i) == rowComputed)
 				if !buf[j].scope2Col {
 					fw.add(buf[j].kind, k, word, buf[j].has)
 					if unknown {
@@ -239,9 +240,9 @@ func (res *ScanResult) wideFuelShares(t *table, main string, ks *keyedShares, fw
 		fw.add(main, c.fuelID, c.hdr.Base, true)
 	}
 	bio, bioRows := 0.0, 0
-	for i := range t.rowState {
-		if t.bio != nil && t.rowState[i] != rowBlank && isFinite(t.bio[i]) && t.bio[i] != 0 {
-			bio += t.bio[i]
+	for i := range t.rowState.len() {
+		if t.bio != nil && t.rowState.at(i) != rowBlank && isFinite(t.bio.at(i)) && t.bio.at(i) != 0 {
+			bio += t.bio.at(i)
 			bioRows++
 		}
 	}

@@ -274,7 +274,8 @@ func (t *table) readDates() (*periodPlan, string) {
 			continue
 		}
 		p := &periodPlan{col: c, slot: s, grain: grainYear, fiscal: true}
-		for i, st := range t.rowState {
+		for i := range t.rowState.len() {
+			st := t.rowState.at(i)
 			if st == rowBlank {
 				continue
 			}
@@ -375,7 +376,7 @@ func (t *table) periodShares(p *periodPlan) (*keyedShares, []string) {
 	}
 	main, scope2 := t.baseKinds()
 	var buf [2]rowShare
-	for i := range t.rowState {
+	for i := range t.rowState.len() {
 		n, data := t.rowShares(i, main, scope2, &buf)
 		if !data {
 			continue
@@ -385,7 +386,7 @@ func (t *table) periodShares(p *periodPlan) (*keyedShares, []string) {
 			key = labels[periodIndex(rp.at, p.grain)-p.first]
 		}
 		for j := 0; j < n; j++ {
-			ks.add(&buf[j], key, t.rowState[i] == rowComputed)
+			ks.add(&buf[j], key, t.rowState.at(i) == rowComputed)
 		}
 	}
 	return ks, labels

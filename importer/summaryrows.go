@@ -32,11 +32,11 @@ type rowShare struct {
 // the number of shares written into buf (at most 2), and whether the row is
 // a data row at all.
 func (t *table) rowShares(i int, main string, scope2 bool, buf *[2]rowShare) (n int, data bool) {
-	if t.rowState == nil || t.rowState[i] == rowBlank {
+	if t.rowState == nil || t.rowState.at(i) == rowBlank {
 		return 0, false
 	}
 	comb, s2 := main, scope2
-	switch t.rowKind[i] {
+	switch t.rowKind.at(i) {
 	case rowScope2:
 		comb, s2 = KindScope2, false
 	case rowStationary:
@@ -59,7 +59,7 @@ func (t *table) rowShares(i int, main string, scope2 bool, buf *[2]rowShare) (n 
 		get(KindScope2, true)
 	}
 	for ri, r := range t.rules {
-		v := t.res[ri][i]
+		v := t.res[ri].at(i)
 		if math.IsNaN(v) {
 			continue
 		}
@@ -78,10 +78,10 @@ func (t *table) rowShares(i int, main string, scope2 bool, buf *[2]rowShare) (n 
 			s.has = true
 		}
 	}
-	if t.bio != nil && !math.IsNaN(t.bio[i]) && comb != "" {
+	if t.bio != nil && !math.IsNaN(t.bio.at(i)) && comb != "" {
 		s := get(comb, false)
-		s.bio += t.bio[i]
-		s.has = s.has || t.bio[i] != 0
+		s.bio += t.bio.at(i)
+		s.has = s.has || t.bio.at(i) != 0
 	}
 	return n, true
 }

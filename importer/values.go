@@ -22,7 +22,7 @@ func (sc *scanCtx) value(t *table, i int, b *binding) (any, bool) {
 			return d, true
 		}
 		w := t.spec.when
-		sc.warn.add(t.spec.sheet, w.col, int(t.rowNums[i]), SevError, CodeValueNotNumber,
+		sc.warn.add(t.spec.sheet, w.col, t.rowNum(i), SevError, CodeValueNotNumber,
 			"no date that gives this row's period, so its amounts per day cannot be added up; row not computed")
 		return nil, false
 	}
@@ -34,7 +34,7 @@ func (sc *scanCtx) value(t *table, i int, b *binding) (any, bool) {
 	}
 	c := b.col
 	v := t.val(i, b.slot)
-	r := int(t.rowNums[i])
+	r := t.rowNum(i)
 	switch c.role {
 	case roleFuel:
 		return sc.fuelValue(t, c, v, r)

@@ -79,7 +79,7 @@ func (res *ScanResult) writeWorkbook(b *bookio.Book, readPath string) (ed *booki
 	occs := map[string]*sheetOccupancy{} // per sheet, read once for all its tables
 	var inl []*inlineCols                // the inline tables, in table order
 	for i, t := range res.sc.tables {
-		if len(t.rules) == 0 || len(t.rowNums) == 0 {
+		if len(t.rules) == 0 || t.n() == 0 {
 			continue
 		}
 		if i%4 == 0 {
@@ -133,7 +133,13 @@ func (res *ScanResult) writeWorkbook(b *bookio.Book, readPath string) (ed *booki
 	if err := sharedSources(ed, inl); err != nil {
 		return nil, nil, bookError(res.Path, err)
 	}
-	for _, w := range work {
+	// In the workbook's sheet order, so that the same input always gives
+	// the same parts (comments1.xml is the first sheet's with comments).
+	for _, s := range b.Sheets {
+		w := work[s.Name]
+		if w == nil {
+			continue
+		}
 		if err := w.plan(b, ed); err != nil {
 			return nil, nil, bookError(res.Path, err)
 		}
@@ -178,7 +184,7 @@ func (res *ScanResult) planInline(work map[string]*sheetWork, t *table, st *styl
 	// has one (StyleFrom), else fluecell's.
 	c := &inlineCols{t: t, col: col, head: st.head, num: st.num, reason: res.rowReasons(t), cancelled: res.sc.cancelled, sst: -1}
 	w.tables = append(w.tables, c)
-	last := max(t.lastRow, t.spec.headerRow, int(t.rowNums[len(t.rowNums)-1]))
+	last := max(t.lastRow, t.spec.headerRow, t.rowNum(t.n()-1))
 	w.extent(bookio.Range{C1: col, R1: t.spec.headerRow, C2: col + k - 1, R2: last})
 	w.cols = append(w.cols, bookio.ColWidth{Min: col, Max: col + k - 2, Width: 12}, bookio.ColWidth{Min: col + k - 1, Max: col + k - 1, Width: 48})
 	return c
@@ -198,8 +204,8 @@ func sharedSources(ed *bookio.Edit, inl []*inlineCols) error {
 		}
 		c.sst = len(texts)
 		texts = append(texts, t.srcText...)
-		for _, s := range t.src {
-			if s >= 0 {
+		for i := range t.src.len() {
+			if t.src.at(i) >= 0 {
 				refs++
 			}
 		}
@@ -256,7 +262,8 @@ func (res *ScanResult) writeSide(f *excelize.File, t *table, name string, st *st
 		return excelErr(res.Path, "sheet "+name, err)
 	}
 	reason := res.rowReasons(t) // a row with no number says why (cellnotes.go)
-	for i, rn := range t.rowNums {
+	for i := range t.n() {
+		rn := t.rowNums.at(i)
 		if i&4095 == 0 {
 			if err := res.sc.cancelled(); err != nil {
 				return err
@@ -272,7 +279,7 @@ func (res *ScanResult) writeSide(f *excelize.File, t *table, name string, st *st
 		}
 		fillReasons(vals[1:k], reason(i))
 		vals[k] = nil
-		if s := t.src[i]; s >= 0 {
+		if s := t.src.at(i); s >= 0 {
 			vals[k] = t.srcText[s]
 		}
 		if err := sw.SetRow(cellRef(1, int(rn)), vals); err != nil {
