@@ -74,7 +74,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 	samples := newSampleSet(t.ps)
 	wideK := sc.wideFactors(t)
 	annual := t.annualRows()
-	again, againPart := t.sameAgain()
+	again := t.sameAgain()
 	forest := sc.sumForest(t)
 	var rowNotes []string
 
@@ -129,11 +129,12 @@ func (sc *scanCtx) evaluate(t *table) error {
 				" (Scope 2) and no factor applies (see the findings at its header, "+cellRef(c.col, spec.headerRow)+")")
 			continue
 		}
-		if again != nil && again[i] > 0 {
+		if again != nil && again.at(i) != 0 {
 			c := t.spec.fuel
-			msg := "the same " + quoteText(t.val(i, t.slotOf[c.col]).text) + " again, in another unit: counted once, from row " + itoa(again[i])
-			if againPart[i] {
-				msg = quoteText(t.val(i, t.slotOf[c.col]).text) + " is a part of row " + itoa(again[i]) + ", which is counted: not added twice"
+			first := int(again.at(i))
+			msg := "the same " + quoteText(t.val(i, t.slotOf[c.col]).text) + " again, in another unit: counted once, from row " + itoa(first)
+			if first < 0 {
+				msg = quoteText(t.val(i, t.slotOf[c.col]).text) + " is a part of row " + itoa(-first) + ", which is counted: not added twice"
 			}
 			sc.warn.add(sheet, c.col, rowNum, SevInfo, CodeNotComputed, msg)
 			continue

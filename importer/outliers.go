@@ -46,58 +46,112 @@ const (
 // the values the robust test flags: nil when fewer than outlierMinRows.
 // vals are in row order (for dropRuns) and are not changed.
 func robustOutliers(vals []float64) (med float64, out []int) {
-	n := len(vals)
-	if n == 0 {
+	if len(vals) == 0 {
 		return 0, nil
 	}
 	s := append([]float64(nil), vals...)
 	sort.Float64s(s)
-	med = median(s)
-	if n < outlierMinRows {
-		return med, nil
-	}
-	logs := make([]float64, n)
-	for i, v := range s {
-		logs[i] = math.Log(v)
-	}
-	lm := median(logs)
-	dev := make([]float64, n)
-	for i, l := range logs {
-		dev[i] = math.Abs(l - lm)
-	}
-	sort.Float64s(dev)
-	mad := median(dev)
-
-	// gapUp[k]: the sorted values jump by outlierGap somewhere between the
-	// median and s[k] (k at or above the median); gapDown likewise below.
-	up, down := n/2, (n-1)/2
-	gap := make([]bool, n)
-	for k := up + 1; k < n; k++ {
-		gap[k] = gap[k-1] || s[k] >= outlierGap*s[k-1]
-	}
-	for k := down - 1; k >= 0; k-- {
-		gap[k] = gap[k+1] || s[k+1] >= outlierGap*s[k]
+	st := newGroupStats(s)
+	if len(vals) < outlierMinRows {
+		return st.med, nil
 	}
 	for i, v := range vals {
-		r := v / med
-		if r < outlierFactor && r > 1/outlierFactor {
-			continue
-		}
-		d := math.Abs(math.Log(v) - lm)
-		if mad > 0 && 0.6745*d/mad <= outlierZ {
-			continue
-		}
-		var k int
-		if v > med {
-			k = sort.SearchFloat64s(s, v)
-		} else {
-			k = sort.Search(n, func(j int) bool { return s[j] > v }) - 1
-		}
-		if gap[k] {
+		if st.flag(v) {
 			out = append(out, i)
 		}
 	}
-	return med, dropRuns(vals, med, out)
+	return st.med, dropRuns(out, func(i int) float64 { return vals[i] }, st.med)
+}
+
+// groupStats is what the robust test needs of a group of amounts: its
+// values sorted, their median, the median and the median absolute
+// deviation of their logarithms, and where the sorted values first jump by
+// outlierGap above and below the median. It holds no more than the sorted
+// values.
+type groupStats struct {
+	s                  []float64
+	med, lm, mad       float64
+	firstUp, firstDown int // the first index above the median whose value jumps from its neighbour below (len(s) for none), and below it (-1 for none)
+}
+
+// newGroupStats computes the statistics of sorted (ascending, all > 0),
+// which it keeps.
+func newGroupStats(sorted []float64) groupStats {
+	s := sorted
+	n := len(s)
+	st := groupStats{s: s, med: median(s), firstUp: n, firstDown: -1}
+	if n == 0 {
+		return st
+	}
+	// The logarithms are in the order of the values, so their median is
+	// that of the middle values'.
+	if n%2 == 1 {
+		st.lm = math.Log(s[n/2])
+	} else {
+		st.lm = (math.Log(s[n/2-1]) + math.Log(s[n/2])) / 2
+	}
+	st.mad = st.medianDeviation()
+	up, down := n/2, (n-1)/2
+	for k := up + 1; k < n; k++ {
+		if s[k] >= outlierGap*s[k-1] {
+			st.firstUp = k
+			break
+		}
+	}
+	for k := down - 1; k >= 0; k-- {
+		if s[k+1] >= outlierGap*s[k] {
+			st.firstDown = k
+			break
+		}
+	}
+	return st
+}
+
+// medianDeviation is the median of |ln s[i] − lm|. The deviations fall
+// from the first value to the one nearest lm and rise after it, so they are
+// taken in ascending order by walking outwards from there, without sorting.
+func (st *groupStats) medianDeviation() float64 {
+	s, n := st.s, len(st.s)
+	dev := func(i int) float64 { return math.Abs(math.Log(s[i]) - st.lm) }
+	hi := sort.Search(n, func(i int) bool { return math.Log(s[i]) >= st.lm })
+	lo := hi - 1
+	var prev, cur float64
+	for k := 0; k <= n/2; k++ {
+		prev = cur
+		if lo >= 0 && (hi >= n || dev(lo) <= dev(hi)) {
+			cur = dev(lo)
+			lo--
+		} else {
+			cur = dev(hi)
+			hi++
+		}
+	}
+	if n%2 == 1 {
+		return cur
+	}
+	return (prev + cur) / 2
+}
+
+// flag reports whether v fails the robust test: at least outlierFactor
+// from the median, a modified z-score over outlierZ (or a zero MAD), and a
+// jump of outlierGap in the sorted values between the median and v.
+func (st *groupStats) flag(v float64) bool {
+	r := v / st.med
+	if r < outlierFactor && r > 1/outlierFactor {
+		return false
+	}
+	d := math.Abs(math.Log(v) - st.lm)
+	if st.mad > 0 && 0.6745*d/st.mad <= outlierZ {
+		return false
+	}
+	s, n := st.s, len(st.s)
+	var k int
+	if v > st.med {
+		k = sort.SearchFloat64s(s, v)
+	} else {
+		k = sort.Search(n, func(j int) bool { return s[j] > v }) - 1
+	}
+	return k >= st.firstUp || k <= st.firstDown
 }
 
 // dropRuns removes from flagged (indices into vals, ascending) every run of
@@ -105,11 +159,11 @@ func robustOutliers(vals []float64) (med float64, out []int) {
 // block of rows far from the rest is a section of another kind (annual rows
 // above monthly ones, another site's meter), not a slip, which touches one
 // row or two.
-func dropRuns(vals []float64, med float64, flagged []int) []int {
+func dropRuns(flagged []int, val func(i int) float64, med float64) []int {
 	out := flagged[:0:0]
 	for a := 0; a < len(flagged); {
 		b := a + 1
-		for b < len(flagged) && flagged[b] == flagged[b-1]+1 && (vals[flagged[b]] > med) == (vals[flagged[a]] > med) {
+		for b < len(flagged) && flagged[b] == flagged[b-1]+1 && (val(flagged[b]) > med) == (val(flagged[a]) > med) {
 			b++
 		}
 		if b-a < outlierRun {
@@ -147,8 +201,8 @@ func (sc *scanCtx) checkOutliers(sheet string, samples *sampleSet) {
 		if strings.HasPrefix(k, pricePrefix) {
 			continue
 		}
-		for _, g := range outlierGroups(k, samples.group(k)) {
-			for _, f := range testGroup(g) {
+		for _, g := range samples.outlierGroups(k) {
+			for _, f := range samples.testGroup(g) {
 				found = append(found, f)
 				at[[2]int{f.row, f.col}] = f
 			}
@@ -161,13 +215,14 @@ func (sc *scanCtx) checkOutliers(sheet string, samples *sampleSet) {
 }
 
 // sampleGroup is a set of amounts tested together, with its name in the
-// findings.
+// findings: the samples of one key, of one fuel word or of every word.
 type sampleGroup struct {
 	name string // "gas_diesel_oil in L", or "\"diesel\" (gas_diesel_oil in L)"
-	ss   []sample
-	// only, when set, lists the indices of ss this group judges; the
-	// others are judged in their own name's group.
-	only []int
+	key  int32
+	word int32 // the fuel word of the group; -1 for every word of the key
+	// own, when set, holds the words judged in a group of their own: the
+	// whole fuel's group flags no row of theirs.
+	own map[int32]bool
 }
 
 // outlierGroups splits the amounts of one fuel and unit (key k) for the
@@ -177,93 +232,140 @@ type sampleGroup struct {
 // and the spread between them would hide a slip within either. The rows of
 // names with fewer rows are tested with the whole fuel, as are tables
 // without a name per row.
-func outlierGroups(k string, ss []sample) []sampleGroup {
-	byWord := map[string]int{}
-	for _, s := range ss {
-		if s.word != "" {
-			byWord[s.word]++
-		}
-	}
-	big := 0
-	for _, n := range byWord {
-		if n >= outlierMinRows {
-			big++
-		}
-	}
-	if big == 0 || big == 1 && byWord[ss[0].word] == len(ss) {
-		return []sampleGroup{{name: groupName(k), ss: ss}}
-	}
-	words := make([]string, 0, len(byWord))
-	for w, n := range byWord {
-		if n >= outlierMinRows {
-			words = append(words, w)
-		}
-	}
-	sort.Strings(words)
-	var out []sampleGroup
-	for _, w := range words {
-		g := sampleGroup{name: quoteText(w) + " (" + groupName(k) + ")"}
-		for _, s := range ss {
-			if s.word == w {
-				g.ss = append(g.ss, s)
-			}
-		}
-		out = append(out, g)
-	}
-	// The rows of the other names, tested against the whole fuel.
-	whole := sampleGroup{name: groupName(k), ss: ss}
-	var rest []int
-	for i, s := range ss {
-		if byWord[s.word] < outlierMinRows {
-			rest = append(rest, i)
-		}
-	}
-	if len(rest) > 0 {
-		whole.only = rest
-		out = append(out, whole)
-	}
-	return out
-}
-
-// testGroup runs the robust test (robustOutliers; groups of 3 or 4 rows
-// only at a factor of 100) over a group and returns its findings.
-func testGroup(g sampleGroup) []*outlierFinding {
-	ss := g.ss
-	if len(ss) < 3 {
+func (s *sampleSet) outlierGroups(k string) []sampleGroup {
+	ki, ok := s.keyOf[k]
+	if !ok {
 		return nil
 	}
-	vals := make([]float64, len(ss))
-	for i, s := range ss {
-		vals[i] = s.v
-	}
-	med, flagged := robustOutliers(vals)
-	if len(ss) < outlierMinRows {
-		for i, v := range vals {
-			if v > outlierSmall*med || v < med/outlierSmall {
-				flagged = append(flagged, i)
-			}
+	byWord := map[int32]int{}
+	n, first := 0, int32(-1)
+	for i := range s.key.len() {
+		if s.key.at(i) != ki {
+			continue
+		}
+		w := s.word.at(i)
+		if n == 0 {
+			first = w
+		}
+		n++
+		if w != 0 {
+			byWord[w]++
 		}
 	}
-	var out []*outlierFinding
-	for _, i := range flagged {
-		if g.only != nil && !containsInt(g.only, i) {
-			continue // tested in its own name's group
+	own := map[int32]bool{}
+	for w, c := range byWord {
+		if c >= outlierMinRows {
+			own[w] = true
 		}
-		s := ss[i]
-		out = append(out, &outlierFinding{row: s.row, col: s.col, code: CodeValueOutlier,
-			msg: funcs.FormatNumber(s.v) + " is " + timesText(s.v/med) + " the median " + funcs.FormatNumber(roundSig(med)) +
-				" of the " + plural(len(ss), "row") + " of " + g.name + " (" + slipText(s.v, s.v/med) + ")"})
+	}
+	if len(own) == 0 || len(own) == 1 && byWord[first] == n {
+		return []sampleGroup{{name: groupName(k), key: ki, word: -1}}
+	}
+	words := make([]int32, 0, len(own))
+	for w := range own {
+		words = append(words, w)
+	}
+	sort.Slice(words, func(a, b int) bool { return s.words[words[a]] < s.words[words[b]] })
+	var out []sampleGroup
+	for _, w := range words {
+		out = append(out, sampleGroup{name: quoteText(s.words[w]) + " (" + groupName(k) + ")", key: ki, word: w})
+	}
+	// The rows of the other names, tested against the whole fuel.
+	if rest := n - sumOwn(byWord, own); rest > 0 {
+		out = append(out, sampleGroup{name: groupName(k), key: ki, word: -1, own: own})
 	}
 	return out
 }
 
-func containsInt(xs []int, x int) bool {
-	for _, y := range xs {
-		if y == x {
-			return true
+func sumOwn(byWord map[int32]int, own map[int32]bool) int {
+	n := 0
+	for w := range own {
+		n += byWord[w]
+	}
+	return n
+}
+
+// members calls f with each sample index of group g, in the order added.
+func (s *sampleSet) members(g sampleGroup, f func(i int)) {
+	for i := range s.key.len() {
+		if s.key.at(i) == g.key && (g.word < 0 || s.word.at(i) == g.word) {
+			f(i)
 		}
 	}
-	return false
+}
+
+// sorted returns the values of group g, sorted.
+func (s *sampleSet) sorted(g sampleGroup) []float64 {
+	var vals []float64
+	s.members(g, func(i int) { vals = append(vals, s.v.at(i)) })
+	sort.Float64s(vals)
+	return vals
+}
+
+// sampleHit is a sample a test flagged: its index in the set and value.
+type sampleHit struct {
+	i int
+	v float64
+}
+
+// flagged runs the robust test (groupStats, then dropRuns) over group g
+// and returns the group's median and size and the samples it flags. With
+// small, groups of 3 or 4 rows are tested too, at a factor of outlierSmall.
+// The group's values are held sorted while it is tested; its rows are read
+// twice.
+func (s *sampleSet) flagged(g sampleGroup, small bool) (med float64, n int, hits []sampleHit) {
+	sorted := s.sorted(g)
+	n = len(sorted)
+	if n < 3 || n < outlierMinRows && !small {
+		return median(sorted), n, nil
+	}
+	st := newGroupStats(sorted)
+	var at []int
+	pos := 0
+	s.members(g, func(i int) {
+		v := s.v.at(i)
+		if n >= outlierMinRows && st.flag(v) || n < outlierMinRows && (v > outlierSmall*st.med || v < st.med/outlierSmall) {
+			hits = append(hits, sampleHit{i, v})
+			at = append(at, pos)
+		}
+		pos++
+	})
+	if n < outlierMinRows {
+		return st.med, n, hits
+	}
+	// Runs of neighbouring rows flagged together are a section, not slips.
+	val := make(map[int]float64, len(hits))
+	for k, p := range at {
+		val[p] = hits[k].v
+	}
+	keep := map[int]bool{}
+	for _, p := range dropRuns(at, func(p int) float64 { return val[p] }, st.med) {
+		keep[p] = true
+	}
+	kept := hits[:0]
+	for k, h := range hits {
+		if keep[at[k]] {
+			kept = append(kept, h)
+		}
+	}
+	return st.med, n, kept
+}
+
+// testGroup runs the robust test over a group of amounts (groups of 3 or
+// 4 rows only at a factor of 100) and returns its findings.
+func (s *sampleSet) testGroup(g sampleGroup) []*outlierFinding {
+	med, n, hits := s.flagged(g, true)
+	var out []*outlierFinding
+	for _, h := range hits {
+		if g.own != nil && g.own[s.word.at(h.i)] {
+			continue // tested in its own name's group
+		}
+		row, col := int(s.row.at(h.i)), int(s.col.at(h.i))
+		out = append(out, &outlierFinding{row: row, col: col, code: CodeValueOutlier,
+			msg: funcs.FormatNumber(h.v) + " is " + timesText(h.v/med) + " the median " + funcs.FormatNumber(roundSig(med)) +
+				" of the " + plural(n, "row") + " of " + g.name + " (" + slipText(h.v, h.v/med) + ")"})
+	}
+	return out
 }
 
 // foldWord folds a workbook's fuel name for grouping: lower case, inner

@@ -3,8 +3,10 @@ package importer
 import (
 	"context"
 	"math"
+	"math/rand"
 	"path/filepath"
 	"slices"
+	"sort"
 	"strings"
 	"testing"
 
@@ -177,10 +179,17 @@ func TestOutlierSmallGroup(t *testing.T) {
 // a name has five rows or more, so the spread between them hides no slip
 // within either; the other names' rows are judged with the whole fuel.
 func TestOutlierGroupsByWorkbookName(t *testing.T) {
-	var ss []sample
+	// Pages of 2 rows and a budget of one page: the samples go through the
+	// temporary file (pages.go) as a million-row table's would.
+	const k = "Fuel log|D|gas_diesel_oil|L"
+	ss := newSampleSet(newPageSet(1, 1))
+	one := newSampleSet(newPageSet(-1, 0)) // the diesel rows alone
 	add := func(word string, vs ...float64) {
 		for _, v := range vs {
-			ss = append(ss, sample{row: len(ss) + 2, col: 4, v: v, word: word})
+			ss.add(k, ss.key.len()+2, 4, v, word, 0)
+			if word == "diesel" {
+				one.add(k, one.key.len()+2, 4, v, word, 0)
+			}
 		}
 	}
 	// Diesel deliveries of about 1,200 L, one keyed with an extra zero;
@@ -188,14 +197,14 @@ func TestOutlierGroupsByWorkbookName(t *testing.T) {
 	add("diesel", 1250, 1150, 1090, 1210, 11900)
 	add("gas oil", 4000)
 	add("heating oil", 300, 250)
-	groups := outlierGroups("Fuel log|D|gas_diesel_oil|L", ss)
-	if len(groups) != 2 || groups[0].name != `"diesel" (gas_diesel_oil in L)` || len(groups[0].ss) != 5 ||
-		groups[1].name != "gas_diesel_oil in L" || !slices.Equal(groups[1].only, []int{5, 6, 7}) {
+	groups := ss.outlierGroups(k)
+	if len(groups) != 2 || groups[0].name != `"diesel" (gas_diesel_oil in L)` || len(ss.sorted(groups[0])) != 5 ||
+		groups[1].name != "gas_diesel_oil in L" || len(groups[1].own) != 1 || !groups[1].own[groups[0].word] {
 		t.Fatalf("groups %+v", groups)
 	}
 	var flagged []int
 	for _, g := range groups {
-		for _, f := range testGroup(g) {
+		for _, f := range ss.testGroup(g) {
 			flagged = append(flagged, f.row)
 			if !strings.Contains(f.msg, "1190 would fit") {
 				t.Errorf("finding %q does not suggest the value without the extra zero", f.msg)
@@ -211,7 +220,7 @@ func TestOutlierGroupsByWorkbookName(t *testing.T) {
 		t.Errorf("as one group the slip is flagged (%v): the case no longer shows why names are judged apart", out)
 	}
 	// One name only: one group, under the fuel's own name.
-	if g := outlierGroups("k|D|gas_diesel_oil|L", ss[:5]); len(g) != 1 || g[0].name != "gas_diesel_oil in L" {
+	if g := one.outlierGroups(k); len(g) != 1 || g[0].name != "gas_diesel_oil in L" {
 		t.Errorf("one name: groups %+v", g)
 	}
 }
@@ -238,4 +247,78 @@ func TestDemoFuelLogExtraZero(t *testing.T) {
 	if !outlier || !mismatch {
 		t.Errorf("the extra zero in Fuel log!D21: outlier %v, mismatch %v; findings %+v", outlier, mismatch, rep.Warnings)
 	}
+}
+
+// TestRobustOutliersAgainstDefinition compares the test as computed
+// (groupStats: the deviations' median taken by walking out from the
+// median, the jumps found once) with the definition written out: the
+// logarithms, their deviations sorted, and the jumps marked value by value,
+// on random heavy-tailed groups with slips, ties and sections.
+func TestRobustOutliersAgainstDefinition(t *testing.T) {
+	rng := rand.New(rand.NewSource(11))
+	for trial := 0; trial < 3000; trial++ {
+		n := 5 + rng.Intn(60)
+		vals := make([]float64, n)
+		for i := range vals {
+			vals[i] = math.Round(math.Exp(rng.NormFloat64()*float64(1+trial%3)) * 100)
+			if vals[i] <= 0 || rng.Intn(7) == 0 {
+				vals[i] = 120 // ties
+			}
+			if rng.Intn(15) == 0 {
+				vals[i] *= 10 // a slip
+			}
+		}
+		med, got := robustOutliers(vals)
+		wantMed, want := definitionOutliers(vals)
+		if med != wantMed || !slices.Equal(got, want) {
+			t.Fatalf("trial %d %v: got median %v flags %v, want %v %v", trial, vals, med, got, wantMed, want)
+		}
+	}
+}
+
+// definitionOutliers is the robust test as its doc comment defines it.
+func definitionOutliers(vals []float64) (float64, []int) {
+	n := len(vals)
+	s := append([]float64(nil), vals...)
+	sort.Float64s(s)
+	med := median(s)
+	logs := make([]float64, n)
+	for i, v := range s {
+		logs[i] = math.Log(v)
+	}
+	lm := median(logs)
+	dev := make([]float64, n)
+	for i, l := range logs {
+		dev[i] = math.Abs(l - lm)
+	}
+	sort.Float64s(dev)
+	mad := median(dev)
+	up, down := n/2, (n-1)/2
+	gap := make([]bool, n)
+	for k := up + 1; k < n; k++ {
+		gap[k] = gap[k-1] || s[k] >= outlierGap*s[k-1]
+	}
+	for k := down - 1; k >= 0; k-- {
+		gap[k] = gap[k+1] || s[k+1] >= outlierGap*s[k]
+	}
+	var out []int
+	for i, v := range vals {
+		r := v / med
+		if r < outlierFactor && r > 1/outlierFactor {
+			continue
+		}
+		if d := math.Abs(math.Log(v) - lm); mad > 0 && 0.6745*d/mad <= outlierZ {
+			continue
+		}
+		var k int
+		if v > med {
+			k = sort.SearchFloat64s(s, v)
+		} else {
+			k = sort.Search(n, func(j int) bool { return s[j] > v }) - 1
+		}
+		if gap[k] {
+			out = append(out, i)
+		}
+	}
+	return med, dropRuns(out, func(i int) float64 { return vals[i] }, med)
 }

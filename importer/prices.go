@@ -102,26 +102,20 @@ func (sc *scanCtx) checkPrices(samples *sampleSet, found []*outlierFinding, at m
 		if !strings.HasPrefix(k, pricePrefix) {
 			continue
 		}
-		ss := samples.group(k)
 		costCol, qk, _ := strings.Cut(strings.TrimPrefix(k, pricePrefix), "|")
-		vals := make([]float64, len(ss))
-		for i, s := range ss {
-			vals[i] = s.v
-		}
-		med, flagged := robustOutliers(vals)
-		for _, i := range flagged {
-			s := ss[i]
-			q := s.q
-			cost := roundSig(s.v * q)
-			price := "a unit price of " + funcs.FormatNumber(sig3(s.v)) + " (cost " + funcs.FormatNumber(cost) + " in " + costCol + itoa(s.row) +
-				" / " + funcs.FormatNumber(q) + "), " + timesText(s.v/med) + " the median " + funcs.FormatNumber(sig3(med)) +
-				" of the " + plural(len(ss), "row") + " of " + groupName(qk)
-			if f := at[[2]int{s.row, s.col}]; f != nil {
+		med, n, hits := samples.flagged(sampleGroup{key: samples.keyOf[k], word: -1}, false)
+		for _, h := range hits {
+			row, col, q := int(samples.row.at(h.i)), int(samples.col.at(h.i)), samples.q.at(h.i)
+			cost := roundSig(h.v * q)
+			price := "a unit price of " + funcs.FormatNumber(sig3(h.v)) + " (cost " + funcs.FormatNumber(cost) + " in " + costCol + itoa(row) +
+				" / " + funcs.FormatNumber(q) + "), " + timesText(h.v/med) + " the median " + funcs.FormatNumber(sig3(med)) +
+				" of the " + plural(n, "row") + " of " + groupName(qk)
+			if f := at[[2]int{row, col}]; f != nil {
 				f.msg += "; the row's cost gives " + price + ": the amount is the likely slip"
 				continue
 			}
-			found = append(found, &outlierFinding{row: s.row, col: s.col, code: CodePriceOutlier,
-				msg: "the amount " + funcs.FormatNumber(q) + " and its cost give " + price + " (" + priceSlip(q, cost, s.v/med) + ")"})
+			found = append(found, &outlierFinding{row: row, col: col, code: CodePriceOutlier,
+				msg: "the amount " + funcs.FormatNumber(q) + " and its cost give " + price + " (" + priceSlip(q, cost, h.v/med) + ")"})
 		}
 	}
 	return found

@@ -62,79 +62,141 @@ func (t *table) annualRows() []bool {
 // fuel in another unit (statistics print "Distillate fuel oil consumed by
 // the industrial sector" once in billion Btu and once in thousand
 // barrels), or that are a part of another row ("... industrial sector
-// excluding refinery fuel"): the value is that other row's number, 0
-// elsewhere; part is set for the second kind. Rows agree when their fuel
-// text, group and date agree. nil when there are none.
-func (t *table) sameAgain() (rows []int, part []bool) {
+// excluding refinery fuel"). The value of a row is that other row's number,
+// negative for a part, 0 elsewhere. Rows agree when their fuel text, group
+// and date agree. nil when there are none.
+//
+// The rows' keys are not kept: a map from the key's hash to its first row
+// holds one entry per distinct key, and a hash met again is checked against
+// the first row's key, so a collision never joins two rows.
+func (t *table) sameAgain() *paged[int32] {
 	spec := t.spec
 	// Only a table of series (one per period column, or rows dated by a
 	// period) repeats a series; a log repeats fuels on purpose.
 	if spec.fuel == nil || spec.unit == nil || spec.kind != kindPeriods && (spec.kind != kindFuelLog || spec.when == nil) {
-		return nil, nil
+		return nil
 	}
 	type first struct {
 		unit string
-		row  int
+		row  int32 // stored row index
+	}
+	k := repeatKeys{t: t, norm: map[string]normText{}, units: map[string]string{}}
+	whole := map[uint64][]first{} // rows that are no part, by their key's hash: the first row of each key
+	var buf, other []byte
+	find := func(h uint64, key []byte) (first, bool) {
+		for _, f := range whole[h] {
+			other, _, _, _ = k.key(int(f.row), other[:0])
+			if string(other) == string(key) {
+				return f, true
+			}
+		}
+		return first{}, false
 	}
 	n := t.n()
-	keys := make([]string, n)
-	isPart := make([]bool, n)
-	units := make([]string, n)
-	fs, us := t.slotOf[spec.fuel.col], t.slotOf[spec.unit.col]
-	whole := map[string]first{} // rows that are no part: key -> first such row
-	type normText struct {
-		text string
-		part bool
-	}
-	norm := map[string]normText{} // fuel texts repeat: each is normalised once
 	for i := 0; i < n; i++ {
-		f, u := t.val(i, fs), t.val(i, us)
-		if f.kind != kText || u.kind != kText {
+		key, unit, part, ok := k.key(i, buf[:0])
+		buf = key
+		if !ok || part {
 			continue
 		}
-		nt, ok := norm[f.text]
+		h := hashKey(key)
+		if _, ok := find(h, key); !ok {
+			whole[h] = append(whole[h], first{unit, int32(i)})
+		}
+	}
+	var rows *paged[int32]
+	for i := 0; i < n; i++ {
+		key, unit, part, ok := k.key(i, buf[:0])
+		buf = key
 		if !ok {
-			nt.text = strings.ToLower(strings.Join(strings.Fields(f.text), " "))
-			for _, w := range []string{" excluding ", " except ", " excl. "} {
-				if j := strings.Index(nt.text, w); j > 0 {
-					nt.text, nt.part = nt.text[:j], true
-					break
-				}
-			}
-			norm[f.text] = nt
-		}
-		text := nt.text
-		isPart[i] = nt.part
-		if spec.group != nil {
-			g := t.val(i, t.slotOf[spec.group.col])
-			text += "\x00" + strings.ToLower(strings.TrimSpace(cell{kind: g.kind, num: g.num, text: g.text}.display()))
-		}
-		if spec.when != nil {
-			w := t.val(i, t.slotOf[spec.when.col])
-			text += "\x00" + cell{kind: w.kind, num: w.num, text: w.text}.display()
-		}
-		keys[i], units[i] = text, strings.ToLower(strings.TrimSpace(u.text))
-		if _, ok := whole[text]; !ok && !isPart[i] {
-			whole[text] = first{units[i], t.rowNum(i)}
-		}
-	}
-	for i := 0; i < n; i++ {
-		if keys[i] == "" {
 			continue
 		}
-		w, ok := whole[keys[i]]
+		w, ok := find(hashKey(key), key)
 		switch {
 		case !ok:
 			continue
-		case isPart[i]:
-		case w.row != t.rowNum(i) && w.unit != units[i]:
+		case part:
+		case int(w.row) != i && w.unit != unit:
 		default:
 			continue
 		}
 		if rows == nil {
-			rows, part = make([]int, n), make([]bool, n)
+			rows = newFixed(t.ps, n, int32(0))
 		}
-		rows[i], part[i] = w.row, isPart[i]
+		v := int32(t.rowNum(int(w.row)))
+		if part {
+			v = -v
+		}
+		rows.set(i, v)
 	}
-	return rows, part
+	return rows
+}
+
+// normText is a fuel text folded for sameAgain, and whether it names a
+// part of another row.
+type normText struct {
+	text string
+	part bool
+}
+
+// repeatKeys builds the keys sameAgain compares: the fuel text folded, the
+// group and the date, and the unit lower-cased. Texts repeat, so each is
+// folded once (up to maxFoldCache of them).
+type repeatKeys struct {
+	t     *table
+	norm  map[string]normText
+	units map[string]string
+}
+
+// key appends row i's key to buf; ok is false for a row without a fuel and
+// a unit text.
+func (k *repeatKeys) key(i int, buf []byte) (key []byte, unit string, part, ok bool) {
+	t, spec := k.t, k.t.spec
+	f := *t.val(i, t.slotOf[spec.fuel.col])
+	u := *t.val(i, t.slotOf[spec.unit.col])
+	if f.kind != kText || u.kind != kText {
+		return buf, "", false, false
+	}
+	nt, found := k.norm[f.text]
+	if !found {
+		nt.text = strings.ToLower(strings.Join(strings.Fields(f.text), " "))
+		for _, w := range []string{" excluding ", " except ", " excl. "} {
+			if j := strings.Index(nt.text, w); j > 0 {
+				nt.text, nt.part = nt.text[:j], true
+				break
+			}
+		}
+		if len(k.norm) < maxFoldCache {
+			k.norm[f.text] = nt
+		}
+	}
+	buf = append(buf, nt.text...)
+	if spec.group != nil {
+		g := *t.val(i, t.slotOf[spec.group.col])
+		buf = append(buf, 0)
+		buf = append(buf, strings.ToLower(strings.TrimSpace(cell{kind: g.kind, num: g.num, text: g.text}.display()))...)
+	}
+	if spec.when != nil {
+		w := *t.val(i, t.slotOf[spec.when.col])
+		buf = append(buf, 0)
+		buf = append(buf, cell{kind: w.kind, num: w.num, text: w.text}.display()...)
+	}
+	unit, found = k.units[u.text]
+	if !found {
+		unit = strings.ToLower(strings.TrimSpace(u.text))
+		if len(k.units) < maxFoldCache {
+			k.units[u.text] = unit
+		}
+	}
+	return buf, unit, nt.part, true
+}
+
+// hashKey is the 64-bit FNV-1a hash of key.
+func hashKey(key []byte) uint64 {
+	h := uint64(14695981039346656037)
+	for _, c := range key {
+		h ^= uint64(c)
+		h *= 1099511628211
+	}
+	return h
 }

@@ -75,22 +75,3 @@ func (s *sampleSet) sortedKeys() []string {
 	sort.Strings(out)
 	return out
 }
-
-// has reports whether key k has samples.
-func (s *sampleSet) has(k string) bool { _, ok := s.keyOf[k]; return ok }
-
-// group gathers the samples of key k, in the order they were added.
-func (s *sampleSet) group(k string) []sample {
-	ki, ok := s.keyOf[k]
-	if !ok {
-		return nil
-	}
-	var out []sample
-	for i := range s.key.len() {
-		if s.key.at(i) != ki {
-			continue
-		}
-		out = append(out, sample{row: int(s.row.at(i)), col: int(s.col.at(i)), v: s.v.at(i), q: s.q.at(i), word: s.words[s.word.at(i)]})
-	}
-	return out
-}
