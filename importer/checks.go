@@ -36,15 +36,26 @@ func (sc *scanCtx) collectSamples(t *table, i, rowNum int, vars map[string]any, 
 			}
 			unit = us
 		}
-		f := sc.fuel(fs)
-		u := sc.unit(unit)
-		if !ok1 || f.err != nil || u.err != nil {
+		if !ok1 {
 			return
 		}
-		k := spec.sheet + "|" + colName(spec.qty.col) + "|" + f.id + "|" + u.u.String()
-		samples.add(k, rowNum, spec.qty.col, q, fs, 0)
-		t.priceSample(k, i, rowNum, q, samples)
-		sc.gasKWh(spec.sheet, spec.qty.col, rowNum, f.id, u.u)
+		// A fuel and unit as written map to one key: worked out once.
+		rk := rawSampleKey{col: spec.qty.col, fuel: fs, unit: unit}
+		m, seen := samples.memo[rk]
+		if !seen {
+			m = sc.sampleKeys(t, samples, rk)
+			if len(samples.memo) < maxFoldCache {
+				samples.memo[rk] = m
+			}
+		}
+		if m.amount < 0 {
+			return
+		}
+		samples.addAt(m.amount, rowNum, spec.qty.col, q, fs, 0)
+		t.priceSample(m.price, i, rowNum, q, samples)
+		if !seen {
+			sc.gasKWh(spec.sheet, spec.qty.col, rowNum, m.fuelID, m.unit)
+		}
 	case kindPeriods:
 		fs, ok1 := vars[spec.fuel.ident].(string)
 		us, ok2 := spec.ctxUnit, true
@@ -72,6 +83,24 @@ func (sc *scanCtx) collectSamples(t *table, i, rowNum int, vars map[string]any, 
 			}
 		}
 	}
+}
+
+// sampleKeys works out the sample keys of a fuel and unit as a fuel log
+// writes them: the amounts' (sheet, column, fuel id and unit) and the unit
+// prices' when the table has a cost column; amount is -1 when the fuel or
+// the unit is not known.
+func (sc *scanCtx) sampleKeys(t *table, samples *sampleSet, rk rawSampleKey) sampleKeys {
+	f, u := sc.fuel(rk.fuel), sc.unit(rk.unit)
+	if f.err != nil || u.err != nil {
+		return sampleKeys{amount: -1, price: -1}
+	}
+	spec := t.spec
+	k := spec.sheet + "|" + colName(spec.qty.col) + "|" + f.id + "|" + u.u.String()
+	m := sampleKeys{amount: samples.keyIndex(k), price: -1, fuelID: f.id, unit: u.u}
+	if t.cost != nil {
+		m.price = samples.keyIndex(pricePrefix + colName(t.cost.col.col) + "|" + k)
+	}
+	return m
 }
 
 // noteUnit counts the unit of a row for the unit-mixed check.

@@ -316,6 +316,9 @@ type sampleHit struct {
 func (s *sampleSet) flagged(g sampleGroup, small bool) (med float64, n int, hits []sampleHit) {
 	sorted := s.sorted(g)
 	n = len(sorted)
+	if n == 0 {
+		return 0, 0, nil
+	}
 	if n < 3 || n < outlierMinRows && !small {
 		return median(sorted), n, nil
 	}

@@ -21,7 +21,7 @@ const (
 	// DefaultPageBudget is the memory the per-row values of one scan may
 	// take before pages go to a temporary file (Options.PageBudget), in
 	// bytes. A 100 000-row fuel log of ten columns fits in it.
-	DefaultPageBudget = 40 << 20
+	DefaultPageBudget = 16 << 20
 )
 
 // evictable is a page of any element type, as the clock of a pageSet sees it.

@@ -84,13 +84,17 @@ func (t *table) keepCost(r *row) {
 	t.cost.v.push(v)
 }
 
-// priceSample adds row i's unit price to the price group of amount group k.
-func (t *table) priceSample(k string, i, rowNum int, q float64, samples *sampleSet) {
-	if t.cost == nil || i >= t.cost.v.len() || !(t.cost.v.at(i) > 0) || math.IsInf(t.cost.v.at(i), 0) {
+// priceSample adds row i's unit price under price key pk (-1: the table
+// has no cost column).
+func (t *table) priceSample(pk int32, i, rowNum int, q float64, samples *sampleSet) {
+	if pk < 0 || t.cost == nil || i >= t.cost.v.len() {
 		return
 	}
-	pk := pricePrefix + colName(t.cost.col.col) + "|" + k
-	samples.add(pk, rowNum, t.spec.qty.col, t.cost.v.at(i)/q, "", q)
+	c := t.cost.v.at(i)
+	if !(c > 0) || math.IsInf(c, 0) {
+		return
+	}
+	samples.addAt(pk, rowNum, t.spec.qty.col, c/q, "", q)
 }
 
 // checkPrices flags unit prices (cost / quantity, grouped by cost column,

@@ -1,6 +1,7 @@
 package importer
 
 import (
+	"encoding/binary"
 	"math"
 	"strings"
 )
@@ -172,14 +173,10 @@ func (k *repeatKeys) key(i int, buf []byte) (key []byte, unit string, part, ok b
 	}
 	buf = append(buf, nt.text...)
 	if spec.group != nil {
-		g := *t.val(i, t.slotOf[spec.group.col])
-		buf = append(buf, 0)
-		buf = append(buf, strings.ToLower(strings.TrimSpace(cell{kind: g.kind, num: g.num, text: g.text}.display()))...)
+		buf = appendKeyCell(append(buf, 0), *t.val(i, t.slotOf[spec.group.col]), true)
 	}
 	if spec.when != nil {
-		w := *t.val(i, t.slotOf[spec.when.col])
-		buf = append(buf, 0)
-		buf = append(buf, cell{kind: w.kind, num: w.num, text: w.text}.display()...)
+		buf = appendKeyCell(append(buf, 0), *t.val(i, t.slotOf[spec.when.col]), false)
 	}
 	unit, found = k.units[u.text]
 	if !found {
@@ -189,6 +186,20 @@ func (k *repeatKeys) key(i int, buf []byte) (key []byte, unit string, part, ok b
 		}
 	}
 	return buf, unit, nt.part, true
+}
+
+// appendKeyCell appends a cell to a key: a number as its 8 bytes (equal
+// numbers, equal keys), anything else as it displays, trimmed and lower-cased
+// with fold.
+func appendKeyCell(buf []byte, v cellVal, fold bool) []byte {
+	if v.kind == kNumber {
+		return binary.LittleEndian.AppendUint64(append(buf, 1), math.Float64bits(v.num))
+	}
+	d := cell{kind: v.kind, num: v.num, text: v.text}.display()
+	if fold {
+		d = strings.ToLower(strings.TrimSpace(d))
+	}
+	return append(append(buf, 2), d...)
 }
 
 // hashKey is the 64-bit FNV-1a hash of key.

@@ -1,6 +1,10 @@
 package importer
 
-import "sort"
+import (
+	"sort"
+
+	"github.com/fluecell/fluecell/funcs/units"
+)
 
 // sampleSet holds the amounts (and unit prices) of one table that the
 // outlier checks test, grouped by key (sheet, column, fuel and unit). The
@@ -13,7 +17,8 @@ type sampleSet struct {
 	keyOf  map[string]int32
 	words  []string // folded fuel words; index 0 is ""
 	wordOf map[string]int32
-	folded map[string]int32 // a fuel text as written → its word, for texts seen before
+	folded map[string]int32            // a fuel text as written → its word, for texts seen before
+	memo   map[rawSampleKey]sampleKeys // a fuel log's fuel and unit as written → their keys (checks.go)
 
 	key, word, row, col *paged[int32]
 	v, q                *paged[float64]
@@ -24,22 +29,47 @@ const maxFoldCache = 50_000
 
 func newSampleSet(ps *pageSet) *sampleSet {
 	return &sampleSet{
-		keyOf: map[string]int32{}, words: []string{""}, wordOf: map[string]int32{"": 0}, folded: map[string]int32{},
+		keyOf: map[string]int32{}, memo: map[rawSampleKey]sampleKeys{}, words: []string{""}, wordOf: map[string]int32{"": 0}, folded: map[string]int32{},
 		key: newFixed(ps, 0, int32(0)), word: newFixed(ps, 0, int32(0)), row: newFixed(ps, 0, int32(0)), col: newFixed(ps, 0, int32(0)),
 		v: newFixed(ps, 0, 0.0), q: newFixed(ps, 0, 0.0),
 	}
 }
 
-// add keeps one sample under key k. fuel is the row's fuel as the
-// workbook writes it ("" for none); q is the amount a unit price was
-// computed from (0 for an amount).
-func (s *sampleSet) add(k string, row, col int, v float64, fuel string, q float64) {
+// rawSampleKey is a fuel log's quantity column with a fuel and a unit as
+// the workbook writes them.
+type rawSampleKey struct {
+	col        int
+	fuel, unit string
+}
+
+// sampleKeys are the keys a rawSampleKey's rows go under, with the fuel id
+// and unit they were read as.
+type sampleKeys struct {
+	amount, price int32 // key indices; -1 for none
+	fuelID        string
+	unit          units.Unit
+}
+
+// keyIndex returns the index of key k, adding it.
+func (s *sampleSet) keyIndex(k string) int32 {
 	ki, ok := s.keyOf[k]
 	if !ok {
 		ki = int32(len(s.keys))
 		s.keys = append(s.keys, k)
 		s.keyOf[k] = ki
 	}
+	return ki
+}
+
+// add keeps one sample under key k. fuel is the row's fuel as the
+// workbook writes it ("" for none); q is the amount a unit price was
+// computed from (0 for an amount).
+func (s *sampleSet) add(k string, row, col int, v float64, fuel string, q float64) {
+	s.addAt(s.keyIndex(k), row, col, v, fuel, q)
+}
+
+// addAt is add with the key's index.
+func (s *sampleSet) addAt(ki int32, row, col int, v float64, fuel string, q float64) {
 	s.key.push(ki)
 	s.word.push(s.wordIndex(fuel))
 	s.row.push(int32(row))

@@ -1,6 +1,9 @@
 package importer
 
-import "strings"
+import (
+	"strings"
+	"unicode"
+)
 
 // cellVal is a stored cell of a table row, for the columns rules and checks
 // read.
@@ -435,10 +438,25 @@ func (t *table) aggregateRow(r *row) bool {
 		if x := t.spec.colAt(c.col); x != nil && (x.role == roleFuel || x.role == roleUnit || x.role == roleTech) {
 			continue
 		}
+		if !startsAllOrTotal(c.text) {
+			continue // the words need not be split (most cells of a long table)
+		}
 		w := words(c.text)
 		if len(w) >= 2 && len(w) <= 4 && (w[0] == "all" || w[0] == "total" || w[0] == "totals") {
 			return true
 		}
 	}
 	return false
+}
+
+// startsAllOrTotal reports whether s, after any leading characters that
+// are neither letters nor digits, begins with "all" or "total" in any case:
+// what a first word "all", "total" or "totals" needs.
+func startsAllOrTotal(s string) bool {
+	i := strings.IndexFunc(s, func(r rune) bool { return unicode.IsLetter(r) || unicode.IsDigit(r) })
+	if i < 0 {
+		return false
+	}
+	s = s[i:]
+	return len(s) >= 3 && strings.EqualFold(s[:3], "all") || len(s) >= 5 && strings.EqualFold(s[:5], "total")
 }
