@@ -296,7 +296,9 @@ func (s *sampleSet) members(g sampleGroup, f func(i int)) {
 
 // sorted returns the values of group g, sorted.
 func (s *sampleSet) sorted(g sampleGroup) []float64 {
-	var vals []float64
+	n := 0
+	s.members(g, func(int) { n++ })
+	vals := make([]float64, 0, n) // counted first: a group of a million rows is allocated once
 	s.members(g, func(i int) { vals = append(vals, s.v.at(i)) })
 	sort.Float64s(vals)
 	return vals

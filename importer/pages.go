@@ -202,6 +202,9 @@ func (p *page[T]) evict(ps *pageSet) int64 {
 		p.off, p.size, p.dirty = off, len(b), false
 	}
 	freed := int64(cap(p.data)) * p.owner.width
+	if a := p.owner; cap(p.data) > cap(a.spare) {
+		a.spare = p.data[:0] // the next page this column reads goes here: less garbage
+	}
 	p.data = nil
 	return freed
 }
@@ -217,6 +220,20 @@ type paged[T any] struct {
 	stride int
 	width  int64 // bytes per element in memory, for the budget
 	codec  pageCodec[T]
+	// spare is the data of a page written out, reused by the next page
+	// read or begun (one per column, outside the budget).
+	spare []T
+}
+
+// take returns n elements for a page's data, the spare's when it is large
+// enough. They are not cleared: the caller fills them.
+func (a *paged[T]) take(n int) []T {
+	if cap(a.spare) >= n {
+		d := a.spare[:n]
+		a.spare = nil
+		return d
+	}
+	return make([]T, n)
 }
 
 // newPaged returns an empty paged column of stride elements per row; width
@@ -238,7 +255,7 @@ func (a *paged[T]) len() int {
 
 // load makes page p's data resident.
 func (a *paged[T]) load(p *page[T]) {
-	data := make([]T, p.n)
+	data := a.take(p.n)
 	if err := a.codec.dec(a.ps.read(p.off, p.size), data); err != nil {
 		panic(pageError{fmt.Errorf("page of %d values: %w", p.n, err)})
 	}
@@ -286,7 +303,11 @@ func (a *paged[T]) add() []T {
 		p = &page[T]{owner: a}
 		a.pages = append(a.pages, p)
 		a.ps.ring = append(a.ps.ring, p)
-		p.data = make([]T, 0, min(a.mask+1, 16)*a.stride)
+		size := (a.mask + 1) * a.stride // after the first page, a table is long: pages at full size
+		if a.rows == 0 {
+			size = min(a.mask+1, 16) * a.stride
+		}
+		p.data = a.take(size)[:0]
 		a.ps.grew(int64(cap(p.data))*a.width, p)
 	} else {
 		p = a.pageOf(a.rows)
@@ -303,7 +324,9 @@ func (a *paged[T]) add() []T {
 	p.data = p.data[:len(p.data)+a.stride]
 	p.n = len(p.data)
 	a.rows++
-	return p.data[len(p.data)-a.stride:]
+	row := p.data[len(p.data)-a.stride:]
+	clear(row) // a spare page's data is not cleared
+	return row
 }
 
 // push appends a one-element row.
