@@ -44,36 +44,40 @@ func rowDate(v *cellVal) (time.Time, bool) {
 // periodDays returns, per row, the days from its date to the next date of
 // the table (rows may run either way in time); the last row takes the
 // spacing before it. NaN where a row has no date.
-func (t *table) periodDays() []float64 {
+func (t *table) periodDays() *paged[float64] {
 	c := t.spec.when
 	n := t.n()
-	out := make([]float64, n)
-	dates := make([]time.Time, n)
-	has := make([]bool, n)
-	for i := 0; i < n; i++ {
-		dates[i], has[i] = rowDate(t.val(i, t.slotOf[c.col]))
-		out[i] = math.NaN()
+	out := newFixed(t.ps, n, math.NaN())
+	date := func(i int) (time.Time, bool) {
+		if i < 0 || i >= n {
+			return time.Time{}, false
+		}
+		return rowDate(t.val(i, t.slotOf[c.col]))
 	}
+	// A window of three rows' dates walks down the table.
+	prev, hasPrev := time.Time{}, false
+	cur, hasCur := date(0)
 	for i := 0; i < n; i++ {
-		if !has[i] {
-			continue
+		next, hasNext := date(i + 1)
+		if hasCur {
+			var d float64
+			if hasNext {
+				d = math.Abs(next.Sub(cur).Hours() / 24)
+			} else if hasPrev {
+				d = math.Abs(cur.Sub(prev).Hours() / 24)
+			}
+			switch {
+			case d >= 28 && d <= 31:
+				// Monthly rows: the row's own month, whatever the spacing
+				// to its neighbour.
+				out.set(i, float64(time.Date(cur.Year(), cur.Month()+1, 0, 0, 0, 0, 0, time.UTC).Day()))
+			case d >= 365 && d <= 366:
+				out.set(i, float64(time.Date(cur.Year(), 12, 31, 0, 0, 0, 0, time.UTC).YearDay()))
+			case d >= 1 && d <= 366:
+				out.set(i, math.Round(d))
+			}
 		}
-		var d float64
-		if i+1 < n && has[i+1] {
-			d = math.Abs(dates[i+1].Sub(dates[i]).Hours() / 24)
-		} else if i > 0 && has[i-1] {
-			d = math.Abs(dates[i].Sub(dates[i-1]).Hours() / 24)
-		}
-		switch {
-		case d >= 28 && d <= 31:
-			// Monthly rows: the row's own month, whatever the spacing to
-			// its neighbour.
-			out[i] = float64(time.Date(dates[i].Year(), dates[i].Month()+1, 0, 0, 0, 0, 0, time.UTC).Day())
-		case d >= 365 && d <= 366:
-			out[i] = float64(time.Date(dates[i].Year(), 12, 31, 0, 0, 0, 0, time.UTC).YearDay())
-		case d >= 1 && d <= 366:
-			out[i] = math.Round(d)
-		}
+		prev, hasPrev, cur, hasCur = cur, hasCur, next, hasNext
 	}
 	return out
 }

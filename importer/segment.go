@@ -30,8 +30,8 @@ type table struct {
 	lastRow   int
 	maxUsed   int // rightmost used column in the table's rows
 	intern    map[string]string
-	days      []float64 // per row, the days of its period, for flows (flow.go); nil without flows
-	copyOf    *table    // the table whose rows this one repeats (duplicate.go); its results are dropped
+	days      *paged[float64] // per row, the days of its period, for flows (flow.go); nil without flows
+	copyOf    *table          // the table whose rows this one repeats (duplicate.go); its results are dropped
 	rules     []*rule
 	alts      map[carrier]*ruleSet // rules of rows of purchased energy (rowrules.go)
 	noted     map[carrier]bool     // carriers whose reading was said in a finding

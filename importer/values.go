@@ -18,7 +18,7 @@ func (sc *scanCtx) value(t *table, i int, b *binding) (any, bool) {
 		if t.days == nil {
 			t.days = t.periodDays()
 		}
-		if d := t.days[i]; !math.IsNaN(d) {
+		if d := t.days.at(i); !math.IsNaN(d) {
 			return d, true
 		}
 		w := t.spec.when
