@@ -17,7 +17,7 @@ import (
 // rowSigs returns a signature per data row of t from the columns that make
 // its emissions: fuel, unit, amounts, technology, capacity, date. Rows of
 // two tables with equal signatures say the same thing.
-func (t *table) rowSigs() []uint64 {
+func (t *table) rowSigs() *paged[uint64] {
 	var cols []int
 	for s, c := range t.slots {
 		switch c.role {
@@ -25,7 +25,7 @@ func (t *table) rowSigs() []uint64 {
 			cols = append(cols, s)
 		}
 	}
-	out := make([]uint64, t.n())
+	out := newFixed(t.ps, t.n(), uint64(0))
 	var b [8]byte
 	for i := range t.n() {
 		h := fnv.New64a()
@@ -43,7 +43,7 @@ func (t *table) rowSigs() []uint64 {
 			}
 			h.Write([]byte{0})
 		}
-		out[i] = h.Sum64()
+		out.set(i, h.Sum64())
 	}
 	return out
 }
@@ -54,30 +54,37 @@ func (sc *scanCtx) dropCopies() {
 	if len(sc.tables) < 2 {
 		return
 	}
-	sigs := make([]map[uint64]bool, len(sc.tables))
-	lists := make([][]uint64, len(sc.tables))
+	// Each table's signatures stay in pages; a set is made only of a
+	// table that is to be looked for in a larger one, so one long table
+	// beside a few short ones costs a set of the short ones' rows.
+	lists := make([]*paged[uint64], len(sc.tables))
 	for i, t := range sc.tables {
 		lists[i] = t.rowSigs()
-		sigs[i] = make(map[uint64]bool, len(lists[i]))
-		for _, s := range lists[i] {
-			sigs[i][s] = true
-		}
 	}
 	for i, t := range sc.tables {
-		if t.computed == 0 || len(lists[i]) < 3 {
+		n := lists[i].len()
+		if t.computed == 0 || n < 3 {
 			continue
 		}
+		var want map[uint64]bool
 		for j, u := range sc.tables {
-			if i == j || u.copyOf != nil || len(lists[j]) < len(lists[i]) || len(lists[j]) == len(lists[i]) && j > i {
+			m := lists[j].len()
+			if i == j || u.copyOf != nil || m < n || m == n && j > i {
 				continue
 			}
-			in := 0
-			for _, s := range lists[i] {
-				if sigs[j][s] {
-					in++
+			if want == nil {
+				want = make(map[uint64]bool, n)
+				for k := range n {
+					want[lists[i].at(k)] = true
 				}
 			}
-			if in == len(lists[i]) {
+			found := make(map[uint64]bool, len(want))
+			for k := range m {
+				if s := lists[j].at(k); want[s] {
+					found[s] = true
+				}
+			}
+			if len(found) == len(want) {
 				t.dropAsCopy(sc, u, "every row of this table repeats the table at %s (a copy or an extract of it)")
 				break
 			}

@@ -154,7 +154,7 @@ type pageCodec[T any] struct {
 }
 
 // fixedCodec is the codec of a fixed-size number type.
-func fixedCodec[T int8 | uint8 | int32 | float64]() pageCodec[T] {
+func fixedCodec[T int8 | uint8 | int32 | uint64 | float64]() pageCodec[T] {
 	return pageCodec[T]{
 		enc: func(dst []byte, src []T) []byte {
 			b, err := binary.Append(dst, binary.LittleEndian, src)
@@ -358,7 +358,7 @@ func (a *paged[T]) fill(n int, v T) {
 }
 
 // newFixed returns a column of n rows of v, one number each.
-func newFixed[T int8 | uint8 | int32 | float64](ps *pageSet, n int, v T) *paged[T] {
+func newFixed[T int8 | uint8 | int32 | uint64 | float64](ps *pageSet, n int, v T) *paged[T] {
 	a := newPaged(ps, 1, int64(binary.Size(v)), fixedCodec[T]())
 	a.fill(n, v)
 	return a
