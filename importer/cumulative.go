@@ -44,7 +44,7 @@ func (t *table) cumulativeWhy() string {
 	}
 	last := map[string]float64{}
 	var steps []float64
-	n, falls := 0, 0
+	n := 0
 	level := 0.0
 	for i := range t.n() {
 		v := t.val(i, qs)
@@ -59,14 +59,14 @@ func (t *table) cumulativeWhy() string {
 		level = max(level, v.num)
 		if prev, ok := last[key]; ok {
 			if v.num < prev {
-				falls++
+				return "" // a reading never falls: these are amounts
 			} else {
 				steps = append(steps, v.num-prev)
 			}
 		}
 		last[key] = v.num
 	}
-	if n < cumulativeMinRows || len(steps) < cumulativeMinRows-1 || falls > 0 {
+	if n < cumulativeMinRows || len(steps) < cumulativeMinRows-1 {
 		return ""
 	}
 	sort.Float64s(steps)

@@ -139,7 +139,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 			sc.warn.add(sheet, c.col, rowNum, SevInfo, CodeNotComputed, msg)
 			continue
 		}
-		if annual != nil && annual[i] {
+		if annual != nil && annual.at(i) != 0 {
 			c := t.spec.when
 			v := t.val(i, t.slotOf[c.col])
 			sc.warn.add(sheet, c.col, rowNum, SevInfo, CodeNotComputed, "an annual total among monthly rows ("+

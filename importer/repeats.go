@@ -12,39 +12,46 @@ import (
 // annualRows marks the rows whose period is a whole year (YYYYMM with
 // month 13, the statistics' annual code) in a year that also has monthly
 // rows. nil when there are none.
-func (t *table) annualRows() []bool {
+func (t *table) annualRows() *paged[int8] {
 	c := t.spec.when
 	if c == nil {
 		return nil
 	}
 	s := t.slotOf[c.col]
 	n := t.n()
-	kind := make([]uint8, n) // 1 monthly, 2 annual
-	year := make([]int, n)
-	monthsOf := map[int]bool{} // years with monthly rows
-	monthly, yearly := false, false
-	for i := 0; i < n; i++ {
-		v := t.val(i, s)
+	// code reads row i's period: 1 monthly, 2 annual, 0 neither.
+	code := func(i int) (kind uint8, year int) {
+		v := *t.val(i, s)
 		x := v.num
 		if v.kind == kText {
 			f, ok, _ := textNumber(v.text)
 			if !ok {
-				continue
+				return 0, 0
 			}
 			x = f
 		} else if v.kind != kNumber {
-			continue
+			return 0, 0
 		}
 		if x != math.Trunc(x) {
-			continue
+			return 0, 0
 		}
-		year[i] = int(x) / 100
 		switch {
 		case x >= 190001 && x <= 210013 && int(x)%100 == 13:
-			kind[i], yearly = 2, true
+			return 2, int(x) / 100
 		case x >= 190001 && x <= 210012 && int(x)%100 >= 1:
-			kind[i], monthly = 1, true
-			monthsOf[year[i]] = true
+			return 1, int(x) / 100
+		}
+		return 0, 0
+	}
+	monthsOf := map[int]bool{} // years with monthly rows
+	monthly, yearly := false, false
+	for i := 0; i < n; i++ {
+		switch k, y := code(i); k {
+		case 2:
+			yearly = true
+		case 1:
+			monthly = true
+			monthsOf[y] = true
 		}
 	}
 	if !monthly || !yearly {
@@ -52,9 +59,11 @@ func (t *table) annualRows() []bool {
 	}
 	// An annual row stands for its year where no monthly rows do (the
 	// early years of a series often have annual figures only).
-	out := make([]bool, n)
-	for i, k := range kind {
-		out[i] = k == 2 && monthsOf[year[i]]
+	out := newFixed(t.ps, n, int8(0))
+	for i := 0; i < n; i++ {
+		if k, y := code(i); k == 2 && monthsOf[y] {
+			out.set(i, 1)
+		}
 	}
 	return out
 }
