@@ -30,6 +30,10 @@ type SheetReader struct {
 	// for a reader that needs only where cells are, on a Book opened
 	// without its shared strings.
 	NoText bool
+
+	v       []byte    // the current cell's <v>, reused from cell to cell
+	texts   textTable // one string per distinct short text
+	general bool      // every cell read the general way (tests compare the two)
 }
 
 // Err is the error that ended the rows, if any.
@@ -140,7 +144,7 @@ func (s *SheetReader) readRow() bool {
 		case TokStart:
 			if !t.Is("c") {
 				if !t.Empty {
-					if _, err := t.CollectText(string(t.Name), "", ""); err != nil {
+					if err := t.SkipElement(string(t.Name)); err != nil {
 						s.fail("row %d: %v", s.rowNum, err)
 						return false
 					}
@@ -148,14 +152,15 @@ func (s *SheetReader) readRow() bool {
 				continue
 			}
 			col++
-			if v, ok := RawAttr(t.Attrs, "r", false); ok {
-				c, r, ok := ParseRef(string(v))
+			ref, style, rawTyp, hasRef, hasStyle, _ := cellAttrs(t.Attrs)
+			if hasRef {
+				c, r, ok := ParseRef(string(ref))
 				if !ok || r != s.rowNum {
-					s.fail("cell reference %q in row %d is not valid", v, s.rowNum)
+					s.fail("cell reference %q in row %d is not valid", ref, s.rowNum)
 					return false
 				}
 				if c < col {
-					s.fail("cell %s comes after a cell to its right (the sheet is corrupt)", v)
+					s.fail("cell %s comes after a cell to its right (the sheet is corrupt)", ref)
 					return false
 				}
 				col = c
@@ -164,15 +169,18 @@ func (s *SheetReader) readRow() bool {
 				s.fail("row %d has more than 16384 columns", s.rowNum)
 				return false
 			}
-			// Copy the type now: reading the children may move the buffer.
-			rawTyp, _ := RawAttr(t.Attrs, "t", false)
+			// Take the type now: reading the children may move the buffer.
 			typ := cellType(rawTyp)
 			c := Cell{Col: col}
-			if v, ok := RawAttr(t.Attrs, "s", false); ok {
-				c.Style = atoiStyle(v)
+			if hasStyle {
+				c.Style = atoiStyle(style)
 			}
 			if !t.Empty {
-				if !s.readCell(&c, typ) {
+				handled, ok := false, true
+				if !s.general {
+					handled, ok = s.quickCell(&c, typ)
+				}
+				if !ok || !handled && !s.readCell(&c, typ) {
 					return false
 				}
 			}
@@ -222,7 +230,8 @@ func cellType(b []byte) string {
 // readCell reads the children of <c> (<v>, <f>, <is>) up to </c>.
 func (s *SheetReader) readCell(c *Cell, typ string) bool {
 	t := s.t
-	var v []byte
+	v := s.v[:0]
+	defer func() { s.v = v[:0] }()
 	hasV := false
 	var inline string
 	hasInline := false
@@ -251,7 +260,7 @@ func (s *SheetReader) readCell(c *Cell, typ string) bool {
 						return false
 					}
 				} else if t.Kind == TokText {
-					v = append(v[:0], bytes.ReplaceAll(t.Text, []byte("&"), []byte("&amp;"))...)
+					v = appendCDATA(v[:0], t.Text)
 					t.Next()
 				} else if t.Kind != TokEnd {
 					s.fail("cell %s: unexpected content in <v>", CellRef(c.Col, s.rowNum))
@@ -260,7 +269,7 @@ func (s *SheetReader) readCell(c *Cell, typ string) bool {
 			case t.Is("f"):
 				c.Formula = true
 				if !t.Empty {
-					if _, err := t.CollectText("f", "", ""); err != nil {
+					if err := t.SkipElement("f"); err != nil {
 						s.fail("cell %s: %v", CellRef(c.Col, s.rowNum), err)
 						return false
 					}
@@ -268,16 +277,16 @@ func (s *SheetReader) readCell(c *Cell, typ string) bool {
 			case t.Is("is"):
 				hasInline = true
 				if !t.Empty {
-					str, err := t.CollectText("is", "t", "rPh")
+					raw, err := t.collect("is", "t", "rPh", true)
 					if err != nil {
 						s.fail("cell %s: %v", CellRef(c.Col, s.rowNum), err)
 						return false
 					}
-					inline = str
+					inline = s.texts.get(raw)
 				}
 			default:
 				if !t.Empty {
-					if _, err := t.CollectText(string(t.Name), "", ""); err != nil {
+					if err := t.SkipElement(string(t.Name)); err != nil {
 						s.fail("cell %s: %v", CellRef(c.Col, s.rowNum), err)
 						return false
 					}
@@ -287,6 +296,8 @@ func (s *SheetReader) readCell(c *Cell, typ string) bool {
 	}
 }
 
+// finishCell gives c its kind and value from the cell's type, its <v>
+// (raw text, valid only during the call) and its inline string.
 func (s *SheetReader) finishCell(c *Cell, typ string, v []byte, hasV bool, inline string, hasInline bool) bool {
 	if hasV && typ != "str" && typ != "inlineStr" && len(bytes.TrimSpace(v)) == 0 {
 		hasV = false // an empty <v> holds no number, shared string, boolean or error
@@ -300,8 +311,8 @@ func (s *SheetReader) finishCell(c *Cell, typ string, v []byte, hasV bool, inlin
 			c.Kind = Text
 			break
 		}
-		i, err := strconv.Atoi(string(bytes.TrimSpace(v)))
-		if err != nil || i < 0 || i >= len(s.sst) {
+		i, ok := atoiIndex(bytes.TrimSpace(v))
+		if !ok || i >= len(s.sst) {
 			s.fail("cell %s refers to shared string %q, which does not exist (the workbook is corrupt)", CellRef(c.Col, s.rowNum), v)
 			return false
 		}
@@ -310,11 +321,11 @@ func (s *SheetReader) finishCell(c *Cell, typ string, v []byte, hasV bool, inlin
 		if hasInline {
 			c.Kind, c.Text = Text, inline
 		} else if hasV {
-			c.Kind, c.Text = Text, Unescape(v)
+			c.Kind, c.Text = Text, s.texts.get(v)
 		}
 	case "str":
 		if hasV {
-			c.Kind, c.Text = Text, Unescape(v)
+			c.Kind, c.Text = Text, s.texts.get(v)
 		}
 	case "b":
 		if hasV {
@@ -325,17 +336,17 @@ func (s *SheetReader) finishCell(c *Cell, typ string, v []byte, hasV bool, inlin
 		}
 	case "e":
 		if hasV {
-			c.Kind, c.Text = Error, Unescape(v)
+			c.Kind, c.Text = Error, s.texts.get(v)
 		}
 	case "d":
 		// An ISO 8601 date stored as text; keep it as text.
 		if hasV {
-			c.Kind, c.Text = Text, Unescape(v)
+			c.Kind, c.Text = Text, s.texts.get(v)
 		}
 	default: // "n" or absent
 		if hasV {
 			raw := bytes.TrimSpace(v)
-			f, err := strconv.ParseFloat(string(raw), 64)
+			f, err := parseNumber(raw)
 			if err != nil || math.IsInf(f, 0) || math.IsNaN(f) {
 				s.fail("cell %s holds %q, which is not a number (the workbook is corrupt)", CellRef(c.Col, s.rowNum), raw)
 				return false
@@ -345,6 +356,28 @@ func (s *SheetReader) finishCell(c *Cell, typ string, v []byte, hasV bool, inlin
 	}
 	c.NoCache = formulaWithoutResult(c, typ, hasV)
 	return true
+}
+
+// atoiIndex reads a shared-string index as strconv.Atoi reads it; ok is
+// false for anything Atoi refuses and for a negative index. Plain digits,
+// which is what writers write, take no detour through a string.
+func atoiIndex(b []byte) (int, bool) {
+	if len(b) == 0 || len(b) > 18 {
+		return atoiSlow(b)
+	}
+	n := 0
+	for _, c := range b {
+		if c < '0' || c > '9' {
+			return atoiSlow(b)
+		}
+		n = n*10 + int(c-'0')
+	}
+	return n, true
+}
+
+func atoiSlow(b []byte) (int, bool) {
+	i, err := strconv.Atoi(string(b))
+	return i, err == nil && i >= 0
 }
 
 // formulaWithoutResult reports a formula cell whose file holds no stored
