@@ -3,6 +3,7 @@ package bookio
 import (
 	"archive/zip"
 	"bytes"
+	"io"
 	"strconv"
 	"testing"
 )
@@ -144,6 +145,27 @@ func BenchmarkReadMerges(b *testing.B) {
 		ms, err := book.ReadMerges(s)
 		if err != nil || len(ms) != 2 {
 			b.Fatalf("%v %v", ms, err)
+		}
+	}
+}
+
+// BenchmarkInflateSheet only inflates the same sheet: the least any
+// reading of it costs, the baseline of the two benchmarks above.
+func BenchmarkInflateSheet(b *testing.B) {
+	data := benchBook(b, benchRows)
+	book, s := openBench(b, data)
+	buf := make([]byte, 256<<10)
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		rc, err := book.OpenPart(s.Part)
+		if err != nil {
+			b.Fatal(err)
+		}
+		n, err := io.CopyBuffer(io.Discard, struct{ io.Reader }{rc}, buf)
+		rc.Close()
+		if err != nil || n < 20<<20 {
+			b.Fatalf("%d bytes, %v", n, err)
 		}
 	}
 }
