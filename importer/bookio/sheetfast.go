@@ -64,6 +64,94 @@ func cellAttrs(a []byte) (r, s, t []byte, hasR, hasS, hasT bool) {
 	return
 }
 
+// quickStart reads the next cell's start tag when it is written the usual
+// way: <c followed by name="value" pairs (no space around '=') and > or
+// />, whole in the buffer. It gives what Next and cellAttrs would give;
+// false, with nothing read, for anything else.
+func (s *SheetReader) quickStart(tag *cellTag) bool {
+	t := s.t
+	if want := min(quickLook, len(t.buf)); t.end-t.pos < want {
+		t.ensure(want)
+	}
+	b := t.buf[t.pos:t.end]
+	if len(b) < 3 || b[0] != '<' || b[1] != 'c' || !isSpace(b[2]) && b[2] != '>' && b[2] != '/' {
+		return false
+	}
+	*tag = cellTag{}
+	hasT := false
+	for i := 2; i < len(b); {
+		c := b[i]
+		switch {
+		case isSpace(c):
+			i++
+			continue
+		case c == '>':
+			t.pos += i + 1
+			return true
+		case c == '/':
+			if i+1 < len(b) && b[i+1] == '>' {
+				tag.empty = true
+				t.pos += i + 2
+				return true
+			}
+			return false
+		}
+		j := i
+		for j < len(b) && b[j] != '=' && b[j] != '>' && b[j] != '/' && b[j] != '"' && b[j] != '\'' && !isSpace(b[j]) {
+			j++
+		}
+		if j+1 >= len(b) || b[j] != '=' || j == i || b[j+1] != '"' && b[j+1] != '\'' {
+			return false
+		}
+		k := bytes.IndexByte(b[j+2:], b[j+1])
+		if k < 0 {
+			return false
+		}
+		if val := b[j+2 : j+2+k]; j == i+1 {
+			switch c {
+			case 'r':
+				if !tag.hasR {
+					tag.r, tag.hasR = val, true
+				}
+			case 's':
+				if !tag.hasS {
+					tag.s, tag.hasS = val, true
+				}
+			case 't':
+				if !hasT {
+					tag.t, hasT = val, true
+				}
+			}
+		}
+		i = j + 2 + k + 1
+	}
+	return false
+}
+
+// refInRow reads the column of a cell reference that must be in row row;
+// ok is false when it is not a reference or names another row. Plain
+// references (AB12) take no detour through a string.
+func refInRow(ref []byte, row int) (col int, ok bool) {
+	i := 0
+	for i < len(ref) && ref[i] >= 'A' && ref[i] <= 'Z' && i < 3 {
+		col = col*26 + int(ref[i]-'A'+1)
+		i++
+	}
+	n := 0
+	for j := i; j < len(ref); j++ {
+		if ref[j] < '0' || ref[j] > '9' || i == 0 || j-i >= 7 {
+			c, r, ok := ParseRef(string(ref))
+			return c, ok && r == row
+		}
+		n = n*10 + int(ref[j]-'0')
+	}
+	if i == 0 || i == len(ref) || col > MaxCol || n == 0 || n > MaxRow {
+		c, r, ok := ParseRef(string(ref))
+		return c, ok && r == row
+	}
+	return col, n == row
+}
+
 // quickCell reads the content of the cell just started, up to its end
 // tag, when it has one of the shapes above. handled is false, with
 // nothing read, for any other shape; ok is false when the cell was read

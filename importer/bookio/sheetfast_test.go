@@ -104,6 +104,11 @@ func TestQuickCells(t *testing.T) {
 		{"white space between elements", "<c r=\"A1\" t=\"s\">\n  <v>1</v>\n</c><c r=\"B1\"><f>1</f>\n<v>2</v></c>",
 			[]Cell{{Col: 1, Kind: Text, Text: "m3"}, {Col: 2, Kind: Number, Num: 2, Formula: true}}},
 		{"attributes spaced and single-quoted", `<c  r = 'A1'  t = 's' s='5'><v>1</v></c>`, []Cell{{Col: 1, Kind: Text, Text: "m3", Style: 5}}},
+		{"start tags with other spacing", "<c\nr=\"A1\"\tt=\"s\"><v>1</v></c ><c r=\"B1\"s=\"2\" ><v>2</v></c><c r=\"C1\" cm=\"1\" vm='1'><v>3</v></c>",
+			[]Cell{{Col: 1, Kind: Text, Text: "m3"}, {Col: 2, Kind: Number, Num: 2, Style: 2}, {Col: 3, Kind: Number, Num: 3}}},
+		{"other elements in the row", `<cx r="A1"/><ext><c r="Z1"><v>1</v></c></ext><c r="B1" t="b"><v>1</v></c>`, []Cell{{Col: 2, Kind: Bool, Text: "TRUE"}}},
+		{"attributes after a broken one unread", `<c r="A1" foo t="s"><v>1</v></c>`, []Cell{{Col: 1, Kind: Number, Num: 1}}},
+		{"lower-case and absolute references", `<c r="$a$1"><v>1</v></c><c r="b1"><v>2</v></c>`, []Cell{{Col: 1, Kind: Number, Num: 1}, {Col: 2, Kind: Number, Num: 2}}},
 		{"other children skipped", `<c r="A1"><extLst><ext uri="x"><y>1</y></ext></extLst><v>4</v></c>`, []Cell{{Col: 1, Kind: Number, Num: 4}}},
 		{"empty value", `<c r="A1"><v/></c><c r="B1" t="s"><v></v></c>`, nil},
 		{"invalid UTF-8", "<c r=\"A1\" t=\"inlineStr\"><is><t>a\xffb</t></is></c>", []Cell{{Col: 1, Kind: Text, Text: "a\uFFFDb"}}},
@@ -264,6 +269,20 @@ func FuzzSheetReader(f *testing.F) {
 		got, gerr := readSheet(xml, sst, 16+int(size), false)
 		if gerr != werr || !reflect.DeepEqual(got, want) {
 			t.Fatalf("short cuts through a %d-byte buffer:\n got %+v %q\nwant %+v %q", 16+int(size), got, gerr, want, werr)
+		}
+	})
+}
+
+// FuzzRefInRow: the short cut reads a reference as ParseRef does.
+func FuzzRefInRow(f *testing.F) {
+	for _, s := range []string{"A1", "XFD1048576", "XFE1", "AB012", "$A$1", "a1", "A0", "A", "1", "AAAA1", "A12345678", "A1048577"} {
+		f.Add(s, 1)
+	}
+	f.Fuzz(func(t *testing.T, ref string, row int) {
+		col, ok := refInRow([]byte(ref), row)
+		c, r, pok := ParseRef(ref)
+		if ok != (pok && r == row) || ok && col != c {
+			t.Fatalf("refInRow(%q, %d) = %d %v; ParseRef %d %d %v", ref, row, col, ok, c, r, pok)
 		}
 	})
 }

@@ -129,66 +129,90 @@ func (s *SheetReader) readRow() bool {
 	s.cells = s.cells[:0]
 	col := 0
 	for {
-		switch t.Next() {
-		case TokEOF:
-			if t.Err() == nil {
-				s.fail("the sheet ends inside row %d (truncated?)", s.rowNum)
-			} else {
-				s.fail("%v", t.Err())
-			}
-			return false
-		case TokEnd:
-			if t.Is("row") {
-				return true
-			}
-		case TokStart:
-			if !t.Is("c") {
-				if !t.Empty {
-					if err := t.SkipElement(string(t.Name)); err != nil {
-						s.fail("row %d: %v", s.rowNum, err)
-						return false
-					}
+		var tag cellTag
+		if s.general || !s.quickStart(&tag) {
+			switch t.Next() {
+			case TokEOF:
+				if t.Err() == nil {
+					s.fail("the sheet ends inside row %d (truncated?)", s.rowNum)
+				} else {
+					s.fail("%v", t.Err())
+				}
+				return false
+			case TokEnd:
+				if t.Is("row") {
+					return true
 				}
 				continue
-			}
-			col++
-			ref, style, rawTyp, hasRef, hasStyle, _ := cellAttrs(t.Attrs)
-			if hasRef {
-				c, r, ok := ParseRef(string(ref))
-				if !ok || r != s.rowNum {
-					s.fail("cell reference %q in row %d is not valid", ref, s.rowNum)
-					return false
+			case TokStart:
+				if !t.Is("c") {
+					if !t.Empty {
+						if err := t.SkipElement(string(t.Name)); err != nil {
+							s.fail("row %d: %v", s.rowNum, err)
+							return false
+						}
+					}
+					continue
 				}
-				if c < col {
-					s.fail("cell %s comes after a cell to its right (the sheet is corrupt)", ref)
-					return false
-				}
-				col = c
-			}
-			if col > 16384 {
-				s.fail("row %d has more than 16384 columns", s.rowNum)
-				return false
-			}
-			// Take the type now: reading the children may move the buffer.
-			typ := cellType(rawTyp)
-			c := Cell{Col: col}
-			if hasStyle {
-				c.Style = atoiStyle(style)
-			}
-			if !t.Empty {
-				handled, ok := false, true
-				if !s.general {
-					handled, ok = s.quickCell(&c, typ)
-				}
-				if !ok || !handled && !s.readCell(&c, typ) {
-					return false
-				}
-			}
-			if c.Kind != Empty || c.Formula || s.KeepStyled && c.Style != 0 {
-				s.cells = append(s.cells, c)
+				tag.r, tag.s, tag.t, tag.hasR, tag.hasS, _ = cellAttrs(t.Attrs)
+				tag.empty = t.Empty
+			default:
+				continue
 			}
 		}
+		if !s.readCellAt(&col, &tag) {
+			return false
+		}
 	}
+}
+
+// cellTag is what a cell's start tag says: its r, s and t attributes (raw,
+// valid until the tokenizer reads on) and whether it is empty (<c .../>).
+type cellTag struct {
+	r, s, t    []byte
+	hasR, hasS bool
+	empty      bool
+}
+
+// readCellAt reads the cell whose start tag was just read; col is the
+// column of the cell before it, and becomes this one's.
+func (s *SheetReader) readCellAt(col *int, tag *cellTag) bool {
+	*col++
+	if tag.hasR {
+		c, ok := refInRow(tag.r, s.rowNum)
+		if !ok {
+			s.fail("cell reference %q in row %d is not valid", tag.r, s.rowNum)
+			return false
+		}
+		if c < *col {
+			s.fail("cell %s comes after a cell to its right (the sheet is corrupt)", tag.r)
+			return false
+		}
+		*col = c
+	}
+	if *col > 16384 {
+		s.fail("row %d has more than 16384 columns", s.rowNum)
+		return false
+	}
+	// Take the type now: reading the children may move the buffer.
+	typ := cellType(tag.t)
+	c := Cell{Col: *col}
+	if tag.hasS {
+		c.Style = atoiStyle(tag.s)
+	}
+	if !tag.empty {
+		handled, ok := false, true
+		if !s.general {
+			handled, ok = s.quickCell(&c, typ)
+		}
+		if !ok || !handled && !s.readCell(&c, typ) {
+			return false
+		}
+	}
+	if c.Kind != Empty || c.Formula || s.KeepStyled && c.Style != 0 {
+		s.cells = append(s.cells, c)
+	}
+	return true
 }
 
 // atoiStyle reads a style index; 0 for anything that is not one.
