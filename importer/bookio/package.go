@@ -43,6 +43,8 @@ type Edit struct {
 	replace  map[string][]byte     // parts replaced whole
 	ids      map[string]int        // relationship ids handed out, per part
 	sstDone  bool                  // AppendShared has been called
+
+	usedBlocks map[int]bool // VML shape-id blocks in use (shapeBlocks)
 }
 
 type addedPart struct {
