@@ -364,6 +364,11 @@ func (e *Edit) editedParts() (map[string][]byte, error) {
 			return nil, fmt.Errorf("%s: %w", wb, err)
 		}
 	}
+	if len(e.sheets) > 0 {
+		if name, data := e.appProps(); data != nil && out[name] == nil && e.stream[name] == nil && e.late[name] == nil {
+			out[name] = data
+		}
+	}
 	for part, rels := range e.rels {
 		rp := relsPart(part)
 		data, err := e.b.readSmall(rp)
