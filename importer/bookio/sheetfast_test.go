@@ -1,10 +1,13 @@
 package bookio
 
 import (
+	"archive/zip"
 	"bytes"
 	"fmt"
 	"io"
 	"math"
+	"os"
+	"path/filepath"
 	"reflect"
 	"strconv"
 	"strings"
@@ -285,4 +288,65 @@ func FuzzRefInRow(f *testing.F) {
 			t.Fatalf("refInRow(%q, %d) = %d %v; ParseRef %d %d %v", ref, row, col, ok, c, r, pok)
 		}
 	})
+}
+
+// TestQuickCellsRealWorkbooks reads every sheet of the real workbooks in
+// testdata/realworld (and of those in the folder FLUECELL_DEVSET names,
+// when set) both ways: the rows and errors must be the same.
+func TestQuickCellsRealWorkbooks(t *testing.T) {
+	dirs := []string{filepath.Join("..", "..", "testdata", "realworld")}
+	if d := os.Getenv("FLUECELL_DEVSET"); d != "" {
+		dirs = append(dirs, d)
+	}
+	cells := 0
+	for _, dir := range dirs {
+		files, err := filepath.Glob(filepath.Join(dir, "*.xls[xm]"))
+		if err != nil || len(files) == 0 {
+			t.Fatalf("no workbooks in %s: %v", dir, err)
+		}
+		for _, path := range files {
+			zr, err := zip.OpenReader(path)
+			if err != nil {
+				t.Fatal(err)
+			}
+			b, err := Open(&zr.Reader, 1<<30)
+			if err != nil {
+				zr.Close()
+				t.Fatalf("%s: %v", path, err)
+			}
+			for _, s := range b.Sheets {
+				if s.Kind != "worksheet" || s.Part == "" {
+					continue
+				}
+				var got [2][]Row
+				var errs [2]string
+				for i, general := range []bool{true, false} {
+					rd, err := b.OpenSheet(s)
+					if err != nil {
+						t.Fatal(err)
+					}
+					rd.general, rd.KeepStyled = general, true
+					for {
+						r, ok := rd.Next()
+						if !ok {
+							break
+						}
+						got[i] = append(got[i], Row{Num: r.Num, Cells: append([]Cell(nil), r.Cells...)})
+					}
+					if rd.Err() != nil {
+						errs[i] = rd.Err().Error()
+					}
+					rd.Close()
+				}
+				if errs[0] != errs[1] || !reflect.DeepEqual(got[0], got[1]) {
+					t.Errorf("%s, sheet %q: the short cuts read it otherwise (errors %q, %q)", filepath.Base(path), s.Name, errs[0], errs[1])
+				}
+				for _, r := range got[0] {
+					cells += len(r.Cells)
+				}
+			}
+			zr.Close()
+		}
+	}
+	t.Logf("%d cells read both ways", cells)
 }
