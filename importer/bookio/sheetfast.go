@@ -161,36 +161,59 @@ func (s *SheetReader) quickCell(c *Cell, typ string) (handled, ok bool) {
 	if want := min(quickLook, len(t.buf)); t.end-t.pos < want {
 		t.ensure(want)
 	}
-	b := t.buf[t.pos:t.end]
+	m, found := matchCell(t.buf[t.pos:t.end], typ == "inlineStr")
+	if !found {
+		return false, true
+	}
+	if m.inline {
+		text := s.texts.get(m.text)
+		t.pos += m.n
+		return true, s.finishCell(c, typ, nil, false, text, true)
+	}
+	t.pos += m.n
+	c.Formula = m.formula
+	return true, s.finishCell(c, typ, m.text, m.hasV, "", false)
+}
+
+// cellMatch is a cell's content in one of the usual shapes.
+type cellMatch struct {
+	n       int    // its length, the cell's end tag included
+	formula bool   // it has an <f>
+	hasV    bool   // it has a <v>
+	inline  bool   // it is an inline string
+	text    []byte // the raw text of the <v> or the inline string
+}
+
+// matchCell matches b, what follows a cell's start tag, against the usual
+// shapes (inline strings only when inline is set); found is false for
+// anything else, or when b ends first.
+func matchCell(b []byte, inline bool) (m cellMatch, found bool) {
 	p := 0
-	formula := false
 	if hasPrefix(b, tagF) {
 		i := bytes.IndexByte(b[len(tagF):], '<')
 		if i < 0 {
-			return false, true
+			return m, false
 		}
 		p = len(tagF) + i
 		if !hasPrefix(b[p:], endF) {
-			return false, true
+			return m, false
 		}
 		p += len(endF)
-		formula = true
+		m.formula = true
 	}
 	switch {
 	case hasPrefix(b[p:], tagV):
 		v := b[p+len(tagV):]
 		i := bytes.IndexByte(v, '<')
 		if i < 0 || !hasPrefix(v[i:], endVC) {
-			return false, true
+			return m, false
 		}
-		t.pos += p + len(tagV) + i + len(endVC)
-		c.Formula = formula
-		return true, s.finishCell(c, typ, v[:i], true, "", false)
-	case formula && hasPrefix(b[p:], endC):
-		t.pos += p + len(endC)
-		c.Formula = true
-		return true, s.finishCell(c, typ, nil, false, "", false)
-	case !formula && typ == "inlineStr" && hasPrefix(b, tagIsT):
+		m.n, m.hasV, m.text = p+len(tagV)+i+len(endVC), true, v[:i]
+		return m, true
+	case m.formula && hasPrefix(b[p:], endC):
+		m.n = p + len(endC)
+		return m, true
+	case !m.formula && inline && hasPrefix(b, tagIsT):
 		p = len(tagIsT)
 		switch {
 		case hasPrefix(b[p:], gt):
@@ -198,18 +221,17 @@ func (s *SheetReader) quickCell(c *Cell, typ string) (handled, ok bool) {
 		case hasPrefix(b[p:], preserveGT):
 			p += len(preserveGT)
 		default:
-			return false, true
+			return m, false
 		}
 		v := b[p:]
 		i := bytes.IndexByte(v, '<')
 		if i < 0 || !hasPrefix(v[i:], endTIsC) {
-			return false, true
+			return m, false
 		}
-		text := s.texts.get(v[:i])
-		t.pos += p + i + len(endTIsC)
-		return true, s.finishCell(c, typ, nil, false, text, true)
+		m.n, m.inline, m.text = p+i+len(endTIsC), true, v[:i]
+		return m, true
 	}
-	return false, true
+	return m, false
 }
 
 // The literal markup quickCell looks for.
