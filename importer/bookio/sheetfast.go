@@ -9,11 +9,13 @@ import "bytes"
 //	<c r="C1" s="2"><f>B1*2</f><v>3</v></c>               formula and its result
 //	<c r="D1" t="inlineStr"><is><t>kg</t></is></c>        inline string
 //
-// quickCell reads these straight from the tokenizer's buffer, without a
-// token per element; anything else (a prefix, white space between the
-// elements, attributes on <v> or <f>, rich text, CDATA, an entity in a
-// formula, content longer than the look-ahead) goes the general way,
-// readCell, which gives the same cells.
+// quickStart and quickCell read these straight from the tokenizer's
+// buffer, without a token per element, and the rewriter copies their
+// content in one piece (copyQuickCell); anything else (a prefix, white
+// space between the elements, attributes on <v> or <f>, rich text, CDATA,
+// comments, content longer than the look-ahead) goes the general way,
+// token by token, which gives the same cells and the same bytes (the
+// tests and fuzz tests compare the two ways).
 
 // quickLook is how many bytes quickCell wants in the buffer before it
 // looks: more than almost any cell's content.
