@@ -251,3 +251,83 @@ func TestShapeBlocksReserved(t *testing.T) {
 		t.Errorf("withBlocks on an empty list: %s", got)
 	}
 }
+
+// TestShapeBlocksRealWorkbook adds comments to every worksheet of a real
+// workbook with thirteen VML drawings (ECoS_GHG_Inventory_CY2019.xlsx of
+// the development set, when FLUECELL_DEVSET names its folder), each time
+// asking for block 1, which the workbook uses: no block is shared, no
+// shape id is given twice, and excelize reads every comment.
+func TestShapeBlocksRealWorkbook(t *testing.T) {
+	dir := os.Getenv("FLUECELL_DEVSET")
+	if dir == "" {
+		t.Skip("FLUECELL_DEVSET is not set")
+	}
+	src, err := os.ReadFile(filepath.Join(dir, "ECoS_GHG_Inventory_CY2019.xlsx"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	before, _ := checkShapeIDs(t, src)
+	if len(before) < 10 {
+		t.Fatalf("%d drawings in the input", len(before))
+	}
+	zr, err := zip.NewReader(bytes.NewReader(src), int64(len(src)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := Open(zr, 1<<30)
+	if err != nil {
+		t.Fatal(err)
+	}
+	e := NewEdit(b)
+	note := []Note{{Col: 30, Row: 2, Text: "added by the test"}}
+	for _, s := range b.Sheets {
+		if s.Kind != "worksheet" {
+			continue
+		}
+		id, err := e.AddComments(s.Part, "fluecell", note, 1)
+		if err != nil {
+			t.Fatalf("%s: %v", s.Name, err)
+		}
+		if id != "" {
+			e.Rewrite(s.Part, func(w io.Writer, r io.Reader) error { return RewriteSheet(w, r, &SheetEdit{LegacyDrawing: id}) })
+		}
+	}
+	var out bytes.Buffer
+	if err := e.Write(&out); err != nil {
+		t.Fatal(err)
+	}
+	after, _ := checkShapeIDs(t, out.Bytes())
+	path := filepath.Join(t.TempDir(), "ecos.xlsx")
+	if err := os.WriteFile(path, out.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	f, err := excelize.OpenFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	for _, s := range b.Sheets {
+		if s.Kind != "worksheet" {
+			continue
+		}
+		cs, err := f.GetComments(s.Name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		found := false
+		for _, c := range cs {
+			found = found || c.Cell == "AD2"
+		}
+		if !found {
+			t.Errorf("%s: no comment at AD2 among %d", s.Name, len(cs))
+		}
+	}
+	t.Logf("%d drawings before, %d after", len(before), len(after))
+	res := runOpenpyxl(t, `import sys, openpyxl
+wb = openpyxl.load_workbook(sys.argv[1])
+print(sum(1 for ws in wb.worksheets if ws["AD2"].comment is not None and ws["AD2"].comment.text == "added by the test"), len(wb.worksheets))
+`, path)
+	if n := strings.Fields(res); len(n) != 2 || n[0] != n[1] {
+		t.Errorf("openpyxl: the added comment on %s sheets", res)
+	}
+}
