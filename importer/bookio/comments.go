@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"fmt"
 	"path"
-	"strconv"
 	"strings"
 )
 
@@ -22,8 +21,9 @@ type Note struct {
 // or "" when the sheet has a VML drawing already: the comments and shapes
 // are then added to the sheet's own parts, whose comments stay as they
 // are, and a note at a cell that has a comment already is left out.
-// shapeBlock numbers the new shapes (1024 ids per block); it must differ
-// between the sheets of a workbook.
+// The new shapes are numbered in blocks of 1024 ids that no VML drawing of
+// the package or earlier call uses, the first at or after shapeBlock (see
+// shapeBlocks); a sheet's own drawing lists them in its o:idmap.
 func (e *Edit) AddComments(sheet, author string, notes []Note, shapeBlock int) (string, error) {
 	cPart, vPart := e.relPart(sheet, "/comments"), e.relPart(sheet, "/vmlDrawing")
 	if cPart == "" && vPart == "" {
@@ -81,13 +81,21 @@ func (e *Edit) AddComments(sheet, author string, notes []Note, shapeBlock int) (
 	if !bytes.Contains(vData, []byte(`_x0000_t202`)) {
 		v.WriteString(noteShapeType)
 	}
-	n := 0
+	var add []Note
 	for _, note := range notes {
-		if own[CellRef(note.Col, note.Row)] {
-			continue
+		if !own[CellRef(note.Col, note.Row)] {
+			add = append(add, note)
 		}
-		writeNote(&c, &v, note, authorID, shapeBlock, n)
-		n++
+	}
+	if len(add) > 0 {
+		blocks, err := e.shapeBlocks(shapeBlock, len(add)/shapeBlockSize+1)
+		if err != nil {
+			return "", err
+		}
+		for i, note := range add {
+			writeNote(&c, &v, note, authorID, blocks[0], i)
+		}
+		vData = withBlocks(vData, blocks)
 	}
 	if cData, err = insertBeforeEnd(cData, "commentList", c.String()); err != nil {
 		return "", fmt.Errorf("%s: %w", cPart, err)
@@ -136,12 +144,16 @@ func writeNote(c, v *bytes.Buffer, n Note, author, block, i int) {
 		`<v:textbox style="mso-direction-alt:auto"><div style="text-align:left"></div></v:textbox>`+
 		`<x:ClientData ObjectType="Note"><x:MoveWithCells/><x:SizeWithCells/><x:Anchor>%d, 15, %d, 2, %d, 15, %d, 4</x:Anchor>`+
 		`<x:AutoFill>False</x:AutoFill><x:Row>%d</x:Row><x:Column>%d</x:Column></x:ClientData></v:shape>`,
-		block*1024+1+i, i+1, n.Col, max(n.Row-2, 0), n.Col+4, n.Row+5, n.Row-1, n.Col-1)
+		block*shapeBlockSize+1+i, i+1, n.Col, max(n.Row-2, 0), n.Col+4, n.Row+5, n.Row-1, n.Col-1)
 }
 
 // newComments writes new comments and VML parts for a sheet that has
 // neither.
 func (e *Edit) newComments(sheet, author string, notes []Note, shapeBlock int) (string, error) {
+	blocks, err := e.shapeBlocks(shapeBlock, len(notes)/shapeBlockSize+1)
+	if err != nil {
+		return "", err
+	}
 	var c bytes.Buffer
 	c.WriteString(`<?xml version="1.0" encoding="UTF-8" standalone="yes"?>` + "\n" +
 		`<comments xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><authors><author>`)
@@ -149,9 +161,9 @@ func (e *Edit) newComments(sheet, author string, notes []Note, shapeBlock int) (
 	c.WriteString(`</author></authors><commentList>`)
 	var v bytes.Buffer
 	v.WriteString(`<xml xmlns:v="urn:schemas-microsoft-com:vml" xmlns:o="urn:schemas-microsoft-com:office:office" xmlns:x="urn:schemas-microsoft-com:office:excel">` +
-		`<o:shapelayout v:ext="edit"><o:idmap v:ext="edit" data="` + strconv.Itoa(shapeBlock) + `"/></o:shapelayout>` + noteShapeType)
+		`<o:shapelayout v:ext="edit"><o:idmap v:ext="edit" data="` + blockList(blocks) + `"/></o:shapelayout>` + noteShapeType)
 	for i, n := range notes {
-		writeNote(&c, &v, n, 0, shapeBlock, i)
+		writeNote(&c, &v, n, 0, blocks[0], i)
 	}
 	c.WriteString(`</commentList></comments>`)
 	v.WriteString(`</xml>`)

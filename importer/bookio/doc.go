@@ -3,9 +3,12 @@
 //
 // Reading: Open checks the package with size limits per kind of part
 // (zip-bomb protection, PartLimit) and reads its sheet list and shared
-// strings; Book.OpenSheet streams a worksheet's rows as typed cells; Tok is
-// the small XML pull tokenizer underneath, which allocates nothing per
-// token.
+// strings; Book.OpenSheet streams a worksheet's rows as typed cells (the
+// usual shapes of cell read straight from the buffer, the rest token by
+// token) and then, if asked, its merged ranges (SheetReader.Merges;
+// Book.ReadMerges finds them beforehand, at the cost of inflating the part
+// once more); Tok is the small XML pull tokenizer underneath, which
+// allocates nothing per token.
 //
 // Writing: a Writer copies the package part by part into a new zip. Parts
 // that do not change are copied as their raw compressed bytes (no inflate,

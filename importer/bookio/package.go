@@ -43,6 +43,8 @@ type Edit struct {
 	replace  map[string][]byte     // parts replaced whole
 	ids      map[string]int        // relationship ids handed out, per part
 	sstDone  bool                  // AppendShared has been called
+
+	usedBlocks map[int]bool // VML shape-id blocks in use (shapeBlocks)
 }
 
 type addedPart struct {
@@ -360,6 +362,11 @@ func (e *Edit) editedParts() (map[string][]byte, error) {
 		}
 		if out[wb], err = insertBeforeEnd(data, "sheets", add.String()); err != nil {
 			return nil, fmt.Errorf("%s: %w", wb, err)
+		}
+	}
+	if len(e.sheets) > 0 {
+		if name, data := e.appProps(); data != nil && out[name] == nil && e.stream[name] == nil && e.late[name] == nil {
+			out[name] = data
 		}
 	}
 	for part, rels := range e.rels {

@@ -106,7 +106,13 @@ const nsRel = "http://schemas.openxmlformats.org/officeDocument/2006/relationshi
 // reference) for an appended cell where the sheet holds a value, a
 // formula or an inline string; the output is then incomplete.
 func RewriteSheet(w io.Writer, r io.Reader, e *SheetEdit) error {
-	rw := &rewriter{t: NewTok(r), w: bufio.NewWriterSize(w, 64<<10), e: e}
+	return rewriteSheet(w, r, e, false)
+}
+
+// rewriteSheet is RewriteSheet; with general set, every cell is copied
+// token by token (tests compare the two ways).
+func rewriteSheet(w io.Writer, r io.Reader, e *SheetEdit, general bool) error {
+	rw := &rewriter{t: NewTok(r), w: bufio.NewWriterSize(w, 64<<10), e: e, general: general}
 	rw.t.Verbatim = true
 	if e.Rows != nil {
 		rw.advance()
@@ -140,6 +146,7 @@ type rewriter struct {
 	cur      []NewCell // the appended cells of the row being written
 	from     []int     // columns whose style cells of the row take (StyleFrom)
 	fromSt   []int     // their styles, as met
+	general  bool      // no copyQuickCell
 }
 
 // op is one change in a row: an appended cell or a mark.

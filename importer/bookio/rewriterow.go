@@ -130,7 +130,7 @@ func (rw *rewriter) rowCells(n int) error {
 				continue
 			}
 			rw.write(raw)
-			if !t.Empty {
+			if !t.Empty && !rw.copyQuickCell() {
 				if err := rw.copyElement(); err != nil {
 					return err
 				}
@@ -139,6 +139,28 @@ func (rw *rewriter) rowCells(n int) error {
 			rw.write(t.Raw)
 		}
 	}
+}
+
+// copyQuickCell copies the content of the cell just started, up to its
+// end tag, in one piece when it has one of the usual shapes (matchCell):
+// the same bytes copyElement would copy token by token. It reports false,
+// having copied nothing, for any other shape.
+func (rw *rewriter) copyQuickCell() bool {
+	t := rw.t
+	if rw.general {
+		return false
+	}
+	if want := min(quickLook, len(t.buf)); t.end-t.pos < want {
+		t.ensure(want)
+	}
+	b := t.buf[t.pos:t.end]
+	m, ok := matchCell(b, true)
+	if !ok {
+		return false
+	}
+	rw.write(b[:m.n])
+	t.pos += m.n
+	return true
 }
 
 // onCell handles an original cell at the column of an op: a mark restyles

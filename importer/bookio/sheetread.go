@@ -30,6 +30,10 @@ type SheetReader struct {
 	// for a reader that needs only where cells are, on a Book opened
 	// without its shared strings.
 	NoText bool
+
+	v       []byte    // the current cell's <v>, reused from cell to cell
+	texts   textTable // one string per distinct short text
+	general bool      // every cell read the general way (tests compare the two)
 }
 
 // Err is the error that ended the rows, if any.
@@ -125,62 +129,90 @@ func (s *SheetReader) readRow() bool {
 	s.cells = s.cells[:0]
 	col := 0
 	for {
-		switch t.Next() {
-		case TokEOF:
-			if t.Err() == nil {
-				s.fail("the sheet ends inside row %d (truncated?)", s.rowNum)
-			} else {
-				s.fail("%v", t.Err())
-			}
-			return false
-		case TokEnd:
-			if t.Is("row") {
-				return true
-			}
-		case TokStart:
-			if !t.Is("c") {
-				if !t.Empty {
-					if _, err := t.CollectText(string(t.Name), "", ""); err != nil {
-						s.fail("row %d: %v", s.rowNum, err)
-						return false
-					}
+		var tag cellTag
+		if s.general || !s.quickStart(&tag) {
+			switch t.Next() {
+			case TokEOF:
+				if t.Err() == nil {
+					s.fail("the sheet ends inside row %d (truncated?)", s.rowNum)
+				} else {
+					s.fail("%v", t.Err())
+				}
+				return false
+			case TokEnd:
+				if t.Is("row") {
+					return true
 				}
 				continue
-			}
-			col++
-			if v, ok := RawAttr(t.Attrs, "r", false); ok {
-				c, r, ok := ParseRef(string(v))
-				if !ok || r != s.rowNum {
-					s.fail("cell reference %q in row %d is not valid", v, s.rowNum)
-					return false
+			case TokStart:
+				if !t.Is("c") {
+					if !t.Empty {
+						if err := t.SkipElement(string(t.Name)); err != nil {
+							s.fail("row %d: %v", s.rowNum, err)
+							return false
+						}
+					}
+					continue
 				}
-				if c < col {
-					s.fail("cell %s comes after a cell to its right (the sheet is corrupt)", v)
-					return false
-				}
-				col = c
-			}
-			if col > 16384 {
-				s.fail("row %d has more than 16384 columns", s.rowNum)
-				return false
-			}
-			// Copy the type now: reading the children may move the buffer.
-			rawTyp, _ := RawAttr(t.Attrs, "t", false)
-			typ := cellType(rawTyp)
-			c := Cell{Col: col}
-			if v, ok := RawAttr(t.Attrs, "s", false); ok {
-				c.Style = atoiStyle(v)
-			}
-			if !t.Empty {
-				if !s.readCell(&c, typ) {
-					return false
-				}
-			}
-			if c.Kind != Empty || c.Formula || s.KeepStyled && c.Style != 0 {
-				s.cells = append(s.cells, c)
+				tag.r, tag.s, tag.t, tag.hasR, tag.hasS, _ = cellAttrs(t.Attrs)
+				tag.empty = t.Empty
+			default:
+				continue
 			}
 		}
+		if !s.readCellAt(&col, &tag) {
+			return false
+		}
 	}
+}
+
+// cellTag is what a cell's start tag says: its r, s and t attributes (raw,
+// valid until the tokenizer reads on) and whether it is empty (<c .../>).
+type cellTag struct {
+	r, s, t    []byte
+	hasR, hasS bool
+	empty      bool
+}
+
+// readCellAt reads the cell whose start tag was just read; col is the
+// column of the cell before it, and becomes this one's.
+func (s *SheetReader) readCellAt(col *int, tag *cellTag) bool {
+	*col++
+	if tag.hasR {
+		c, ok := refInRow(tag.r, s.rowNum)
+		if !ok {
+			s.fail("cell reference %q in row %d is not valid", tag.r, s.rowNum)
+			return false
+		}
+		if c < *col {
+			s.fail("cell %s comes after a cell to its right (the sheet is corrupt)", tag.r)
+			return false
+		}
+		*col = c
+	}
+	if *col > 16384 {
+		s.fail("row %d has more than 16384 columns", s.rowNum)
+		return false
+	}
+	// Take the type now: reading the children may move the buffer.
+	typ := cellType(tag.t)
+	c := Cell{Col: *col}
+	if tag.hasS {
+		c.Style = atoiStyle(tag.s)
+	}
+	if !tag.empty {
+		handled, ok := false, true
+		if !s.general {
+			handled, ok = s.quickCell(&c, typ)
+		}
+		if !ok || !handled && !s.readCell(&c, typ) {
+			return false
+		}
+	}
+	if c.Kind != Empty || c.Formula || s.KeepStyled && c.Style != 0 {
+		s.cells = append(s.cells, c)
+	}
+	return true
 }
 
 // atoiStyle reads a style index; 0 for anything that is not one.
@@ -222,7 +254,8 @@ func cellType(b []byte) string {
 // readCell reads the children of <c> (<v>, <f>, <is>) up to </c>.
 func (s *SheetReader) readCell(c *Cell, typ string) bool {
 	t := s.t
-	var v []byte
+	v := s.v[:0]
+	defer func() { s.v = v[:0] }()
 	hasV := false
 	var inline string
 	hasInline := false
@@ -251,7 +284,7 @@ func (s *SheetReader) readCell(c *Cell, typ string) bool {
 						return false
 					}
 				} else if t.Kind == TokText {
-					v = append(v[:0], bytes.ReplaceAll(t.Text, []byte("&"), []byte("&amp;"))...)
+					v = appendCDATA(v[:0], t.Text)
 					t.Next()
 				} else if t.Kind != TokEnd {
 					s.fail("cell %s: unexpected content in <v>", CellRef(c.Col, s.rowNum))
@@ -260,7 +293,7 @@ func (s *SheetReader) readCell(c *Cell, typ string) bool {
 			case t.Is("f"):
 				c.Formula = true
 				if !t.Empty {
-					if _, err := t.CollectText("f", "", ""); err != nil {
+					if err := t.SkipElement("f"); err != nil {
 						s.fail("cell %s: %v", CellRef(c.Col, s.rowNum), err)
 						return false
 					}
@@ -268,16 +301,16 @@ func (s *SheetReader) readCell(c *Cell, typ string) bool {
 			case t.Is("is"):
 				hasInline = true
 				if !t.Empty {
-					str, err := t.CollectText("is", "t", "rPh")
+					raw, err := t.collect("is", "t", "rPh", true)
 					if err != nil {
 						s.fail("cell %s: %v", CellRef(c.Col, s.rowNum), err)
 						return false
 					}
-					inline = str
+					inline = s.texts.get(raw)
 				}
 			default:
 				if !t.Empty {
-					if _, err := t.CollectText(string(t.Name), "", ""); err != nil {
+					if err := t.SkipElement(string(t.Name)); err != nil {
 						s.fail("cell %s: %v", CellRef(c.Col, s.rowNum), err)
 						return false
 					}
@@ -287,6 +320,8 @@ func (s *SheetReader) readCell(c *Cell, typ string) bool {
 	}
 }
 
+// finishCell gives c its kind and value from the cell's type, its <v>
+// (raw text, valid only during the call) and its inline string.
 func (s *SheetReader) finishCell(c *Cell, typ string, v []byte, hasV bool, inline string, hasInline bool) bool {
 	if hasV && typ != "str" && typ != "inlineStr" && len(bytes.TrimSpace(v)) == 0 {
 		hasV = false // an empty <v> holds no number, shared string, boolean or error
@@ -300,8 +335,8 @@ func (s *SheetReader) finishCell(c *Cell, typ string, v []byte, hasV bool, inlin
 			c.Kind = Text
 			break
 		}
-		i, err := strconv.Atoi(string(bytes.TrimSpace(v)))
-		if err != nil || i < 0 || i >= len(s.sst) {
+		i, ok := atoiIndex(bytes.TrimSpace(v))
+		if !ok || i >= len(s.sst) {
 			s.fail("cell %s refers to shared string %q, which does not exist (the workbook is corrupt)", CellRef(c.Col, s.rowNum), v)
 			return false
 		}
@@ -310,11 +345,11 @@ func (s *SheetReader) finishCell(c *Cell, typ string, v []byte, hasV bool, inlin
 		if hasInline {
 			c.Kind, c.Text = Text, inline
 		} else if hasV {
-			c.Kind, c.Text = Text, Unescape(v)
+			c.Kind, c.Text = Text, s.texts.get(v)
 		}
 	case "str":
 		if hasV {
-			c.Kind, c.Text = Text, Unescape(v)
+			c.Kind, c.Text = Text, s.texts.get(v)
 		}
 	case "b":
 		if hasV {
@@ -325,17 +360,17 @@ func (s *SheetReader) finishCell(c *Cell, typ string, v []byte, hasV bool, inlin
 		}
 	case "e":
 		if hasV {
-			c.Kind, c.Text = Error, Unescape(v)
+			c.Kind, c.Text = Error, s.texts.get(v)
 		}
 	case "d":
 		// An ISO 8601 date stored as text; keep it as text.
 		if hasV {
-			c.Kind, c.Text = Text, Unescape(v)
+			c.Kind, c.Text = Text, s.texts.get(v)
 		}
 	default: // "n" or absent
 		if hasV {
 			raw := bytes.TrimSpace(v)
-			f, err := strconv.ParseFloat(string(raw), 64)
+			f, err := parseNumber(raw)
 			if err != nil || math.IsInf(f, 0) || math.IsNaN(f) {
 				s.fail("cell %s holds %q, which is not a number (the workbook is corrupt)", CellRef(c.Col, s.rowNum), raw)
 				return false
@@ -347,6 +382,28 @@ func (s *SheetReader) finishCell(c *Cell, typ string, v []byte, hasV bool, inlin
 	return true
 }
 
+// atoiIndex reads a shared-string index as strconv.Atoi reads it; ok is
+// false for anything Atoi refuses and for a negative index. Plain digits,
+// which is what writers write, take no detour through a string.
+func atoiIndex(b []byte) (int, bool) {
+	if len(b) == 0 || len(b) > 18 {
+		return atoiSlow(b)
+	}
+	n := 0
+	for _, c := range b {
+		if c < '0' || c > '9' {
+			return atoiSlow(b)
+		}
+		n = n*10 + int(c-'0')
+	}
+	return n, true
+}
+
+func atoiSlow(b []byte) (int, bool) {
+	i, err := strconv.Atoi(string(b))
+	return i, err == nil && i >= 0
+}
+
 // formulaWithoutResult reports a formula cell whose file holds no stored
 // result: no <v>, or an empty <v></v> (openpyxl writes <f>2*300</f><v></v>;
 // other libraries write <v/>). An empty <v> is a stored result only for a
@@ -354,101 +411,4 @@ func (s *SheetReader) finishCell(c *Cell, typ string, v []byte, hasV bool, inlin
 // a number, boolean or error it holds nothing.
 func formulaWithoutResult(c *Cell, typ string, hasV bool) bool {
 	return c.Formula && c.Kind == Empty && !(hasV && typ == "str")
-}
-
-// ReadMerges returns the merged ranges of a worksheet part. They follow the
-// cell data, so the part is read to its end; only the tail after
-// </sheetData> is tokenized.
-func (b *Book) ReadMerges(s SheetRef) ([]Range, error) {
-	if s.Part == "" {
-		return nil, nil
-	}
-	rc, err := b.OpenPart(s.Part)
-	if err != nil {
-		return nil, err
-	}
-	defer rc.Close()
-	tail, err := afterSheetData(rc)
-	if err != nil {
-		return nil, err
-	}
-	if tail == nil {
-		return nil, nil
-	}
-	t := NewTok(bytes.NewReader(tail))
-	var out []Range
-	for k := t.Next(); k != TokEOF; k = t.Next() {
-		if k == TokStart && t.Is("mergeCell") {
-			ref, _ := t.Attr("ref", false)
-			if r, ok := ParseRange(ref); ok {
-				out = append(out, r)
-			}
-			if len(out) > 1<<20 {
-				return nil, fmt.Errorf("%s: more than a million merged ranges", s.Part)
-			}
-		}
-	}
-	if err := t.Err(); err != nil {
-		return nil, fmt.Errorf("%s: %v", s.Part, err)
-	}
-	return out, nil
-}
-
-// afterSheetData reads r to its end and returns what follows the end tag
-// </sheetData> (nil when there is none).
-func afterSheetData(r io.Reader) ([]byte, error) {
-	const keep = 64
-	pat := []byte("sheetData>")
-	chunk := make([]byte, 256<<10)
-	win := make([]byte, 0, len(chunk)+keep)
-	var tail []byte
-	found := false
-	for {
-		n, err := r.Read(chunk)
-		if n > 0 {
-			if found {
-				tail = append(tail, chunk[:n]...)
-				if len(tail) > 64<<20 {
-					return nil, fmt.Errorf("the part after its cell data is over 64 MB")
-				}
-			} else {
-				win = append(win, chunk[:n]...)
-				for i := bytes.Index(win, pat); i >= 0; {
-					if isEndTag(win, i) {
-						found = true
-						tail = append([]byte(nil), win[i+len(pat):]...)
-						break
-					}
-					next := bytes.Index(win[i+1:], pat)
-					if next < 0 {
-						break
-					}
-					i += 1 + next
-				}
-				if !found {
-					cut := max(0, len(win)-keep)
-					win = append(win[:0], win[cut:]...)
-				}
-			}
-		}
-		if err == io.EOF {
-			return tail, nil
-		}
-		if err != nil {
-			return nil, err
-		}
-	}
-}
-
-// isEndTag reports whether the name at buf[j:] is preceded by "</" or
-// "</prefix:".
-func isEndTag(buf []byte, j int) bool {
-	k := j - 1
-	if k >= 0 && buf[k] == ':' {
-		k--
-		for k >= 0 && buf[k] != '<' && buf[k] != '/' && !isSpace(buf[k]) {
-			k--
-		}
-	}
-	return k >= 1 && buf[k] == '/' && buf[k-1] == '<'
 }

@@ -5,8 +5,6 @@ import (
 	"errors"
 	"io"
 	"strconv"
-	"strings"
-	"unicode/utf8"
 )
 
 // Tok is a small pull tokenizer for the XML parts of a workbook. It is
@@ -40,6 +38,8 @@ type Tok struct {
 	// the XML declaration as TokOther tokens (with Raw) instead of
 	// skipping them: a rewriter copies them through.
 	Verbatim bool
+
+	text []byte // CollectText's buffer, reused from element to element
 }
 
 // TokKind is the kind of a token.
@@ -248,42 +248,55 @@ func (t *Tok) readText() TokKind {
 // readStart reads a start tag; '>' inside quoted attribute values is legal.
 func (t *Tok) readStart() TokKind {
 	off := 1
-	var quote byte
+	var quote byte // the quote of the value the scan is in, 0 outside one
 	for {
-		for ; t.pos+off < t.end; off++ {
-			c := t.buf[t.pos+off]
-			switch {
-			case quote != 0:
-				if c == quote {
-					quote = 0
+		b := t.buf[t.pos:t.end]
+		for off < len(b) {
+			if quote != 0 {
+				j := bytes.IndexByte(b[off:], quote)
+				if j < 0 {
+					off = len(b)
+					break
 				}
-			case c == '"' || c == '\'':
-				quote = c
-			case c == '>':
-				tag := t.buf[t.pos+1 : t.pos+off]
-				t.Empty = len(tag) > 0 && tag[len(tag)-1] == '/'
-				if t.Empty {
-					tag = tag[:len(tag)-1]
-				}
-				n := 0
-				for n < len(tag) && !isSpace(tag[n]) {
-					n++
-				}
-				if n == 0 {
-					return t.malformed()
-				}
-				t.Name = localName(tag[:n])
-				t.Attrs = tag[n:]
-				t.Raw = t.buf[t.pos : t.pos+off+1]
-				t.pos += off + 1
-				t.Kind = TokStart
-				return TokStart
+				off += j + 1
+				quote = 0
+				continue
 			}
+			c := b[off]
+			if c == '"' || c == '\'' {
+				quote = c
+			} else if c == '>' {
+				return t.startTag(off)
+			}
+			off++
 		}
 		if !t.fill() {
 			return t.malformed()
 		}
 	}
+}
+
+// startTag makes the start tag that ends with the '>' at pos+off the
+// current token.
+func (t *Tok) startTag(off int) TokKind {
+	tag := t.buf[t.pos+1 : t.pos+off]
+	t.Empty = len(tag) > 0 && tag[len(tag)-1] == '/'
+	if t.Empty {
+		tag = tag[:len(tag)-1]
+	}
+	n := 0
+	for n < len(tag) && !isSpace(tag[n]) {
+		n++
+	}
+	if n == 0 {
+		return t.malformed()
+	}
+	t.Name = localName(tag[:n])
+	t.Attrs = tag[n:]
+	t.Raw = t.buf[t.pos : t.pos+off+1]
+	t.pos += off + 1
+	t.Kind = TokStart
+	return TokStart
 }
 
 func isSpace(c byte) bool { return c == ' ' || c == '\t' || c == '\n' || c == '\r' }
@@ -312,140 +325,44 @@ func (t *Tok) Attr(name string, prefixed bool) (string, bool) {
 	return Unescape(v), true
 }
 
-// RawAttr finds an attribute in raw attribute text without decoding it.
-func RawAttr(a []byte, name string, prefixed bool) ([]byte, bool) {
-	i := 0
-	for i < len(a) {
-		for i < len(a) && isSpace(a[i]) {
-			i++
-		}
-		start := i
-		for i < len(a) && a[i] != '=' && !isSpace(a[i]) {
-			i++
-		}
-		full := a[start:i]
-		for i < len(a) && isSpace(a[i]) {
-			i++
-		}
-		if i >= len(a) || a[i] != '=' {
-			return nil, false
-		}
-		i++
-		for i < len(a) && isSpace(a[i]) {
-			i++
-		}
-		if i >= len(a) || (a[i] != '"' && a[i] != '\'') {
-			return nil, false
-		}
-		q := a[i]
-		i++
-		vs := i
-		for i < len(a) && a[i] != q {
-			i++
-		}
-		if i >= len(a) {
-			return nil, false
-		}
-		val := a[vs:i]
-		i++
-		local, hasPrefix := full, false
-		if c := bytes.IndexByte(full, ':'); c >= 0 {
-			local, hasPrefix = full[c+1:], true
-		}
-		if string(local) == name && prefixed == hasPrefix {
-			return val, true
-		}
-	}
-	return nil, false
-}
-
-// Unescape decodes the five predefined entities and character references.
-// Text that is not valid UTF-8 or holds a malformed reference is kept as
-// written, with invalid bytes replaced.
-func Unescape(b []byte) string {
-	if bytes.IndexByte(b, '&') < 0 {
-		if utf8.Valid(b) {
-			return string(b)
-		}
-		return strings.ToValidUTF8(string(b), "\uFFFD")
-	}
-	var sb strings.Builder
-	sb.Grow(len(b))
-	for len(b) > 0 {
-		i := bytes.IndexByte(b, '&')
-		if i < 0 {
-			sb.Write(b)
-			break
-		}
-		sb.Write(b[:i])
-		b = b[i:]
-		j := bytes.IndexByte(b, ';')
-		if j < 0 || j > 12 {
-			sb.WriteByte('&')
-			b = b[1:]
-			continue
-		}
-		ent := b[1:j]
-		switch string(ent) {
-		case "lt":
-			sb.WriteByte('<')
-		case "gt":
-			sb.WriteByte('>')
-		case "amp":
-			sb.WriteByte('&')
-		case "quot":
-			sb.WriteByte('"')
-		case "apos":
-			sb.WriteByte('\'')
-		default:
-			r, ok := charRef(ent)
-			if !ok {
-				sb.Write(b[:j+1])
-			} else {
-				sb.WriteRune(r)
-			}
-		}
-		b = b[j+1:]
-	}
-	return strings.ToValidUTF8(sb.String(), "\uFFFD")
-}
-
-func charRef(ent []byte) (rune, bool) {
-	if len(ent) < 2 || ent[0] != '#' {
-		return 0, false
-	}
-	var n uint64
-	var err error
-	if ent[1] == 'x' || ent[1] == 'X' {
-		n, err = strconv.ParseUint(string(ent[2:]), 16, 32)
-	} else {
-		n, err = strconv.ParseUint(string(ent[1:]), 10, 32)
-	}
-	if err != nil || n > utf8.MaxRune {
-		return 0, false
-	}
-	return rune(n), true
-}
-
 // CollectText reads up to the end tag of the element just started (whose
 // local name is name) and returns its text. With inner set, only text inside
 // elements of that local name counts (the <t> runs of a shared or inline
 // string; white space between elements is not content). Text inside elements
 // named skip (rPh, phonetic runs) is left out.
 func (t *Tok) CollectText(name, inner, skip string) (string, error) {
-	var sb []byte
+	raw, err := t.collect(name, inner, skip, true)
+	if err != nil {
+		return "", err
+	}
+	return Unescape(raw), nil
+}
+
+// SkipElement reads up to the end tag of the element just started (whose
+// local name is name), as CollectText does, without keeping its text.
+func (t *Tok) SkipElement(name string) error {
+	_, err := t.collect(name, "", "", false)
+	return err
+}
+
+// collect is CollectText before decoding: the raw text, CDATA sections
+// escaped, in a buffer of the tokenizer's that the next call reuses. With
+// keep unset it gathers nothing.
+func (t *Tok) collect(name, inner, skip string, keep bool) ([]byte, error) {
+	sb := t.text[:0]
+	defer func() { t.text = sb[:0] }()
 	depth, skipAt, innerAt := 0, -1, -1
 	for {
 		switch t.Next() {
 		case TokEOF:
 			if t.err != nil {
-				return "", t.err
+				return nil, t.err
 			}
-			return "", ErrXML
+			return nil, ErrXML
 		case TokText:
-			if skipAt < 0 && (inner == "" || innerAt >= 0) {
+			if keep && skipAt < 0 && (inner == "" || innerAt >= 0) {
 				if t.CDATA {
-					sb = append(sb, bytes.ReplaceAll(t.Text, []byte("&"), []byte("&amp;"))...)
+					sb = appendCDATA(sb, t.Text)
 				} else {
 					sb = append(sb, t.Text...)
 				}
@@ -464,9 +381,9 @@ func (t *Tok) CollectText(name, inner, skip string) (string, error) {
 		case TokEnd:
 			if depth == 0 {
 				if !t.Is(name) {
-					return "", ErrXML
+					return nil, ErrXML
 				}
-				return Unescape(sb), nil
+				return sb, nil
 			}
 			if depth == skipAt {
 				skipAt = -1
