@@ -103,33 +103,8 @@ func (t *table) sameAgain() *paged[int32] {
 		return first{}, false
 	}
 	n := t.n()
-	for i := 0; i < n; i++ {
-		key, unit, part, ok := k.key(i, buf[:0])
-		buf = key
-		if !ok || part {
-			continue
-		}
-		h := hashKey(key)
-		if _, ok := find(h, key); !ok {
-			whole[h] = append(whole[h], first{unit, int32(i)})
-		}
-	}
 	var rows *paged[int32]
-	for i := 0; i < n; i++ {
-		key, unit, part, ok := k.key(i, buf[:0])
-		buf = key
-		if !ok {
-			continue
-		}
-		w, ok := find(hashKey(key), key)
-		switch {
-		case !ok:
-			continue
-		case part:
-		case int(w.row) != i && w.unit != unit:
-		default:
-			continue
-		}
+	mark := func(i int, w first, part bool) {
 		if rows == nil {
 			rows = newFixed(t.ps, n, int32(0))
 		}
@@ -138,6 +113,37 @@ func (t *table) sameAgain() *paged[int32] {
 			v = -v
 		}
 		rows.set(i, v)
+	}
+	// One pass decides every row that is no part: its key's first row is
+	// known by then. A part may come before the row it is a part of, so
+	// parts are decided after the pass.
+	var parts []int
+	for i := 0; i < n; i++ {
+		key, unit, part, ok := k.key(i, buf[:0])
+		buf = key
+		if !ok {
+			continue
+		}
+		if part {
+			parts = append(parts, i)
+			continue
+		}
+		h := hashKey(key)
+		w, found := find(h, key)
+		if !found {
+			whole[h] = append(whole[h], first{unit, int32(i)})
+			continue
+		}
+		if w.unit != unit {
+			mark(i, w, false)
+		}
+	}
+	for _, i := range parts {
+		key, _, _, _ := k.key(i, buf[:0])
+		buf = key
+		if w, found := find(hashKey(key), key); found {
+			mark(i, w, true)
+		}
 	}
 	return rows
 }
