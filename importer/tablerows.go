@@ -32,7 +32,7 @@ func (t *table) setVal(i, slot int, v cellVal) {
 func (t *table) storeRow(num int) []cellVal {
 	if t.rowNums == nil {
 		t.rowNums = newPaged(t.ps, 1, 4, fixedCodec[int32]())
-		t.vals = newPaged(t.ps, len(t.slots), cellValWidth, cellValCodec(t.internStr))
+		t.vals = newPaged(t.ps, len(t.slots), cellValWidth, cellValCodec(t.internBytes))
 	}
 	t.rowNums.push(int32(num))
 	return t.vals.add()
@@ -55,6 +55,15 @@ func (t *table) indexOfRow(num int) int {
 	return -1
 }
 
+// internBytes returns the table's interned string equal to b, or a new
+// string (interned while the table holds few).
+func (t *table) internBytes(b []byte) string {
+	if v, ok := t.intern[string(b)]; ok {
+		return v
+	}
+	return t.internStr(string(b))
+}
+
 // cellValWidth is a cellVal's size in memory in bytes (its text's bytes are
 // shared through the table's interned strings, or counted by the GC alone).
 const cellValWidth = 32
@@ -62,7 +71,7 @@ const cellValWidth = 32
 // cellValCodec writes stored cells as a flag byte, then the number (8 bytes)
 // when it is not 0, then the text (length and bytes) when it is not empty.
 // Texts read back go through intern, so repeated names share memory.
-func cellValCodec(intern func(string) string) pageCodec[cellVal] {
+func cellValCodec(intern func([]byte) string) pageCodec[cellVal] {
 	const (
 		fFormula = 1 << 3
 		fNoCache = 1 << 4
@@ -121,7 +130,7 @@ func cellValCodec(intern func(string) string) pageCodec[cellVal] {
 					if k <= 0 || uint64(len(src)-k) < n {
 						return errors.New("cells: text cut short")
 					}
-					v.text = intern(string(src[k : k+int(n)]))
+					v.text = intern(src[k : k+int(n)])
 					src = src[k+int(n):]
 				}
 				dst[i] = v
