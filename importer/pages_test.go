@@ -88,7 +88,7 @@ func TestCellValPages(t *testing.T) {
 	}
 	const rows = 2*pageRows + 77
 	for i := 0; i < rows; i++ {
-		copy(tb.storeRow(i+4), want(i))
+		tb.storeRow(i+4, want(i))
 	}
 	tb.setVal(5, 1, cellVal{kind: kText, text: "changed"})
 	for i := rows - 1; i >= 0; i-- {

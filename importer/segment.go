@@ -22,9 +22,10 @@ type table struct {
 	spec      *tableSpec
 	slots     []*column // stored columns
 	slotOf    map[int]int
-	ps        *pageSet        // where the per-row columns below keep their pages
-	rowNums   *paged[int32]   // the sheet row of each stored row (tablerows.go)
-	vals      *paged[cellVal] // the stored cells: len(slots) per row
+	ps        *pageSet          // where the per-row columns below keep their pages
+	rowNums   *paged[int32]     // the sheet row of each stored row (tablerows.go)
+	vals      []*paged[cellVal] // the stored cells, a column per slot: a pass over one column reads only its pages
+	rowBuf    []cellVal         // a row's stored cells while it is added
 	totalRows []int
 	sections  []sectionLabel // rows of one label inside the table ("Commercial Sector")
 	lastRow   int
@@ -149,7 +150,11 @@ func (t *table) add(r *row) {
 		t.sections = append(t.sections, sectionLabel{r.num, r.cells[0].col})
 		return
 	}
-	vals := t.storeRow(r.num)
+	if t.rowBuf == nil {
+		t.rowBuf = make([]cellVal, len(t.slots))
+	}
+	vals := t.rowBuf
+	clear(vals)
 	for i := range r.cells {
 		c := &r.cells[i]
 		s, ok := t.slotOf[c.col]
@@ -162,6 +167,7 @@ func (t *table) add(r *row) {
 			v.text = t.internStr(c.text)
 		}
 	}
+	t.storeRow(r.num, vals)
 	t.keepCost(r)
 }
 

@@ -20,22 +20,28 @@ func (t *table) rowNum(i int) int { return int(t.rowNums.at(i)) }
 // val returns stored cell slot of row i. The pointer is good until the next
 // use of any per-row column of the scan: read it at once (or copy the
 // value), and write through it only with setVal.
-func (t *table) val(i, slot int) *cellVal { return t.vals.cell(i, slot) }
+func (t *table) val(i, slot int) *cellVal { return t.vals[slot].cell(i, 0) }
 
 // setVal sets stored cell slot of row i.
 func (t *table) setVal(i, slot int, v cellVal) {
-	*t.vals.cell(i, slot) = v
-	t.vals.touch(i)
+	*t.vals[slot].cell(i, 0) = v
+	t.vals[slot].touch(i)
 }
 
-// storeRow appends a row numbered num and returns its cells to fill at once.
-func (t *table) storeRow(num int) []cellVal {
+// storeRow appends a row numbered num with the stored cells vals
+// (len(t.slots) of them).
+func (t *table) storeRow(num int, vals []cellVal) {
 	if t.rowNums == nil {
 		t.rowNums = newPaged(t.ps, 1, 4, fixedCodec[int32]())
-		t.vals = newPaged(t.ps, len(t.slots), cellValWidth, cellValCodec(t.internBytes))
+		t.vals = make([]*paged[cellVal], len(t.slots))
+		for s := range t.vals {
+			t.vals[s] = newPaged(t.ps, 1, cellValWidth, cellValCodec(t.internBytes))
+		}
 	}
 	t.rowNums.push(int32(num))
-	return t.vals.add()
+	for s, v := range vals {
+		t.vals[s].push(v)
+	}
 }
 
 // indexOfRow returns the stored row index of sheet row num, or -1.
