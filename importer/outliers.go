@@ -239,11 +239,9 @@ func (s *sampleSet) outlierGroups(k string) []sampleGroup {
 	}
 	byWord := map[int32]int{}
 	n, first := 0, int32(-1)
-	for i := range s.key.len() {
-		if s.key.at(i) != ki {
-			continue
-		}
-		w := s.word.at(i)
+	idx := s.keyed(ki)
+	for j := range idx.len() {
+		w := s.word.at(int(idx.at(j)))
 		if n == 0 {
 			first = w
 		}
@@ -287,8 +285,9 @@ func sumOwn(byWord map[int32]int, own map[int32]bool) int {
 
 // members calls f with each sample index of group g, in the order added.
 func (s *sampleSet) members(g sampleGroup, f func(i int)) {
-	for i := range s.key.len() {
-		if s.key.at(i) == g.key && (g.word < 0 || s.word.at(i) == g.word) {
+	idx := s.keyed(g.key)
+	for j := range idx.len() {
+		if i := int(idx.at(j)); g.word < 0 || s.word.at(i) == g.word {
 			f(i)
 		}
 	}

@@ -22,6 +22,13 @@ type sampleSet struct {
 
 	key, word, row, col *paged[int32]
 	v, q                *paged[float64]
+
+	// byKey lists the samples of each key (indices, in the order added),
+	// made at the first test so that a group is read without passing over
+	// every other key's samples.
+	byKey   []*paged[int32]
+	indexed int // samples when byKey was made
+	ps      *pageSet
 }
 
 // maxFoldCache bounds the fuel texts remembered with their folded word.
@@ -29,7 +36,7 @@ const maxFoldCache = 50_000
 
 func newSampleSet(ps *pageSet) *sampleSet {
 	return &sampleSet{
-		keyOf: map[string]int32{}, memo: map[rawSampleKey]sampleKeys{}, words: []string{""}, wordOf: map[string]int32{"": 0}, folded: map[string]int32{},
+		ps: ps, keyOf: map[string]int32{}, memo: map[rawSampleKey]sampleKeys{}, words: []string{""}, wordOf: map[string]int32{"": 0}, folded: map[string]int32{},
 		key: newFixed(ps, 0, int32(0)), word: newFixed(ps, 0, int32(0)), row: newFixed(ps, 0, int32(0)), col: newFixed(ps, 0, int32(0)),
 		v: newFixed(ps, 0, 0.0), q: newFixed(ps, 0, 0.0),
 	}
@@ -104,4 +111,19 @@ func (s *sampleSet) sortedKeys() []string {
 	out := append([]string(nil), s.keys...)
 	sort.Strings(out)
 	return out
+}
+
+// keyed returns the indices of key ki's samples.
+func (s *sampleSet) keyed(ki int32) *paged[int32] {
+	if s.byKey == nil || s.indexed != s.key.len() {
+		s.indexed = s.key.len()
+		s.byKey = make([]*paged[int32], len(s.keys))
+		for k := range s.byKey {
+			s.byKey[k] = newFixed(s.ps, 0, int32(0))
+		}
+		for i := range s.key.len() {
+			s.byKey[s.key.at(i)].push(int32(i))
+		}
+	}
+	return s.byKey[ki]
 }
