@@ -307,7 +307,7 @@ func (sc *scanCtx) fleetFindings(t *table) {
 // sectorValue reads a sector cell as fuel_co2e names it ("Commercial /
 // institutional" gives commercial). A cell naming no stationary sector
 // ("Transportation") takes fuel_co2e's default, said once per text.
-func (sc *scanCtx) sectorValue(t *table, c *column, v *cellVal, r int) (any, bool) {
+func (sc *scanCtx) sectorValue(t *table, c *column, v cellVal, r int) (any, bool) {
 	text := cell{kind: v.kind, num: v.num, text: v.text}.display()
 	switch {
 	case v.kind == kEmpty && !v.noCache, v.kind == kText && strings.TrimSpace(v.text) == "":

@@ -18,7 +18,7 @@ const periodDaysIdent = "period_days"
 
 // rowDate reads the date of a row from its date column: an Excel date
 // serial, YYYYMM, or a text such as "Jan 2023", "Nov 09, 1990", "2023-01".
-func rowDate(v *cellVal) (time.Time, bool) {
+func rowDate(v cellVal) (time.Time, bool) {
 	switch v.kind {
 	case kNumber:
 		x := v.num

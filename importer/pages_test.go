@@ -97,7 +97,7 @@ func TestCellValPages(t *testing.T) {
 			w[1] = cellVal{kind: kText, text: "changed"}
 		}
 		for s := range w {
-			if got := *tb.val(i, s); got != w[s] {
+			if got := tb.val(i, s); got != w[s] {
 				t.Fatalf("row %d cell %d reads %+v, want %+v", i, s, got, w[s])
 			}
 		}

@@ -21,7 +21,7 @@ func (t *table) annualRows() *paged[int8] {
 	n := t.n()
 	// code reads row i's period: 1 monthly, 2 annual, 0 neither.
 	code := func(i int) (kind uint8, year int) {
-		v := *t.val(i, s)
+		v := t.val(i, s)
 		x := v.num
 		if v.kind == kText {
 			f, ok, _ := textNumber(v.text)
@@ -76,9 +76,9 @@ func (t *table) annualRows() *paged[int8] {
 // negative for a part, 0 elsewhere. Rows agree when their fuel text, group
 // and date agree. nil when there are none.
 //
-// The rows' keys are not kept: a map from the key's hash to its first row
-// holds one entry per distinct key, and a hash met again is checked against
-// the first row's key, so a collision never joins two rows.
+// State is kept per distinct key, not per row: a map from the key's hash to
+// the key and its first row; a hash met again is checked against the key,
+// so a collision never joins two rows.
 func (t *table) sameAgain() *paged[int32] {
 	spec := t.spec
 	// Only a table of series (one per period column, or rows dated by a
@@ -87,16 +87,16 @@ func (t *table) sameAgain() *paged[int32] {
 		return nil
 	}
 	type first struct {
+		key  string // the key itself: a hash met again is checked against it
 		unit string
 		row  int32 // stored row index
 	}
 	k := repeatKeys{t: t, norm: map[string]normText{}, units: map[string]string{}}
 	whole := map[uint64][]first{} // rows that are no part, by their key's hash: the first row of each key
-	var buf, other []byte
+	var buf []byte
 	find := func(h uint64, key []byte) (first, bool) {
 		for _, f := range whole[h] {
-			other, _, _, _ = k.key(int(f.row), other[:0])
-			if string(other) == string(key) {
+			if f.key == string(key) {
 				return f, true
 			}
 		}
@@ -131,7 +131,7 @@ func (t *table) sameAgain() *paged[int32] {
 		h := hashKey(key)
 		w, found := find(h, key)
 		if !found {
-			whole[h] = append(whole[h], first{unit, int32(i)})
+			whole[h] = append(whole[h], first{string(key), unit, int32(i)})
 			continue
 		}
 		if w.unit != unit {
@@ -168,8 +168,8 @@ type repeatKeys struct {
 // a unit text.
 func (k *repeatKeys) key(i int, buf []byte) (key []byte, unit string, part, ok bool) {
 	t, spec := k.t, k.t.spec
-	f := *t.val(i, t.slotOf[spec.fuel.col])
-	u := *t.val(i, t.slotOf[spec.unit.col])
+	f := t.val(i, t.slotOf[spec.fuel.col])
+	u := t.val(i, t.slotOf[spec.unit.col])
 	if f.kind != kText || u.kind != kText {
 		return buf, "", false, false
 	}
@@ -188,10 +188,10 @@ func (k *repeatKeys) key(i int, buf []byte) (key []byte, unit string, part, ok b
 	}
 	buf = append(buf, nt.text...)
 	if spec.group != nil {
-		buf = appendKeyCell(append(buf, 0), *t.val(i, t.slotOf[spec.group.col]), true)
+		buf = appendKeyCell(append(buf, 0), t.val(i, t.slotOf[spec.group.col]), true)
 	}
 	if spec.when != nil {
-		buf = appendKeyCell(append(buf, 0), *t.val(i, t.slotOf[spec.when.col]), false)
+		buf = appendKeyCell(append(buf, 0), t.val(i, t.slotOf[spec.when.col]), false)
 	}
 	unit, found = k.units[u.text]
 	if !found {

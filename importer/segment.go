@@ -202,10 +202,10 @@ func (t *table) fillMerged() {
 		if top < 0 {
 			continue
 		}
-		src := *t.val(top, s)
+		src := t.val(top, s)
 		for r := m.r1 + 1; r <= m.r2; r++ {
 			if i := t.indexOfRow(r); i >= 0 {
-				if v := *t.val(i, s); v.kind == kEmpty && !v.formula {
+				if v := t.val(i, s); v.kind == kEmpty && !v.formula {
 					src.merged = true
 					t.setVal(i, s, src)
 					src.merged = false

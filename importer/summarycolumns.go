@@ -76,9 +76,9 @@ func (t *table) planColumns() *columnPeriods {
 func headerPeriod(text string) (rowPeriod, bool) {
 	s := strings.TrimSpace(text)
 	if x, err := strconv.ParseFloat(s, 64); err == nil && len(s) == 5 {
-		return readPeriod(&cellVal{kind: kNumber, num: x})
+		return readPeriod(cellVal{kind: kNumber, num: x})
 	}
-	return readPeriod(&cellVal{kind: kText, text: s})
+	return readPeriod(cellVal{kind: kText, text: s})
 }
 
 // columnShares adds t's rows up by the periods of cp, one set of lines per

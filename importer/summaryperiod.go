@@ -51,7 +51,7 @@ type rowPeriod struct {
 
 // readPeriod reads the period of a cell; ok is false for a cell that holds
 // none.
-func readPeriod(v *cellVal) (rowPeriod, bool) {
+func readPeriod(v cellVal) (rowPeriod, bool) {
 	switch v.kind {
 	case kNumber:
 		x := v.num

@@ -49,10 +49,10 @@ func TestChooseGrain(t *testing.T) {
 // is the first), YYYYMM a month, YYYY13 (an annual total) none, a year
 // number or text a year, "FY2025" a fiscal year, "2025 Q3" a quarter.
 func TestReadPeriod(t *testing.T) {
-	num := func(x float64) *cellVal { return &cellVal{kind: kNumber, num: x} }
-	txt := func(s string) *cellVal { return &cellVal{kind: kText, text: s} }
+	num := func(x float64) cellVal { return cellVal{kind: kNumber, num: x} }
+	txt := func(s string) cellVal { return cellVal{kind: kText, text: s} }
 	for _, c := range []struct {
-		v     *cellVal
+		v     cellVal
 		label string // at the grain read
 		ok    bool
 	}{
@@ -73,12 +73,12 @@ func TestReadPeriod(t *testing.T) {
 	} {
 		p, ok := readPeriod(c.v)
 		if ok != c.ok {
-			t.Errorf("%+v: ok %v, want %v", *c.v, ok, c.ok)
+			t.Errorf("%+v: ok %v, want %v", c.v, ok, c.ok)
 			continue
 		}
 		if ok {
 			if got := periodLabel(periodIndex(p.at, p.res), p.res, p.fiscal); got != c.label {
-				t.Errorf("%+v: %q, want %q", *c.v, got, c.label)
+				t.Errorf("%+v: %q, want %q", c.v, got, c.label)
 			}
 		}
 	}

@@ -148,7 +148,7 @@ func (k *keyedShares) kinds() []string {
 
 // cellText is a stored cell as a key: its text trimmed, a number as written
 // by FormatNumber, "(blank)" for an empty cell.
-func cellText(v *cellVal) string {
+func cellText(v cellVal) string {
 	if v.kind == kEmpty && !v.noCache {
 		return "(blank)"
 	}

@@ -17,10 +17,10 @@ func (t *table) n() int { return t.rowNums.len() }
 // rowNum is the sheet row (1-based) of stored row i.
 func (t *table) rowNum(i int) int { return int(t.rowNums.at(i)) }
 
-// val returns stored cell slot of row i. The pointer is good until the next
-// use of any per-row column of the scan: read it at once (or copy the
-// value), and write through it only with setVal.
-func (t *table) val(i, slot int) *cellVal { return t.vals[slot].cell(i, 0) }
+// val returns a copy of stored cell slot of row i (a page may be written
+// out and its memory reused by the next page read, so no pointer into a
+// page is handed out). setVal changes a cell.
+func (t *table) val(i, slot int) cellVal { return *t.vals[slot].cell(i, 0) }
 
 // setVal sets stored cell slot of row i.
 func (t *table) setVal(i, slot int, v cellVal) {

@@ -67,7 +67,7 @@ func (sc *scanCtx) value(t *table, i int, b *binding) (any, bool) {
 	return nil, false
 }
 
-func (sc *scanCtx) fuelValue(t *table, c *column, v *cellVal, r int) (any, bool) {
+func (sc *scanCtx) fuelValue(t *table, c *column, v cellVal, r int) (any, bool) {
 	sheet := t.spec.sheet
 	var text string
 	switch v.kind {
@@ -121,7 +121,7 @@ func notFuelHint(fr fuelRef) string {
 
 // unitText is the unit a row states: its unit cell, or the quantity's
 // header unit when the cell is empty.
-func (sc *scanCtx) unitValue(t *table, c *column, v *cellVal, r int) (any, bool) {
+func (sc *scanCtx) unitValue(t *table, c *column, v cellVal, r int) (any, bool) {
 	sheet := t.spec.sheet
 	var s string
 	switch v.kind {
@@ -208,7 +208,7 @@ func (t *table) amountCol() *column {
 	return t.spec.capacity
 }
 
-func (sc *scanCtx) techValue(t *table, c *column, v *cellVal, r int) (any, bool) {
+func (sc *scanCtx) techValue(t *table, c *column, v cellVal, r int) (any, bool) {
 	sheet := t.spec.sheet
 	if v.kind != kText {
 		sc.warn.add(sheet, c.col, r, SevError, CodeTechUnknown, quoteText(cell{kind: v.kind, num: v.num, text: v.text}.display())+
@@ -229,7 +229,7 @@ func (sc *scanCtx) techValue(t *table, c *column, v *cellVal, r int) (any, bool)
 
 // numberValue reads a number; text that holds one unambiguously is read
 // and flagged, an empty cell of a per-fuel column counts as zero.
-func (sc *scanCtx) numberValue(t *table, c *column, v *cellVal, r int) (any, bool) {
+func (sc *scanCtx) numberValue(t *table, c *column, v cellVal, r int) (any, bool) {
 	sheet := t.spec.sheet
 	var x float64
 	switch v.kind {

@@ -118,9 +118,11 @@ func NotAmountUnit(s string) string {
 // "job"): the unit a fuel card export gives its merchandise, service and
 // discount lines (common practice of card statements).
 func CountUnit(s string) bool {
-	switch strings.ToLower(strings.Trim(strings.TrimSpace(s), ".")) {
-	case "ea", "each", "pc", "pcs", "piece", "pieces", "item", "items", "ct", "job", "service":
-		return true
+	s = strings.Trim(strings.TrimSpace(s), ".")
+	for _, w := range [...]string{"ea", "each", "pc", "pcs", "piece", "pieces", "item", "items", "ct", "job", "service"} {
+		if strings.EqualFold(s, w) { // no lower-cased copy: this runs on every row of a fuel log
+			return true
+		}
 	}
 	return false
 }
