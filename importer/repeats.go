@@ -91,7 +91,7 @@ func (t *table) sameAgain() *paged[int32] {
 		unit string
 		row  int32 // stored row index
 	}
-	k := repeatKeys{t: t, norm: map[string]normText{}, units: map[string]string{}}
+	k := repeatKeys{t: t, norm: map[string]normText{}, units: map[string]string{}, groups: map[string]string{}}
 	whole := map[uint64][]first{} // rows that are no part, by their key's hash: the first row of each key
 	var buf []byte
 	find := func(h uint64, key []byte) (first, bool) {
@@ -159,9 +159,10 @@ type normText struct {
 // group and the date, and the unit lower-cased. Texts repeat, so each is
 // folded once (up to maxFoldCache of them).
 type repeatKeys struct {
-	t     *table
-	norm  map[string]normText
-	units map[string]string
+	t      *table
+	norm   map[string]normText
+	units  map[string]string
+	groups map[string]string // group texts folded
 }
 
 // key appends row i's key to buf; ok is false for a row without a fuel and
@@ -188,7 +189,19 @@ func (k *repeatKeys) key(i int, buf []byte) (key []byte, unit string, part, ok b
 	}
 	buf = append(buf, nt.text...)
 	if spec.group != nil {
-		buf = appendKeyCell(append(buf, 0), t.val(i, t.slotOf[spec.group.col]), true)
+		g := t.val(i, t.slotOf[spec.group.col])
+		if g.kind == kText {
+			folded, found := k.groups[g.text]
+			if !found {
+				folded = strings.ToLower(strings.TrimSpace(g.text))
+				if len(k.groups) < maxFoldCache {
+					k.groups[g.text] = folded
+				}
+			}
+			buf = append(append(append(buf, 0), 2), folded...)
+		} else {
+			buf = appendKeyCell(append(buf, 0), g, true)
+		}
 	}
 	if spec.when != nil {
 		buf = appendKeyCell(append(buf, 0), t.val(i, t.slotOf[spec.when.col]), false)
