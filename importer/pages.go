@@ -116,6 +116,16 @@ func (ps *pageSet) write(b []byte) (int64, bool) {
 	return off, true
 }
 
+// writeAt writes b over bytes written before at off.
+func (ps *pageSet) writeAt(b []byte, off int64) bool {
+	if _, err := ps.f.WriteAt(b, off); err != nil {
+		ps.failed = err
+		return false
+	}
+	ps.written++
+	return true
+}
+
 // read reads n bytes at off from the temporary file into the scratch
 // buffer. A failure to read back what fluecell wrote is an I/O fault, not a
 // fault of the workbook; it panics with a pageError, which Scan and
@@ -195,7 +205,15 @@ func (p *page[T]) evict(ps *pageSet) int64 {
 	if p.dirty {
 		b := p.owner.codec.enc(ps.scratch[:0], p.data)
 		ps.scratch = b[:0]
-		off, ok := ps.write(b)
+		off, ok := int64(0), false
+		if p.size >= len(b) {
+			// Written before, and it fits where it was (a number column's
+			// pages always do): in place, so the file grows with the rows,
+			// not with the writes.
+			off, ok = p.off, ps.writeAt(b, p.off)
+		} else {
+			off, ok = ps.write(b)
+		}
 		if !ok {
 			return 0
 		}
