@@ -219,3 +219,25 @@ func firstDiff(a, b string) string {
 	lo := max(0, i-120)
 	return "first:  …" + a[lo:min(len(a), i+120)] + "\nsecond: …" + b[lo:min(len(b), i+120)]
 }
+
+// TestPagesWithoutTempFolder: when the temporary file cannot be made (the
+// temporary folder is missing), pages stay in memory and the results are
+// the same; nothing fails and nothing is lost.
+func TestPagesWithoutTempFolder(t *testing.T) {
+	e, err := funcs.New()
+	if err != nil {
+		t.Fatal(err)
+	}
+	in := writeMessy(t, t.TempDir())
+	want, err := Scan(context.Background(), e, in, Options{PageBudget: -1})
+	must(t, err)
+	t.Setenv("TMPDIR", filepath.Join(t.TempDir(), "missing"))
+	got, err := Scan(context.Background(), e, in, Options{PageBudget: 1, pageShift: 2})
+	must(t, err)
+	if got.sc.pages.failed == nil || got.sc.pages.spilled() != 0 {
+		t.Fatalf("the temporary file was made (failed %v, %d pages written)", got.sc.pages.failed, got.sc.pages.spilled())
+	}
+	if a, b := reportJSON(t, want.Report), reportJSON(t, got.Report); !bytes.Equal(a, b) {
+		t.Fatalf("the reports differ:\n%s", firstDiff(string(a), string(b)))
+	}
+}
