@@ -1,10 +1,8 @@
 package importer
 
 import (
-	"archive/zip"
 	"bytes"
 	"context"
-	"io"
 	"math"
 	"math/rand"
 	"os"
@@ -182,7 +180,7 @@ func samePackage(t *testing.T, a, b string) {
 		}
 		return
 	}
-	pa, pb := unpacked(t, a), unpacked(t, b)
+	pa, pb := partsOf(t, a), partsOf(t, b)
 	if len(pa) != len(pb) {
 		t.Fatalf("%d parts against %d", len(pa), len(pb))
 	}
@@ -191,23 +189,6 @@ func samePackage(t *testing.T, a, b string) {
 			t.Fatalf("part %s differs:\n%s", name, firstDiff(string(x), string(y)))
 		}
 	}
-}
-
-func unpacked(t *testing.T, path string) map[string][]byte {
-	t.Helper()
-	zr, err := zip.OpenReader(path)
-	must(t, err)
-	defer zr.Close()
-	out := map[string][]byte{}
-	for _, f := range zr.File {
-		rc, err := f.Open()
-		must(t, err)
-		b, err := io.ReadAll(rc)
-		rc.Close()
-		must(t, err)
-		out[f.Name] = b
-	}
-	return out
 }
 
 // firstDiff shows where two texts first differ.

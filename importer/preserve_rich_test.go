@@ -1,7 +1,6 @@
 package importer
 
 import (
-	"archive/zip"
 	"bytes"
 	"context"
 	"encoding/xml"
@@ -93,7 +92,7 @@ var richMayChange = map[string]bool{
 // uncompressed bytes unless richMayChange names it, and that the shared
 // strings of in are the first ones of out, each unchanged.
 func compareRichParts(t *testing.T, in, out string) {
-	a, b := zipParts(t, in), zipParts(t, out)
+	a, b := partsOf(t, in), partsOf(t, out)
 	for name, pa := range a {
 		pb, ok := b[name]
 		switch {
@@ -117,19 +116,6 @@ func compareRichParts(t *testing.T, in, out string) {
 			t.Errorf("shared string %d is %q, was %q", i, sb[i], sa[i])
 		}
 	}
-}
-
-// zipParts returns every part of the zip at path, uncompressed, by name.
-func zipParts(t *testing.T, path string) map[string][]byte {
-	t.Helper()
-	zr, err := zip.OpenReader(path)
-	must(t, err)
-	defer zr.Close()
-	parts := map[string][]byte{}
-	for _, f := range zr.File {
-		parts[f.Name] = zipPart(t, path, f.Name)
-	}
-	return parts
 }
 
 // richElements match the elements of the rewritten sheet that must come

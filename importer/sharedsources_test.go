@@ -100,8 +100,8 @@ func TestSourcesShared(t *testing.T) {
 				t.Fatalf("the side sheet has %d source texts: %v", len(want), want)
 			}
 
-			parts := zipParts(t, out)
-			inParts := zipParts(t, in)
+			parts := partsOf(t, out)
+			inParts := partsOf(t, in)
 			sst, ok := parts["xl/sharedStrings.xml"]
 			if !ok {
 				t.Fatal("the output has no xl/sharedStrings.xml")

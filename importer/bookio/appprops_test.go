@@ -119,14 +119,7 @@ func TestSpliceAppProps(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			zr, err := zip.NewReader(bytes.NewReader(in), int64(len(in)))
-			if err != nil {
-				t.Fatal(err)
-			}
-			b, err := Open(zr, 1<<30)
-			if err != nil {
-				t.Fatal(err)
-			}
+			b := openBytes(t, in)
 			e := NewEdit(b)
 			szr, err := zip.NewReader(bytes.NewReader(sbuf.Bytes()), int64(sbuf.Len()))
 			if err != nil {

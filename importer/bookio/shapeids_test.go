@@ -138,14 +138,7 @@ func TestShapeBlocksBesideComments(t *testing.T) {
 	for _, bs := range before {
 		taken = bs[0]
 	}
-	zr, err := zip.NewReader(bytes.NewReader(src), int64(len(src)))
-	if err != nil {
-		t.Fatal(err)
-	}
-	b, err := Open(zr, 1<<30)
-	if err != nil {
-		t.Fatal(err)
-	}
+	b := openBytes(t, src)
 	e := NewEdit(b)
 	s1, _ := b.Sheet("Sheet1")
 	s2, _ := b.Sheet("Depots")
@@ -270,14 +263,7 @@ func TestShapeBlocksRealWorkbook(t *testing.T) {
 	if len(before) < 10 {
 		t.Fatalf("%d drawings in the input", len(before))
 	}
-	zr, err := zip.NewReader(bytes.NewReader(src), int64(len(src)))
-	if err != nil {
-		t.Fatal(err)
-	}
-	b, err := Open(zr, 1<<30)
-	if err != nil {
-		t.Fatal(err)
-	}
+	b := openBytes(t, src)
 	e := NewEdit(b)
 	note := []Note{{Col: 30, Row: 2, Text: "added by the test"}}
 	for _, s := range b.Sheets {
