@@ -79,7 +79,7 @@ func (sc *scanCtx) dropCopies() {
 				}
 			}
 			found := make(map[uint64]bool, len(want))
-			for k := range m {
+			for k := 0; k < m && len(found) < len(want); k++ {
 				if s := lists[j].at(k); want[s] {
 					found[s] = true
 				}

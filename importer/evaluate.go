@@ -89,10 +89,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 				return err
 			}
 		}
-		for ri := range t.res {
-			t.res[ri].set(i, math.NaN())
-		}
-		t.src.set(i, -1)
+		// t.res and t.src start as NaN and -1 (newFixed above).
 		if t.blankRoles(i) {
 			continue
 		}
