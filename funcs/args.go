@@ -70,11 +70,10 @@ const (
 	unitParamUnit = "unit string"
 )
 
-// notes returns the notes the arguments call for: the note of a unit string read by
-// convention (units.SpellingNote: a bare gallon is the US gallon) for every unit parameter,
-// and NegativeAmountNote for a negative amount.
-func (a argList) notes() []string {
-	var out []string
+// addNotes adds to c the notes the arguments call for: the note of a unit string read
+// by convention (units.SpellingNote: a bare gallon is the US gallon) for every unit
+// parameter, and NegativeAmountNote for a negative amount.
+func (a argList) addNotes(c *callCtx) {
 	for i, p := range a.fn.Params {
 		if !a.given(i) {
 			continue
@@ -82,17 +81,37 @@ func (a argList) notes() []string {
 		switch {
 		case p.Type == typeString && p.Unit == unitParamUnit:
 			if s, ok := a.vals[i].(string); ok {
-				if n := units.SpellingNote(s); n != "" {
-					out = append(out, n)
+				if n := c.spell.note(s); n != "" {
+					c.note(n)
 				}
 			}
 		case p.Type == typeNumber && p.Name == amountParam:
 			if v, ok := toNumber(a.vals[i]); ok && v < 0 {
-				out = append(out, NegativeAmountNote)
+				c.note(NegativeAmountNote)
 			}
 		}
 	}
-	return out
+}
+
+// spellCache keeps the spelling notes (units.SpellingNote) of the last unit strings a
+// Runner read, by length, so that the rows of a table in one unit do not parse it on every
+// call. A nil cache works out every note.
+type spellCache [8]struct {
+	s, note string
+	ok      bool
+}
+
+func (sc *spellCache) note(s string) string {
+	if sc == nil {
+		return units.SpellingNote(s)
+	}
+	e := &sc[len(s)%len(sc)]
+	if e.ok && e.s == s {
+		return e.note
+	}
+	n := units.SpellingNote(s)
+	e.s, e.note, e.ok = s, n, true
+	return n
 }
 
 // toNumber accepts the number types a caller may pass (JSON decoding gives
@@ -182,6 +201,8 @@ type callCtx struct {
 	track     bool
 	contribs  []contrib
 	untracked []string
+	spell     *spellCache       // a Runner's; nil for a single call
+	plans     map[planKey]*plan // a Runner's plans (planFor); nil for a single call
 }
 
 func (c *callCtx) reset() {

@@ -140,7 +140,7 @@ func (e *Engine) invoke(f *Function, c *callCtx, a argList) (float64, string, er
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return 0, "", e.overflow(f, a, v)
 	}
-	c.note(a.notes()...)
+	a.addNotes(c)
 	return v, unit, nil
 }
 

@@ -53,6 +53,25 @@ type plan struct {
 
 const maxCachedPlans = 8192
 
+// runnerPlans is the number of plans a Runner keeps for itself (see planFor).
+const runnerPlans = 64
+
+// planFor is fuelPlan through the plans the call's Runner keeps for itself: the rows of a
+// table ask for a few plans over and over, and a plain map of the Runner's own finds them
+// without the engine's shared map.
+func (e *Engine) planFor(c *callCtx, key planKey) (*plan, error) {
+	if c.plans != nil {
+		if p, ok := c.plans[key]; ok {
+			return p, nil
+		}
+	}
+	p, err := e.fuelPlan(key)
+	if err == nil && c.plans != nil && len(c.plans) < runnerPlans {
+		c.plans[key] = p
+	}
+	return p, err
+}
+
 // fuelPlan returns the plan for key, computing and caching it on first use.
 func (e *Engine) fuelPlan(key planKey) (*plan, error) {
 	if p, ok := e.plans.Load(key); ok {
@@ -424,7 +443,7 @@ func callFuel(kind planKind, toIndex int, toDefault string) func(e *Engine, c *c
 				return 0, "", err
 			}
 		}
-		p, err := e.fuelPlan(planKey{kind: kind, pack: pack, fuel: fuel, unit: unit, to: to, sector: sector})
+		p, err := e.planFor(c, planKey{kind: kind, pack: pack, fuel: fuel, unit: unit, to: to, sector: sector})
 		if err != nil {
 			return 0, "", withFunc(err, a.fn.Name)
 		}

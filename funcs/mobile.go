@@ -193,7 +193,7 @@ func callMobile(kind planKind) func(e *Engine, c *callCtx, a argList) (float64, 
 		if err != nil {
 			return 0, "", err
 		}
-		p, err := e.fuelPlan(planKey{kind: kind, pack: pack, fuel: fuel, unit: unit, to: set, sector: mode})
+		p, err := e.planFor(c, planKey{kind: kind, pack: pack, fuel: fuel, unit: unit, to: set, sector: mode})
 		if err != nil {
 			return 0, "", withFunc(err, a.fn.Name)
 		}

@@ -53,6 +53,7 @@ type Runner struct {
 // NewRunner returns a Runner for p.
 func (p *Program) NewRunner() *Runner {
 	r := &Runner{p: p, env: make(map[string]any, len(p.vars)+1)}
+	r.st.ctx.spell, r.st.ctx.plans = new(spellCache), map[planKey]*plan{}
 	r.env[runVar] = &r.st
 	return r
 }

@@ -33,7 +33,7 @@ func BenchmarkDeflateSheet(b *testing.B) {
 		for _, lv := range []struct {
 			name  string
 			level int
-		}{{"1", 1}, {"default", im.deflt}, {"5", 5}} {
+		}{{"1", 1}, {"2", 2}, {"3", 3}, {"4", 4}, {"default", im.deflt}, {"5", 5}} {
 			b.Run(im.name+"/level-"+lv.name, func(b *testing.B) {
 				b.SetBytes(int64(len(xml)))
 				var n countWriter

@@ -103,12 +103,12 @@ func (sc *scanCtx) sampleKeys(t *table, samples *sampleSet, rk rawSampleKey) sam
 	return m
 }
 
-// noteUnit counts the unit of a row for the unit-mixed check.
-func (t *table) noteUnit(c *column, u units.Unit, r int) {
+// noteUnitSym counts row r in the unit whose symbol (units.Unit.String) is
+// sym, for the mixed-unit check.
+func (t *table) noteUnitSym(sym string, r int) {
 	if t.unitsSeen == nil {
 		t.unitsSeen = map[string]*unitSeen{}
 	}
-	sym := u.String()
 	s := t.unitsSeen[sym]
 	if s == nil {
 		s = &unitSeen{sym: sym, first: r}

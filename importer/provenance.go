@@ -11,8 +11,17 @@ import (
 type provenance struct {
 	used    map[*funcs.Factor]*factorUse
 	usedOrd []*funcs.Factor
-	notes   map[string]int
+	notes   map[string]*int // the rows of each note
 	noteOrd []string
+	// recent keeps the last notes counted by their length, so that the few
+	// notes a long table repeats on every row are counted without hashing
+	// them (a note is often the same string as before: compared at once).
+	recent [16]noteSlot
+}
+
+type noteSlot struct {
+	s string
+	n *int
 }
 
 // factorUse is a factor row and the number of rows that used it.
@@ -62,16 +71,25 @@ func (p *provenance) countFactors(a, b []*funcs.Factor) {
 
 // noteCount counts a note of a result.
 func (p *provenance) noteCount(note string) {
-	if p.notes == nil {
-		p.notes = map[string]int{}
+	slot := &p.recent[len(note)%len(p.recent)]
+	if slot.n != nil && slot.s == note {
+		*slot.n++
+		return
 	}
-	if _, ok := p.notes[note]; !ok {
+	if p.notes == nil {
+		p.notes = map[string]*int{}
+	}
+	n := p.notes[note]
+	if n == nil {
 		if len(p.notes) >= maxNotes {
 			return
 		}
+		n = new(int)
+		p.notes[note] = n
 		p.noteOrd = append(p.noteOrd, note)
 	}
-	p.notes[note]++
+	*n++
+	*slot = noteSlot{note, n}
 }
 
 // srcKey identifies the factor rows behind a row's numbers (up to sixteen:

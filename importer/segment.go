@@ -61,6 +61,7 @@ type table struct {
 	outCol    int
 	unitsSeen map[string]*unitSeen
 	unitOrder []string
+	memo      *valueMemo // good fuel and unit cells, worked out once per text (cellmemo.go)
 }
 
 // sum accumulates totals.

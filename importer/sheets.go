@@ -142,7 +142,7 @@ func (res *ScanResult) writeSources(f *excelize.File, st *styles) error {
 	ww.skip()
 	put(st.head, "note", "", "", "", "", "", "", "rows")
 	for _, n := range res.sc.noteOrd {
-		ww.note(n, res.sc.notes[n])
+		ww.note(n, *res.sc.notes[n])
 	}
 	for _, n := range res.readingNotes() {
 		span(0, n)

@@ -91,6 +91,12 @@ func (sc *scanCtx) fuelValue(t *table, c *column, v cellVal, r int) (any, bool) 
 		sc.warn.add(sheet, c.col, r, SevError, CodeFuelUnknown, "the cell holds "+v.text+", not a fuel name; row not computed")
 		return nil, false
 	}
+	memo := v.kind == kText
+	if memo {
+		if name, ok := t.fuelMemo(c.col, text); ok {
+			return name, true
+		}
+	}
 	fr := sc.fuelName(text)
 	switch fr.kind {
 	case nameFuel:
@@ -104,6 +110,9 @@ func (sc *scanCtx) fuelValue(t *table, c *column, v cellVal, r int) (any, bool) 
 	if fr.alias && !fr.same {
 		sc.warn.addOnce("alias|"+sheet+"|"+colName(c.col)+"|"+strings.ToLower(strings.TrimSpace(text)), sheet, c.col, r, SevInfo, CodeFuelAlias,
 			quoteText(text)+" read as "+fr.id+" (here and in every cell of column "+colName(c.col)+" that says so)")
+	}
+	if memo {
+		t.keepFuel(c.col, text, fr.name)
 	}
 	return fr.name, true
 }
@@ -126,6 +135,10 @@ func (sc *scanCtx) unitValue(t *table, c *column, v cellVal, r int) (any, bool) 
 	var s string
 	switch v.kind {
 	case kText:
+		if m, ok := t.unitMemo(c.col, v.text, sc.delivered); ok {
+			t.noteUnitSym(m.sym, r)
+			return m.out, true
+		}
 		s = strings.TrimSpace(v.text)
 	case kEmpty:
 		if v.noCache {
@@ -153,8 +166,13 @@ func (sc *scanCtx) unitValue(t *table, c *column, v cellVal, r int) (any, bool) 
 	if !ok {
 		return nil, false
 	}
-	t.noteUnit(c, u, r)
-	return sc.gallonUnit(t, c.col, r, s), true
+	sym := u.String()
+	t.noteUnitSym(sym, r)
+	out := sc.gallonUnit(t, c.col, r, s)
+	if v.kind == kText {
+		t.keepUnit(c.col, v.text, sc.delivered, unitMemo{out: out, u: u, sym: sym})
+	}
+	return out, true
 }
 
 // checkUnit parses a unit for a quantity (energy, mass or volume) or, with
