@@ -1,15 +1,28 @@
 package importer
 
-import "github.com/fluecell/fluecell/importer/bookio"
+import (
+	"fmt"
+
+	"github.com/fluecell/fluecell/importer/bookio"
+)
 
 // sheetReader streams the rows of one worksheet part (bookio.SheetReader)
 // as the importer's cells. Unlike excelize's Rows iterator it keeps what
 // each cell is (number, text, formula, formula without a cached value),
 // which the checks need.
+//
+// The part is read in a goroutine of its own, a few batches of rows ahead
+// of the tables that take them, so that reading the XML (and inflating it,
+// in bookio's goroutine) runs beside the work on the rows where a core is
+// free. At most readBatches batches of batchRows rows are held.
 type sheetReader struct {
-	rd    *bookio.SheetReader
-	cells []cell
-	err   error // set when next returns false
+	rd  *bookio.SheetReader
+	err error // set when next returns false
+
+	full, free chan *rowBatch
+	stop, gone chan struct{}
+	cur        *rowBatch
+	pos        int
 
 	// When recording (book.layouts), the rightmost occupied column of
 	// each row, by row number, stored under the sheet's name on close.
@@ -18,41 +31,121 @@ type sheetReader struct {
 	right   []uint16
 }
 
+const (
+	batchRows   = 256
+	readBatches = 4
+)
+
+// rowBatch is rows read ahead: row k's cells are cells[ends[k-1]:ends[k]].
+type rowBatch struct {
+	nums  []int
+	ends  []int
+	cells []cell
+	last  bool  // the part has no rows after these
+	err   error // with last: why the reading stopped, nil at the end of the part
+}
+
 func (b *book) openSheet(s sheetRef) (*sheetReader, error) {
 	rd, err := b.OpenSheet(s)
 	if err != nil {
 		return nil, err
 	}
-	return &sheetReader{rd: rd, layouts: b.layouts, sheet: s.Name}, nil
+	sr := &sheetReader{rd: rd, layouts: b.layouts, sheet: s.Name,
+		full: make(chan *rowBatch, readBatches-2), free: make(chan *rowBatch, readBatches), stop: make(chan struct{}), gone: make(chan struct{})}
+	for range readBatches {
+		sr.free <- &rowBatch{}
+	}
+	go sr.readAhead()
+	return sr, nil
 }
 
+// readAhead fills batches until the part ends or close stops it. A panic
+// of the reader becomes the batch's error, so that it reaches the caller
+// as an error, not a crash.
+func (s *sheetReader) readAhead() {
+	defer close(s.gone)
+	for {
+		var b *rowBatch
+		select {
+		case b = <-s.free:
+		case <-s.stop:
+			return
+		}
+		s.fill(b)
+		select {
+		case s.full <- b:
+		case <-s.stop:
+			return
+		}
+		if b.last {
+			return
+		}
+	}
+}
+
+func (s *sheetReader) fill(b *rowBatch) {
+	defer func() {
+		if r := recover(); r != nil {
+			b.last, b.err = true, fmt.Errorf("%s: internal error reading the sheet: %v", s.sheet, r)
+		}
+	}()
+	b.nums, b.ends, b.cells = b.nums[:0], b.ends[:0], b.cells[:0]
+	for len(b.nums) < batchRows {
+		r, ok := s.rd.Next()
+		if !ok {
+			b.last, b.err = true, s.rd.Err()
+			return
+		}
+		right := 0
+		for i := range r.Cells {
+			c := &r.Cells[i]
+			b.cells = append(b.cells, cell{col: c.Col, kind: cellKind(c.Kind), num: c.Num, text: c.Text, formula: c.Formula, noCache: c.NoCache})
+			right = c.Col // every cell the reader returns holds a value or a formula
+		}
+		b.nums, b.ends = append(b.nums, r.Num), append(b.ends, len(b.cells))
+		if s.layouts != nil && right > 0 {
+			for len(s.right) <= r.Num {
+				s.right = append(s.right, 0)
+			}
+			s.right[r.Num] = uint16(right)
+		}
+	}
+}
+
+// close stops the reading goroutine and waits for it before the part is
+// closed.
 func (s *sheetReader) close() {
+	select {
+	case <-s.stop:
+	default:
+		close(s.stop)
+	}
+	<-s.gone
 	s.rd.Close()
 	if s.layouts != nil && s.err == nil {
 		s.layouts.right[s.sheet] = s.right
 	}
 }
 
-// next returns the next row that has at least one cell element; the cells
-// slice is reused by the following call.
+// next returns the next row that has at least one cell element; its cells
+// may be reused by the following call.
 func (s *sheetReader) next() (row, bool) {
-	r, ok := s.rd.Next()
-	if !ok {
-		s.err = s.rd.Err()
-		return row{}, false
-	}
-	s.cells = s.cells[:0]
-	right := 0
-	for i := range r.Cells {
-		c := &r.Cells[i]
-		s.cells = append(s.cells, cell{col: c.Col, kind: cellKind(c.Kind), num: c.Num, text: c.Text, formula: c.Formula, noCache: c.NoCache})
-		right = c.Col // every cell the reader returns holds a value or a formula
-	}
-	if s.layouts != nil && right > 0 {
-		for len(s.right) <= r.Num {
-			s.right = append(s.right, 0)
+	for s.cur == nil || s.pos >= len(s.cur.nums) {
+		if s.cur != nil {
+			if s.cur.last {
+				s.err = s.cur.err
+				return row{}, false
+			}
+			s.free <- s.cur
+			s.cur = nil
 		}
-		s.right[r.Num] = uint16(right)
+		s.cur, s.pos = <-s.full, 0
 	}
-	return row{num: r.Num, cells: s.cells}, true
+	b, k := s.cur, s.pos
+	s.pos++
+	start := 0
+	if k > 0 {
+		start = b.ends[k-1]
+	}
+	return row{num: b.nums[k], cells: b.cells[start:b.ends[k]:b.ends[k]]}, true
 }
