@@ -70,19 +70,19 @@ func (sc *scanCtx) evaluate(t *table) error {
 	main := t.mainRules()
 	good := make(map[string]bool, len(main.binds))
 	vars := make(map[string]any, len(main.binds))
-	srcIndex := map[srcKey]int32{}
 	samples := newSampleSet(t.ps)
-	wideK := sc.wideFactors(t)
+	st := &evalState{t: t, main: main, srcIndex: map[srcKey]int32{}, samples: samples, wideK: sc.wideFactors(t)}
 	annual := t.annualRows()
 	again := t.sameAgain()
 	forest := sc.sumForest(t)
-	var rowNotes []string
 
 	cumulative := t.cumulativeWhy()
 	if cumulative != "" {
 		sc.warn.add(sheet, spec.qty.col, spec.headerRow, SevWarning, CodeNotComputed, cumulative+
 			"; rows not computed: give the amounts used (the differences) in a column of their own")
 	}
+	pipe := sc.newEvalPipe(st, vars)
+	defer pipe.stop()
 	for i := 0; i < n; i++ {
 		if i&4095 == 0 {
 			if err := sc.cancelled(); err != nil {
@@ -90,62 +90,9 @@ func (sc *scanCtx) evaluate(t *table) error {
 			}
 		}
 		// t.res and t.src start as NaN and -1 (newFixed above).
-		if t.blankRoles(i) {
-			continue
-		}
-		if sc.countRow(t, i) {
-			continue // a fuel card's merchandise or service line: no record of fuel
-		}
-		t.dataRows++
-		t.markRow(i, rowFound, nil)
-		rowNum := t.rowNum(i)
-		if len(t.rules) == 0 && spec.headerErr != nil {
-			// No rule could be written (no unit anywhere): each row says so
-			// at its own cell, pointing at the header finding.
-			c := t.slots[0]
-			if spec.qty != nil {
-				c = spec.qty
-			}
-			sc.warn.add(sheet, c.col, rowNum, SevInfo, CodeNotComputed, "not computed: "+spec.headerErr.Message[:strings.IndexByte(spec.headerErr.Message+";", ';')]+
-				" (the error at "+spec.headerErr.Cell+")")
-			continue
-		}
-		if cumulative != "" {
-			sc.warn.add(sheet, spec.qty.col, rowNum, SevInfo, CodeNotComputed, "a meter reading, not an amount used (see "+sheet+"!"+cellRef(spec.qty.col, spec.headerRow)+"); row not computed")
-			continue
-		}
-		if spec.kind == kindCharge {
-			msg, col := chargeReason(spec)
-			sc.warn.add(sheet, col, rowNum, SevInfo, CodeNotComputed, msg)
-			continue
-		}
-		if len(t.rules) == 0 && len(spec.scope2) > 0 {
-			// Only purchased energy that cannot be computed: each row says so.
-			c := spec.scope2[0]
-			sc.warn.add(sheet, c.col, rowNum, SevInfo, CodeNotComputed, "not computed: "+quoteText(c.hdr.Text)+" is purchased "+c.carrier.String()+
-				" (Scope 2) and no factor applies (see the findings at its header, "+cellRef(c.col, spec.headerRow)+")")
-			continue
-		}
-		if again != nil && again.at(i) != 0 {
-			c := t.spec.fuel
-			first := int(again.at(i))
-			msg := "the same " + quoteText(t.val(i, t.slotOf[c.col]).text) + " again, in another unit: counted once, from row " + itoa(first)
-			if first < 0 {
-				msg = quoteText(t.val(i, t.slotOf[c.col]).text) + " is a part of row " + itoa(-first) + ", which is counted: not added twice"
-			}
-			sc.warn.add(sheet, c.col, rowNum, SevInfo, CodeNotComputed, msg)
-			continue
-		}
-		if annual != nil && annual.at(i) != 0 {
-			c := t.spec.when
-			v := t.val(i, t.slotOf[c.col])
-			sc.warn.add(sheet, c.col, rowNum, SevInfo, CodeNotComputed, "an annual total among monthly rows ("+
-				quoteText(cell{kind: v.kind, num: v.num, text: v.text}.display())+"): not computed, so the year is not counted twice")
-			continue
-		}
-		rs, skip := sc.rowRules(t, main, i)
-		if skip {
-			t.rowKind.set(i, rowScope2) // purchased energy that cannot be computed
+		rs := sc.pickRules(t, i, main, again, annual, cumulative)
+		if rs == nil {
+			pipe.skipRow(i)
 			continue
 		}
 		if rs != main {
@@ -165,13 +112,9 @@ func (sc *scanCtx) evaluate(t *table) error {
 		if forest != nil {
 			t.maskRow(i, forest, vars)
 		}
-		all := len(rs.rules) > 0
-		var key srcKey
-		nk := 0
-		var long []*funcs.Factor
-		rowNotes = rowNotes[:0]
+		pipe.ruleRow(i, rs, vars)
 		for k, r := range rs.rules {
-			ri := rs.at[k]
+			pipe.tag(k)
 			r = sc.variantFor(t, r, i, good)
 			ok := true
 			for _, b := range r.vars {
@@ -180,49 +123,11 @@ func (sc *scanCtx) evaluate(t *table) error {
 					break
 				}
 			}
-			if !ok {
-				all = false
-				continue
-			}
-			out, err := sc.runRule(t, i, rs, r, ri, vars)
-			if err != nil {
-				sc.ruleError(t, i, r, err)
-				all = false
-				continue
-			}
-			t.res[ri].set(i, out.Value)
-			for _, f := range out.Sources {
-				if nk < len(key) {
-					key[nk] = f
-					nk++
-				} else {
-					long = append(long, f)
-				}
-			}
-			for _, note := range out.Notes {
-				if !slicesContains(rowNotes, note) {
-					rowNotes = append(rowNotes, note)
-					sc.noteCount(note)
-				}
-			}
+			pipe.job(r, rs.at[k], ok)
 		}
-		if nk > 0 {
-			t.src.set(i, sc.sourceIndex(t, srcIndex, key, long))
-		}
-		state := rowFound
-		if all {
-			t.computed++
-			state = rowComputed
-		}
-		sc.biogenicSplit(t, i, vars, rowNotes)
-		sc.wideBiogenicRow(t, i)
-		t.markRow(i, state, rs)
-		sc.rowTotals(t, i, vars, wideK, rs.key)
-		if rs == main {
-			sc.collectSamples(t, i, rowNum, vars, samples)
-		}
-		sc.checkExisting(t, i, rowNum)
+		pipe.endRow()
 	}
+	pipe.flush()
 	sc.checkOutliers(sheet, samples)
 	sc.checkMixed(t)
 	return nil
@@ -230,6 +135,73 @@ func (sc *scanCtx) evaluate(t *table) error {
 
 // blankRoles reports a row with nothing in the columns the rules or roles
 // read (a note row inside the table): it is skipped without warnings.
+// pickRules decides what row i is: nil for a row whose rules do not run
+// (blank, a count of items, a repeat, an annual total, a meter reading, a
+// row that cannot be computed), with its finding; else the rules it runs.
+func (sc *scanCtx) pickRules(t *table, i int, main *ruleSet, again *paged[int32], annual *paged[int8], cumulative string) *ruleSet {
+	spec := t.spec
+	sheet := spec.sheet
+	if t.blankRoles(i) {
+		return nil
+	}
+	if sc.countRow(t, i) {
+		return nil // a fuel card's merchandise or service line: no record of fuel
+	}
+	t.dataRows++
+	t.markRow(i, rowFound, nil)
+	rowNum := t.rowNum(i)
+	if len(t.rules) == 0 && spec.headerErr != nil {
+		// No rule could be written (no unit anywhere): each row says so
+		// at its own cell, pointing at the header finding.
+		c := t.slots[0]
+		if spec.qty != nil {
+			c = spec.qty
+		}
+		sc.warn.add(sheet, c.col, rowNum, SevInfo, CodeNotComputed, "not computed: "+spec.headerErr.Message[:strings.IndexByte(spec.headerErr.Message+";", ';')]+
+			" (the error at "+spec.headerErr.Cell+")")
+		return nil
+	}
+	if cumulative != "" {
+		sc.warn.add(sheet, spec.qty.col, rowNum, SevInfo, CodeNotComputed, "a meter reading, not an amount used (see "+sheet+"!"+cellRef(spec.qty.col, spec.headerRow)+"); row not computed")
+		return nil
+	}
+	if spec.kind == kindCharge {
+		msg, col := chargeReason(spec)
+		sc.warn.add(sheet, col, rowNum, SevInfo, CodeNotComputed, msg)
+		return nil
+	}
+	if len(t.rules) == 0 && len(spec.scope2) > 0 {
+		// Only purchased energy that cannot be computed: each row says so.
+		c := spec.scope2[0]
+		sc.warn.add(sheet, c.col, rowNum, SevInfo, CodeNotComputed, "not computed: "+quoteText(c.hdr.Text)+" is purchased "+c.carrier.String()+
+			" (Scope 2) and no factor applies (see the findings at its header, "+cellRef(c.col, spec.headerRow)+")")
+		return nil
+	}
+	if again != nil && again.at(i) != 0 {
+		c := t.spec.fuel
+		first := int(again.at(i))
+		msg := "the same " + quoteText(t.val(i, t.slotOf[c.col]).text) + " again, in another unit: counted once, from row " + itoa(first)
+		if first < 0 {
+			msg = quoteText(t.val(i, t.slotOf[c.col]).text) + " is a part of row " + itoa(-first) + ", which is counted: not added twice"
+		}
+		sc.warn.add(sheet, c.col, rowNum, SevInfo, CodeNotComputed, msg)
+		return nil
+	}
+	if annual != nil && annual.at(i) != 0 {
+		c := t.spec.when
+		v := t.val(i, t.slotOf[c.col])
+		sc.warn.add(sheet, c.col, rowNum, SevInfo, CodeNotComputed, "an annual total among monthly rows ("+
+			quoteText(cell{kind: v.kind, num: v.num, text: v.text}.display())+"): not computed, so the year is not counted twice")
+		return nil
+	}
+	rs, skip := sc.rowRules(t, main, i)
+	if skip {
+		t.rowKind.set(i, rowScope2) // purchased energy that cannot be computed
+		return nil
+	}
+	return rs
+}
+
 func (t *table) blankRoles(i int) bool {
 	for s, c := range t.slots {
 		if c.role == roleGroup || c.role == roleExisting || c.role == roleNone {

@@ -71,6 +71,10 @@ type Options struct {
 	// pageShift, in tests, makes pages of 1<<pageShift rows (0: the
 	// default), so that small workbooks exercise the temporary file.
 	pageShift uint
+	// evalAsync, in tests, runs every table's rules in a goroutine of their
+	// own in batches of evalAsync rows (> 0) or in place (-1); 0 decides by
+	// the table's size (evalpipe.go).
+	evalAsync int
 	// Uncertainty chooses how the 95 % intervals of the totals are computed:
 	// Approach 1 (the zero value) or Approach 2 with its seed and draws.
 	Uncertainty funcs.IntervalOptions

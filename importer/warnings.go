@@ -16,6 +16,36 @@ type warnSink struct {
 	over  map[warnKey]*overflow
 	seen  map[posKey]bool
 	once  map[string]bool
+	// rec, when set, takes the warnings instead, to be added later in row
+	// order (evaluate's rows whose rules run in another goroutine: evalpipe.go).
+	rec *warnRec
+}
+
+// warnRec is warnings recorded in order. tag is stored with each: the part
+// of its row it came from (0 before the row's rules, k+1 with rule k).
+type warnRec struct {
+	ops []warnOp
+	tag int
+}
+
+type warnOp struct {
+	tag            int
+	once           bool
+	key, sheet     string
+	col, row       int
+	sev, code, msg string
+}
+
+// replay adds recorded warnings as add or addOnce would have.
+func (w *warnSink) replay(ops []warnOp) {
+	for i := range ops {
+		o := &ops[i]
+		if o.once {
+			w.addOnce(o.key, o.sheet, o.col, o.row, o.sev, o.code, o.msg)
+		} else {
+			w.add(o.sheet, o.col, o.row, o.sev, o.code, o.msg)
+		}
+	}
 }
 
 type posWarning struct {
@@ -48,6 +78,10 @@ func newWarnSink(max int) *warnSink {
 // add records a warning at (col, row) of sheet; a second warning with the
 // same code at the same cell is dropped.
 func (w *warnSink) add(sheet string, col, row int, sev, code, msg string) {
+	if w.rec != nil {
+		w.rec.ops = append(w.rec.ops, warnOp{tag: w.rec.tag, sheet: sheet, col: col, row: row, sev: sev, code: code, msg: msg})
+		return
+	}
 	pk := posKey{sheet, col, row, code}
 	if w.seen[pk] {
 		return
@@ -70,6 +104,10 @@ func (w *warnSink) add(sheet string, col, row int, sev, code, msg string) {
 
 // addOnce records a warning only the first time key is seen.
 func (w *warnSink) addOnce(key string, sheet string, col, row int, sev, code, msg string) {
+	if w.rec != nil && !w.once[key] { // a key seen before stays seen: nothing to record
+		w.rec.ops = append(w.rec.ops, warnOp{tag: w.rec.tag, once: true, key: key, sheet: sheet, col: col, row: row, sev: sev, code: code, msg: msg})
+		return
+	}
 	if w.once[key] {
 		return
 	}
