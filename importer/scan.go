@@ -4,6 +4,7 @@ import (
 	"archive/zip"
 	"context"
 	"errors"
+	"fmt"
 	"github.com/fluecell/fluecell/importer/regfile"
 	"math"
 	"path/filepath"
@@ -11,6 +12,7 @@ import (
 	"strings"
 
 	"github.com/fluecell/fluecell/funcs"
+	"github.com/fluecell/fluecell/importer/bookio"
 )
 
 // Sheet names fluecell writes. A workbook that already has them is an
@@ -166,6 +168,18 @@ func scan(ctx context.Context, e *funcs.Engine, path string, opt Options, calc f
 	return res, res.finish()
 }
 
+// mergesRead is the merged ranges of a sheet, or why they cannot be read.
+type mergesRead struct {
+	ms  []bookio.Range
+	err error
+}
+
+// aheadCells bounds the cells read ahead while the merged ranges are
+// found (about 6 MB of cells): enough to keep the reading busy through
+// that pass on a sheet of 100 000 rows, and no more memory than a few
+// pages of rows.
+const aheadCells = 128 << 10
+
 // bookError wraps a package read error as a corrupt-file error.
 func bookError(path string, err error) error {
 	if _, ok := err.(*Error); ok {
@@ -222,16 +236,34 @@ func quoteList(names []string) string {
 
 // scanSheet streams one worksheet through a segmenter; it returns the number
 // of cells with a value or formula.
+//
+// Finding a table needs the sheet's merged ranges, which the part holds
+// after its rows: they are found in a pass of their own, in a goroutine,
+// while the first rows are read ahead (up to aheadCells cells).
 func (sc *scanCtx) scanSheet(b *book, s sheetRef) (int, error) {
-	merges, err := b.readMerges(s)
+	mc := make(chan mergesRead, 1)
+	go func() {
+		var m mergesRead
+		defer func() {
+			if r := recover(); r != nil {
+				m.err = fmt.Errorf("%s: internal error reading the merged cells: %v", s.Part, r)
+			}
+			mc <- m
+		}()
+		m.ms, m.err = b.ReadMerges(s)
+	}()
+	rd, err := b.openSheetAhead(s, aheadCells)
 	if err != nil {
-		return 0, err
-	}
-	rd, err := b.openSheet(s)
-	if err != nil {
+		<-mc
 		return 0, err
 	}
 	defer rd.close()
+	m := <-mc
+	rd.settle()
+	if m.err != nil {
+		return 0, m.err
+	}
+	merges := b.keepMerges(s, m.ms)
 	seg := &segmenter{sc: sc, det: &detector{sc: sc, lx: sc.lexicon, sheet: s.Name, merges: merges}, sheet: s.Name, merges: merges}
 	cells := 0
 	for n := 0; ; n++ {

@@ -2,6 +2,7 @@ package importer
 
 import (
 	"fmt"
+	"sync/atomic"
 
 	"github.com/fluecell/fluecell/importer/bookio"
 )
@@ -23,6 +24,12 @@ type sheetReader struct {
 	stop, gone chan struct{}
 	cur        *rowBatch
 	pos        int
+	// While the caller waits for something else (the merged ranges: see
+	// scanSheet), the goroutine may read further ahead into batches of
+	// their own, up to aheadCells cells in aheadBatches batches; settle
+	// ends that.
+	aheadCells   atomic.Int64
+	aheadBatches atomic.Int32
 
 	// When recording (book.layouts), the rightmost occupied column of
 	// each row, by row number, stored under the sheet's name on close.
@@ -34,6 +41,9 @@ type sheetReader struct {
 const (
 	batchRows   = 256
 	readBatches = 4
+	// maxAheadBatches bounds the batches read ahead while the caller waits
+	// (openSheetAhead).
+	maxAheadBatches = 64
 )
 
 // rowBatch is rows read ahead: row k's cells are cells[ends[k-1]:ends[k]].
@@ -43,20 +53,51 @@ type rowBatch struct {
 	cells []cell
 	last  bool  // the part has no rows after these
 	err   error // with last: why the reading stopped, nil at the end of the part
+	ahead bool  // read ahead while the caller waited: dropped once read
 }
 
-func (b *book) openSheet(s sheetRef) (*sheetReader, error) {
+func (b *book) openSheet(s sheetRef) (*sheetReader, error) { return b.openSheetAhead(s, 0) }
+
+// openSheetAhead is openSheet whose goroutine may read up to cells cells
+// further ahead than usual until settle is called.
+func (b *book) openSheetAhead(s sheetRef, cells int64) (*sheetReader, error) {
 	rd, err := b.OpenSheet(s)
 	if err != nil {
 		return nil, err
 	}
 	sr := &sheetReader{rd: rd, layouts: b.layouts, sheet: s.Name,
-		full: make(chan *rowBatch, readBatches-2), free: make(chan *rowBatch, readBatches), stop: make(chan struct{}), gone: make(chan struct{})}
+		full: make(chan *rowBatch, readBatches+maxAheadBatches), free: make(chan *rowBatch, readBatches), stop: make(chan struct{}), gone: make(chan struct{})}
 	for range readBatches {
 		sr.free <- &rowBatch{}
 	}
+	if cells > 0 {
+		sr.aheadCells.Store(cells)
+		sr.aheadBatches.Store(maxAheadBatches)
+	}
 	go sr.readAhead()
 	return sr, nil
+}
+
+// settle ends reading further ahead than usual (openSheetAhead).
+func (s *sheetReader) settle() { s.aheadCells.Store(0) }
+
+// freeBatch is a batch to fill: a free one, or one of its own while the
+// caller lets it read ahead; false when close stops the goroutine.
+func (s *sheetReader) freeBatch() (*rowBatch, bool) {
+	select {
+	case b := <-s.free:
+		return b, true
+	default:
+	}
+	if s.aheadCells.Load() > 0 && s.aheadBatches.Add(-1) >= 0 {
+		return &rowBatch{ahead: true}, true
+	}
+	select {
+	case b := <-s.free:
+		return b, true
+	case <-s.stop:
+		return nil, false
+	}
 }
 
 // readAhead fills batches until the part ends or close stops it. A panic
@@ -65,13 +106,14 @@ func (b *book) openSheet(s sheetRef) (*sheetReader, error) {
 func (s *sheetReader) readAhead() {
 	defer close(s.gone)
 	for {
-		var b *rowBatch
-		select {
-		case b = <-s.free:
-		case <-s.stop:
+		b, ok := s.freeBatch()
+		if !ok {
 			return
 		}
 		s.fill(b)
+		if b.ahead {
+			s.aheadCells.Add(-int64(len(b.cells)))
+		}
 		select {
 		case s.full <- b:
 		case <-s.stop:
@@ -136,7 +178,9 @@ func (s *sheetReader) next() (row, bool) {
 				s.err = s.cur.err
 				return row{}, false
 			}
-			s.free <- s.cur
+			if !s.cur.ahead {
+				s.free <- s.cur
+			}
 			s.cur = nil
 		}
 		s.cur, s.pos = <-s.full, 0

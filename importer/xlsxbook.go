@@ -63,12 +63,9 @@ func (b *book) sheet(name string) (sheetRef, bool) { return b.Sheet(name) }
 
 func (b *book) sheetNames() []string { return b.SheetNames() }
 
-// readMerges returns the merged ranges of a worksheet.
-func (b *book) readMerges(s sheetRef) ([]rangeRef, error) {
-	ms, err := b.ReadMerges(s)
-	if err != nil {
-		return nil, err
-	}
+// keepMerges returns the merged ranges ms of sheet s as the importer's
+// ranges, recorded for the placement of computed columns.
+func (b *book) keepMerges(s sheetRef, ms []bookio.Range) []rangeRef {
 	out := make([]rangeRef, len(ms))
 	for i, m := range ms {
 		out[i] = rangeRef{m.C1, m.R1, m.C2, m.R2}
@@ -76,5 +73,5 @@ func (b *book) readMerges(s sheetRef) ([]rangeRef, error) {
 	if b.layouts != nil {
 		b.layouts.merges[s.Name] = out
 	}
-	return out, nil
+	return out
 }
