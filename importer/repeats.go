@@ -116,8 +116,8 @@ func (t *table) sameAgain() *paged[int32] {
 	}
 	// One pass decides every row that is no part: its key's first row is
 	// known by then. A part may come before the row it is a part of, so
-	// parts are decided after the pass.
-	var parts []int
+	// parts are decided in a second pass, made only when there are parts.
+	parts := false
 	for i := 0; i < n; i++ {
 		key, unit, part, ok := k.key(i, buf[:0])
 		buf = key
@@ -125,7 +125,7 @@ func (t *table) sameAgain() *paged[int32] {
 			continue
 		}
 		if part {
-			parts = append(parts, i)
+			parts = true
 			continue
 		}
 		h := hashKey(key)
@@ -138,9 +138,12 @@ func (t *table) sameAgain() *paged[int32] {
 			mark(i, w, false)
 		}
 	}
-	for _, i := range parts {
-		key, _, _, _ := k.key(i, buf[:0])
+	for i := 0; parts && i < n; i++ {
+		key, _, part, ok := k.key(i, buf[:0])
 		buf = key
+		if !ok || !part {
+			continue
+		}
 		if w, found := find(hashKey(key), key); found {
 			mark(i, w, true)
 		}
