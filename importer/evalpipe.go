@@ -1,6 +1,7 @@
 package importer
 
 import (
+	"math"
 	"runtime"
 
 	"github.com/fluecell/fluecell/funcs"
@@ -68,7 +69,7 @@ func (b *evalBatch) reset() {
 type evalState struct {
 	t        *table
 	main     *ruleSet
-	srcIndex map[srcKey]int32
+	srcIndex *srcIndex
 	samples  *sampleSet
 	wideK    map[*column][2]float64
 	rowNotes []string
@@ -87,15 +88,16 @@ type evalPipe struct {
 	done  chan *evalBatch // back from it, in order
 	quit  chan struct{}
 	gone  chan struct{}
-	wvars map[string]any // the goroutine's variables
-	dvars map[string]any // the variables of the row being finished (async)
+	wvars *keptVars      // the goroutine's variables
+	dvars *keptVars      // the variables of the row being finished (async)
 	pvars map[string]any // evaluate's own variables (in place)
 	live  bool
 }
 
 // newEvalPipe starts the pipe of st.t's rules; vars is the map evaluate
-// fills with a row's variables. stop must be called.
-func (sc *scanCtx) newEvalPipe(st *evalState, vars map[string]any) *evalPipe {
+// fills with a row's variables, forest the table's sum trees (maskRow).
+// stop must be called.
+func (sc *scanCtx) newEvalPipe(st *evalState, vars map[string]any, forest []*sumNode) *evalPipe {
 	t := st.t
 	async := t.n() >= asyncRows && runtime.GOMAXPROCS(0) > 1
 	batch := evalBatchRows
@@ -111,8 +113,8 @@ func (sc *scanCtx) newEvalPipe(st *evalState, vars map[string]any) *evalPipe {
 		return p
 	}
 	sc.mapping() // made now, not in the goroutine (uncFor reads it)
-	p.names = evalNames(t, st.main)
-	p.wvars, p.dvars = map[string]any{}, map[string]any{}
+	p.names = evalNames(t, st.main, forest)
+	p.wvars, p.dvars = newKeptVars(len(p.names)), newKeptVars(len(p.names))
 	for range evalBatches - 1 {
 		p.spare = append(p.spare, &evalBatch{})
 	}
@@ -123,10 +125,11 @@ func (sc *scanCtx) newEvalPipe(st *evalState, vars map[string]any) *evalPipe {
 	return p
 }
 
-// evalNames lists every variable a rule of t reads, every column's
-// identifier (maskRow, rowTotals and the checks read them) and the days of
-// a flow row: the variables kept with each row.
-func evalNames(t *table, main *ruleSet) []string {
+// evalNames lists the variables evaluate's map can hold: every variable a
+// rule of t reads and the columns of the sum trees (maskRow sets them).
+// The map holds no other name, so these are all a row's rules and checks
+// can find there: the variables kept with each row.
+func evalNames(t *table, main *ruleSet, forest []*sumNode) []string {
 	seen := map[string]bool{}
 	var out []string
 	add := func(name string) {
@@ -159,12 +162,16 @@ func evalNames(t *table, main *ruleSet) []string {
 			addRule(r)
 		}
 	}
-	for _, c := range t.spec.cols {
-		if c.ident != "" {
-			add(c.ident)
+	var walk func(n *sumNode)
+	walk = func(n *sumNode) {
+		add(n.col.ident)
+		for _, k := range n.kids {
+			walk(k)
 		}
 	}
-	add(periodDaysIdent)
+	for _, n := range forest {
+		walk(n)
+	}
 	return out
 }
 
@@ -300,8 +307,7 @@ func (p *evalPipe) runJobs(b *evalBatch, kept bool) {
 			continue
 		}
 		if kept {
-			vars = p.wvars
-			p.restore(vars, b, e)
+			vars = p.restore(p.wvars, b, e)
 		}
 		for j := e.job0; j < e.job1; j++ {
 			jb := &b.jobs[j]
@@ -322,16 +328,48 @@ func (p *evalPipe) runJobs(b *evalBatch, kept bool) {
 	}
 }
 
-// restore sets vars to the variables kept with row e: as evaluate's map
-// held them for it.
-func (p *evalPipe) restore(vars map[string]any, b *evalBatch, e *evalRow) {
+// keptVars is a map of variables restored row by row (restore) and what
+// it holds, so that a variable the row before had too is not set again.
+type keptVars struct {
+	m    map[string]any
+	vals []any
+	has  []bool
+}
+
+func newKeptVars(n int) *keptVars {
+	return &keptVars{m: make(map[string]any, n), vals: make([]any, n), has: make([]bool, n)}
+}
+
+// restore sets kv's map to the variables kept with row e: as evaluate's
+// map held them for it.
+func (p *evalPipe) restore(kv *keptVars, b *evalBatch, e *evalRow) map[string]any {
 	for k, name := range p.names {
-		if b.has[e.val0+k] {
-			vars[name] = b.vals[e.val0+k]
-		} else {
-			delete(vars, name)
+		v, has := b.vals[e.val0+k], b.has[e.val0+k]
+		if has == kv.has[k] && (!has || sameValue(v, kv.vals[k])) {
+			continue
 		}
+		if has {
+			kv.m[name] = v
+		} else {
+			delete(kv.m, name)
+		}
+		kv.vals[k], kv.has[k] = v, has
 	}
+	return kv.m
+}
+
+// sameValue reports whether a and b are the same number or text (false
+// for any other kind of value, which is then set again).
+func sameValue(a, b any) bool {
+	switch x := a.(type) {
+	case float64:
+		y, ok := b.(float64)
+		return ok && (x == y && math.Signbit(x) == math.Signbit(y))
+	case string:
+		y, ok := b.(string)
+		return ok && x == y
+	}
+	return false
 }
 
 // finish adds the findings and results of b's rows, in order.
@@ -352,8 +390,7 @@ func (p *evalPipe) finish(b *evalBatch) {
 		}
 		vars := p.pvars
 		if p.async {
-			vars = p.dvars
-			p.restore(vars, b, e)
+			vars = p.restore(p.dvars, b, e)
 		}
 		p.sc.finishRow(p.st, b, e, ops, vars)
 	}

@@ -71,7 +71,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 	good := make(map[string]bool, len(main.binds))
 	vars := make(map[string]any, len(main.binds))
 	samples := newSampleSet(t.ps)
-	st := &evalState{t: t, main: main, srcIndex: map[srcKey]int32{}, samples: samples, wideK: sc.wideFactors(t)}
+	st := &evalState{t: t, main: main, srcIndex: newSrcIndex(), samples: samples, wideK: sc.wideFactors(t)}
 	annual := t.annualRows()
 	again := t.sameAgain()
 	forest := sc.sumForest(t)
@@ -81,7 +81,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 		sc.warn.add(sheet, spec.qty.col, spec.headerRow, SevWarning, CodeNotComputed, cumulative+
 			"; rows not computed: give the amounts used (the differences) in a column of their own")
 	}
-	pipe := sc.newEvalPipe(st, vars)
+	pipe := sc.newEvalPipe(st, vars, forest)
 	defer pipe.stop()
 	for i := 0; i < n; i++ {
 		if i&4095 == 0 {
@@ -128,6 +128,7 @@ func (sc *scanCtx) evaluate(t *table) error {
 		pipe.endRow()
 	}
 	pipe.flush()
+	st.srcIndex.add(&sc.provenance)
 	sc.checkOutliers(sheet, samples)
 	sc.checkMixed(t)
 	return nil

@@ -33,7 +33,11 @@ type factorUse struct {
 const maxNotes = 1000
 
 // countFactors counts each distinct factor of one row once.
-func (p *provenance) countFactors(a, b []*funcs.Factor) {
+func (p *provenance) countFactors(a, b []*funcs.Factor) { p.countFactorsN(a, b, 1) }
+
+// countFactorsN counts each distinct factor of n rows with the same factors
+// once a row.
+func (p *provenance) countFactorsN(a, b []*funcs.Factor, rows int) {
 	if p.used == nil {
 		p.used = map[*funcs.Factor]*factorUse{}
 	}
@@ -64,7 +68,7 @@ func (p *provenance) countFactors(a, b []*funcs.Factor) {
 				p.used[f] = u
 				p.usedOrd = append(p.usedOrd, f)
 			}
-			u.rows++
+			u.rows += rows
 		}
 	}
 }
@@ -96,22 +100,57 @@ func (p *provenance) noteCount(note string) {
 // longer lists are joined each time).
 type srcKey [16]*funcs.Factor
 
+// srcIndex is a table's source texts by set of factors: the text's index
+// and the rows after the first that used the set, counted into the
+// provenance once the table is done (add), so that a row costs one lookup.
+// last is the set of the row before, found without a lookup.
+type srcIndex struct {
+	byKey   map[srcKey]*srcUse
+	lastKey srcKey
+	last    *srcUse
+}
+
+type srcUse struct {
+	i    int32
+	more int
+}
+
+func newSrcIndex() *srcIndex { return &srcIndex{byKey: map[srcKey]*srcUse{}} }
+
 // sourceIndex returns the index of the row's source text, building it once
-// per distinct set of factors.
-func (sc *scanCtx) sourceIndex(t *table, idx map[srcKey]int32, key srcKey, long []*funcs.Factor) int32 {
+// per distinct set of factors; the factors of a set's first row are counted
+// at once (the order factors are first used in is the order of the
+// sources sheet), the rows after by add.
+func (sc *scanCtx) sourceIndex(t *table, idx *srcIndex, key srcKey, long []*funcs.Factor) int32 {
 	if long == nil {
-		if i, ok := idx[key]; ok {
-			sc.countFactors(key[:], nil)
-			return i
+		if idx.last != nil && key == idx.lastKey {
+			idx.last.more++
+			return idx.last.i
+		}
+		if u, ok := idx.byKey[key]; ok {
+			u.more++
+			idx.lastKey, idx.last = key, u
+			return u.i
 		}
 	}
 	t.srcText = append(t.srcText, sourceText(append(key[:], long...)))
 	i := int32(len(t.srcText) - 1)
 	if long == nil {
-		idx[key] = i
+		u := &srcUse{i: i}
+		idx.byKey[key] = u
+		idx.lastKey, idx.last = key, u
 	}
 	sc.countFactors(key[:], long)
 	return i
+}
+
+// add counts the factors of the rows after each set's first.
+func (idx *srcIndex) add(p *provenance) {
+	for key, u := range idx.byKey {
+		if u.more > 0 {
+			p.countFactorsN(key[:], nil, u.more)
+		}
+	}
 }
 
 func slicesContains(list []string, s string) bool {
