@@ -1,10 +1,15 @@
 package importer
 
 import (
+	"archive/zip"
 	"bytes"
 	"context"
+	"os"
 	"path/filepath"
+	"runtime"
+	"sort"
 	"testing"
+	"time"
 
 	"github.com/fluecell/fluecell/funcs"
 )
@@ -60,4 +65,74 @@ func sameWithPipe(t *testing.T, e *funcs.Engine, dir, in string, maxWarn int) {
 		}
 		samePackage(t, outIn, out)
 	}
+}
+
+// TestNoGoroutineLeft annotates a 20 000-row fuel log (its rows read, its
+// merged cells found and its rules run in goroutines of their own), stops
+// an annotation of it part way (cancelled after 30 ms), and annotates a
+// workbook whose sheet is cut short: after each, the goroutines the
+// annotation started have ended.
+func TestNoGoroutineLeft(t *testing.T) {
+	e, err := funcs.New()
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	in := fuelLogN(t, 20_000)
+	cut := filepath.Join(dir, "cut.xlsx")
+	writeCutSheet(t, in, cut)
+	settle := func() int {
+		n := runtime.NumGoroutine()
+		for range 100 {
+			time.Sleep(10 * time.Millisecond)
+			if m := runtime.NumGoroutine(); m >= n {
+				break
+			} else {
+				n = m
+			}
+		}
+		return n
+	}
+	base := settle()
+	if _, err := Annotate(context.Background(), e, in, filepath.Join(dir, "a.xlsx"), Options{}); err != nil {
+		t.Fatal(err)
+	}
+	ctx, cancel := context.WithTimeout(context.Background(), 30*time.Millisecond)
+	_, err = Annotate(ctx, e, in, filepath.Join(dir, "b.xlsx"), Options{})
+	cancel()
+	if err == nil {
+		t.Log("the annotation ended before it was stopped")
+	}
+	if _, err := Annotate(context.Background(), e, cut, filepath.Join(dir, "c.xlsx"), Options{}); err == nil {
+		t.Error("a sheet cut short was annotated")
+	}
+	if n := settle(); n > base {
+		buf := make([]byte, 1<<20)
+		t.Fatalf("%d goroutines left after the annotations (%d before):\n%s", n, base, buf[:runtime.Stack(buf, true)])
+	}
+}
+
+// writeCutSheet copies the workbook in to out with its first sheet's XML
+// cut in the middle of its rows.
+func writeCutSheet(t *testing.T, in, out string) {
+	t.Helper()
+	parts := partsOf(t, in)
+	sheet := parts[floorSheet]
+	parts[floorSheet] = sheet[:len(sheet)/2]
+	f, err := os.Create(out)
+	must(t, err)
+	zw := zip.NewWriter(f)
+	names := make([]string, 0, len(parts))
+	for name := range parts {
+		names = append(names, name)
+	}
+	sort.Strings(names)
+	for _, name := range names {
+		w, err := zw.Create(name)
+		must(t, err)
+		_, err = w.Write(parts[name])
+		must(t, err)
+	}
+	must(t, zw.Close())
+	must(t, f.Close())
 }
