@@ -218,6 +218,13 @@ func TestPagesWithoutTempFolder(t *testing.T) {
 	if got.sc.pages.failed == nil || got.sc.pages.spilled() != 0 {
 		t.Fatalf("the temporary file was made (failed %v, %d pages written)", got.sc.pages.failed, got.sc.pages.spilled())
 	}
+	if !strings.Contains(got.Report.PageFileError, "stayed in memory") || !strings.Contains(got.Report.PageFileError, "missing") {
+		t.Fatalf("the report does not say the rows stayed in memory, and why: %q", got.Report.PageFileError)
+	}
+	if want.Report.PageFileError != "" {
+		t.Fatalf("a scan that needed no file says %q", want.Report.PageFileError)
+	}
+	got.Report.PageFileError = ""
 	if a, b := reportJSON(t, want.Report), reportJSON(t, got.Report); !bytes.Equal(a, b) {
 		t.Fatalf("the reports differ:\n%s", firstDiff(string(a), string(b)))
 	}

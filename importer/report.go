@@ -50,6 +50,11 @@ type Report struct {
 	// the approach, its seed and draws, and the activity-data uncertainty
 	// of each table (uncertainty.go).
 	Uncertainty *UncertaintyInfo `json:"uncertainty,omitempty"`
+	// PageFileError, when set, says why the rows past Options.PageBudget
+	// could not go to a temporary file (TMPDIR cannot be written, or its
+	// disk is full): they stayed in memory, with the same results, and the
+	// memory the scan took was not bounded.
+	PageFileError string `json:"page_file_error,omitempty"`
 	// Output is the path written by Annotate ("" for Scan).
 	Output string `json:"output,omitempty"`
 }

@@ -365,6 +365,10 @@ func (res *ScanResult) finish() error {
 	rep.pointLeftOut()
 	sc.totalIntervals(rep)
 	rep.BuildPlan = res.buildPlanTotal()
+	if err := sc.pages.failed; err != nil {
+		rep.PageFileError = "the rows past the page budget stayed in memory: the temporary file could not be written (" + err.Error() +
+			"); set TMPDIR to a folder that can be written"
+	}
 	res.Report = rep
 	res.checkTotals() // a sum past the float64 range is marked, never +Inf
 	if err := res.checkMapping(); err != nil {

@@ -96,6 +96,9 @@ func cmdAnnotate(ctx context.Context, s stdio, args []string) int {
 // printReport writes the short human summary of an annotation.
 func printReport(w io.Writer, rep *importer.Report) {
 	fmt.Fprintf(w, "wrote %s (%s; %d of %d rows computed)\n", safetext.Name(rep.Output), rep.Layout, rep.Computed, rep.Rows)
+	if rep.PageFileError != "" {
+		fmt.Fprintf(w, "note: %s\n", safetext.Line(rep.PageFileError))
+	}
 	fmt.Fprintln(w, "rules:")
 	for _, r := range rep.Rules {
 		fmt.Fprintf(w, "  %s\n", safetext.Line(r))
