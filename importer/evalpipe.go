@@ -195,10 +195,12 @@ func (p *evalPipe) ruleRow(i int, rs *ruleSet, vars map[string]any) {
 	b.rows = append(b.rows, e)
 }
 
-// job adds rule r (the row's k-th) to the row: it runs when run is set.
-// The findings of choosing it must be recorded after tag(k).
+// tag marks the findings recorded from now on as those of choosing the
+// row's k-th rule (finishRow adds them just before that rule's result).
 func (p *evalPipe) tag(k int) { p.cur.rec.tag = k + 1 }
 
+// job adds rule r, the row's next, whose result goes to column ri: it runs
+// when run is set (its variables are good).
 func (p *evalPipe) job(r *rule, ri int, run bool) {
 	b := p.cur
 	b.jobs = append(b.jobs, evalJob{r: r, ri: ri, run: run})
@@ -213,6 +215,8 @@ func (p *evalPipe) endRow() {
 	p.rowDone()
 }
 
+// rowDone runs and finishes the row at once in place; in a goroutine, it
+// hands the batch over when it is full.
 func (p *evalPipe) rowDone() {
 	if !p.async {
 		p.runJobs(p.cur, false)
