@@ -1,7 +1,5 @@
 package importer
 
-import "github.com/fluecell/fluecell/funcs/units"
-
 // A long table repeats a few fuel names and units over many rows. What a
 // fuel or unit cell gives when it is good (a fuel to compute, a unit of
 // the right dimension) is worked out once per column and text, with its
@@ -26,11 +24,10 @@ type memoKey struct {
 }
 
 // unitMemo is what a good unit cell gives: the unit text the rules read
-// (bare gallons made imperial when the mapping says so), the unit and its
-// symbol for the mixed-unit check (noteUnit).
+// (bare gallons made imperial when the mapping says so) and the unit's
+// symbol for the mixed-unit check (noteUnitSym).
 type unitMemo struct {
 	out string
-	u   units.Unit
 	sym string
 }
 
@@ -76,4 +73,30 @@ func (t *table) valueMemo() *valueMemo {
 		t.memo = &valueMemo{fuels: map[memoKey]string{}, units: map[memoKey]unitMemo{}}
 	}
 	return t.memo
+}
+
+// lastTexts keeps a value for each of the last texts seen, one text per
+// length class: the few texts a long table repeats on every row (the
+// notes of its results) are found by one comparison, often of the very
+// same string, without hashing them.
+type lastTexts[V any] [16]struct {
+	s  string
+	v  V
+	ok bool
+}
+
+// get returns the value kept for s.
+func (c *lastTexts[V]) get(s string) (V, bool) {
+	e := &c[len(s)%len(c)]
+	if e.ok && e.s == s {
+		return e.v, true
+	}
+	var zero V
+	return zero, false
+}
+
+// put keeps v for s, in place of the text of its length class.
+func (c *lastTexts[V]) put(s string, v V) {
+	e := &c[len(s)%len(c)]
+	e.s, e.v, e.ok = s, v, true
 }

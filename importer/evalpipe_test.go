@@ -1,13 +1,10 @@
 package importer
 
 import (
-	"archive/zip"
 	"bytes"
 	"context"
-	"os"
 	"path/filepath"
 	"runtime"
-	"sort"
 	"testing"
 	"time"
 
@@ -28,14 +25,8 @@ func TestEvalPipeSameResults(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var inputs []string
-	for _, pat := range []string{"*.xlsx", "*.csv"} {
-		m, _ := filepath.Glob(filepath.Join("..", "testdata", "realworld", pat))
-		inputs = append(inputs, m...)
-	}
 	dir := t.TempDir()
-	inputs = append(inputs, writeMessy(t, dir), fuelLogN(t, 20_000))
-	for _, in := range inputs {
+	for _, in := range sameResultInputs(t, dir) {
 		for _, maxWarn := range []int{0, 1} {
 			t.Run(filepath.Base(in)+"/max-"+itoa(maxWarn), func(t *testing.T) {
 				sameWithPipe(t, e, dir, in, maxWarn)
@@ -79,8 +70,8 @@ func TestNoGoroutineLeft(t *testing.T) {
 	}
 	dir := t.TempDir()
 	in := fuelLogN(t, 20_000)
-	cut := filepath.Join(dir, "cut.xlsx")
-	writeCutSheet(t, in, cut)
+	parts := partsOf(t, in)
+	cut := parts.with(floorSheet, parts[floorSheet][:len(parts[floorSheet])/2]).write(t, dir, "cut.xlsx")
 	settle := func() int {
 		n := runtime.NumGoroutine()
 		for range 100 {
@@ -110,29 +101,4 @@ func TestNoGoroutineLeft(t *testing.T) {
 		buf := make([]byte, 1<<20)
 		t.Fatalf("%d goroutines left after the annotations (%d before):\n%s", n, base, buf[:runtime.Stack(buf, true)])
 	}
-}
-
-// writeCutSheet copies the workbook in to out with its first sheet's XML
-// cut in the middle of its rows.
-func writeCutSheet(t *testing.T, in, out string) {
-	t.Helper()
-	parts := partsOf(t, in)
-	sheet := parts[floorSheet]
-	parts[floorSheet] = sheet[:len(sheet)/2]
-	f, err := os.Create(out)
-	must(t, err)
-	zw := zip.NewWriter(f)
-	names := make([]string, 0, len(parts))
-	for name := range parts {
-		names = append(names, name)
-	}
-	sort.Strings(names)
-	for _, name := range names {
-		w, err := zw.Create(name)
-		must(t, err)
-		_, err = w.Write(parts[name])
-		must(t, err)
-	}
-	must(t, zw.Close())
-	must(t, f.Close())
 }

@@ -180,31 +180,18 @@ func (sc *scanCtx) biogenicSplit(t *table, i int, vars map[string]any, notes []s
 			quoteText(name)+" is a biogenic fuel: its CO2 is a memo item, in the column "+BiogenicColumn+" and its own total, not in tCO2 or tCO2e (fossil only; here and in every row of a biogenic fuel)")
 	} else {
 		for _, n := range notes {
-			bio += sc.memoNotes.co2(n)
+			co2, ok := sc.memoNotes.get(n)
+			if !ok {
+				co2 = memoCO2(n)
+				sc.memoNotes.put(n, co2)
+			}
+			bio += co2
 		}
 	}
 	t.bio.set(i, bio)
 	if bio != 0 {
 		t.hasBio = true
 	}
-}
-
-// memoCache keeps memoCO2 of the last notes read, by length: the notes a
-// table's rows repeat are read once, not on every row.
-type memoCache [16]struct {
-	note string
-	co2  float64
-	ok   bool
-}
-
-func (m *memoCache) co2(note string) float64 {
-	e := &m[len(note)%len(m)]
-	if e.ok && e.note == note {
-		return e.co2
-	}
-	v := memoCO2(note)
-	e.note, e.co2, e.ok = note, v, true
-	return v
 }
 
 // memoCO2 reads the tonnes of biogenic CO2 a blend's memo note states

@@ -122,13 +122,8 @@ func TestPagesSameResults(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var inputs []string
-	for _, pat := range []string{"*.xlsx", "*.csv"} {
-		m, _ := filepath.Glob(filepath.Join("..", "testdata", "realworld", pat))
-		inputs = append(inputs, m...)
-	}
 	dir := t.TempDir()
-	inputs = append(inputs, writeMessy(t, dir), fuelLogN(t, 20_000))
+	inputs := sameResultInputs(t, dir)
 	// Pages of 16 rows and a budget of 16 kB: every table of more than a
 	// few dozen rows has pages in the file.
 	const smallBudget, smallPages = 16 << 10, 4
@@ -164,6 +159,19 @@ func TestPagesSameResults(t *testing.T) {
 			samePackage(t, outMem, outDisk)
 		})
 	}
+}
+
+// sameResultInputs lists the inputs of the tests that require the same
+// results two ways: every real file of testdata/realworld (origins in its
+// README), the messy workbook (written to dir) and a 20 000-row fuel log.
+func sameResultInputs(t *testing.T, dir string) []string {
+	t.Helper()
+	var inputs []string
+	for _, pat := range []string{"*.xlsx", "*.csv"} {
+		m, _ := filepath.Glob(filepath.Join("..", "testdata", "realworld", pat))
+		inputs = append(inputs, m...)
+	}
+	return append(inputs, writeMessy(t, dir), fuelLogN(t, 20_000))
 }
 
 // samePackage compares two written files: every zip part unpacked, or the

@@ -13,15 +13,7 @@ type provenance struct {
 	usedOrd []*funcs.Factor
 	notes   map[string]*int // the rows of each note
 	noteOrd []string
-	// recent keeps the last notes counted by their length, so that the few
-	// notes a long table repeats on every row are counted without hashing
-	// them (a note is often the same string as before: compared at once).
-	recent [16]noteSlot
-}
-
-type noteSlot struct {
-	s string
-	n *int
+	recent  lastTexts[*int] // the counts of the last notes, found without hashing
 }
 
 // factorUse is a factor row and the number of rows that used it.
@@ -75,9 +67,8 @@ func (p *provenance) countFactorsN(a, b []*funcs.Factor, rows int) {
 
 // noteCount counts a note of a result.
 func (p *provenance) noteCount(note string) {
-	slot := &p.recent[len(note)%len(p.recent)]
-	if slot.n != nil && slot.s == note {
-		*slot.n++
+	if n, ok := p.recent.get(note); ok {
+		*n++
 		return
 	}
 	if p.notes == nil {
@@ -93,7 +84,7 @@ func (p *provenance) noteCount(note string) {
 		p.noteOrd = append(p.noteOrd, note)
 	}
 	*n++
-	*slot = noteSlot{note, n}
+	p.recent.put(note, n)
 }
 
 // srcKey identifies the factor rows behind a row's numbers (up to sixteen:

@@ -32,7 +32,7 @@ type scanCtx struct {
 	heatOK    map[carrier]bool // whether heat_co2e has a default for a carrier (scope2.go)
 	delivered bool             // the row being read is purchased energy: its units have no basis
 	provenance
-	memoNotes memoCache // biogenic CO2 read from notes (kinds.go)
+	memoNotes lastTexts[float64] // biogenic CO2 read from notes (kinds.go)
 
 	*lexicon // how texts read (fuels, units, technologies, headers)
 	// scanned lists the sheets looked at, in order; skipWhy says why a

@@ -170,7 +170,7 @@ func (sc *scanCtx) unitValue(t *table, c *column, v cellVal, r int) (any, bool) 
 	t.noteUnitSym(sym, r)
 	out := sc.gallonUnit(t, c.col, r, s)
 	if v.kind == kText {
-		t.keepUnit(c.col, v.text, sc.delivered, unitMemo{out: out, u: u, sym: sym})
+		t.keepUnit(c.col, v.text, sc.delivered, unitMemo{out: out, sym: sym})
 	}
 	return out, true
 }
